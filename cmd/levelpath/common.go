@@ -1,0 +1,60 @@
+package main
+
+import (
+	"encoding/json"
+	"fmt"
+	"io"
+	"strings"
+
+	"github.com/spf13/cobra"
+
+	"levelpath/perf"
+)
+
+// formatFlag registers --format with the allowed values; the first is the
+// default.
+func formatFlag(c *cobra.Command, allowed ...string) *string {
+	s := c.Flags().String("format", allowed[0], "output format: "+strings.Join(allowed, "|"))
+	return s
+}
+
+// checkFormat validates a --format value.
+func checkFormat(got string, allowed ...string) error {
+	for _, a := range allowed {
+		if got == a {
+			return nil
+		}
+	}
+	return badInputf("--format %q: want one of %s", got, strings.Join(allowed, ", "))
+}
+
+// loadAircraft resolves --aircraft: a built-in name or a YAML file.
+func loadAircraft(name string) (*perf.Aircraft, error) {
+	if name == "" {
+		return nil, badInputf("--aircraft is required (built-in: %s, or a YAML file)", strings.Join(perf.BuiltinNames(), ", "))
+	}
+	a, err := perf.Load(name)
+	if err != nil {
+		return nil, badInput(err)
+	}
+	return a, nil
+}
+
+// writeJSON writes v as indented JSON.
+func writeJSON(w io.Writer, v any) error {
+	enc := json.NewEncoder(w)
+	enc.SetIndent("", "  ")
+	return enc.Encode(v)
+}
+
+// fnum returns nil for NaN so that JSON shows null.
+func fnum(x float64) *float64 {
+	if x != x {
+		return nil
+	}
+	return &x
+}
+
+func warnf(w io.Writer, format string, args ...any) {
+	fmt.Fprintf(w, "levelpath: warning: "+format+"\n", args...)
+}

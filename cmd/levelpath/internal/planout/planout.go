@@ -1,0 +1,166 @@
+// Package planout renders optimizer plans for people and programs: the
+// JSON document (snake_case fields with their unit as suffix), a CSV of
+// the legs and the dispatcher's table. Every form carries the caution.
+package planout
+
+import (
+	"encoding/json"
+	"io"
+	"math"
+	"time"
+
+	"levelpath/optimizer"
+)
+
+const (
+	mPerNM   = 1852.0
+	msPerKt  = 1852.0 / 3600
+	mPerFt   = 0.3048
+	fpmPerMS = 60 / 0.3048
+)
+
+// Doc is the JSON form of a plan.
+type Doc struct {
+	Caution        string      `json:"caution"`
+	Aircraft       string      `json:"aircraft"`
+	CI             float64     `json:"ci"`
+	FloorG         float64     `json:"floor_g"`
+	Speed          string      `json:"speed"`
+	Depart         string      `json:"depart"`
+	TakeoffMassKg  float64     `json:"takeoff_mass_kg"`
+	DistanceNM     float64     `json:"distance_nm"`
+	Profile        string      `json:"profile"`
+	InitialFL      int         `json:"initial_fl"`
+	MinMarginG     *float64    `json:"min_margin_g"`
+	Totals         Totals      `json:"totals"`
+	Baseline       *Baseline   `json:"baseline"`
+	Steps          []Step      `json:"steps"`
+	Legs           []Leg       `json:"legs"`
+	Warnings       []string    `json:"warnings"`
+	Violations     []Violation `json:"violations"`
+	SearchCost     *float64    `json:"search_cost,omitempty"`
+	SearchNodes    int         `json:"search_nodes,omitempty"`
+	SearchEdges    int         `json:"search_edges,omitempty"`
+	Assessed       bool        `json:"assessed"`
+}
+
+// Totals sums the flight.
+type Totals struct {
+	FuelKg        float64 `json:"fuel_kg"`
+	TimeMin       float64 `json:"time_min"`
+	Cost          float64 `json:"cost"`
+	CO2Kg         float64 `json:"co2_kg"`
+	LandingMassKg float64 `json:"landing_mass_kg"`
+}
+
+// Baseline is the best constant-level profile.
+type Baseline struct {
+	FL        int     `json:"fl"`
+	FuelKg    float64 `json:"fuel_kg"`
+	TimeMin   float64 `json:"time_min"`
+	Cost      float64 `json:"cost"`
+	SavingPct float64 `json:"saving_pct"`
+}
+
+// Step is a level change.
+type Step struct {
+	AtNM   float64 `json:"at_nm"`
+	FromFL int     `json:"from_fl"`
+	ToFL   int     `json:"to_fl"`
+}
+
+// Leg is one priced leg.
+type Leg struct {
+	Segment          int      `json:"segment"`
+	FromNM           float64  `json:"from_nm"`
+	ToNM             float64  `json:"to_nm"`
+	Phase            string   `json:"phase"`
+	FromFL           float64  `json:"from_fl"`
+	FL               float64  `json:"fl"`
+	Mach             float64  `json:"mach"`
+	TASKt            float64  `json:"tas_kt"`
+	WindKt           float64  `json:"wind_kt"`
+	GSKt             float64  `json:"gs_kt"`
+	ISADevC          float64  `json:"isa_dev_c"`
+	EDR              *float64 `json:"edr"`
+	FuelKg           float64  `json:"fuel_kg"`
+	TimeMin          float64  `json:"time_min"`
+	MassStartKg      float64  `json:"mass_start_kg"`
+	BuffetMarginG    *float64 `json:"buffet_margin_g"`
+	FloorG           float64  `json:"floor_g"`
+	FloorReason      string   `json:"floor_reason"`
+	ResidualClimbFPM *float64 `json:"residual_climb_fpm"`
+	MaxFLBuffet      *float64 `json:"max_fl_buffet"`
+	MaxFLThrust      *float64 `json:"max_fl_thrust"`
+}
+
+// Violation is a limit broken by an assessed profile.
+type Violation struct {
+	Leg    int     `json:"leg"`
+	Limit  string  `json:"limit"`
+	By     float64 `json:"by"`
+	Unit   string  `json:"unit"`
+	Detail string  `json:"detail"`
+}
+
+func num(x float64) *float64 {
+	if math.IsNaN(x) || math.IsInf(x, 0) {
+		return nil
+	}
+	return &x
+}
+
+// FromPlan converts a plan to its JSON form. assessed marks an Assess
+// result (violations are always listed then, even when empty).
+func FromPlan(p *optimizer.Plan, assessed bool) *Doc {
+	d := &Doc{
+		Caution: optimizer.Caution, Aircraft: p.Aircraft, CI: p.CI, FloorG: p.Floor, Speed: p.Speed,
+		Depart: p.Depart.UTC().Format(time.RFC3339), TakeoffMassKg: p.TakeoffMass, DistanceNM: p.Distance / mPerNM,
+		Profile: p.Profile.String(), InitialFL: p.Profile.Initial, MinMarginG: num(p.MinMargin()),
+		Totals:   totals(p.Totals),
+		Steps:    []Step{},
+		Legs:     make([]Leg, 0, len(p.Legs)),
+		Warnings: append([]string{}, p.Warnings...),
+		Assessed: assessed,
+	}
+	if p.Baseline != nil {
+		d.Baseline = &Baseline{FL: p.Baseline.FL, FuelKg: p.Baseline.Totals.Fuel, TimeMin: p.Baseline.Totals.Time / 60,
+			Cost: p.Baseline.Totals.Cost, SavingPct: p.Baseline.SavingPct}
+	}
+	for _, s := range p.Steps {
+		d.Steps = append(d.Steps, Step{AtNM: s.AtDist / mPerNM, FromFL: s.FromFL, ToFL: s.ToFL})
+	}
+	for _, l := range p.Legs {
+		var resid *float64
+		if !math.IsNaN(l.ResidualClimb) {
+			resid = num(l.ResidualClimb * fpmPerMS)
+		}
+		d.Legs = append(d.Legs, Leg{
+			Segment: l.Segment, FromNM: l.FromDist / mPerNM, ToNM: l.ToDist / mPerNM, Phase: string(l.Phase),
+			FromFL: l.FromFL, FL: l.FL, Mach: l.Mach, TASKt: l.TAS / msPerKt, WindKt: l.WindAlong / msPerKt,
+			GSKt: l.GS / msPerKt, ISADevC: l.ISADev, EDR: num(l.EDR), FuelKg: l.Fuel, TimeMin: l.Time / 60,
+			MassStartKg: l.MassStart, BuffetMarginG: num(l.BuffetMargin), FloorG: l.Floor, FloorReason: l.FloorReason,
+			ResidualClimbFPM: resid, MaxFLBuffet: num(l.MaxFLBuffet), MaxFLThrust: num(l.MaxFLThrust),
+		})
+	}
+	d.Violations = []Violation{}
+	for _, v := range p.Violations {
+		d.Violations = append(d.Violations, Violation{Leg: v.Leg, Limit: v.Limit, By: v.By, Unit: v.Unit, Detail: v.Detail})
+	}
+	if !assessed {
+		d.SearchCost = num(p.SearchCost)
+		d.SearchNodes, d.SearchEdges = p.Nodes, p.Edges
+	}
+	return d
+}
+
+func totals(t optimizer.Totals) Totals {
+	return Totals{FuelKg: t.Fuel, TimeMin: t.Time / 60, Cost: t.Cost, CO2Kg: t.CO2, LandingMassKg: t.LandingMass}
+}
+
+// WriteJSON writes the plan as indented JSON.
+func WriteJSON(w io.Writer, p *optimizer.Plan, assessed bool) error {
+	enc := json.NewEncoder(w)
+	enc.SetIndent("", "  ")
+	return enc.Encode(FromPlan(p, assessed))
+}

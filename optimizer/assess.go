@@ -1,0 +1,264 @@
+package optimizer
+
+import (
+	"fmt"
+	"math"
+	"sort"
+	"time"
+
+	"levelpath/perf"
+	"levelpath/route"
+)
+
+// Assess prices a proposed profile with the same model as Solve and lists,
+// in Plan.Violations, every limit it breaks (buffet margin under the floor,
+// level above the thrust-limited or certified ceiling, empty Mach band,
+// level not allowed by the rule or blocked, closed by turbulence, step
+// rules, landing mass over MLW, fuel exhausted) instead of failing. A
+// change that begins within 0.5 NM of a segment boundary is taken at the
+// boundary, so a profile printed in whole NM prices as the plan it came
+// from. Pricing the profile of a Solve result gives that plan's totals.
+//
+// Complexity: O(segments + changes) point evaluations.
+func Assess(p *Problem, prof Profile) (*Plan, error) {
+	q := *p
+	warn, err := q.normalise()
+	if err != nil {
+		return nil, err
+	}
+	return assess(&q, prof, warn, true)
+}
+
+// sim is the state of the forward simulation of a profile.
+type sim struct {
+	q    *Problem
+	a    *perf.Aircraft
+	plan *Plan
+	m    float64 // mass
+	t    float64 // seconds since departure
+	x    float64 // distance flown
+	fl   int
+	segs []route.Segment
+}
+
+func (s *sim) violate(limit string, by float64, unit, detail string) {
+	s.plan.Violations = append(s.plan.Violations, Violation{Leg: len(s.plan.Legs) - 1, Limit: limit, By: by, Unit: unit, Detail: detail})
+}
+
+// segAt returns the segment holding distance d.
+func (s *sim) segAt(d float64) int {
+	k := sort.Search(len(s.segs), func(i int) bool { return s.segs[i].ToDist > d })
+	if k >= len(s.segs) {
+		k = len(s.segs) - 1
+	}
+	return k
+}
+
+// condAt samples the weather on segment k at level fl at the current time.
+func (s *sim) condAt(k, fl int) (cond, error) {
+	pr := perf.FLToPressure(float64(fl))
+	w, d, e, err := segWeather(s.q.Weather, &s.segs[k], pr, s.q.Depart.Add(time.Duration(s.t*float64(time.Second))))
+	if err != nil {
+		return cond{}, &InputError{Field: "weather", Msg: fmt.Sprintf("segment %d at FL%d: %v", k, fl, err)}
+	}
+	c := cond{wind: w, isaDev: d, edr: e}
+	c.floor, c.why, c.closed = floorFor(s.q.Floor, e, s.q.Turbulence)
+	c.closedWhy = c.why
+	return c, nil
+}
+
+func assess(q *Problem, prof Profile, warn []string, detail bool) (*Plan, error) {
+	if prof.Initial < 10 || !prof.sorted() {
+		return nil, inputErrorf("profile", "profile %s: needs an initial level and changes in increasing distance", prof)
+	}
+	segs := q.Track.Segments
+	total := segs[len(segs)-1].ToDist
+	// Snap changes to boundaries within 0.5 NM.
+	pr := Profile{Initial: prof.Initial, Changes: make([]Change, len(prof.Changes))}
+	copy(pr.Changes, prof.Changes)
+	for i := range pr.Changes {
+		d := pr.Changes[i].AtDist
+		for _, sg := range segs {
+			for _, b := range [2]float64{sg.FromDist, sg.ToDist} {
+				if math.Abs(b-d) <= 0.5*nmToM && math.Abs(b-d) < math.Abs(pr.Changes[i].AtDist-d)+1e-9 {
+					pr.Changes[i].AtDist = b
+				}
+			}
+		}
+	}
+	plan := &Plan{Aircraft: q.Aircraft.Name, CI: q.CI, Floor: q.Floor, Speed: q.Speed.String(), Depart: q.Depart,
+		TakeoffMass: q.TakeoffMass, Distance: total, Profile: pr, Warnings: append([]string(nil), warn...)}
+	s := &sim{q: q, a: q.Aircraft, plan: plan, m: q.TakeoffMass, fl: pr.Initial, segs: segs}
+	if err := s.run(pr, total, detail); err != nil {
+		return nil, err
+	}
+	plan.Totals.LandingMass = s.m
+	plan.Totals.Fuel = q.TakeoffMass - s.m
+	plan.Totals.Time = s.t
+	plan.Totals.Cost = plan.Totals.Fuel + q.CI*s.t/60
+	plan.Totals.CO2 = 3.16 * plan.Totals.Fuel
+	if s.m > q.Aircraft.MLW {
+		s.violate("landing-mass", s.m-q.Aircraft.MLW, "kg", fmt.Sprintf("landing mass %.0f kg over MLW %.0f kg", s.m, q.Aircraft.MLW))
+	}
+	if q.ZFW > 0 && s.m < q.ZFW {
+		s.violate("fuel", q.ZFW-s.m, "kg", fmt.Sprintf("trip fuel exceeds the fuel on board by %.0f kg", q.ZFW-s.m))
+	}
+	addWarnings(plan)
+	return plan, nil
+}
+
+// run flies the profile: climb, cruise pieces split at segment boundaries
+// and changes, steps, and the final descent.
+func (s *sim) run(pr Profile, total float64, detail bool) error {
+	q, a := s.q, s.a
+	endP := perf.PressureAt(q.EndAltitude)
+	// Initial climb.
+	c0, err := s.condAt(0, s.fl)
+	if err != nil {
+		return err
+	}
+	cl := transition(a, s.m, endP, perf.FLToPressure(float64(s.fl)), c0.isaDev, q.ClimbSchedule, true)
+	if !cl.ok {
+		return inputErrorf("profile", "initial climb to FL%03d at %.0f kg: %s", s.fl, s.m, cl.why)
+	}
+	g := cl.dist + 0.5*c0.wind*cl.time
+	s.addTransLeg(PhaseClimb, 0, 0, float64(s.fl), g, cl, c0)
+	ci := 0
+	for ci < len(pr.Changes) && pr.Changes[ci].AtDist < s.x-1e-6 {
+		s.violate("profile", (s.x-pr.Changes[ci].AtDist)/nmToM, "NM", fmt.Sprintf("change to FL%03d at %.0f NM begins before the top of climb (%.0f NM); taken there", pr.Changes[ci].FL, pr.Changes[ci].AtDist/nmToM, s.x/nmToM))
+		pr.Changes[ci].AtDist = s.x
+		break
+	}
+	steps := 0
+	lastStep := math.Inf(-1)
+	for guard := 0; guard < 10*len(s.segs)+10*len(pr.Changes)+10; guard++ {
+		if s.x >= total-1e-6 {
+			s.violate("profile", 0, "", "the profile reaches the destination without a final descent")
+			return nil
+		}
+		k := s.segAt(s.x)
+		c, err := s.condAt(k, s.fl)
+		if err != nil {
+			return err
+		}
+		p := perf.FLToPressure(float64(s.fl))
+		last := s.segs[len(s.segs)-1]
+		cLast, err := s.condAt(len(s.segs)-1, s.fl)
+		if err != nil {
+			return err
+		}
+		_ = last
+		de := transition(a, s.m, p, endP, cLast.isaDev, q.DescentSchedule, false)
+		if !de.ok {
+			return inputErrorf("profile", "final descent from FL%03d: %s", s.fl, de.why)
+		}
+		tod := total - (de.dist + 0.5*cLast.wind*de.time)
+		xc := math.Inf(1)
+		if ci < len(pr.Changes) {
+			xc = pr.Changes[ci].AtDist
+		}
+		end := math.Min(s.segs[k].ToDist, math.Min(xc, tod))
+		if end > s.x+1e-6 {
+			s.cruise(k, end, c, detail)
+		}
+		if s.x >= tod-1e-6 || tod <= s.x {
+			for ; ci < len(pr.Changes); ci++ {
+				s.violate("profile", 0, "", fmt.Sprintf("change to FL%03d at %.0f NM lies past the top of descent (%.0f NM); ignored", pr.Changes[ci].FL, pr.Changes[ci].AtDist/nmToM, tod/nmToM))
+			}
+			s.addTransLeg(PhaseDescent, s.segAt(s.x), float64(s.fl), q.EndAltitude/0.3048/100, total-s.x, de, cLast)
+			return nil
+		}
+		if ci < len(pr.Changes) && s.x >= xc-1e-6 {
+			ch := pr.Changes[ci]
+			ci++
+			if err := s.step(k, ch, c, &steps, &lastStep); err != nil {
+				return err
+			}
+		}
+	}
+	return fmt.Errorf("optimizer: profile simulation did not converge")
+}
+
+// cruise flies level from s.x to end on segment k.
+func (s *sim) cruise(k int, end float64, c cond, detail bool) {
+	q, a := s.q, s.a
+	seg := &s.segs[k]
+	p := perf.FLToPressure(float64(s.fl))
+	v := cruisePoint(a, q.Speed, q.CI, s.m, p, c)
+	leg := Leg{Segment: k, Phase: PhaseCruise, FromDist: s.x, ToDist: end, FromFL: float64(s.fl), FL: float64(s.fl),
+		WindAlong: c.wind, ISADev: c.isaDev, EDR: c.edr, MassStart: s.m, Floor: c.floor, FloorReason: c.why}
+	if !v.ok {
+		// Keep pricing with the best Mach available, and record the limit.
+		relaxed := c
+		relaxed.floor, relaxed.closed = 1, false
+		v2 := cruisePoint(a, q.Speed, q.CI, s.m, p, relaxed)
+		if v2.mach == 0 {
+			v2.mach = math.Min(q.Speed.Mach, a.MMO)
+			if v2.mach == 0 {
+				v2.mach = a.MMO - 0.02
+			}
+		}
+		pt := a.Point(perf.State{Mass: s.m, Pressure: p, Mach: v2.mach, ISADev: c.isaDev, LoadFactor: 1})
+		v = cruiseVal{mach: v2.mach, tas: pt.TAS, ff: pt.FuelFlow, resid: pt.ResidualClimb, margin: pt.BuffetMargin}
+	}
+	gs := v.tas + c.wind
+	if gs < 50 {
+		gs = 50
+	}
+	f0 := v.ff * (end - s.x) / gs
+	pt := a.Point(perf.State{Mass: s.m - f0/2, Pressure: p, Mach: v.mach, ISADev: c.isaDev, LoadFactor: 1})
+	gs = math.Max(pt.TAS+c.wind, 50)
+	dt := (end - s.x) / gs
+	leg.Mach, leg.TAS, leg.GS = v.mach, pt.TAS, gs
+	leg.Time, leg.Fuel = dt, pt.FuelFlow*dt
+	leg.BuffetMargin = v.margin
+	leg.ResidualClimb = v.resid
+	if detail {
+		leg.MaxFLBuffet = maxFLBuffet(a, s.m, c.floor)
+		leg.MaxFLThrust = maxFLThrust(a, s.m, c.isaDev, c.floor)
+	} else {
+		leg.MaxFLBuffet, leg.MaxFLThrust = nan, nan
+	}
+	s.plan.Legs = append(s.plan.Legs, leg)
+	s.checkLimits(seg, c, v)
+	s.m -= leg.Fuel
+	s.t += dt
+	s.x = end
+}
+
+// checkLimits records the limits a cruise leg breaks.
+func (s *sim) checkLimits(seg *route.Segment, c cond, v cruiseVal) {
+	q, a := s.q, s.a
+	if c.closed {
+		s.violate("turbulence", c.edr, "m^(2/3)/s", fmt.Sprintf("FL%03d on segment %d: %s", s.fl, seg.Index, c.closedWhy))
+	}
+	if !containsInt(seg.Levels, s.fl) {
+		s.violate("level-rule", 0, "", fmt.Sprintf("FL%03d is not an allowed level on segment %d (course %.0f° magnetic)", s.fl, seg.Index, seg.MagCourse))
+	}
+	if blocked(q.Blocked, s.x, s.x+1, s.fl) {
+		s.violate("blocked", 0, "", fmt.Sprintf("FL%03d is blocked at %.0f NM", s.fl, s.x/nmToM))
+	}
+	if s.fl > q.MaxFL {
+		s.violate("certified", float64(s.fl-q.MaxFL)*100, "ft", fmt.Sprintf("FL%03d is above the highest usable level FL%03d", s.fl, q.MaxFL))
+	}
+	if v.margin < c.floor-1e-9 {
+		s.violate("buffet", c.floor-v.margin, "g", fmt.Sprintf("buffet margin %.3f g under the %.2f g floor at FL%03d, %.0f kg", v.margin, c.floor, s.fl, s.m))
+	}
+	if v.resid < fpm300 {
+		s.violate("thrust", (fpm300-v.resid)/0.3048*60, "fpm", fmt.Sprintf("residual climb %.0f ft/min under 300 ft/min at FL%03d", v.resid/0.3048*60, s.fl))
+	}
+	if lo, hi, ok := a.MachBand(s.m, perf.FLToPressure(float64(s.fl)), c.isaDev, c.floor); !ok {
+		s.violate("mach-band", 0, "", fmt.Sprintf("no Mach band at %.2f g at FL%03d", c.floor, s.fl))
+	} else if q.Speed.Kind == SpeedFixed && (q.Speed.Mach < lo-1e-9 || q.Speed.Mach > hi+1e-9) {
+		s.violate("mach-band", math.Max(lo-q.Speed.Mach, q.Speed.Mach-hi), "Mach", fmt.Sprintf("Mach %.3f outside the band %.3f-%.3f at FL%03d", q.Speed.Mach, lo, hi, s.fl))
+	}
+}
+
+func containsInt(xs []int, x int) bool {
+	for _, y := range xs {
+		if y == x {
+			return true
+		}
+	}
+	return false
+}

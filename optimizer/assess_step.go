@@ -1,0 +1,165 @@
+package optimizer
+
+import (
+	"fmt"
+	"math"
+
+	"levelpath/perf"
+)
+
+// step flies the level change ch that begins at s.x on segment k.
+func (s *sim) step(k int, ch Change, c cond, steps *int, lastStep *float64) error {
+	q, a := s.q, s.a
+	from, to := s.fl, ch.FL
+	if to == from {
+		return nil
+	}
+	// Step rules.
+	seg := &s.segs[k]
+	switch {
+	case q.Steps.NoSteps:
+		s.violate("step-rule", 0, "", fmt.Sprintf("change at %.0f NM: steps are not allowed", s.x/nmToM))
+	case abs(to-from)*100 > q.Steps.MaxChange:
+		s.violate("step-rule", float64(abs(to-from)*100-q.Steps.MaxChange), "ft", fmt.Sprintf("change FL%03d to FL%03d exceeds the largest step %d ft", from, to, q.Steps.MaxChange))
+	case to < from && !q.Steps.AllowDescent && containsInt(seg.Levels, from):
+		s.violate("step-rule", 0, "", fmt.Sprintf("step descent FL%03d to FL%03d at %.0f NM: step descents are not allowed", from, to, s.x/nmToM))
+	}
+	*steps++
+	if q.Steps.MaxSteps > 0 && *steps > q.Steps.MaxSteps {
+		s.violate("step-rule", float64(*steps-q.Steps.MaxSteps), "steps", fmt.Sprintf("step %d exceeds the limit of %d steps", *steps, q.Steps.MaxSteps))
+	}
+	if d := s.x - *lastStep; q.Steps.MinDistance > 0 && d < q.Steps.MinDistance-1e-6 {
+		s.violate("step-rule", (q.Steps.MinDistance-d)/nmToM, "NM", fmt.Sprintf("step at %.0f NM is %.0f NM after the previous one (minimum %.0f NM)", s.x/nmToM, d/nmToM, q.Steps.MinDistance/nmToM))
+	}
+	*lastStep = s.x
+	cNew, err := s.condAt(k, to)
+	if err != nil {
+		return err
+	}
+	pFrom, pTo := perf.FLToPressure(float64(from)), perf.FLToPressure(float64(to))
+	v := cruisePoint(a, q.Speed, q.CI, s.m, pTo, cNew)
+	if !v.ok {
+		v = cruisePoint(a, q.Speed, q.CI, s.m, pFrom, c)
+	}
+	mach := v.mach
+	if mach == 0 && len(s.plan.Legs) > 0 {
+		mach = s.plan.Legs[len(s.plan.Legs)-1].Mach
+	}
+	sch := machSchedule(q.ClimbSchedule, mach, math.Max(pFrom, pTo))
+	tr := transition(a, s.m, pFrom, pTo, (c.isaDev+cNew.isaDev)/2, sch, to > from)
+	if !tr.ok {
+		return inputErrorf("profile", "change FL%03d to FL%03d at %.0f NM at %.0f kg: %s", from, to, s.x/nmToM, s.m, tr.why)
+	}
+	w := 0.5 * (c.wind + cNew.wind)
+	g := tr.dist + w*tr.time
+	cm := cNew
+	cm.wind = w
+	s.addTransLeg(PhaseStep, k, float64(from), float64(to), g, tr, cm)
+	s.fl = to
+	return nil
+}
+
+func abs(x int) int {
+	if x < 0 {
+		return -x
+	}
+	return x
+}
+
+// addTransLeg appends a climb, step or descent leg of ground length g.
+func (s *sim) addTransLeg(ph Phase, k int, fromFL, toFL, g float64, tr transVal, c cond) {
+	leg := Leg{Segment: k, Phase: ph, FromDist: s.x, ToDist: s.x + g, FromFL: fromFL, FL: toFL, Mach: tr.mach,
+		ISADev: c.isaDev, EDR: c.edr, Fuel: tr.fuel, Time: tr.time, MassStart: s.m,
+		BuffetMargin: nan, Floor: c.floor, FloorReason: c.why, MaxFLBuffet: nan, MaxFLThrust: nan, ResidualClimb: nan}
+	if tr.time > 0 {
+		leg.TAS = tr.dist / tr.time
+		leg.GS = g / tr.time
+		leg.WindAlong = leg.GS - leg.TAS
+	}
+	s.plan.Legs = append(s.plan.Legs, leg)
+	if ph == PhaseStep {
+		s.plan.Steps = append(s.plan.Steps, Step{AtDist: s.x, FromFL: int(fromFL), ToFL: int(toFL)})
+	}
+	s.m -= tr.fuel
+	s.t += tr.time
+	s.x += g
+}
+
+// maxFLBuffet is the highest level, by bisection to 0.01 FL, at which some
+// Mach under MMO keeps the floor at mass m; NaN when none above FL100.
+func maxFLBuffet(a *perf.Aircraft, m, floor float64) float64 {
+	ok := func(fl float64) bool {
+		lo, hi, ok := a.BuffetMachs(m, perf.FLToPressure(fl), floor)
+		return ok && lo < math.Min(hi, a.MMO)
+	}
+	return bisectFL(ok)
+}
+
+// maxFLThrust is the highest level at which the residual climb at maximum
+// climb thrust at the long-range cruise Mach (found at 1 g, so that the
+// thrust limit is independent of the buffet floor) is at least 300 ft/min
+// (common practice); NaN when none above FL100.
+func maxFLThrust(a *perf.Aircraft, m, isaDev, floor float64) float64 {
+	_ = floor
+	ok := func(fl float64) bool {
+		p := perf.FLToPressure(fl)
+		mach, ok := a.LRCMach(m, p, isaDev, 1)
+		if !ok {
+			return false
+		}
+		pt := a.Point(perf.State{Mass: m, Pressure: p, Mach: mach, ISADev: isaDev, LoadFactor: 1})
+		return !pt.ThrustLimited && pt.ResidualClimb >= fpm300
+	}
+	return bisectFL(ok)
+}
+
+// bisectFL finds the boundary of a predicate that holds low and fails high
+// over FL100..FL600.
+func bisectFL(ok func(float64) bool) float64 {
+	lo, hi := 100.0, 600.0
+	if !ok(lo) {
+		return nan
+	}
+	if ok(hi) {
+		return hi
+	}
+	for hi-lo > 0.01 {
+		mid := (lo + hi) / 2
+		if ok(mid) {
+			lo = mid
+		} else {
+			hi = mid
+		}
+	}
+	return lo
+}
+
+// addWarnings notes legs whose margin lies within 0.05 g of the floor and
+// legs close to the thrust limit.
+func addWarnings(p *Plan) {
+	var near, thrust int
+	var firstNear, firstThrust float64
+	for _, l := range p.Legs {
+		if l.Phase != PhaseCruise {
+			continue
+		}
+		if l.BuffetMargin-l.Floor < 0.05 {
+			if near == 0 {
+				firstNear = l.FromDist
+			}
+			near++
+		}
+		if l.ResidualClimb < fpm300+100*0.3048/60 {
+			if thrust == 0 {
+				firstThrust = l.FromDist
+			}
+			thrust++
+		}
+	}
+	if near > 0 {
+		p.Warnings = append(p.Warnings, fmt.Sprintf("%d cruise leg(s) within 0.05 g of the buffet floor, first at %.0f NM", near, firstNear/nmToM))
+	}
+	if thrust > 0 {
+		p.Warnings = append(p.Warnings, fmt.Sprintf("%d cruise leg(s) limited by thrust (residual climb under 400 ft/min), first at %.0f NM", thrust, firstThrust/nmToM))
+	}
+}

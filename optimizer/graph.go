@@ -1,0 +1,226 @@
+package optimizer
+
+import (
+	"math"
+)
+
+// edgeKind tells what an edge flies.
+type edgeKind uint8
+
+const (
+	edgeClimb   edgeKind = iota // departure to the first cruise level
+	edgeCruise                  // level flight along one segment
+	edgeStep                    // level change at a boundary, then level flight
+	edgeDescent                 // top of descent to the destination
+)
+
+// state is a search node: boundary k (0..len(segments)), level index li,
+// mass bucket b, steps flown and segments since the last step (both only
+// tracked when the step rules need them).
+type state struct {
+	k, li, b     int
+	steps, since int
+}
+
+// Node IDs: sourceID and sinkID are reserved; others pack a state.
+const (
+	sourceID int64 = -1
+	sinkID   int64 = -2
+)
+
+// id packs a state into a node ID: 16 bits boundary, 8 level, 6 steps, 10
+// since, 23 bucket.
+func (st state) id() int64 {
+	return int64(st.k)<<47 | int64(st.li)<<39 | int64(st.steps)<<33 | int64(st.since)<<23 | int64(st.b)
+}
+
+func stateOf(id int64) state {
+	return state{k: int(id >> 47), li: int(id>>39) & 0xff, steps: int(id>>33) & 0x3f, since: int(id>>23) & 0x3ff, b: int(id & (1<<23 - 1))}
+}
+
+// edge is one priced edge out of a node.
+type edge struct {
+	kind       edgeKind
+	to         int64 // node ID
+	fuel, time float64
+	cost       float64
+	fromLevel  int // level index at the start (-1 for the climb)
+	toLevel    int
+}
+
+// bucket returns the mass bucket of mass m.
+func (s *solver) bucket(m float64) (int, bool) {
+	b := math.Floor((s.p.TakeoffMass - m) / s.p.MassBucket)
+	if b < 0 {
+		b = 0
+	}
+	if b >= 1<<23 {
+		return 0, false
+	}
+	return int(b), true
+}
+
+func (s *solver) costOf(fuel, t float64) float64 { return fuel + s.p.CI*t/60 }
+
+// successors calls emit for every feasible edge out of the node id whose
+// mass is m. Edges are priced as they are generated; infeasible edges
+// (buffet margin under the floor at the heaviest point, level above the
+// thrust-limited or certified ceiling, empty Mach band, closed level, level
+// rule) are never emitted.
+func (s *solver) successors(id int64, m float64, emit func(edge)) {
+	if id == sinkID {
+		return
+	}
+	if id == sourceID {
+		s.climbEdges(emit)
+		return
+	}
+	st := stateOf(id)
+	K := len(s.conds)
+	if st.k >= K {
+		return
+	}
+	k, li := st.k, st.li
+	segLen := s.bounds[k+1] - s.bounds[k]
+	// Final descent when the top of descent falls in this segment.
+	if s.allow[k][li] {
+		if d, dg := s.descentGround(li, m); d.ok {
+			tod := s.total - dg
+			if tod >= s.bounds[k] && tod < s.bounds[k+1] {
+				s.edges++
+				f, t, v := s.cruiseLeg(k, li, m, tod-s.bounds[k])
+				if v.ok {
+					f += d.fuel
+					t += d.time
+					emit(edge{kind: edgeDescent, to: sinkID, fuel: f, time: t, cost: s.costOf(f, t), fromLevel: li, toLevel: li})
+				}
+			}
+		}
+	}
+	next := st
+	next.k = k + 1
+	if s.sinceCap > 0 && next.since < s.sinceCap {
+		next.since++
+	}
+	// Cruise.
+	if s.allow[k][li] {
+		s.edges++
+		f, t, v := s.cruiseLeg(k, li, m, segLen)
+		if v.ok && s.beforeTOD(li, m-f, k+1) {
+			if b, ok := s.bucket(m - f); ok {
+				n := next
+				n.b = b
+				emit(edge{kind: edgeCruise, to: n.id(), fuel: f, time: t, cost: s.costOf(f, t), fromLevel: li, toLevel: li})
+			}
+		}
+	}
+	// Steps.
+	if !s.stepAllowed(st) {
+		return
+	}
+	maxD := s.p.Steps.MaxChange / 100
+	for lj := range s.levels {
+		dfl := s.levels[lj] - s.levels[li]
+		if dfl == 0 || dfl > maxD || -dfl > maxD || !s.allow[k][lj] {
+			continue
+		}
+		if dfl < 0 && !s.p.Steps.AllowDescent && s.allow[k][li] {
+			// A step descent is taken only where allowed, or where the
+			// current level stops being allowed (a change of direction).
+			continue
+		}
+		s.edges++
+		tr := s.transAt(k, li, lj, m)
+		if !tr.ok {
+			continue
+		}
+		w := 0.5 * (s.conds[k][li].wind + s.conds[k][lj].wind)
+		ground := tr.dist + w*tr.time
+		rem := segLen - ground
+		if k+1 < K && rem < -(s.bounds[k+2]-s.bounds[k+1]) || k+1 == K && rem < 0 {
+			continue // the step would not end within the next segment
+		}
+		m2 := m - tr.fuel
+		f, t, v := s.cruiseLeg(k, lj, m2, rem)
+		if !v.ok {
+			continue
+		}
+		f += tr.fuel
+		t += tr.time
+		if f <= 0 || t <= 0 {
+			continue // a step overlapping the next segment must not price below zero
+		}
+		if !s.beforeTOD(lj, m-f, k+1) {
+			continue
+		}
+		b, ok := s.bucket(m - f)
+		if !ok {
+			continue
+		}
+		n := next
+		n.li, n.b = lj, b
+		if s.stepCap > 0 {
+			n.steps = st.steps + 1
+		}
+		if s.sinceCap > 0 {
+			n.since = 1
+		}
+		emit(edge{kind: edgeStep, to: n.id(), fuel: f, time: t, cost: s.costOf(f, t), fromLevel: li, toLevel: lj})
+	}
+}
+
+// stepAllowed applies the step rules at node st.
+func (s *solver) stepAllowed(st state) bool {
+	if s.p.Steps.NoSteps {
+		return false
+	}
+	if s.stepCap > 0 && st.steps >= s.stepCap {
+		return false
+	}
+	if s.sinceCap > 0 && st.since < s.sinceCap {
+		return s.bounds[st.k]-s.bounds[st.k-st.since] >= s.p.Steps.MinDistance-1e-6
+	}
+	return true
+}
+
+// beforeTOD reports whether boundary k lies at or before the top of
+// descent from level li at mass m.
+func (s *solver) beforeTOD(li int, m float64, k int) bool {
+	if k >= len(s.conds) {
+		return false
+	}
+	d, dg := s.descentGround(li, m)
+	return d.ok && s.bounds[k] <= s.total-dg
+}
+
+// climbEdges emits the initial climbs to every level whose top of climb
+// lies inside the route, with level flight to the next boundary.
+func (s *solver) climbEdges(emit func(edge)) {
+	tow := s.p.TakeoffMass
+	for li := range s.levels {
+		s.edges++
+		c, ground := s.initialClimb(li)
+		if !c.ok || ground >= s.total {
+			continue
+		}
+		j := s.segmentAt(ground)
+		if !s.allow[j][li] {
+			continue
+		}
+		f, t, v := s.cruiseLeg(j, li, tow-c.fuel, s.bounds[j+1]-ground)
+		if !v.ok {
+			continue
+		}
+		f += c.fuel
+		t += c.time
+		if !s.beforeTOD(li, tow-f, j+1) {
+			continue
+		}
+		b, ok := s.bucket(tow - f)
+		if !ok {
+			continue
+		}
+		n := state{k: j + 1, li: li, b: b, since: s.sinceCap}
+		emit(edge{kind: edgeClimb, to: n.id(), fuel: f, time: t, cost: s.costOf(f, t), fromLevel: -1, toLevel: li})
+	}
+}

@@ -1,0 +1,118 @@
+package optimizer
+
+import "time"
+
+// Phase names a leg's flight phase.
+type Phase string
+
+// Leg phases.
+const (
+	PhaseClimb   Phase = "climb"   // initial climb from departure to the first cruise level
+	PhaseCruise  Phase = "cruise"  // level flight
+	PhaseStep    Phase = "step"    // a step climb or descent and the level flight after it in the same segment
+	PhaseDescent Phase = "descent" // final descent to the destination
+)
+
+// Leg is one priced piece of the profile. Distances are metres from
+// departure, times seconds, masses and fuel kilograms, speeds m/s.
+type Leg struct {
+	Segment   int   // route segment index holding the leg's start
+	Phase     Phase // flight phase
+	FromDist  float64
+	ToDist    float64
+	FromFL    float64 // flight level at the leg's start
+	FL        float64 // flight level at the leg's end
+	Mach      float64 // cruise Mach (or the schedule Mach of a climb or descent)
+	TAS       float64 // true airspeed at FL
+	WindAlong float64 // along-track wind, tailwind positive
+	GS        float64 // ground speed
+	ISADev    float64 // K, at FL
+	EDR       float64 // eddy dissipation rate at FL, NaN where the weather has none
+	Fuel      float64
+	Time      float64
+	MassStart float64
+	// BuffetMargin is CL_buffet/CL at the leg's heaviest point (its
+	// start), in g; NaN for climb and descent legs.
+	BuffetMargin float64
+	// Floor is the protection floor that applied to the leg, in g, and
+	// FloorReason why (the problem's floor, or the turbulence rule).
+	Floor       float64
+	FloorReason string
+	// MaxFLBuffet and MaxFLThrust are the buffet-limited and
+	// thrust-limited maximum levels at the leg's start mass and
+	// temperature (continuous flight levels).
+	MaxFLBuffet float64
+	MaxFLThrust float64
+	// ResidualClimb is the rate of climb at maximum climb thrust at the
+	// leg's Mach and start mass, m/s.
+	ResidualClimb float64
+}
+
+// Step is a level change that begins at AtDist metres from departure.
+type Step struct {
+	AtDist float64
+	FromFL int
+	ToFL   int
+}
+
+// Totals sums a profile from brake release at the start of the climb to the
+// end of the final descent.
+type Totals struct {
+	Fuel        float64 // kg
+	Time        float64 // s
+	Cost        float64 // fuel_kg + CI x time_min
+	CO2         float64 // kg, 3.16 x fuel (ICAO)
+	LandingMass float64 // kg
+}
+
+// Baseline is the best constant-level profile under the same policy.
+type Baseline struct {
+	FL        int
+	Totals    Totals
+	SavingPct float64 // (baseline cost - plan cost) / baseline cost x 100
+}
+
+// Violation is a limit that a priced profile breaks.
+type Violation struct {
+	Leg    int     // index into Plan.Legs
+	Limit  string  // "buffet", "thrust", "certified", "level-rule", "blocked", "turbulence", "mach-band", "climb", "profile"
+	By     float64 // how far beyond the limit, in Unit
+	Unit   string  // "g", "fpm", "ft", "" ...
+	Detail string
+}
+
+// Plan is a priced vertical profile.
+type Plan struct {
+	Aircraft    string
+	CI          float64 // kg/min
+	Floor       float64 // g
+	Speed       string  // policy as given
+	Depart      time.Time
+	TakeoffMass float64
+	Distance    float64 // route length, m
+	Profile     Profile // initial level and changes
+	Totals      Totals
+	Legs        []Leg
+	Steps       []Step
+	Baseline    *Baseline // nil when no constant level is feasible
+	Warnings    []string
+	Violations  []Violation // filled by Assess; empty for a Solve result
+	// SearchCost is the cost the graph search found (Solve only), before
+	// the exact re-pricing that fills Totals.
+	SearchCost float64
+	// Nodes and Edges count the states settled and edges priced by the
+	// search (Solve only).
+	Nodes, Edges int
+}
+
+// MinMargin returns the least buffet margin over the cruise and step legs,
+// or NaN when there is none.
+func (p *Plan) MinMargin() float64 {
+	m := nan
+	for _, l := range p.Legs {
+		if l.BuffetMargin == l.BuffetMargin && (m != m || l.BuffetMargin < m) {
+			m = l.BuffetMargin
+		}
+	}
+	return m
+}

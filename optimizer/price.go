@@ -1,0 +1,108 @@
+package optimizer
+
+import (
+	"fmt"
+	"math"
+
+	"levelpath/perf"
+)
+
+// cruiseVal is cruise performance on one segment at one level and mass.
+type cruiseVal struct {
+	ok     bool
+	lim    string // limit broken when !ok: "buffet", "thrust", "mach-band", "turbulence", "weather"
+	why    string
+	mach   float64
+	tas    float64
+	ff     float64 // kg/s
+	resid  float64 // residual climb at max climb thrust, m/s
+	margin float64 // buffet margin at this mass, g
+	cruise bool    // drag is within 10 % of max cruise thrust
+}
+
+// transVal is a level change: fuel, time and air distance.
+type transVal struct {
+	ok   bool
+	why  string
+	fuel float64
+	time float64
+	dist float64
+	mach float64
+}
+
+// machFor picks the Mach of the speed policy at mass m, pressure p and the
+// given conditions; ok is false when no Mach satisfies the floor, MMO, VMO
+// and thrust.
+func machFor(a *perf.Aircraft, sp Speed, ci, m, p float64, c cond) (float64, bool) {
+	switch sp.Kind {
+	case SpeedLRC:
+		return a.LRCMach(m, p, c.isaDev, c.floor)
+	case SpeedFixed:
+		lo, hi, ok := a.MachBand(m, p, c.isaDev, c.floor)
+		if !ok || sp.Mach < lo-1e-9 || sp.Mach > hi+1e-9 {
+			return sp.Mach, false
+		}
+		return sp.Mach, true
+	}
+	return a.EconMach(m, p, c.isaDev, c.floor, ci, c.wind)
+}
+
+// cruisePoint evaluates cruise at one level, mass and condition exactly.
+func cruisePoint(a *perf.Aircraft, sp Speed, ci, m, p float64, c cond) cruiseVal {
+	if c.closed {
+		return cruiseVal{lim: "turbulence", why: c.closedWhy}
+	}
+	mach, ok := machFor(a, sp, ci, m, p, c)
+	if !ok {
+		lo, hi, bok := a.BuffetMachs(m, p, c.floor)
+		if !bok || lo >= math.Min(hi, a.MMO) {
+			return cruiseVal{lim: "buffet", why: fmt.Sprintf("no Mach keeps %.2f g to buffet", c.floor)}
+		}
+		if sp.Kind == SpeedFixed {
+			return cruiseVal{lim: "mach-band", why: fmt.Sprintf("Mach %.3f outside the band %.3f-%.3f at %.2f g, MMO and thrust", sp.Mach, lo, math.Min(hi, a.MMO), c.floor)}
+		}
+		return cruiseVal{lim: "thrust", why: "drag exceeds maximum cruise thrust across the buffet band"}
+	}
+	pt := a.Point(perf.State{Mass: m, Pressure: p, Mach: mach, ISADev: c.isaDev, LoadFactor: 1})
+	v := cruiseVal{mach: mach, tas: pt.TAS, ff: pt.FuelFlow, resid: pt.ResidualClimb, margin: pt.BuffetMargin,
+		cruise: pt.Drag > 0.9*pt.MaxCruiseThrust}
+	switch {
+	case pt.ThrustLimited:
+		v.lim, v.why = "thrust", "drag exceeds maximum cruise thrust"
+	case pt.ResidualClimb < fpm300:
+		v.lim, v.why = "thrust", fmt.Sprintf("residual climb %.0f ft/min under 300 ft/min", pt.ResidualClimb/0.3048*60)
+	case pt.BuffetMargin < c.floor-1e-9:
+		v.lim, v.why = "buffet", fmt.Sprintf("buffet margin %.3f g under the %.2f g floor", pt.BuffetMargin, c.floor)
+	default:
+		v.ok = true
+	}
+	return v
+}
+
+// lerpCruise interpolates two feasible cruise values.
+func lerpCruise(v0, v1 cruiseVal, t float64) cruiseVal {
+	l := func(a, b float64) float64 { return a + (b-a)*t }
+	return cruiseVal{ok: true, mach: l(v0.mach, v1.mach), tas: l(v0.tas, v1.tas), ff: l(v0.ff, v1.ff),
+		resid: l(v0.resid, v1.resid), margin: l(v0.margin, v1.margin), cruise: v0.cruise || v1.cruise}
+}
+
+// transition prices a climb (to > from) or descent between two pressures.
+func transition(a *perf.Aircraft, m, pFrom, pTo, isaDev float64, s perf.Schedule, climb bool) transVal {
+	var tr perf.Transition
+	var err error
+	if climb {
+		tr, err = a.Climb(m, pFrom, pTo, isaDev, s)
+	} else {
+		tr, err = a.Descent(m, pFrom, pTo, isaDev, s)
+	}
+	if err != nil {
+		return transVal{why: err.Error()}
+	}
+	return transVal{ok: true, fuel: tr.Fuel, time: tr.Time, dist: tr.Distance, mach: s.Mach}
+}
+
+// machSchedule returns a schedule that flies Mach mach throughout between
+// the pressures (its CAS lies above the Mach's CAS at the lower level).
+func machSchedule(base perf.Schedule, mach, pLow float64) perf.Schedule {
+	return perf.Schedule{CASLow: base.CASLow, CAS: perf.MachToCAS(mach, pLow) * 1.001, Mach: mach}
+}

@@ -1,0 +1,120 @@
+package optimizer
+
+import (
+	"fmt"
+	"math"
+	"sort"
+	"strconv"
+	"strings"
+)
+
+var nan = math.NaN()
+
+// nmToM converts nautical miles to metres.
+const nmToM = 1852.0
+
+// Change is a level change that begins at AtDist metres from departure.
+type Change struct {
+	AtDist float64
+	FL     int
+}
+
+// Profile is a vertical profile: the initial cruise level and the level
+// changes along the route, in order of distance.
+type Profile struct {
+	Initial int
+	Changes []Change
+}
+
+// ProfileError reports a malformed profile string.
+type ProfileError struct {
+	Input string
+	Part  string
+	Msg   string
+}
+
+func (e *ProfileError) Error() string {
+	return fmt.Sprintf("profile %q: %q: %s", e.Input, e.Part, e.Msg)
+}
+
+// ParseProfile parses "FL350,FL370@1250,FL390@2900": the initial level,
+// then level@NM where each change begins, NM counted from departure. The
+// "FL" prefix is optional; distances must increase and levels lie in
+// FL010..FL600.
+func ParseProfile(s string) (Profile, error) {
+	var p Profile
+	parts := strings.Split(strings.TrimSpace(s), ",")
+	if len(parts) == 0 || strings.TrimSpace(parts[0]) == "" {
+		return p, &ProfileError{s, s, "empty profile; want e.g. FL350,FL370@1250"}
+	}
+	last := -1.0
+	for i, raw := range parts {
+		part := strings.TrimSpace(raw)
+		lvl, at, hasAt := strings.Cut(part, "@")
+		fl, err := parseFL(lvl)
+		if err != nil {
+			return p, &ProfileError{s, part, err.Error()}
+		}
+		if i == 0 {
+			if hasAt {
+				return p, &ProfileError{s, part, "the initial level takes no @distance"}
+			}
+			p.Initial = fl
+			continue
+		}
+		if !hasAt {
+			return p, &ProfileError{s, part, "a level change needs @NM (distance from departure where it begins)"}
+		}
+		nm, err := strconv.ParseFloat(strings.TrimSpace(at), 64)
+		if err != nil || math.IsNaN(nm) || math.IsInf(nm, 0) || nm < 0 {
+			return p, &ProfileError{s, part, "distance must be a non-negative number of NM"}
+		}
+		if nm <= last {
+			return p, &ProfileError{s, part, "distances must increase along the profile"}
+		}
+		last = nm
+		p.Changes = append(p.Changes, Change{AtDist: nm * nmToM, FL: fl})
+	}
+	return p, nil
+}
+
+func parseFL(s string) (int, error) {
+	s = strings.TrimSpace(s)
+	s = strings.TrimPrefix(strings.TrimPrefix(s, "FL"), "fl")
+	n, err := strconv.Atoi(s)
+	if err != nil {
+		return 0, fmt.Errorf("flight level %q is not a number like FL350", s)
+	}
+	if n < 10 || n > 600 {
+		return 0, fmt.Errorf("flight level %d outside FL010..FL600", n)
+	}
+	return n, nil
+}
+
+// String formats the profile in the form ParseProfile reads, distances in
+// whole NM.
+func (p Profile) String() string {
+	var b strings.Builder
+	fmt.Fprintf(&b, "FL%03d", p.Initial)
+	for _, c := range p.Changes {
+		fmt.Fprintf(&b, ",FL%03d@%.0f", c.FL, c.AtDist/nmToM)
+	}
+	return b.String()
+}
+
+// levelAt returns the level in effect at distance d (changes that begin at
+// or before d have happened).
+func (p Profile) levelAt(d float64) int {
+	fl := p.Initial
+	for _, c := range p.Changes {
+		if c.AtDist <= d {
+			fl = c.FL
+		}
+	}
+	return fl
+}
+
+// sorted reports whether changes are in increasing distance.
+func (p Profile) sorted() bool {
+	return sort.SliceIsSorted(p.Changes, func(i, j int) bool { return p.Changes[i].AtDist < p.Changes[j].AtDist })
+}

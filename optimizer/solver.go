@@ -1,0 +1,267 @@
+package optimizer
+
+import (
+	"math"
+	"sort"
+
+	"levelpath/perf"
+)
+
+// solver holds a prepared problem: levels, per-segment conditions and the
+// memoised edge prices.
+type solver struct {
+	p      *Problem
+	a      *perf.Aircraft
+	levels []int     // candidate cruise levels, ascending
+	press  []float64 // their pressures, Pa
+	conds  [][]cond  // [segment][level]
+	allow  [][]bool  // [segment][level]: rule and blocks allow it
+	bounds []float64 // segment boundary distances, len(segments)+1
+	total  float64
+	grid   float64 // mass spacing of the interpolation memo, kg
+
+	cruiseMemo map[uint64]cruiseVal
+	transMemo  map[uint64]transVal
+	descMemo   map[uint64]transVal
+
+	// limits for step-state bookkeeping
+	sinceCap int // segments after which MinDistance is surely met
+	stepCap  int // MaxSteps, or 0 when unlimited
+
+	edges int // edges priced
+}
+
+// newSolver prepares p (already normalised).
+func newSolver(p *Problem) (*solver, error) {
+	s := &solver{p: p, a: p.Aircraft, grid: 0.01 * p.Aircraft.MTOW,
+		cruiseMemo: make(map[uint64]cruiseVal), transMemo: make(map[uint64]transVal), descMemo: make(map[uint64]transVal)}
+	segs := p.Track.Segments
+	set := map[int]bool{}
+	for _, seg := range segs {
+		for _, fl := range seg.Levels {
+			if fl >= p.MinFL && fl <= p.MaxFL {
+				set[fl] = true
+			}
+		}
+	}
+	for fl := range set {
+		s.levels = append(s.levels, fl)
+	}
+	sort.Ints(s.levels)
+	if len(s.levels) == 0 {
+		return nil, inputErrorf("levels", "no allowed level between FL%d and FL%d on this route", p.MinFL, p.MaxFL)
+	}
+	if len(s.levels) > 255 {
+		return nil, inputErrorf("levels", "%d candidate levels; at most 255", len(s.levels))
+	}
+	if len(segs) >= 1<<16-1 {
+		return nil, inputErrorf("route", "%d segments; at most 65534", len(segs))
+	}
+	s.press = make([]float64, len(s.levels))
+	for i, fl := range s.levels {
+		s.press[i] = perf.FLToPressure(float64(fl))
+	}
+	s.bounds = make([]float64, len(segs)+1)
+	minLen := math.Inf(1)
+	for k, seg := range segs {
+		s.bounds[k] = seg.FromDist
+		s.bounds[k+1] = seg.ToDist
+		minLen = math.Min(minLen, seg.Length)
+	}
+	s.total = s.bounds[len(segs)]
+	s.allow = make([][]bool, len(segs))
+	for k, seg := range segs {
+		row := make([]bool, len(s.levels))
+		for _, fl := range seg.Levels {
+			if i := sort.SearchInts(s.levels, fl); i < len(s.levels) && s.levels[i] == fl {
+				row[i] = !blocked(p.Blocked, seg.FromDist, seg.ToDist, fl)
+			}
+		}
+		s.allow[k] = row
+	}
+	if p.Steps.MinDistance > 0 {
+		s.sinceCap = int(math.Ceil(p.Steps.MinDistance/minLen)) + 1
+		if s.sinceCap > 1000 {
+			s.sinceCap = 1000
+		}
+	}
+	s.stepCap = p.Steps.MaxSteps
+	if s.stepCap > 60 {
+		s.stepCap = 60
+	}
+	conds, err := buildConds(p, s.levels)
+	if err != nil {
+		return nil, err
+	}
+	s.conds = conds
+	return s, nil
+}
+
+// blocked reports whether fl is blocked anywhere over [from, to).
+func blocked(bs []Block, from, to float64, fl int) bool {
+	for _, b := range bs {
+		if b.FromDist < to && b.ToDist > from {
+			for _, x := range b.Levels {
+				if x == fl {
+					return true
+				}
+			}
+		}
+	}
+	return false
+}
+
+func memoKey(a, b, c int, g int) uint64 {
+	return uint64(a)<<48 | uint64(b)<<40 | uint64(c)<<32 | uint64(uint32(g))
+}
+
+// cruiseGrid is cruise on segment k at level li at grid mass g*grid.
+func (s *solver) cruiseGrid(k, li, g int) cruiseVal {
+	key := memoKey(k, li, 0, g)
+	if v, ok := s.cruiseMemo[key]; ok {
+		return v
+	}
+	v := cruisePoint(s.a, s.p.Speed, s.p.CI, float64(g)*s.grid, s.press[li], s.conds[k][li])
+	s.cruiseMemo[key] = v
+	return v
+}
+
+// cruiseAt is cruise at mass m, interpolated between grid masses where
+// both neighbours are feasible, and evaluated exactly otherwise, so that
+// feasibility is always decided at the true mass.
+func (s *solver) cruiseAt(k, li int, m float64) cruiseVal {
+	g := int(math.Floor(m / s.grid))
+	v0, v1 := s.cruiseGrid(k, li, g), s.cruiseGrid(k, li, g+1)
+	if !v0.ok || !v1.ok {
+		return cruisePoint(s.a, s.p.Speed, s.p.CI, m, s.press[li], s.conds[k][li])
+	}
+	return lerpCruise(v1, v0, (float64(g+1)*s.grid-m)/s.grid)
+}
+
+// cruiseLeg prices level flight over ground distance d on segment k at
+// level li from mass m. Fuel is evaluated at the mid-leg mass (one
+// fixed-point iteration); feasibility at the start, the heaviest point. A
+// negative d (a step that ends beyond its segment) returns negative fuel
+// and time, crediting the overlap.
+func (s *solver) cruiseLeg(k, li int, m, d float64) (fuel, t float64, v cruiseVal) {
+	v = s.cruiseAt(k, li, m)
+	if !v.ok {
+		return 0, 0, v
+	}
+	w := s.conds[k][li].wind
+	gs := v.tas + w
+	if gs < 50 {
+		v.ok, v.lim, v.why = false, "weather", "ground speed under 50 m/s"
+		return 0, 0, v
+	}
+	f0 := v.ff * d / gs
+	v2 := s.cruiseAt(k, li, m-f0/2)
+	if !v2.ok {
+		v2 = v
+	}
+	gs = v2.tas + w
+	t = d / gs
+	return v2.ff * t, t, v
+}
+
+// transAt prices a step from level li to lj starting on segment k at mass
+// m, interpolated between grid masses like cruiseAt. The step is flown at
+// the cruise Mach of the new level (or of the old one where the new level
+// is not feasible at that mass).
+func (s *solver) transAt(k, li, lj int, m float64) transVal {
+	g := int(math.Floor(m / s.grid))
+	v0, v1 := s.transGrid(k, li, lj, g), s.transGrid(k, li, lj, g+1)
+	if !v0.ok || !v1.ok {
+		return s.transExact(k, li, lj, m)
+	}
+	t := (m - float64(g)*s.grid) / s.grid
+	l := func(a, b float64) float64 { return a + (b-a)*t }
+	return transVal{ok: true, fuel: l(v0.fuel, v1.fuel), time: l(v0.time, v1.time), dist: l(v0.dist, v1.dist), mach: l(v0.mach, v1.mach)}
+}
+
+func (s *solver) transGrid(k, li, lj, g int) transVal {
+	key := memoKey(k, li, lj, g)
+	if v, ok := s.transMemo[key]; ok {
+		return v
+	}
+	v := s.transExact(k, li, lj, float64(g)*s.grid)
+	s.transMemo[key] = v
+	return v
+}
+
+func (s *solver) transExact(k, li, lj int, m float64) transVal {
+	c := s.cruiseAt(k, lj, m)
+	if !c.ok {
+		c = s.cruiseAt(k, li, m)
+	}
+	if !c.ok {
+		return transVal{why: "no feasible cruise Mach at either level"}
+	}
+	dev := (s.conds[k][li].isaDev + s.conds[k][lj].isaDev) / 2
+	pLow := math.Max(s.press[li], s.press[lj])
+	sch := machSchedule(s.p.ClimbSchedule, c.mach, pLow)
+	return transition(s.a, m, s.press[li], s.press[lj], dev, sch, lj > li)
+}
+
+// descent prices the final descent from level li at mass m (memoised on
+// the mass grid, interpolated).
+func (s *solver) descent(li int, m float64) transVal {
+	g := int(math.Floor(m / s.grid))
+	get := func(g int) transVal {
+		key := memoKey(li, 0, 0, g)
+		if v, ok := s.descMemo[key]; ok {
+			return v
+		}
+		v := s.descentExact(li, float64(g)*s.grid)
+		s.descMemo[key] = v
+		return v
+	}
+	v0, v1 := get(g), get(g+1)
+	if !v0.ok || !v1.ok {
+		return s.descentExact(li, m)
+	}
+	t := (m - float64(g)*s.grid) / s.grid
+	l := func(a, b float64) float64 { return a + (b-a)*t }
+	return transVal{ok: true, fuel: l(v0.fuel, v1.fuel), time: l(v0.time, v1.time), dist: l(v0.dist, v1.dist), mach: v0.mach}
+}
+
+func (s *solver) descentExact(li int, m float64) transVal {
+	last := len(s.conds) - 1
+	return transition(s.a, m, s.press[li], perf.PressureAt(s.p.EndAltitude), s.conds[last][li].isaDev, s.p.DescentSchedule, false)
+}
+
+// descentGround returns the ground distance of the final descent from
+// level li at mass m, with half the cruise-level wind of the last segment
+// as the mean wind over the descent (an approximation: wind usually grows
+// with height).
+func (s *solver) descentGround(li int, m float64) (transVal, float64) {
+	d := s.descent(li, m)
+	if !d.ok {
+		return d, 0
+	}
+	w := 0.5 * s.conds[len(s.conds)-1][li].wind
+	return d, d.dist + w*d.time
+}
+
+// initialClimb prices the climb from the end altitude to level li at the
+// take-off mass; ground distance uses half the first segment's wind at
+// that level.
+func (s *solver) initialClimb(li int) (transVal, float64) {
+	c := transition(s.a, s.p.TakeoffMass, perf.PressureAt(s.p.EndAltitude), s.press[li], s.conds[0][li].isaDev, s.p.ClimbSchedule, true)
+	if !c.ok {
+		return c, 0
+	}
+	return c, c.dist + 0.5*s.conds[0][li].wind*c.time
+}
+
+// segmentAt returns the segment index holding distance d.
+func (s *solver) segmentAt(d float64) int {
+	k := sort.SearchFloat64s(s.bounds, d)
+	if k > 0 && (k >= len(s.bounds) || s.bounds[k] > d) {
+		k--
+	}
+	if k >= len(s.conds) {
+		k = len(s.conds) - 1
+	}
+	return k
+}

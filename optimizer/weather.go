@@ -1,0 +1,136 @@
+package optimizer
+
+import (
+	"fmt"
+	"math"
+	"time"
+
+	"levelpath/perf"
+	"levelpath/route"
+	"levelpath/winds"
+)
+
+// cond is the weather and the limits on one segment at one level.
+type cond struct {
+	wind   float64 // along-track wind, m/s, tailwind positive
+	isaDev float64 // K
+	edr    float64 // NaN where the weather holds none
+	floor  float64 // protection floor after the turbulence rule, g
+	why    string  // reason for the floor
+	closed bool    // level unavailable here (turbulence, weather top)
+	// closedWhy tells why a level is closed.
+	closedWhy string
+}
+
+// weatherAt samples the weather at a point and returns the along-track wind
+// for the true course, the temperature deviation from ISA and the EDR.
+// Without weather it returns still air at ISA.
+func weatherAt(f *winds.Field, lat, lon, p float64, t time.Time, course float64) (wind, isaDev, edr float64, err error) {
+	if f == nil {
+		return 0, 0, nan, nil
+	}
+	s, err := f.Sample(lat, lon, p, t)
+	if err != nil {
+		return 0, 0, nan, err
+	}
+	along, _ := winds.AlongAcross(s.U, s.V, course)
+	dev := 0.0
+	if !math.IsNaN(s.T) {
+		dev = perf.ISADeviation(p, s.T)
+	}
+	return along, dev, s.EDR, nil
+}
+
+// segWeather averages the weather over a segment's sample points.
+func segWeather(f *winds.Field, seg *route.Segment, p float64, t time.Time) (wind, isaDev, edr float64, err error) {
+	pts := seg.Samples
+	if len(pts) == 0 {
+		pts = []route.Point{seg.Mid}
+	}
+	edr = nan
+	for _, q := range pts {
+		w, d, e, err := weatherAt(f, q.Lat, q.Lon, p, t, seg.TrueCourse)
+		if err != nil {
+			return 0, 0, nan, err
+		}
+		wind += w
+		isaDev += d
+		if !math.IsNaN(e) && (math.IsNaN(edr) || e > edr) {
+			edr = e
+		}
+	}
+	n := float64(len(pts))
+	return wind / n, isaDev / n, edr, nil
+}
+
+// floorFor applies the turbulence table to an EDR value.
+func floorFor(base float64, edr float64, rules []TurbulenceRule) (floor float64, why string, closed bool) {
+	floor, why = base, "protection floor"
+	if math.IsNaN(edr) {
+		return floor, why, false
+	}
+	for _, r := range rules {
+		if edr > r.EDR {
+			if r.Closed {
+				return floor, fmt.Sprintf("EDR %.2f over %.2f: level closed", edr, r.EDR), true
+			}
+			if r.Floor > floor {
+				floor, why = r.Floor, fmt.Sprintf("EDR %.2f over %.2f", edr, r.EDR)
+			}
+		}
+	}
+	return floor, why, false
+}
+
+// buildConds samples the weather for every segment and level at an
+// estimated time of passage (departure plus distance over a nominal ground
+// speed of Mach 0.8 at FL350 ISA, about 460 kt). Levels above or below the
+// weather's pressure levels are closed with a reason; a segment outside the
+// weather's area or times is an error.
+func buildConds(p *Problem, levels []int) ([][]cond, error) {
+	const nominal = 0.8 * 295.07 // m/s
+	segs := p.Track.Segments
+	out := make([][]cond, len(segs))
+	for k := range segs {
+		seg := &segs[k]
+		t := p.Depart.Add(time.Duration((seg.FromDist + seg.Length/2) / nominal * float64(time.Second)))
+		row := make([]cond, len(levels))
+		for li, fl := range levels {
+			pr := perf.FLToPressure(float64(fl))
+			w, d, e, err := segWeather(p.Weather, seg, pr, t)
+			c := cond{wind: w, isaDev: d, edr: e}
+			if err != nil {
+				if isLevelRange(p.Weather, pr) {
+					c.closed, c.closedWhy = true, fmt.Sprintf("FL%d outside the weather's pressure levels", fl)
+					row[li] = c
+					continue
+				}
+				return nil, &InputError{Field: "weather", Msg: fmt.Sprintf("segment %d (%.0f-%.0f NM) at FL%d, %s: %v",
+					k, seg.FromDist/nmToM, seg.ToDist/nmToM, fl, t.Format(time.RFC3339), err)}
+			}
+			c.floor, c.why, c.closed = floorFor(p.Floor, e, p.Turbulence)
+			if c.closed {
+				c.closedWhy = c.why
+			}
+			row[li] = c
+		}
+		out[k] = row
+	}
+	return out, nil
+}
+
+// isLevelRange reports whether pressure p lies outside the field's levels.
+func isLevelRange(f *winds.Field, p float64) bool {
+	if f == nil {
+		return false
+	}
+	lv := f.Levels()
+	if len(lv) == 0 {
+		return true
+	}
+	lo, hi := lv[0], lv[0]
+	for _, x := range lv {
+		lo, hi = math.Min(lo, x), math.Max(hi, x)
+	}
+	return p < lo || p > hi
+}

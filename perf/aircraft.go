@@ -1,0 +1,447 @@
+package perf
+
+import (
+	"bytes"
+	"embed"
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"os"
+	"regexp"
+	"strconv"
+	"strings"
+
+	"gopkg.in/yaml.v3"
+)
+
+// Aircraft is a performance model. All fields are SI. Build one with Load,
+// Builtin or Parse, which validate it; a hand-built value must satisfy the
+// same rules (see perf/aircraft/README.md) or results are meaningless.
+type Aircraft struct {
+	Name, Description string
+
+	// Masses, kg.
+	OEW, MZFW, MTOW, MLW, FuelCapacity float64
+
+	// Wing and aerodynamics.
+	WingArea       float64 // reference area S, m²
+	Sweep          float64 // quarter-chord sweep Λ, radians
+	ThicknessRatio float64 // mean streamwise thickness/chord t/c
+	KornKappa      float64 // Korn airfoil technology factor κ (0.87 conventional, 0.95 supercritical)
+	CD0, K         float64 // parabolic polar CD = CD0 + K CL² (+ compressibility)
+
+	Engines Engines
+
+	VMO              float64 // maximum operating speed, CAS m/s
+	MMO              float64 // maximum operating Mach
+	CertifiedCeiling float64 // maximum certified pressure altitude, m
+
+	// Buffet is the buffet-onset boundary at 1 g: CL against Mach, Mach
+	// strictly ascending, linear between rows, flat beyond the ends.
+	Buffet []BuffetPoint
+
+	// Schedule is the climb and descent speed schedule from the file; the
+	// zero value means none was given (see DefaultSchedule).
+	Schedule Schedule
+}
+
+// BuffetPoint is one row of the buffet-onset boundary.
+type BuffetPoint struct {
+	Mach, CL float64
+}
+
+// Engines describes the engines with the high-bypass turbofan correlations
+// of Mattingly (Aircraft Engine Design, 2nd ed., AIAA 2002, eqs. 2.45a and
+// 2.55a-style), with per-aircraft coefficients instead of Mattingly's
+// generic 0.49, 3.0, 0.4 and 0.45:
+//
+//	δ0 = (p/P0)(1+0.2M²)^3.5, θ0 = (T/T0)(1+0.2M²)
+//	α  = δ0 (1 - LapseMach √M)                                 θ0 <= ThrottleRatio
+//	α  = δ0 (1 - LapseMach √M - LapseTheta (θ0-TR)/(1.5+M))    θ0 >  ThrottleRatio
+//	max climb thrust = Count StaticThrust ClimbRating α
+//	TSFC = (TSFCA + TSFCB M) √(T/T0)
+type Engines struct {
+	Count         int
+	StaticThrust  float64 // sea-level static thrust per engine, N
+	LapseMach     float64 // Mattingly's 0.49
+	LapseTheta    float64 // Mattingly's 3.0
+	ThrottleRatio float64 // θ0 break (TR), Mattingly 1.0-1.1
+	TSFCA, TSFCB  float64 // TSFC = (A + B M) √θ, kg/(N s)
+	ClimbRating   float64 // max climb thrust as a fraction of the lapse curve
+	CruiseRatio   float64 // max cruise / max climb thrust
+	IdleFraction  float64 // idle thrust / max climb thrust
+	IdleFuelFlow  float64 // idle fuel flow per engine at sea-level static, kg/s; scaled by δ0 √θ0
+}
+
+//go:embed aircraft/*.yaml
+var builtinFS embed.FS
+
+// builtinNames in ascending size; each has aircraft/NAME.yaml.
+var builtinNames = []string{"demo-regional", "demo-narrowbody", "demo-widebody"}
+
+// BuiltinNames returns the names of the built-in (invented) aircraft.
+func BuiltinNames() []string { return append([]string(nil), builtinNames...) }
+
+// Builtin returns a fresh copy of the built-in aircraft called name. The
+// error for an unknown name lists the built-in names.
+func Builtin(name string) (*Aircraft, error) {
+	for _, n := range builtinNames {
+		if n == name {
+			data, err := builtinFS.ReadFile("aircraft/" + n + ".yaml")
+			if err != nil {
+				return nil, err
+			}
+			return Parse(data, n)
+		}
+	}
+	return nil, fmt.Errorf("perf: unknown aircraft %q (built-in: %s)", name, strings.Join(builtinNames, ", "))
+}
+
+// maxFileSize bounds an aircraft file read by Load.
+const maxFileSize = 1 << 20
+
+// Load returns the built-in aircraft called nameOrPath, or else reads the
+// YAML file at that path.
+func Load(nameOrPath string) (*Aircraft, error) {
+	for _, n := range builtinNames {
+		if n == nameOrPath {
+			return Builtin(n)
+		}
+	}
+	fi, err := os.Stat(nameOrPath)
+	if err != nil {
+		if errors.Is(err, os.ErrNotExist) {
+			return nil, fmt.Errorf("perf: unknown aircraft %q: not a built-in (%s) and no such file", nameOrPath, strings.Join(builtinNames, ", "))
+		}
+		return nil, fmt.Errorf("perf: aircraft %q: %w", nameOrPath, err)
+	}
+	if fi.IsDir() {
+		return nil, fmt.Errorf("perf: aircraft %q is a directory", nameOrPath)
+	}
+	if fi.Size() > maxFileSize {
+		return nil, &FormatError{Source: nameOrPath, Reason: fmt.Sprintf("file is %d bytes, more than the %d allowed", fi.Size(), maxFileSize)}
+	}
+	data, err := os.ReadFile(nameOrPath)
+	if err != nil {
+		return nil, fmt.Errorf("perf: aircraft %q: %w", nameOrPath, err)
+	}
+	return Parse(data, nameOrPath)
+}
+
+// The YAML schema (documented in aircraft/README.md). Pointers tell a
+// missing field from a zero one.
+type yamlAircraft struct {
+	Name        *string       `yaml:"name"`
+	Description string        `yaml:"description"`
+	Mass        *yamlMass     `yaml:"mass"`
+	Wing        *yamlWing     `yaml:"wing"`
+	Drag        *yamlDrag     `yaml:"drag"`
+	Engines     *yamlEngines  `yaml:"engines"`
+	Limits      *yamlLimits   `yaml:"limits"`
+	Schedule    *yamlSchedule `yaml:"schedule"`
+	Buffet      [][]float64   `yaml:"buffet"`
+}
+
+type yamlMass struct {
+	OEW          *float64 `yaml:"oew_kg"`
+	MZFW         *float64 `yaml:"mzfw_kg"`
+	MTOW         *float64 `yaml:"mtow_kg"`
+	MLW          *float64 `yaml:"mlw_kg"`
+	FuelCapacity *float64 `yaml:"fuel_capacity_kg"`
+}
+
+type yamlWing struct {
+	Area           *float64 `yaml:"area_m2"`
+	Sweep          *float64 `yaml:"sweep_deg"`
+	ThicknessRatio *float64 `yaml:"thickness_ratio"`
+	KornKappa      *float64 `yaml:"korn_kappa"`
+}
+
+type yamlDrag struct {
+	CD0 *float64 `yaml:"cd0"`
+	K   *float64 `yaml:"k"`
+}
+
+type yamlEngines struct {
+	Count         *int     `yaml:"count"`
+	StaticThrust  *float64 `yaml:"static_thrust_kn"`
+	LapseMach     *float64 `yaml:"lapse_mach"`
+	LapseTheta    *float64 `yaml:"lapse_theta"`
+	ThrottleRatio *float64 `yaml:"throttle_ratio"`
+	TSFCA         *float64 `yaml:"tsfc_a_per_h"`
+	TSFCB         *float64 `yaml:"tsfc_b_per_h"`
+	ClimbRating   *float64 `yaml:"climb_rating"`
+	CruiseRatio   *float64 `yaml:"cruise_ratio"`
+	IdleFraction  *float64 `yaml:"idle_thrust_fraction"`
+	IdleFuelFlow  *float64 `yaml:"idle_fuel_flow_kg_h"`
+}
+
+type yamlLimits struct {
+	VMO     *float64 `yaml:"vmo_kt"`
+	MMO     *float64 `yaml:"mmo"`
+	Ceiling *float64 `yaml:"ceiling_fl"`
+}
+
+type yamlSchedule struct {
+	CASLow *float64 `yaml:"cas_low_kt"`
+	CAS    *float64 `yaml:"cas_kt"`
+	Mach   *float64 `yaml:"mach"`
+}
+
+// sectionOf maps the Go type named in yaml.v3's unknown-field messages to
+// the YAML section, so the error names the dotted path.
+var sectionOf = map[string]string{
+	"perf.yamlAircraft": "", "perf.yamlMass": "mass.", "perf.yamlWing": "wing.",
+	"perf.yamlDrag": "drag.", "perf.yamlEngines": "engines.", "perf.yamlLimits": "limits.",
+	"perf.yamlSchedule": "schedule.",
+}
+
+var (
+	reLine    = regexp.MustCompile(`line (\d+)`)
+	reUnknown = regexp.MustCompile(`line (\d+): field (\S+) not found in type (\S+)`)
+)
+
+// Parse reads an aircraft from YAML (strict: unknown keys are errors) and
+// validates it. source names the input in errors. Errors are *FormatError
+// for unreadable YAML and *FieldError naming the field otherwise.
+func Parse(data []byte, source string) (*Aircraft, error) {
+	if len(data) > maxFileSize {
+		return nil, &FormatError{Source: source, Reason: fmt.Sprintf("%d bytes, more than the %d allowed", len(data), maxFileSize)}
+	}
+	dec := yaml.NewDecoder(bytes.NewReader(data))
+	dec.KnownFields(true)
+	var y yamlAircraft
+	if err := dec.Decode(&y); err != nil {
+		return nil, yamlError(err, source)
+	}
+	var extra yaml.Node
+	if err := dec.Decode(&extra); err != io.EOF {
+		return nil, &FormatError{Source: source, Reason: "more than one YAML document"}
+	}
+	return y.build(source)
+}
+
+func yamlError(err error, source string) error {
+	if err == io.EOF {
+		return &FormatError{Source: source, Reason: "empty document"}
+	}
+	var te *yaml.TypeError
+	if errors.As(err, &te) && len(te.Errors) > 0 {
+		msg := te.Errors[0]
+		if m := reUnknown.FindStringSubmatch(msg); m != nil {
+			return &FieldError{Source: source, Field: sectionOf[m[3]] + m[2], Reason: "unknown field (line " + m[1] + ")"}
+		}
+		return &FormatError{Source: source, Line: lineOf(msg), Reason: msg}
+	}
+	msg := strings.TrimPrefix(err.Error(), "yaml: ")
+	return &FormatError{Source: source, Line: lineOf(msg), Reason: msg}
+}
+
+func lineOf(msg string) int {
+	if m := reLine.FindStringSubmatch(msg); m != nil {
+		n, _ := strconv.Atoi(m[1])
+		return n
+	}
+	return 0
+}
+
+// fieldReader collects the first validation failure.
+type fieldReader struct {
+	source string
+	err    error
+}
+
+func (r *fieldReader) fail(field, format string, args ...any) {
+	if r.err == nil {
+		r.err = &FieldError{Source: r.source, Field: field, Reason: fmt.Sprintf(format, args...)}
+	}
+}
+
+// num returns *v, requiring it present, finite and within [lo, hi]
+// (exclusive at lo when open is true).
+func (r *fieldReader) num(field string, v *float64, lo, hi float64, openLo bool) float64 {
+	if v == nil {
+		r.fail(field, "missing")
+		return 0
+	}
+	x := *v
+	switch {
+	case math.IsNaN(x) || math.IsInf(x, 0):
+		r.fail(field, "%v is not a finite number", x)
+	case openLo && x <= lo && lo == 0:
+		r.fail(field, "%g must be positive", x)
+	case openLo && x <= lo, !openLo && x < lo, x > hi:
+		r.fail(field, "%g outside the accepted range %g..%g", x, lo, hi)
+	}
+	return x
+}
+
+func (y *yamlAircraft) build(source string) (*Aircraft, error) {
+	r := &fieldReader{source: source}
+	a := &Aircraft{Description: strings.TrimSpace(y.Description)}
+	if y.Name == nil || strings.TrimSpace(*y.Name) == "" {
+		r.fail("name", "missing")
+	} else {
+		a.Name = strings.TrimSpace(*y.Name)
+	}
+	inf := math.Inf(1)
+	if y.Mass == nil {
+		r.fail("mass", "missing")
+	} else {
+		m := y.Mass
+		a.OEW = r.num("mass.oew_kg", m.OEW, 0, inf, true)
+		a.MZFW = r.num("mass.mzfw_kg", m.MZFW, 0, inf, true)
+		a.MTOW = r.num("mass.mtow_kg", m.MTOW, 0, inf, true)
+		a.MLW = r.num("mass.mlw_kg", m.MLW, 0, inf, true)
+		a.FuelCapacity = r.num("mass.fuel_capacity_kg", m.FuelCapacity, 0, inf, true)
+		if r.err == nil {
+			switch {
+			case a.MZFW < a.OEW:
+				r.fail("mass.mzfw_kg", "%g kg is below mass.oew_kg %g kg", a.MZFW, a.OEW)
+			case a.MTOW < a.MZFW:
+				r.fail("mass.mtow_kg", "%g kg is below mass.mzfw_kg %g kg", a.MTOW, a.MZFW)
+			case a.MLW > a.MTOW:
+				r.fail("mass.mlw_kg", "%g kg is above mass.mtow_kg %g kg", a.MLW, a.MTOW)
+			case a.MLW < a.OEW:
+				r.fail("mass.mlw_kg", "%g kg is below mass.oew_kg %g kg", a.MLW, a.OEW)
+			}
+		}
+	}
+	if y.Wing == nil {
+		r.fail("wing", "missing")
+	} else {
+		w := y.Wing
+		a.WingArea = r.num("wing.area_m2", w.Area, 0, inf, true)
+		a.Sweep = r.num("wing.sweep_deg", w.Sweep, 0, 60, false) * math.Pi / 180
+		a.ThicknessRatio = r.num("wing.thickness_ratio", w.ThicknessRatio, 0, 0.25, true)
+		a.KornKappa = r.num("wing.korn_kappa", w.KornKappa, 0.8, 1.0, false)
+	}
+	if y.Drag == nil {
+		r.fail("drag", "missing")
+	} else {
+		a.CD0 = r.num("drag.cd0", y.Drag.CD0, 0, 0.1, true)
+		a.K = r.num("drag.k", y.Drag.K, 0, 0.5, true)
+	}
+	if y.Engines == nil {
+		r.fail("engines", "missing")
+	} else {
+		e := y.Engines
+		if e.Count == nil {
+			r.fail("engines.count", "missing")
+		} else if *e.Count < 1 || *e.Count > 8 {
+			r.fail("engines.count", "%d outside the accepted range 1..8", *e.Count)
+		} else {
+			a.Engines.Count = *e.Count
+		}
+		tsfc := 1 / (3600 * G0) // 1/h (kg per kgf per hour) -> kg/(N s)
+		a.Engines.StaticThrust = 1000 * r.num("engines.static_thrust_kn", e.StaticThrust, 0, inf, true)
+		a.Engines.LapseMach = r.num("engines.lapse_mach", e.LapseMach, 0, 1, false)
+		a.Engines.LapseTheta = r.num("engines.lapse_theta", e.LapseTheta, 0, 10, false)
+		a.Engines.ThrottleRatio = r.num("engines.throttle_ratio", e.ThrottleRatio, 0.5, 1.5, false)
+		a.Engines.TSFCA = tsfc * r.num("engines.tsfc_a_per_h", e.TSFCA, 0, 2, false)
+		a.Engines.TSFCB = tsfc * r.num("engines.tsfc_b_per_h", e.TSFCB, 0, 2, false)
+		a.Engines.ClimbRating = r.num("engines.climb_rating", e.ClimbRating, 0, 1, true)
+		a.Engines.CruiseRatio = r.num("engines.cruise_ratio", e.CruiseRatio, 0, 1, true)
+		a.Engines.IdleFraction = r.num("engines.idle_thrust_fraction", e.IdleFraction, 0, 0.5, false)
+		a.Engines.IdleFuelFlow = r.num("engines.idle_fuel_flow_kg_h", e.IdleFuelFlow, 0, inf, true) / 3600
+		if r.err == nil && a.Engines.TSFCA+a.Engines.TSFCB <= 0 {
+			r.fail("engines.tsfc_a_per_h", "TSFC must be positive")
+		}
+	}
+	if y.Limits == nil {
+		r.fail("limits", "missing")
+	} else {
+		a.VMO = KtToMS * r.num("limits.vmo_kt", y.Limits.VMO, 0, 600, true)
+		a.MMO = r.num("limits.mmo", y.Limits.MMO, 0, 0.99, true)
+		a.CertifiedCeiling = 100 * FtToM * r.num("limits.ceiling_fl", y.Limits.Ceiling, 100, 600, false)
+	}
+	if s := y.Schedule; s != nil {
+		a.Schedule.CASLow = KtToMS * r.num("schedule.cas_low_kt", s.CASLow, 0, 600, true)
+		a.Schedule.CAS = KtToMS * r.num("schedule.cas_kt", s.CAS, 0, 600, true)
+		a.Schedule.Mach = r.num("schedule.mach", s.Mach, 0, 0.99, true)
+	}
+	a.Buffet = r.buffet(y.Buffet, a.MMO)
+	if r.err != nil {
+		return nil, r.err
+	}
+	return a, nil
+}
+
+// buffet validates the buffet table: at least 3 rows of [Mach, CL], Mach
+// strictly ascending in (0, 1), CL positive, reaching at least MMO, and
+// M²·CL (the buffet lift per unit pressure) rising to a single peak and
+// then falling, which BuffetMachs relies on.
+func (r *fieldReader) buffet(rows [][]float64, mmo float64) []BuffetPoint {
+	if rows == nil {
+		r.fail("buffet", "missing")
+		return nil
+	}
+	if len(rows) < 3 {
+		r.fail("buffet", "%d rows, at least 3 needed", len(rows))
+		return nil
+	}
+	if len(rows) > 200 {
+		r.fail("buffet", "%d rows, at most 200 accepted", len(rows))
+		return nil
+	}
+	out := make([]BuffetPoint, len(rows))
+	falling := false
+	for i, row := range rows {
+		f := fmt.Sprintf("buffet[%d]", i)
+		if len(row) != 2 {
+			r.fail(f, "want [mach, cl], got %d values", len(row))
+			return nil
+		}
+		m, cl := row[0], row[1]
+		if !(m >= machSearchMin && m < 1) {
+			r.fail(f, "Mach %g outside %g..1", m, machSearchMin)
+			return nil
+		}
+		if !(cl > 0 && cl < 3) {
+			r.fail(f, "CL %g outside 0..3", cl)
+			return nil
+		}
+		if i > 0 {
+			if m <= out[i-1].Mach {
+				r.fail(f, "Mach %g not above the previous row's %g (Mach must ascend)", m, out[i-1].Mach)
+				return nil
+			}
+			h0, h1 := out[i-1].Mach*out[i-1].Mach*out[i-1].CL, m*m*cl
+			if h1 < h0 {
+				falling = true
+			} else if falling && h1 > h0 {
+				r.fail(f, "buffet lift M²·CL rises again after falling (boundary must have one peak)")
+				return nil
+			}
+		}
+		out[i] = BuffetPoint{m, cl}
+	}
+	if last := out[len(out)-1].Mach; mmo > 0 && last < mmo {
+		r.fail("buffet", "last Mach %g is below limits.mmo %g (table must reach MMO)", last, mmo)
+		return nil
+	}
+	return out
+}
+
+// CheckMass returns a *RangeError if m (kg) is not within OEW..MTOW.
+func (a *Aircraft) CheckMass(m float64) error {
+	if !(m >= a.OEW && m <= a.MTOW) {
+		return &RangeError{Quantity: "mass", Value: m, Min: a.OEW, Max: a.MTOW, Unit: "kg", Aircraft: a.Name}
+	}
+	return nil
+}
+
+// DefaultSchedule returns the aircraft's climb/descent speed schedule: the
+// file's, or else 250 kt below 10,000 ft (capped at VMO), then the lesser
+// of 300 kt and VMO - 30 kt, then MMO - 0.04.
+func DefaultSchedule(a *Aircraft) Schedule {
+	if a.Schedule != (Schedule{}) {
+		return a.Schedule
+	}
+	return Schedule{
+		CASLow: math.Min(250*KtToMS, a.VMO),
+		CAS:    math.Min(300*KtToMS, a.VMO-30*KtToMS),
+		Mach:   a.MMO - 0.04,
+	}
+}

@@ -1,0 +1,195 @@
+package perf
+
+import (
+	"math"
+)
+
+// EnvelopeRow is the envelope at one flight level.
+type EnvelopeRow struct {
+	FL, Pressure, OAT, SoundSpeed float64 // FL, Pa, K, m/s
+
+	// Buffet-onset Mach numbers at 1 g and at the protection floor; NaN
+	// where no Mach is free of buffet.
+	LowBuffet1g, HighBuffet1g, LowBuffetFloor, HighBuffetFloor float64
+
+	MMO           float64
+	LRCMach       float64 // NaN if MachBand is empty
+	ResidualClimb float64 // m/s of pressure altitude at LRC, NaN if none
+}
+
+// Envelope is the cruise envelope for one mass, temperature and buffet
+// protection floor. Levels are continuous flight levels; NaN where a limit
+// does not exist within the search range.
+type Envelope struct {
+	Aircraft             string
+	Mass, ISADev, Floor  float64 // kg, K, g
+	Rows                 []EnvelopeRow
+	MaxFLBuffet          float64 // highest level with a buffet-free band at Floor below MMO
+	MaxFLThrust          float64 // highest level with residual climb >= 300 ft/min at LRC
+	MaxFLCertified       float64
+	MaxFL                float64 // least of the three
+	OptimumFL            float64 // level of best specific range at the max-range Mach, at most MaxFL
+	optimumSpecificRange float64
+}
+
+const (
+	minResidualClimb = 300 * FtToM / 60 // m/s; thrust-limited ceiling criterion (common practice)
+	envelopeLowFL    = 100
+	levelSearchTopFL = 650   // the search for buffet and thrust ceilings stops here (~19.8 km)
+	levelTol         = 0.001 // FL, i.e. 0.1 ft
+)
+
+func flPressure(fl float64) float64 { return PressureAt(fl * 100 * FtToM) }
+
+// Envelope returns the envelope at mass (kg), temperature ISA + isaDev (K)
+// and buffet protection floor (g, >= 1): rows from FL100 to the certified
+// ceiling plus 2,000 ft in 1,000 ft steps, and the ceilings as continuous
+// levels found by bisection to 0.1 ft between the grid rows (the grid is
+// extended above the table up to FL650 when a limit lies higher):
+//
+//   - MaxFLBuffet: highest level where BuffetMachs at the floor has a band
+//     whose low end is below MMO;
+//   - MaxFLThrust: highest level where the residual climb at LRC Mach is at
+//     least 300 ft/min (common practice);
+//   - MaxFLCertified: the certified ceiling; MaxFL: the least of them;
+//   - OptimumFL: the level of best specific range at the max-range Mach,
+//     searched at or below MaxFL by golden-section search about the best row.
+//
+// It returns a *RangeError for a mass outside OEW..MTOW, a floor below 1 g
+// or a non-finite argument. Cost: a few milliseconds at most.
+func (a *Aircraft) Envelope(mass, isaDev, floor float64) (Envelope, error) {
+	if err := a.CheckMass(mass); err != nil {
+		return Envelope{}, err
+	}
+	if !(floor >= 1 && floor <= 3) {
+		return Envelope{}, &RangeError{Quantity: "buffet floor", Value: floor, Min: 1, Max: 3, Unit: "g", Aircraft: a.Name}
+	}
+	if !(math.Abs(isaDev) <= 100) {
+		return Envelope{}, &RangeError{Quantity: "ISA deviation", Value: isaDev, Min: -100, Max: 100, Unit: "K", Aircraft: a.Name}
+	}
+	nan := math.NaN()
+	env := Envelope{Aircraft: a.Name, Mass: mass, ISADev: isaDev, Floor: floor}
+	env.MaxFLCertified = a.CertifiedCeiling / (100 * FtToM)
+	top := math.Floor(env.MaxFLCertified/10+1e-9)*10 + 20
+	nrows := int((top-envelopeLowFL)/10) + 1
+	env.Rows = make([]EnvelopeRow, 0, nrows)
+	bestRow, bestSR := -1, math.Inf(-1)
+	for i := 0; i < nrows; i++ {
+		fl := envelopeLowFL + 10*float64(i)
+		p := flPressure(fl)
+		t := isaTemperatureAtPressure(p) + isaDev
+		r := EnvelopeRow{FL: fl, Pressure: p, OAT: t, SoundSpeed: SpeedOfSound(t), MMO: a.MMO,
+			LowBuffet1g: nan, HighBuffet1g: nan, LowBuffetFloor: nan, HighBuffetFloor: nan, LRCMach: nan, ResidualClimb: nan}
+		if lo, hi, ok := a.BuffetMachs(mass, p, 1); ok {
+			r.LowBuffet1g, r.HighBuffet1g = lo, hi
+		}
+		if lo, hi, ok := a.BuffetMachs(mass, p, floor); ok {
+			r.LowBuffetFloor, r.HighBuffetFloor = lo, hi
+		}
+		if lo, hi, ok := a.MachBand(mass, p, isaDev, floor); ok {
+			lrc, mr := a.lrcIn(mass, p, t, lo, hi)
+			r.LRCMach = lrc
+			r.ResidualClimb = a.residualClimb(mass, p, isaDev, lrc)
+			if sr := a.specificRange(mass, p, t, mr, math.Cos(a.Sweep)); sr > bestSR {
+				bestRow, bestSR = i, sr
+			}
+		}
+		env.Rows = append(env.Rows, r)
+	}
+	buffetOK := func(fl float64) bool {
+		lo, _, ok := a.BuffetMachs(mass, flPressure(fl), floor)
+		return ok && lo < a.MMO
+	}
+	thrustOK := func(fl float64) bool {
+		p := flPressure(fl)
+		lo, hi, ok := a.MachBand(mass, p, isaDev, floor)
+		if !ok {
+			return false
+		}
+		lrc, _ := a.lrcIn(mass, p, isaTemperatureAtPressure(p)+isaDev, lo, hi)
+		return a.residualClimb(mass, p, isaDev, lrc) >= minResidualClimb
+	}
+	env.MaxFLBuffet = highestLevel(buffetOK)
+	env.MaxFLThrust = highestLevel(thrustOK)
+	env.MaxFL = math.Min(env.MaxFLCertified, math.Min(env.MaxFLBuffet, env.MaxFLThrust))
+	env.OptimumFL = nan
+	if bestRow >= 0 && !math.IsNaN(env.MaxFL) {
+		env.OptimumFL, env.optimumSpecificRange = a.optimumLevel(mass, isaDev, floor, env.Rows[bestRow].FL, env.MaxFL)
+	}
+	return env, nil
+}
+
+// residualClimb is Point's ResidualClimb at Mach m.
+func (a *Aircraft) residualClimb(mass, p, isaDev, m float64) float64 {
+	tisa := isaTemperatureAtPressure(p)
+	t := tisa + isaDev
+	d, _, _ := a.drag(mass, p, m, math.Cos(a.Sweep))
+	v := m * SpeedOfSound(t)
+	return (a.climbThrust(p, t, m) - d) * v / (mass * G0) * tisa / t
+}
+
+// highestLevel returns the highest flight level in [FL100, FL650] where ok
+// holds, assuming ok holds below some level and fails above it: a scan in
+// 1,000 ft steps, then bisection to 0.1 ft. NaN if ok fails at FL100.
+func highestLevel(ok func(fl float64) bool) float64 {
+	if !ok(envelopeLowFL) {
+		return math.NaN()
+	}
+	lo := float64(envelopeLowFL)
+	for lo < levelSearchTopFL && ok(lo+10) {
+		lo += 10
+	}
+	if lo >= levelSearchTopFL {
+		return levelSearchTopFL
+	}
+	hi := lo + 10
+	for hi-lo > levelTol {
+		m := 0.5 * (lo + hi)
+		if ok(m) {
+			lo = m
+		} else {
+			hi = m
+		}
+	}
+	return lo
+}
+
+// optimumLevel maximises the specific range at the max-range Mach over the
+// level, by golden-section search in [near-10, min(near+10, maxFL)].
+func (a *Aircraft) optimumLevel(mass, isaDev, floor, near, maxFL float64) (fl, sr float64) {
+	cosL := math.Cos(a.Sweep)
+	f := func(fl float64) float64 {
+		p := flPressure(fl)
+		lo, hi, ok := a.MachBand(mass, p, isaDev, floor)
+		if !ok {
+			return math.Inf(-1)
+		}
+		t := isaTemperatureAtPressure(p) + isaDev
+		m := a.econMachIn(mass, p, t, lo, hi, 0, 0)
+		return a.specificRange(mass, p, t, m, cosL)
+	}
+	x0, x3 := near-10, math.Min(near+10, maxFL)
+	if x3 <= x0 {
+		return x3, f(x3)
+	}
+	x1 := x3 - invPhi*(x3-x0)
+	x2 := x0 + invPhi*(x3-x0)
+	f1, f2 := f(x1), f(x2)
+	for x3-x0 > levelTol {
+		if f1 > f2 {
+			x3, x2, f2 = x2, x1, f1
+			x1 = x3 - invPhi*(x3-x0)
+			f1 = f(x1)
+		} else {
+			x0, x1, f1 = x1, x2, f2
+			x2 = x0 + invPhi*(x3-x0)
+			f2 = f(x2)
+		}
+	}
+	fl = 0.5 * (x0 + x3)
+	sr = f(fl)
+	if fm := f(maxFL); maxFL <= near+10 && fm > sr {
+		fl, sr = maxFL, fm
+	}
+	return fl, sr
+}

@@ -1,0 +1,162 @@
+package perf
+
+import "math"
+
+// State is a flight condition for point performance.
+type State struct {
+	Mass       float64 // kg
+	Pressure   float64 // static pressure, Pa
+	Mach       float64
+	ISADev     float64 // K added to the standard temperature
+	LoadFactor float64 // g for the reported CL; 0 means 1
+}
+
+// Point is the performance at one State. Drag, fuel flow and specific
+// range are for steady level flight (n = 1, thrust = drag); CL is at the
+// State's load factor.
+type Point struct {
+	Temperature, TAS, CAS float64 // K, m/s, m/s
+
+	CL   float64 // lift coefficient at State.LoadFactor
+	CD   float64 // drag coefficient at n = 1
+	Drag float64 // N, n = 1
+
+	FuelFlow      float64 // kg/s, all engines, thrust = drag
+	SpecificRange float64 // m of air distance per kg of fuel
+
+	BuffetCL     float64 // buffet-onset CL at this Mach
+	BuffetMargin float64 // g to buffet onset: BuffetCL / CL(n=1)
+
+	MaxClimbThrust, MaxCruiseThrust float64 // N, all engines
+
+	// ResidualClimb is the rate of climb (m/s of pressure altitude) at max
+	// climb thrust, holding Mach: (T-D) V/(m g) × T_ISA/T. The energy
+	// assumption is that all excess power goes into potential energy (no
+	// acceleration term), exact at constant TAS (constant Mach in the
+	// isothermal layer) and slightly conservative below the tropopause,
+	// where a constant-Mach climb slows down. The factor T_ISA/T converts
+	// geometric to pressure-altitude rate (hydrostatic equation), so a hot
+	// day lowers it.
+	ResidualClimb float64
+
+	ThrustLimited bool // drag exceeds max cruise thrust
+}
+
+// liftCoeff returns CL = 2 n m g / (γ p M² S).
+func (a *Aircraft) liftCoeff(mass, p, mach, n float64) float64 {
+	return 2 * n * mass * G0 / (Gamma * p * mach * mach * a.WingArea)
+}
+
+// dragCoeff returns CD = CD0 + K CL² + ΔCD_wave, the wave drag from the
+// Korn equation with Lock's fourth-power law (Malone and Mason, "Multi-
+// disciplinary optimization in aircraft design using analytic technology
+// models", J. Aircraft 32(2), 1995):
+//
+//	Mdd = κ/cosΛ - (t/c)/cos²Λ - CL/(10 cos³Λ)
+//	Mcrit = Mdd - (0.1/80)^(1/3),  ΔCD = 20 (M - Mcrit)^4 for M > Mcrit.
+func (a *Aircraft) dragCoeff(cl, mach, cosL float64) float64 {
+	cd := a.CD0 + a.K*cl*cl
+	mdd := a.KornKappa/cosL - a.ThicknessRatio/(cosL*cosL) - cl/(10*cosL*cosL*cosL)
+	if d := mach - (mdd - lockOffset); d > 0 {
+		d2 := d * d
+		cd += 20 * d2 * d2
+	}
+	return cd
+}
+
+// lockOffset is (0.1/80)^(1/3).
+var lockOffset = math.Cbrt(0.1 / 80)
+
+// drag returns the level-flight (n = 1) drag (N), CL and CD.
+func (a *Aircraft) drag(mass, p, mach, cosL float64) (d, cl, cd float64) {
+	qs := 0.5 * Gamma * p * mach * mach * a.WingArea
+	cl = mass * G0 / qs
+	cd = a.dragCoeff(cl, mach, cosL)
+	return cd * qs, cl, cd
+}
+
+// thrustLapse returns Mattingly's α for the engine, see Engines.
+func (e *Engines) thrustLapse(p, t, mach float64) float64 {
+	x := 1 + 0.2*mach*mach
+	d0 := p / P0 * x * x * x * math.Sqrt(x)
+	th0 := t / T0 * x
+	f := 1 - e.LapseMach*math.Sqrt(mach)
+	if th0 > e.ThrottleRatio {
+		f -= e.LapseTheta * (th0 - e.ThrottleRatio) / (1.5 + mach)
+	}
+	if f < 0 {
+		return 0
+	}
+	return d0 * f
+}
+
+// climbThrust returns the max climb thrust of all engines (N).
+func (a *Aircraft) climbThrust(p, t, mach float64) float64 {
+	e := &a.Engines
+	return float64(e.Count) * e.StaticThrust * e.ClimbRating * e.thrustLapse(p, t, mach)
+}
+
+// tsfc returns thrust-specific fuel consumption (kg/(N s)).
+func (a *Aircraft) tsfc(t, mach float64) float64 {
+	return (a.Engines.TSFCA + a.Engines.TSFCB*mach) * math.Sqrt(t/T0)
+}
+
+// idle returns idle thrust (N) and idle fuel flow (kg/s), all engines; the
+// fuel flow is the sea-level static value scaled by δ0 √θ0 (corrected fuel
+// flow held constant).
+func (a *Aircraft) idle(p, t, mach float64) (thrust, ff float64) {
+	e := &a.Engines
+	x := 1 + 0.2*mach*mach
+	d0 := p / P0 * x * x * x * math.Sqrt(x)
+	th0 := t / T0 * x
+	return e.IdleFraction * a.climbThrust(p, t, mach), float64(e.Count) * e.IdleFuelFlow * d0 * math.Sqrt(th0)
+}
+
+// buffetCL returns the buffet-onset CL at mach: linear in the table,
+// flat beyond its ends.
+func (a *Aircraft) buffetCL(mach float64) float64 {
+	b := a.Buffet
+	if len(b) == 0 {
+		return math.NaN()
+	}
+	if mach <= b[0].Mach {
+		return b[0].CL
+	}
+	for i := 1; i < len(b); i++ {
+		if mach <= b[i].Mach {
+			u := (mach - b[i-1].Mach) / (b[i].Mach - b[i-1].Mach)
+			return b[i-1].CL + u*(b[i].CL-b[i-1].CL)
+		}
+	}
+	return b[len(b)-1].CL
+}
+
+// Point returns the performance at s. It does not allocate; the cost is a
+// few hundred floating-point operations. Out-of-range inputs (non-positive
+// pressure or Mach, Mach >= 1) give NaN fields.
+func (a *Aircraft) Point(s State) Point {
+	n := s.LoadFactor
+	if n == 0 {
+		n = 1
+	}
+	var pt Point
+	tisa := isaTemperatureAtPressure(s.Pressure)
+	t := tisa + s.ISADev
+	pt.Temperature = t
+	pt.TAS = s.Mach * SpeedOfSound(t)
+	pt.CAS = MachToCAS(s.Mach, s.Pressure)
+	cosL := math.Cos(a.Sweep)
+	d, cl1, cd := a.drag(s.Mass, s.Pressure, s.Mach, cosL)
+	pt.CL = cl1 * n
+	pt.CD = cd
+	pt.Drag = d
+	pt.FuelFlow = a.tsfc(t, s.Mach) * d
+	pt.SpecificRange = pt.TAS / pt.FuelFlow
+	pt.BuffetCL = a.buffetCL(s.Mach)
+	pt.BuffetMargin = pt.BuffetCL / cl1
+	pt.MaxClimbThrust = a.climbThrust(s.Pressure, t, s.Mach)
+	pt.MaxCruiseThrust = pt.MaxClimbThrust * a.Engines.CruiseRatio
+	pt.ResidualClimb = (pt.MaxClimbThrust - d) * pt.TAS / (s.Mass * G0) * tisa / t
+	pt.ThrustLimited = d > pt.MaxCruiseThrust
+	return pt
+}

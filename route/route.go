@@ -1,0 +1,248 @@
+package route
+
+import (
+	"bytes"
+	"errors"
+	"fmt"
+	"io"
+	"io/fs"
+	"math"
+	"os"
+	"path/filepath"
+	"strconv"
+	"strings"
+)
+
+// Point is a waypoint: geodetic WGS-84 latitude and longitude in degrees,
+// the longitude reduced to [-180, 180).
+type Point struct {
+	Name     string
+	Lat, Lon float64
+}
+
+// Route is a validated lateral route of at least two waypoints.
+type Route struct {
+	Source   string   // file name, or "inline"
+	Points   []Point  // in flight order, no consecutive duplicates
+	Warnings []string // non-fatal findings (e.g. dropped duplicates)
+}
+
+// FormatError reports invalid route input. Line, Point and Column are zero
+// or empty when not known; Point is 1-based in flight order as written in
+// the input.
+type FormatError struct {
+	Source string // file name or "inline"
+	Line   int    // 1-based input line
+	Column string // CSV column or GeoJSON member
+	Point  int    // 1-based point number
+	Name   string // point name, if any
+	Msg    string
+}
+
+func (e *FormatError) Error() string {
+	var b strings.Builder
+	b.WriteString("route: ")
+	b.WriteString(e.Source)
+	if e.Line > 0 {
+		fmt.Fprintf(&b, ": line %d", e.Line)
+	}
+	if e.Column != "" {
+		fmt.Fprintf(&b, ": column %s", e.Column)
+	}
+	if e.Point > 0 {
+		fmt.Fprintf(&b, ": point %d", e.Point)
+		if e.Name != "" {
+			fmt.Fprintf(&b, " (%s)", e.Name)
+		}
+	}
+	b.WriteString(": ")
+	b.WriteString(e.Msg)
+	return b.String()
+}
+
+// UnsupportedError reports input that is valid but that this package does
+// not handle (e.g. a GeoJSON Polygon, or a file larger than MaxFileSize).
+type UnsupportedError struct {
+	Source string
+	Msg    string
+}
+
+func (e *UnsupportedError) Error() string { return "route: " + e.Source + ": unsupported: " + e.Msg }
+
+// Limits applied to every input.
+const (
+	MaxFileSize = 32 << 20 // bytes read from a route file
+	MaxPoints   = 100000   // waypoints in one route
+	MaxLeg      = 10_000e3 // m; longer legs must be split by the user
+	// MaxLegAngle is the largest great-circle angle (degrees) of a leg;
+	// beyond it the shortest path is nearly antipodal and ill-determined.
+	MaxLegAngle = 170.0
+	dupTol      = 1.0 // m; consecutive points closer than this are duplicates
+)
+
+// Load reads a route. If arg names an existing file it is parsed by its
+// extension: .geojson or .json as GeoJSON, .csv as CSV, anything else by
+// content (a leading '{' means GeoJSON). Otherwise, if arg looks like an
+// inline route ("lat,lon lat,lon ..."), it is parsed with ParseInline; if
+// not, the error names the missing file.
+func Load(arg string) (*Route, error) {
+	fi, err := os.Stat(arg)
+	if err != nil {
+		if errors.Is(err, fs.ErrNotExist) && looksInline(arg) {
+			return ParseInline(arg)
+		}
+		return nil, fmt.Errorf("route: %w", err)
+	}
+	if fi.IsDir() {
+		return nil, &FormatError{Source: arg, Msg: "is a directory, not a route file"}
+	}
+	if fi.Size() > MaxFileSize {
+		return nil, &UnsupportedError{Source: arg, Msg: fmt.Sprintf("file is %d bytes, more than %d", fi.Size(), MaxFileSize)}
+	}
+	f, err := os.Open(arg)
+	if err != nil {
+		return nil, fmt.Errorf("route: %w", err)
+	}
+	defer f.Close()
+	data, err := io.ReadAll(io.LimitReader(f, MaxFileSize+1))
+	if err != nil {
+		return nil, fmt.Errorf("route: %s: %w", arg, err)
+	}
+	if len(data) > MaxFileSize {
+		return nil, &UnsupportedError{Source: arg, Msg: fmt.Sprintf("file is more than %d bytes", MaxFileSize)}
+	}
+	switch strings.ToLower(filepath.Ext(arg)) {
+	case ".geojson", ".json":
+		return ParseGeoJSON(data, arg)
+	case ".csv":
+		return ParseCSV(bytes.NewReader(data), arg)
+	}
+	if t := bytes.TrimSpace(data); len(t) > 0 && t[0] == '{' {
+		return ParseGeoJSON(data, arg)
+	}
+	return ParseCSV(bytes.NewReader(data), arg)
+}
+
+// looksInline reports whether s reads as an inline route rather than a
+// file name: it holds a comma, no path separator, and does not end in a
+// route-file extension.
+func looksInline(s string) bool {
+	if !strings.Contains(s, ",") || strings.ContainsAny(s, `/\`) {
+		return false
+	}
+	switch strings.ToLower(filepath.Ext(s)) {
+	case ".csv", ".json", ".geojson":
+		return false
+	}
+	return true
+}
+
+// ParseInline parses a route written as waypoints separated by spaces or
+// semicolons, each "lat,lon" in decimal degrees with an optional name
+// prefix "NAME=lat,lon", e.g. "40.6,-73.8 EGLL=51.47,-0.45". Unnamed
+// points are called P1, P2, ... by position.
+func ParseInline(s string) (*Route, error) {
+	const src = "inline"
+	fields := strings.FieldsFunc(s, func(r rune) bool { return r == ' ' || r == ';' || r == '\t' || r == '\n' })
+	if len(fields) > MaxPoints {
+		return nil, &UnsupportedError{Source: src, Msg: fmt.Sprintf("%d points, more than %d", len(fields), MaxPoints)}
+	}
+	pts := make([]Point, 0, len(fields))
+	for i, f := range fields {
+		name := ""
+		if k := strings.IndexByte(f, '='); k >= 0 {
+			name, f = f[:k], f[k+1:]
+		}
+		if name == "" {
+			name = "P" + strconv.Itoa(i+1)
+		}
+		la, lo, ok := strings.Cut(f, ",")
+		if !ok || strings.Contains(lo, ",") {
+			return nil, &FormatError{Source: src, Point: i + 1, Name: name, Msg: fmt.Sprintf("%q is not lat,lon", f)}
+		}
+		lat, err := parseDeg(la)
+		if err != nil {
+			return nil, &FormatError{Source: src, Point: i + 1, Name: name, Column: "lat", Msg: err.Error()}
+		}
+		lon, err := parseDeg(lo)
+		if err != nil {
+			return nil, &FormatError{Source: src, Point: i + 1, Name: name, Column: "lon", Msg: err.Error()}
+		}
+		pts = append(pts, Point{Name: name, Lat: lat, Lon: lon})
+	}
+	return newRoute(src, pts, nil)
+}
+
+func parseDeg(s string) (float64, error) {
+	s = strings.TrimSpace(s)
+	v, err := strconv.ParseFloat(s, 64)
+	if err != nil {
+		return 0, fmt.Errorf("%q is not a number of degrees", s)
+	}
+	return v, nil
+}
+
+// newRoute validates pts (lines[i], if given, is the input line of pts[i])
+// and builds the Route. Cost O(n).
+func newRoute(src string, pts []Point, lines []int) (*Route, error) {
+	line := func(i int) int {
+		if lines == nil {
+			return 0
+		}
+		return lines[i]
+	}
+	ferr := func(i int, col, msg string) error {
+		return &FormatError{Source: src, Line: line(i), Column: col, Point: i + 1, Name: pts[i].Name, Msg: msg}
+	}
+	for i := range pts {
+		p := &pts[i]
+		switch {
+		case math.IsNaN(p.Lat) || math.IsInf(p.Lat, 0):
+			return nil, ferr(i, "lat", fmt.Sprintf("latitude %v is not finite", p.Lat))
+		case math.IsNaN(p.Lon) || math.IsInf(p.Lon, 0):
+			return nil, ferr(i, "lon", fmt.Sprintf("longitude %v is not finite", p.Lon))
+		case p.Lat < -90 || p.Lat > 90:
+			return nil, ferr(i, "lat", fmt.Sprintf("latitude %v is outside [-90, 90]", p.Lat))
+		case p.Lon < -180 || p.Lon > 180:
+			return nil, ferr(i, "lon", fmt.Sprintf("longitude %v is outside [-180, 180]", p.Lon))
+		}
+		p.Lon = NormalizeLon(p.Lon)
+	}
+	r := &Route{Source: src}
+	out := make([]Point, 0, len(pts))
+	idx := make([]int, 0, len(pts)) // input index of each kept point
+	for i, p := range pts {
+		if n := len(out); n > 0 {
+			prev := out[n-1]
+			if d, _, _ := Inverse(prev.Lat, prev.Lon, p.Lat, p.Lon); d < dupTol {
+				r.Warnings = append(r.Warnings, fmt.Sprintf("%s: point %d (%s) repeats point %d (%s); dropped",
+					src, i+1, p.Name, idx[n-1]+1, prev.Name))
+				continue
+			}
+		}
+		out = append(out, p)
+		idx = append(idx, i)
+	}
+	if len(out) < 2 {
+		return nil, &FormatError{Source: src, Msg: fmt.Sprintf("a route needs at least two distinct points, got %d", len(out))}
+	}
+	for k := 1; k < len(out); k++ {
+		a, b := out[k-1], out[k]
+		i, j := idx[k-1], idx[k]
+		if ang := centralAngle(a, b); ang > MaxLegAngle {
+			return nil, ferr(j, "", fmt.Sprintf("leg from point %d (%s) is nearly antipodal (%.1f degrees of arc); the shortest path is ill-determined: add an intermediate waypoint", i+1, a.Name, ang))
+		}
+		if d, _, _ := Inverse(a.Lat, a.Lon, b.Lat, b.Lon); d > MaxLeg {
+			return nil, ferr(j, "", fmt.Sprintf("leg from point %d (%s) is %.0f km, longer than %.0f km: add an intermediate waypoint", i+1, a.Name, d/1e3, MaxLeg/1e3))
+		}
+	}
+	r.Points = out
+	return r, nil
+}
+
+// centralAngle is the great-circle angle in degrees between a and b on the
+// unit sphere (geodetic coordinates used as spherical; ample for the
+// antipodal screen).
+func centralAngle(a, b Point) float64 {
+	return ll(a).Distance(ll(b)).Degrees()
+}

@@ -1,0 +1,205 @@
+package route
+
+import (
+	"fmt"
+	"math"
+	"sort"
+	"time"
+
+	"github.com/golang/geo/s2"
+)
+
+// DefaultMaxSegment is the default longest segment: 50 NM in metres.
+const DefaultMaxSegment = 50 * 1852.0
+
+// maxSegments bounds the number of segments Build allocates.
+const maxSegments = 1 << 20
+
+// MeanRadius is the IUGG mean Earth radius R1 = (2a+b)/3 for WGS-84, m
+// (Moritz, "Geodetic Reference System 1980", Bull. Géod. 54, 1980), used
+// by the spherical helpers.
+const MeanRadius = 6371008.8
+
+// Leg is the geodesic between two consecutive waypoints.
+type Leg struct {
+	Index         int
+	From, To      Point
+	Length        float64 // m, ellipsoidal
+	InitialCourse float64 // degrees true at From, [0, 360)
+	FinalCourse   float64 // degrees true at To, [0, 360)
+	StartDist     float64 // m from departure to From
+}
+
+// Segment is a piece of a leg over which the planner treats course, wind
+// and level choice as constant.
+type Segment struct {
+	Index, Leg               int
+	FromDist, ToDist, Length float64 // m from departure; Length = ToDist - FromDist
+	Start, End, Mid          Point   // Mid is the geodesic midpoint
+	TrueCourse               float64 // degrees true at Mid, [0, 360)
+	MagVar, MagCourse        float64 // degrees, east positive; MagCourse = TrueCourse - MagVar in [0, 360)
+	Samples                  []Point // weather sample points: Start, Mid, End
+	Levels                   []int   // allowed flight levels, ascending; shared between segments, do not modify
+}
+
+// Track is a route cut into legs and segments.
+type Track struct {
+	Route    *Route
+	Legs     []Leg
+	Segments []Segment
+	Total    float64 // m, sum of leg lengths
+}
+
+// Options control Build.
+type Options struct {
+	MaxSegment  float64   // m; 0 means DefaultMaxSegment
+	Date        time.Time // date for magnetic variation; zero means now
+	Levels      LevelRule // zero value means the default rule (see ParseLevelRule)
+	MagAltitude float64   // m above the ellipsoid at which variation is taken; 0 = surface, as charted
+}
+
+// Build cuts every leg of r into the fewest equal segments no longer than
+// opt.MaxSegment, so waypoints stay segment boundaries. Leg lengths and
+// courses are ellipsoidal (Inverse); segment points are found with a
+// geodesic line from the leg start along its initial azimuth (the direct
+// problem), so they lie on the true geodesic. Each segment gets the true
+// course at its midpoint, the WMM2025 magnetic variation there (computed
+// once per segment) and the flight levels opt.Levels allows.
+// Cost O(number of segments).
+func Build(r *Route, opt Options) (*Track, error) {
+	if r == nil || len(r.Points) < 2 {
+		return nil, fmt.Errorf("route: Build needs a route of at least two points")
+	}
+	maxSeg := opt.MaxSegment
+	if maxSeg == 0 {
+		maxSeg = DefaultMaxSegment
+	}
+	if !(maxSeg > 0) || math.IsInf(maxSeg, 0) {
+		return nil, fmt.Errorf("route: maximum segment length %v m is not a positive finite number", opt.MaxSegment)
+	}
+	date := opt.Date
+	if date.IsZero() {
+		date = time.Now()
+	}
+	wmm, err := wmmAt(date)
+	if err != nil {
+		return nil, err
+	}
+	rule := opt.Levels
+	if err := rule.check(); err != nil {
+		return nil, err
+	}
+	var levelCache [3][]int
+
+	t := &Track{Route: r, Legs: make([]Leg, len(r.Points)-1)}
+	nseg := 0
+	counts := make([]int, len(t.Legs))
+	for i := range t.Legs {
+		a, b := r.Points[i], r.Points[i+1]
+		s12, azi1, azi2 := Inverse(a.Lat, a.Lon, b.Lat, b.Lon)
+		t.Legs[i] = Leg{Index: i, From: a, To: b, Length: s12, InitialCourse: course360(azi1), FinalCourse: course360(azi2), StartDist: t.Total}
+		t.Total += s12
+		counts[i] = max(1, int(math.Ceil(s12/maxSeg*(1-1e-12))))
+		nseg += counts[i]
+		if nseg > maxSegments {
+			return nil, &UnsupportedError{Source: r.Source, Msg: fmt.Sprintf("more than %d segments of %.0f m", maxSegments, maxSeg)}
+		}
+	}
+	t.Segments = make([]Segment, 0, nseg)
+	samples := make([]Point, 3*nseg)
+	var line geoLine
+	for i, leg := range t.Legs {
+		n := counts[i]
+		line.init(leg.From.Lat, leg.From.Lon, leg.InitialCourse)
+		step := leg.Length / float64(n)
+		start := leg.From
+		for k := 0; k < n; k++ {
+			s0, s1 := float64(k)*step, float64(k+1)*step
+			end := leg.To
+			if k < n-1 {
+				la, lo, _ := line.position(s1)
+				end = Point{Lat: la, Lon: lo}
+			}
+			mla, mlo, mazi := line.position((s0 + s1) / 2)
+			mid := Point{Lat: mla, Lon: mlo}
+			tc := course360(mazi)
+			mv := wmm.declination(mla, mlo, opt.MagAltitude)
+			mc := course360(tc - mv)
+			cls := rule.class(tc, mc)
+			if levelCache[cls+1] == nil {
+				levelCache[cls+1] = rule.Allowed(tc, mc)
+			}
+			j := len(t.Segments)
+			smp := samples[3*j : 3*j+3 : 3*j+3]
+			smp[0], smp[1], smp[2] = start, mid, end
+			t.Segments = append(t.Segments, Segment{
+				Index: j, Leg: i,
+				FromDist: leg.StartDist + s0, ToDist: leg.StartDist + s1, Length: step,
+				Start: start, End: end, Mid: mid,
+				TrueCourse: tc, MagVar: mv, MagCourse: mc,
+				Samples: smp, Levels: levelCache[cls+1],
+			})
+			start = end
+		}
+		// Pin the leg end exactly to the leg's cumulative length.
+		t.Segments[len(t.Segments)-1].ToDist = leg.StartDist + leg.Length
+	}
+	return t, nil
+}
+
+// course360 reduces an azimuth in degrees to [0, 360).
+func course360(x float64) float64 {
+	y := math.Mod(x, 360)
+	if y < 0 {
+		y += 360
+	}
+	if y >= 360 {
+		y = 0
+	}
+	return y + 0
+}
+
+// PointAt returns the point at distance s metres from departure along the
+// track (clamped to [0, Total]) and the true course there in [0, 360).
+// It finds the leg by binary search and solves the direct problem from the
+// leg start: O(log legs).
+func (t *Track) PointAt(s float64) (Point, float64) {
+	s = math.Max(0, math.Min(s, t.Total))
+	i := sort.Search(len(t.Legs), func(i int) bool { return t.Legs[i].StartDist+t.Legs[i].Length >= s })
+	if i == len(t.Legs) {
+		i = len(t.Legs) - 1
+	}
+	leg := t.Legs[i]
+	la, lo, azi := Direct(leg.From.Lat, leg.From.Lon, leg.InitialCourse, s-leg.StartDist)
+	return Point{Lat: la, Lon: lo}, course360(azi)
+}
+
+func ll(p Point) s2.LatLng { return s2.LatLngFromDegrees(p.Lat, p.Lon) }
+
+// CrossTrack returns the distance in metres from p to the nearest leg of
+// the track, positive when p lies right of the direction of flight and
+// negative when left. It treats the Earth as a sphere of radius MeanRadius
+// and legs as great-circle arcs (github.com/golang/geo/s2), so it is a
+// spherical approximation (relative error up to about 0.5 % against the
+// ellipsoid) meant for checks and display, not for lengths.
+// Cost O(legs).
+func CrossTrack(track *Track, p Point) float64 {
+	x := s2.PointFromLatLng(ll(p))
+	best := math.Inf(1)
+	sign := 1.0
+	for _, leg := range track.Legs {
+		a := s2.PointFromLatLng(ll(leg.From))
+		b := s2.PointFromLatLng(ll(leg.To))
+		d := s2.DistanceFromSegment(x, a, b).Radians()
+		if d < best {
+			best = d
+			// a x b points to the left of travel from a to b.
+			if x.Dot(a.Cross(b.Vector)) > 0 {
+				sign = -1
+			} else {
+				sign = 1
+			}
+		}
+	}
+	return sign * best * MeanRadius
+}

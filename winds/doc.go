@@ -1,0 +1,34 @@
+// Package winds reads gridded forecasts of wind, temperature and turbulence
+// from GRIB edition 2 and edition 1 files and samples them in four
+// dimensions (valid time, pressure, latitude, longitude).
+//
+// The decoders follow the WMO Manual on Codes, Volume I.2, FM 92 GRIB
+// (edition 2) and FM 92 GRIB edition 1, with the octet layouts cross-checked
+// against the ecCodes definition files (grib2/template.*.def). Supported:
+//
+//   - GRIB2 sections 0-8, any number of messages per file and of fields per
+//     message (repeated sections 2-7, 3-7 or 4-7);
+//   - grid definition template 3.0 (regular latitude/longitude) in every
+//     scanning mode of code table 3.4 (i negative, j positive, j
+//     consecutive, boustrophedon rows);
+//   - product definition templates 4.0 and 4.1 (ensemble member);
+//   - data representation templates 5.0 (simple), 5.2 (complex), 5.3
+//     (complex with spatial differencing of order 1 and 2), 5.4 (IEEE 32 and
+//     64 bit) and 5.41 (PNG); section 6 bitmaps (indicator 0, 254, 255);
+//   - GRIB1 regular latitude/longitude grids with simple packing and bitmap.
+//
+// Anything else is reported as an *UnsupportedError that names the template
+// and the ecCodes command that repacks the file; invalid input is reported as
+// a *FormatError naming the file, message and byte offset. Sizes declared in
+// the file are checked against the bytes present before anything is
+// allocated.
+//
+// Kept parameters are u and v wind (GRIB2 0.2.2 and 0.2.3; GRIB1 table 2
+// parameters 33/34 and ECMWF table 128 parameters 131/132), temperature
+// (0.0.0; GRIB1 11 and 130) and eddy dissipation rate (0.19.28-31) on
+// isobaric surfaces (GRIB2 fixed surface type 100, GRIB1 level type 100).
+// Everything else is listed by Scan with Param "other" and not decoded.
+//
+// Units inside the package are SI: Pa, K, m/s, EDR in m^(2/3)/s; angles in
+// degrees.
+package winds

@@ -1,0 +1,54 @@
+package winds
+
+import (
+	"fmt"
+	"math"
+	"time"
+)
+
+// RepackHint is the ecCodes command that rewrites a GRIB2 file with simple
+// packing, which this package always reads.
+const RepackHint = "grib_set -r -s packingType=grid_simple in.grib2 out.grib2"
+
+// A FormatError reports that the input is not valid GRIB: it is truncated,
+// has the wrong magic, or its lengths and counts disagree.
+type FormatError struct {
+	Source  string // file name or other label given by the caller
+	Message int    // 1-based message index in the file; 0 before the first
+	Offset  int64  // byte offset from the start of the file
+	What    string
+}
+
+func (e *FormatError) Error() string {
+	return fmt.Sprintf("winds: %s: message %d at byte %d: invalid GRIB: %s", e.Source, e.Message, e.Offset, e.What)
+}
+
+// An UnsupportedError reports valid GRIB that uses a feature this package
+// does not decode, such as a grid, product or data representation template.
+type UnsupportedError struct {
+	Source   string
+	Message  int
+	Offset   int64
+	Template string // e.g. "data representation template 5.40 (JPEG 2000)"
+}
+
+func (e *UnsupportedError) Error() string {
+	return fmt.Sprintf("winds: %s: message %d at byte %d: unsupported %s; repack with: %s",
+		e.Source, e.Message, e.Offset, e.Template, RepackHint)
+}
+
+// A RangeError reports a sample point outside the field's area, pressure
+// levels or valid times. The field never extrapolates.
+type RangeError struct {
+	Lat, Lon, P float64 // degrees, degrees, Pa
+	T           time.Time
+	What        string // which coordinate is out of range and the range held
+}
+
+func (e *RangeError) Error() string {
+	return fmt.Sprintf("winds: point (lat %.4f, lon %.4f, %.1f Pa, %s) outside the field: %s",
+		e.Lat, e.Lon, e.P, e.T.UTC().Format(time.RFC3339), e.What)
+}
+
+// nan32 is the float32 NaN used for missing grid points.
+var nan32 = float32(math.NaN())

@@ -1,0 +1,533 @@
+package winds
+
+import (
+	"fmt"
+	"math"
+	"time"
+)
+
+// grib2Decoder decodes one GRIB2 message (FM 92 GRIB edition 2). Each parse
+// step is named after the section it reads; offsets in comments are the
+// 1-based octet numbers of the WMO templates.
+type grib2Decoder struct {
+	src    string
+	index  int
+	base   int64 // offset of the message in the file
+	msg    []byte
+	pos    int // offset of the current section in msg
+	values bool
+	fn     func(*Message) error
+
+	discipline int
+	ref        time.Time
+	cur        Message // header being built; copied out at section 7
+
+	haveGrid    bool
+	npoints     int  // section 3 number of data points
+	gridOK      bool // grid template supported
+	haveProduct bool
+	productOK   bool
+	haveRepr    bool
+	repr        dataRepr
+	bitmap      []byte // current bitmap (section 6), nil when none
+	prevBitmap  []byte
+	scratch     *decodeScratch
+}
+
+// dataRepr holds section 5.
+type dataRepr struct {
+	template  int
+	nvalues   int
+	ref       float64 // R
+	e, d      int     // binary and decimal scale factors
+	nbits     int
+	precision int // 5.4
+	// complex packing (5.2, 5.3)
+	splitting, missingMgmt           int
+	primaryMissing, secondaryMissing uint32
+	ngroups                          int
+	refWidth, bitsWidth              int
+	refLength, lengthInc, lastLength int
+	bitsLength                       int
+	order, extraOctets               int
+}
+
+func (d *grib2Decoder) formatErr(at int, format string, args ...any) error {
+	return &FormatError{d.src, d.index, d.base + int64(at), fmt.Sprintf(format, args...)}
+}
+
+func (d *grib2Decoder) unsupported(at int, format string, args ...any) error {
+	return &UnsupportedError{d.src, d.index, d.base + int64(at), fmt.Sprintf(format, args...)}
+}
+
+// decode runs the section parsers in the order Regulation 92.1.2 allows:
+// 0, 1, then repeated {2?, 3, 4, 5, 6, 7} groups where a repetition may
+// restart at section 2, 3 or 4, then 8.
+func (d *grib2Decoder) decode() error {
+	if err := d.indicator(); err != nil {
+		return err
+	}
+	if err := d.identification(); err != nil {
+		return err
+	}
+	last := 1
+	for {
+		if d.pos+4 <= len(d.msg) && string(d.msg[d.pos:d.pos+4]) == "7777" {
+			return d.end(last)
+		}
+		if d.pos+5 > len(d.msg) {
+			return d.formatErr(d.pos, "truncated before section header (after section %d)", last)
+		}
+		length := int(u32(d.msg[d.pos:]))
+		num := int(d.msg[d.pos+4])
+		if length < 5 || d.pos+length > len(d.msg)-4 {
+			return d.formatErr(d.pos, "section %d length %d disagrees with message length %d", num, length, len(d.msg))
+		}
+		if !nextOK(last, num) {
+			return d.formatErr(d.pos, "section %d may not follow section %d", num, last)
+		}
+		sec := d.msg[d.pos : d.pos+length]
+		var err error
+		switch num {
+		case 2:
+			err = d.localUse(sec)
+		case 3:
+			err = d.gridDefinition(sec)
+		case 4:
+			err = d.productDefinition(sec)
+		case 5:
+			err = d.dataRepresentation(sec)
+		case 6:
+			err = d.bitmapSection(sec)
+		case 7:
+			err = d.data(sec)
+		}
+		if err != nil {
+			return err
+		}
+		d.pos += length
+		last = num
+	}
+}
+
+func nextOK(last, num int) bool {
+	switch last {
+	case 1:
+		return num == 2 || num == 3
+	case 2:
+		return num == 3
+	case 3, 4, 5, 6:
+		return num == last+1
+	case 7:
+		return num == 2 || num == 3 || num == 4
+	}
+	return false
+}
+
+// indicator reads section 0: "GRIB", reserved, discipline (octet 7),
+// edition (8), total length (9-16).
+func (d *grib2Decoder) indicator() error {
+	m := d.msg
+	if len(m) < 16+21+4 {
+		return d.formatErr(0, "message of %d bytes is too short for GRIB2", len(m))
+	}
+	if string(m[:4]) != "GRIB" {
+		return d.formatErr(0, "wrong magic %q", m[:4])
+	}
+	if m[7] != 2 {
+		return d.formatErr(7, "edition %d in a GRIB2 decoder", m[7])
+	}
+	if u64(m[8:16]) != uint64(len(m)) {
+		return d.formatErr(8, "total length %d disagrees with %d bytes read", u64(m[8:16]), len(m))
+	}
+	if string(m[len(m)-4:]) != "7777" {
+		return d.formatErr(len(m)-4, "missing end section \"7777\"")
+	}
+	d.discipline = int(m[6])
+	d.pos = 16
+	return nil
+}
+
+// identification reads section 1; octets 13-19 give the reference time.
+func (d *grib2Decoder) identification() error {
+	p := d.pos
+	if p+5 > len(d.msg) || d.msg[p+4] != 1 {
+		return d.formatErr(p, "section 1 missing")
+	}
+	length := int(u32(d.msg[p:]))
+	if length < 21 || p+length > len(d.msg)-4 {
+		return d.formatErr(p, "section 1 length %d disagrees with message length %d", length, len(d.msg))
+	}
+	s := d.msg[p:]
+	year, month, day := u16(s[12:]), int(s[14]), int(s[15])
+	hour, minute, second := int(s[16]), int(s[17]), int(s[18])
+	if month < 1 || month > 12 || day < 1 || day > 31 || hour > 23 || minute > 59 || second > 59 {
+		return d.formatErr(p+12, "invalid reference time %04d-%02d-%02d %02d:%02d:%02d", year, month, day, hour, minute, second)
+	}
+	d.ref = time.Date(year, time.Month(month), day, hour, minute, second, 0, time.UTC)
+	d.pos += length
+	return nil
+}
+
+// localUse skips section 2 (local use; its content is centre-specific).
+func (d *grib2Decoder) localUse(sec []byte) error { return nil }
+
+// gridDefinition reads section 3 and template 3.0 (regular lat/lon):
+// octets 7-10 number of points, 11 octets for optional list, 13-14
+// template; 3.0: 31-34 Ni, 35-38 Nj, 39-42 basic angle, 43-46 subdivisions,
+// 47-50 La1, 51-54 Lo1, 56-59 La2, 60-63 Lo2, 64-67 Di, 68-71 Dj,
+// 72 scanning mode.
+func (d *grib2Decoder) gridDefinition(s []byte) error {
+	if len(s) < 14 {
+		return d.formatErr(d.pos, "section 3 length %d too short", len(s))
+	}
+	d.haveGrid = true
+	d.haveProduct = false
+	d.npoints = int(u32(s[6:]))
+	tmpl := u16(s[12:])
+	c := &d.cur
+	c.Grid = tmpl
+	c.Ni, c.Nj = 0, 0
+	c.Lat1, c.Lon1, c.Lat2, c.Lon2, c.Di, c.Dj = 0, 0, 0, 0, 0, 0
+	c.ScanMode = 0
+	d.gridOK = false
+	if tmpl != 0 || s[10] != 0 {
+		return nil // listed; an error only if a kept field uses it
+	}
+	if len(s) < 72 {
+		return d.formatErr(d.pos, "grid template 3.0 needs 72 octets, section has %d", len(s))
+	}
+	ni, nj := u32(s[30:]), u32(s[34:])
+	if ni == 0 || nj == 0 || uint64(ni)*uint64(nj) != uint64(d.npoints) {
+		return d.formatErr(d.pos+30, "grid Ni %d x Nj %d disagrees with %d data points", ni, nj, d.npoints)
+	}
+	unit := 1e-6
+	if basic, sub := u32(s[38:]), u32(s[42:]); basic != 0 && basic != math.MaxUint32 {
+		if sub == 0 || sub == math.MaxUint32 {
+			sub = 1
+		}
+		unit = float64(basic) / float64(sub)
+	}
+	c.Ni, c.Nj = int(ni), int(nj)
+	c.Lat1, c.Lon1 = float64(s32(s[46:]))*unit, float64(s32(s[50:]))*unit
+	c.Lat2, c.Lon2 = float64(s32(s[55:]))*unit, float64(s32(s[59:]))*unit
+	c.ScanMode = int(s[71])
+	di, dj := u32(s[63:]), u32(s[67:])
+	if di != math.MaxUint32 {
+		c.Di = float64(di) * unit
+	} else if c.Ni > 1 {
+		c.Di = lonSpan(c.Lon1, c.Lon2, c.ScanMode&0x80 != 0) / float64(c.Ni-1)
+	}
+	if dj != math.MaxUint32 {
+		c.Dj = float64(dj) * unit
+	} else if c.Nj > 1 {
+		c.Dj = math.Abs(c.Lat2-c.Lat1) / float64(c.Nj-1)
+	}
+	d.gridOK = true
+	return nil
+}
+
+// lonSpan is the longitude distance from lon1 to lon2 in the scanning
+// direction, in [0, 360).
+func lonSpan(lon1, lon2 float64, negative bool) float64 {
+	s := lon2 - lon1
+	if negative {
+		s = -s
+	}
+	return math.Mod(math.Mod(s, 360)+360, 360)
+}
+
+// productDefinition reads section 4: octets 6-7 number of coordinate
+// values, 8-9 template; templates 4.0/4.1: 10 category, 11 number,
+// 18 unit of time range, 19-22 forecast time, 23 type of first fixed
+// surface, 24 scale factor, 25-28 scaled value; 4.1 adds 35 type of
+// ensemble forecast, 36 perturbation number, 37 number of members.
+func (d *grib2Decoder) productDefinition(s []byte) error {
+	if !d.haveGrid {
+		return d.formatErr(d.pos, "section 4 before any section 3")
+	}
+	if len(s) < 11 {
+		return d.formatErr(d.pos, "section 4 length %d too short", len(s))
+	}
+	d.haveProduct = true
+	d.productOK = false
+	c := &d.cur
+	c.Edition = 2
+	c.Source, c.Index = d.src, d.index
+	c.Discipline = d.discipline
+	c.Product = u16(s[7:])
+	c.Category, c.Number = int(s[9]), int(s[10])
+	c.Param = ParamOther
+	c.LevelType, c.Level = -1, math.NaN()
+	c.RefTime, c.ValidTime = d.ref, d.ref
+	c.Ensemble = -1
+	if c.Product != 0 && c.Product != 1 {
+		return nil // statistically processed and other products: listed, not kept
+	}
+	need := 34
+	if c.Product == 1 {
+		need = 37
+	}
+	if nv := u16(s[5:]); len(s) < need+4*nv {
+		return d.formatErr(d.pos, "product template 4.%d with %d coordinate values needs %d octets, section has %d", c.Product, nv, need+4*nv, len(s))
+	}
+	step, ok := timeUnit(int(s[17]))
+	if !ok {
+		return d.unsupported(d.pos+17, "product template 4.%d: unit of time range %d (code table 4.4)", c.Product, s[17])
+	}
+	c.ValidTime = d.ref.Add(time.Duration(s32(s[18:])) * step)
+	if s[22] != 255 {
+		c.LevelType = int(s[22])
+		if s[23] != 255 || u32(s[24:]) != math.MaxUint32 {
+			c.Level = float64(u32(s[24:])) / pow10(s8(s[23:]))
+		}
+	}
+	if c.Product == 1 {
+		c.Ensemble = int(s[35])
+	}
+	c.Param = classify2(c.Discipline, c.Category, c.Number, c.LevelType, c.Level)
+	d.productOK = true
+	return nil
+}
+
+// timeUnit maps GRIB2 code table 4.4 to a duration.
+func timeUnit(code int) (time.Duration, bool) {
+	switch code {
+	case 0:
+		return time.Minute, true
+	case 1:
+		return time.Hour, true
+	case 2:
+		return 24 * time.Hour, true
+	case 10:
+		return 3 * time.Hour, true
+	case 11:
+		return 6 * time.Hour, true
+	case 12:
+		return 12 * time.Hour, true
+	case 13:
+		return time.Second, true
+	}
+	return 0, false
+}
+
+// classify2 maps GRIB2 discipline, category and number (code tables 4.1 and
+// 4.2) on an isobaric level to a kept parameter.
+func classify2(disc, cat, num, levelType int, level float64) Param {
+	if disc != 0 || levelType != LevelIsobaric || math.IsNaN(level) || level <= 0 {
+		return ParamOther
+	}
+	switch {
+	case cat == 2 && num == 2:
+		return ParamU
+	case cat == 2 && num == 3:
+		return ParamV
+	case cat == 0 && num == 0:
+		return ParamT
+	case cat == 19 && num >= 28 && num <= 31:
+		return ParamEDR
+	}
+	return ParamOther
+}
+
+// dataRepresentation reads section 5: octets 6-9 number of values, 10-11
+// template. 5.0/5.41: 12-15 reference value (IEEE 32), 16-17 binary scale
+// factor, 18-19 decimal scale factor, 20 bits per value; 5.2 adds 22-47
+// (group layout, see complexParams); 5.3 adds 48 order of spatial
+// differencing and 49 octets of extra descriptors; 5.4: 12 precision.
+func (d *grib2Decoder) dataRepresentation(s []byte) error {
+	if len(s) < 11 {
+		return d.formatErr(d.pos, "section 5 length %d too short", len(s))
+	}
+	r := dataRepr{template: u16(s[9:]), nvalues: int(u32(s[5:]))}
+	d.cur.Packing = r.template
+	d.haveRepr = true
+	need := map[int]int{0: 21, 2: 47, 3: 49, 4: 12, 41: 21}[r.template]
+	if need == 0 {
+		d.repr = r
+		return nil // unsupported: reported at section 7 if the field is kept
+	}
+	if len(s) < need {
+		return d.formatErr(d.pos, "data representation template 5.%d needs %d octets, section has %d", r.template, need, len(s))
+	}
+	if r.template == 4 {
+		r.precision = int(s[11])
+		d.repr = r
+		return nil
+	}
+	r.ref = float64(math.Float32frombits(u32(s[11:])))
+	r.e, r.d, r.nbits = s16(s[15:]), s16(s[17:]), int(s[19])
+	if r.template == 2 || r.template == 3 {
+		r.splitting, r.missingMgmt = int(s[21]), int(s[22])
+		r.primaryMissing, r.secondaryMissing = u32(s[23:]), u32(s[27:])
+		r.ngroups = int(u32(s[31:]))
+		r.refWidth, r.bitsWidth = int(s[35]), int(s[36])
+		r.refLength, r.lengthInc = int(u32(s[37:])), int(s[41])
+		r.lastLength, r.bitsLength = int(u32(s[42:])), int(s[46])
+	}
+	if r.template == 3 {
+		r.order, r.extraOctets = int(s[47]), int(s[48])
+	}
+	d.repr = r
+	return nil
+}
+
+// bitmapSection reads section 6: octet 6 bitmap indicator (0: bitmap
+// follows from octet 7, one bit per grid point, 1 = present; 254: the
+// previous bitmap of this message applies; 255: none).
+func (d *grib2Decoder) bitmapSection(s []byte) error {
+	if len(s) < 6 {
+		return d.formatErr(d.pos, "section 6 length %d too short", len(s))
+	}
+	switch ind := s[5]; ind {
+	case 255:
+		d.bitmap = nil
+	case 254:
+		if d.prevBitmap == nil {
+			return d.formatErr(d.pos+5, "bitmap indicator 254 (previous bitmap) without a previous bitmap")
+		}
+		if len(d.prevBitmap)*8 < d.npoints {
+			return d.formatErr(d.pos+5, "previous bitmap of %d bits is shorter than %d grid points", len(d.prevBitmap)*8, d.npoints)
+		}
+		d.bitmap = d.prevBitmap
+	case 0:
+		if (len(s)-6)*8 < d.npoints {
+			return d.formatErr(d.pos, "bitmap of %d bits is shorter than %d grid points", (len(s)-6)*8, d.npoints)
+		}
+		d.bitmap = s[6:]
+		d.prevBitmap = d.bitmap
+	default:
+		d.bitmap = nil
+		d.cur.Bitmap = true
+		if d.cur.Param != ParamOther && d.values {
+			return d.unsupported(d.pos+5, "predefined bitmap %d (section 6)", ind)
+		}
+		return nil
+	}
+	d.cur.Bitmap = d.bitmap != nil
+	return nil
+}
+
+// data reads section 7 and emits the field.
+func (d *grib2Decoder) data(s []byte) error {
+	if !d.haveProduct || !d.haveRepr {
+		return d.formatErr(d.pos, "section 7 without sections 4 and 5")
+	}
+	m := d.cur
+	if m.Param != ParamOther && !d.gridOK {
+		if d.cur.Grid != 0 {
+			return d.unsupported(d.pos, "grid definition template 3.%d (only 3.0 regular lat/lon)", d.cur.Grid)
+		}
+		return d.unsupported(d.pos, "grid definition with a list of numbers of points (quasi-regular grid)")
+	}
+	if m.Param != ParamOther && (m.Di <= 0 || m.Dj <= 0) && (m.Ni > 1 || m.Nj > 1) {
+		return d.formatErr(d.pos, "grid increments Di %g, Dj %g must be positive", m.Di, m.Dj)
+	}
+	if m.Param != ParamOther && m.ScanMode&0x0f != 0 {
+		return d.unsupported(d.pos, "scanning mode %#02x (offset or staggered rows, code table 3.4 bits 5-8)", m.ScanMode)
+	}
+	if d.values && m.Param != ParamOther {
+		if d.npoints > maxPoints {
+			return d.unsupported(d.pos, "grid of %d points (limit %d)", d.npoints, maxPoints)
+		}
+		present := d.npoints
+		if d.bitmap != nil {
+			present = countBits(d.bitmap, d.npoints)
+		}
+		if d.repr.nvalues != present {
+			return d.formatErr(d.pos, "section 5 declares %d values, grid and bitmap give %d", d.repr.nvalues, present)
+		}
+		vals, err := d.unpack(s[5:], d.pos+5)
+		if err != nil {
+			return err
+		}
+		m.Values = reorder(scatter(vals, d.bitmap, d.npoints), m.Ni, m.Nj, m.ScanMode)
+	}
+	return d.fn(&m)
+}
+
+// end checks section 8 ("7777") closes the message after a section 7.
+func (d *grib2Decoder) end(last int) error {
+	if last != 7 {
+		return d.formatErr(d.pos, "end section after section %d, want after section 7", last)
+	}
+	if d.pos+4 != len(d.msg) {
+		return d.formatErr(d.pos, "end section at %d but message length is %d", d.pos, len(d.msg))
+	}
+	return nil
+}
+
+// countBits counts the set bits among the first n bits of bm.
+func countBits(bm []byte, n int) int {
+	c := 0
+	full := n / 8
+	for _, b := range bm[:full] {
+		c += int(popcount8[b])
+	}
+	for i := full * 8; i < n; i++ {
+		if bm[i>>3]&(0x80>>(i&7)) != 0 {
+			c++
+		}
+	}
+	return c
+}
+
+var popcount8 = func() (t [256]uint8) {
+	for i := range t {
+		for b := i; b != 0; b &= b - 1 {
+			t[i]++
+		}
+	}
+	return
+}()
+
+// scatter expands the present values to n grid points using the bitmap,
+// filling NaN where the bitmap bit is 0. With no bitmap it returns vals.
+func scatter(vals []float32, bm []byte, n int) []float32 {
+	if bm == nil {
+		return vals
+	}
+	out := make([]float32, n)
+	k := 0
+	for i := range out {
+		if bm[i>>3]&(0x80>>(i&7)) != 0 {
+			out[i] = vals[k]
+			k++
+		} else {
+			out[i] = nan32
+		}
+	}
+	return out
+}
+
+// reorder permutes values from the file's scanning order (code table 3.4)
+// into canonical order: rows north to south, columns west to east.
+func reorder(v []float32, ni, nj, mode int) []float32 {
+	if mode&0xf0 == 0 {
+		return v
+	}
+	out := make([]float32, len(v))
+	iNeg, jPos, jCons, alt := mode&0x80 != 0, mode&0x40 != 0, mode&0x20 != 0, mode&0x10 != 0
+	for k, x := range v {
+		var i, j int
+		if jCons {
+			i, j = k/nj, k%nj
+			if alt && i%2 == 1 {
+				j = nj - 1 - j
+			}
+		} else {
+			j, i = k/ni, k%ni
+			if alt && j%2 == 1 {
+				i = ni - 1 - i
+			}
+		}
+		if iNeg {
+			i = ni - 1 - i
+		}
+		if jPos {
+			j = nj - 1 - j
+		}
+		out[j*ni+i] = x
+	}
+	return out
+}

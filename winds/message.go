@@ -1,0 +1,197 @@
+package winds
+
+import (
+	"bufio"
+	"bytes"
+	"fmt"
+	"io"
+	"math"
+	"time"
+)
+
+// Param names a kept meteorological parameter.
+type Param string
+
+// Kept parameters; every other field is ParamOther.
+const (
+	ParamU     Param = "u"     // eastward wind, m/s
+	ParamV     Param = "v"     // northward wind, m/s
+	ParamT     Param = "t"     // temperature, K
+	ParamEDR   Param = "edr"   // eddy dissipation rate, m^(2/3)/s
+	ParamOther Param = "other" // anything else (not decoded)
+)
+
+// LevelIsobaric is the fixed-surface type of an isobaric surface (GRIB2
+// code table 4.5 and GRIB1 table 3, both 100).
+const LevelIsobaric = 100
+
+// A Message is one field (one grid of one parameter at one level and time)
+// of a GRIB file. A GRIB2 message carrying several fields yields several
+// Messages with the same Index.
+//
+// The grid description fields (Lat1 ... ScanMode) are as stored in the file:
+// Lat1/Lon1 is the first grid point, Lat2/Lon2 the last, Di/Dj the
+// increments (positive, degrees) and ScanMode the flags of GRIB2 code table
+// 3.4 (GRIB1 uses the same top three bits). Values, however, are always in
+// canonical order: row-major, rows from the northernmost latitude
+// southwards, each row from the western edge eastwards, so that
+// Values[j*Ni+i] lies at latitude north-j*Dj and longitude west+i*Di where
+// (north, west) = m.Origin().
+type Message struct {
+	Source  string // name given to Scan or Decode
+	Index   int    // 1-based message number in the file
+	Edition int    // 1 or 2
+
+	// GRIB2: discipline, parameter category and number (code tables 0.0,
+	// 4.1, 4.2). GRIB1: Discipline is -1, Category is the parameter table
+	// version and Number the indicator of parameter.
+	Discipline, Category, Number int
+	// Param is the kept parameter, or ParamOther. Only fields on an
+	// isobaric surface are kept.
+	Param Param
+
+	LevelType int     // code table 4.5 (GRIB1 table 3); -1 when not given
+	Level     float64 // Pa for isobaric surfaces; NaN when not given
+
+	RefTime, ValidTime time.Time // UTC
+
+	Ni, Nj                         int
+	Lat1, Lon1, Lat2, Lon2, Di, Dj float64 // degrees
+	ScanMode                       int
+	Grid                           int // grid definition template (GRIB1: data representation type)
+	Product                        int // product definition template (GRIB1: -1)
+	Packing                        int // data representation template (GRIB1: 0 simple)
+	Ensemble                       int // perturbation number, -1 when not an ensemble product
+	Bitmap                         bool
+
+	Values []float32 // nil from Scan; canonical order (see above); NaN for missing points
+}
+
+// Origin returns the latitude of the northernmost row and the longitude of
+// the western edge of the grid (in the file's longitude convention), the
+// origin of the canonical order of Values.
+func (m *Message) Origin() (north, west float64) {
+	north = m.Lat1
+	if m.ScanMode&0x40 != 0 {
+		north = m.Lat1 + float64(m.Nj-1)*m.Dj
+	}
+	west = m.Lon1
+	if m.ScanMode&0x80 != 0 {
+		west = m.Lon1 - float64(m.Ni-1)*m.Di
+	}
+	return north, west
+}
+
+// Scan reads every message of a GRIB1 or GRIB2 stream and returns the
+// headers of all fields, kept or not, without decoding values. Structure
+// and lengths are validated as in Decode.
+func Scan(r io.Reader, source string) ([]Message, error) {
+	var out []Message
+	err := readMessages(r, source, false, func(m *Message) error {
+		out = append(out, *m)
+		return nil
+	})
+	return out, err
+}
+
+// Decode reads every message of a GRIB1 or GRIB2 stream and returns all
+// fields, with Values decoded for kept parameters (Param != ParamOther) and
+// nil for the others. Time is linear in the number of grid points.
+func Decode(r io.Reader, source string) ([]Message, error) {
+	var out []Message
+	err := readMessages(r, source, true, func(m *Message) error {
+		out = append(out, *m)
+		return nil
+	})
+	return out, err
+}
+
+// maxPoints bounds the grid size this package allocates for (2^27 points,
+// 512 MiB of float32; a 0.1-degree global grid has 6.5 million).
+const maxPoints = 1 << 27
+
+// readMessages streams messages from r, reading each whole message into a
+// reused buffer, and calls fn for each field. The buffer grows with the
+// bytes actually read, never to a declared length alone.
+func readMessages(r io.Reader, source string, values bool, fn func(*Message) error) error {
+	br := bufio.NewReaderSize(r, 1<<16)
+	var buf bytes.Buffer
+	var off int64
+	var scratch decodeScratch
+	for index := 1; ; index++ {
+		head, err := br.Peek(16)
+		if len(head) == 0 && err == io.EOF {
+			if index == 1 {
+				return &FormatError{source, 0, 0, "empty input"}
+			}
+			return nil
+		}
+		if allZero(head) && len(head) < 16 {
+			// Trailing zero padding shorter than a message header.
+			return nil
+		}
+		if len(head) < 8 {
+			return &FormatError{source, index, off, fmt.Sprintf("truncated indicator section: %d bytes", len(head))}
+		}
+		if string(head[:4]) != "GRIB" {
+			if allZero(head) {
+				if rest, _ := io.ReadAll(br); allZero(rest) {
+					return nil // zero padding at the end of the file
+				}
+			}
+			return &FormatError{source, index, off, fmt.Sprintf("wrong magic %q, want \"GRIB\"", head[:4])}
+		}
+		var length uint64
+		switch head[7] {
+		case 1:
+			length = uint64(u24(head[4:7]))
+		case 2:
+			if len(head) < 16 {
+				return &FormatError{source, index, off, "truncated indicator section"}
+			}
+			length = u64(head[8:16])
+		default:
+			return &UnsupportedError{source, index, off, fmt.Sprintf("GRIB edition %d", head[7])}
+		}
+		if length < 20 || length > 1<<40 {
+			return &FormatError{source, index, off, fmt.Sprintf("total length %d out of range", length)}
+		}
+		buf.Reset()
+		n, err := buf.ReadFrom(io.LimitReader(br, int64(length)))
+		if err != nil {
+			return &FormatError{source, index, off, "read: " + err.Error()}
+		}
+		if uint64(n) != length {
+			return &FormatError{source, index, off, fmt.Sprintf("truncated: declared length %d, %d bytes present", length, n)}
+		}
+		msg := buf.Bytes()
+		if head[7] == 1 {
+			err = decodeGRIB1(msg, source, index, off, values, fn)
+		} else {
+			d := grib2Decoder{src: source, index: index, base: off, msg: msg, values: values, fn: fn, scratch: &scratch}
+			err = d.decode()
+		}
+		if err != nil {
+			return err
+		}
+		off += int64(length)
+	}
+}
+
+func allZero(p []byte) bool {
+	for _, c := range p {
+		if c != 0 {
+			return false
+		}
+	}
+	return true
+}
+
+// decodeScratch holds buffers reused between fields.
+type decodeScratch struct {
+	ints   []int64
+	values []float32
+}
+
+// pow10 returns 10^n for the decimal scale factors of GRIB.
+func pow10(n int) float64 { return math.Pow(10, float64(n)) }
