@@ -26,7 +26,7 @@ func Assess(p *Problem, prof Profile) (*Plan, error) {
 	if err != nil {
 		return nil, err
 	}
-	return assess(&q, prof, warn, true)
+	return assess(&q, prof, warn, q.LegCeilings)
 }
 
 // sim is the state of the forward simulation of a profile.

@@ -127,6 +127,10 @@ type Problem struct {
 	// EndAltitude is the pressure altitude where the initial climb begins
 	// and the final descent ends, m (default 1,500 ft).
 	EndAltitude float64
+	// LegCeilings asks the plan's legs to carry the buffet- and
+	// thrust-limited maximum levels at their mass (for charts and
+	// reports; it costs a few milliseconds a plan).
+	LegCeilings bool
 }
 
 // InputError reports a Problem that cannot be planned because of its

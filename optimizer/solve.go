@@ -37,7 +37,7 @@ func Solve(p *Problem) (*Plan, error) {
 		return nil, s.infeasible()
 	}
 	prof := s.profileOf(res.path)
-	plan, err := assess(&q, prof, warn, true)
+	plan, err := assess(&q, prof, warn, q.LegCeilings)
 	if err != nil {
 		return nil, err
 	}

@@ -232,10 +232,12 @@ func yamlError(err error, source string) error {
 		if m := reUnknown.FindStringSubmatch(msg); m != nil {
 			return &FieldError{Source: source, Field: sectionOf[m[3]] + m[2], Reason: "unknown field (line " + m[1] + ")"}
 		}
-		return &FormatError{Source: source, Line: lineOf(msg), Reason: msg}
+		line := lineOf(msg)
+		return &FormatError{Source: source, Line: line, Reason: strings.TrimPrefix(msg, "line "+strconv.Itoa(line)+": ")}
 	}
 	msg := strings.TrimPrefix(err.Error(), "yaml: ")
-	return &FormatError{Source: source, Line: lineOf(msg), Reason: msg}
+	line := lineOf(msg)
+	return &FormatError{Source: source, Line: line, Reason: strings.TrimPrefix(msg, "line "+strconv.Itoa(line)+": ")}
 }
 
 func lineOf(msg string) int {

@@ -85,11 +85,10 @@ func TASToCAS(tas, p, t float64) float64 { return MachToCAS(TASToMach(tas, t), p
 // LoadFactor returns the load factor n = 1/cos(bank) of a level coordinated
 // turn at bank angle bankRad (radians). It returns NaN for |bank| >= 90°.
 func LoadFactor(bankRad float64) float64 {
-	c := math.Cos(bankRad)
-	if !(c > 0) {
+	if !(math.Abs(bankRad) < math.Pi/2) {
 		return math.NaN()
 	}
-	return 1 / c
+	return 1 / math.Cos(bankRad)
 }
 
 // BankAngle returns the bank angle (radians) of a level coordinated turn at

@@ -9,7 +9,7 @@ import (
 // 10,000 ft pressure altitude, CAS (m/s) above it, and Mach above the
 // crossover altitude where that CAS reaches Mach. At each level the
 // aircraft flies the least Mach the applicable limits give. A zero field
-// sets no limit; at least one must apply at every level. For a step climb
+// (or a CAS at or above the sea-level speed of sound) sets no limit; at least one must apply at every level. For a step climb
 // at cruise Mach pass Schedule{CAS: large, Mach: cruise}.
 type Schedule struct {
 	CASLow, CAS, Mach float64
@@ -35,8 +35,9 @@ func (s *Schedule) mach(h, p float64) float64 {
 	if h < lowSpeedAltitude && s.CASLow > 0 {
 		cas = s.CASLow
 	}
-	if cas > 0 {
-		if cm := CASToMach(cas, p); cm < m || math.IsNaN(cm) {
+	if cas > 0 && cas < a0 { // a CAS at or above a0 sets no limit
+		// NaN means the CAS is supersonic here: no limit.
+		if cm := CASToMach(cas, p); cm < m {
 			m = cm
 		}
 	}
@@ -149,7 +150,7 @@ func (a *Aircraft) transition(mass, fromP, toP, isaDev float64, s *Schedule, cli
 			vb, _, _, _, _ := speed(hb)
 			hm := 0.5 * (ha + hb)
 			vm, mm, pm, tm, tisam := speed(hm)
-			if math.IsNaN(vm) || math.IsNaN(vb) {
+			if math.IsNaN(vm) || math.IsNaN(vb) || math.IsNaN(va) {
 				return tr, &LimitError{Aircraft: a.Name, Phase: phase, FL: hm / (100 * FtToM), Reason: "the schedule gives no subsonic Mach"}
 			}
 			d, _, _ := a.drag(m, pm, mm, cosL)

@@ -50,7 +50,8 @@ func flPressure(fl float64) float64 { return PressureAt(fl * 100 * FtToM) }
 //   - MaxFLBuffet: highest level where BuffetMachs at the floor has a band
 //     whose low end is below MMO;
 //   - MaxFLThrust: highest level where the residual climb at LRC Mach is at
-//     least 300 ft/min (common practice);
+//     least 300 ft/min (common practice); LRC here is taken within the 1 g
+//     MachBand, so the thrust limit does not depend on the buffet floor;
 //   - MaxFLCertified: the certified ceiling; MaxFL: the least of them;
 //   - OptimumFL: the level of best specific range at the max-range Mach,
 //     searched at or below MaxFL by golden-section search about the best row.
@@ -69,7 +70,7 @@ func (a *Aircraft) Envelope(mass, isaDev, floor float64) (Envelope, error) {
 	}
 	nan := math.NaN()
 	env := Envelope{Aircraft: a.Name, Mass: mass, ISADev: isaDev, Floor: floor}
-	env.MaxFLCertified = a.CertifiedCeiling / (100 * FtToM)
+	env.MaxFLCertified = math.Round(a.CertifiedCeiling/(100*FtToM)*1e6) / 1e6 // undo ft/m rounding
 	top := math.Floor(env.MaxFLCertified/10+1e-9)*10 + 20
 	nrows := int((top-envelopeLowFL)/10) + 1
 	env.Rows = make([]EnvelopeRow, 0, nrows)
@@ -102,7 +103,7 @@ func (a *Aircraft) Envelope(mass, isaDev, floor float64) (Envelope, error) {
 	}
 	thrustOK := func(fl float64) bool {
 		p := flPressure(fl)
-		lo, hi, ok := a.MachBand(mass, p, isaDev, floor)
+		lo, hi, ok := a.MachBand(mass, p, isaDev, 1)
 		if !ok {
 			return false
 		}

@@ -75,6 +75,11 @@ func lineRoute(source string, g orb.Geometry) (*Route, error) {
 }
 
 func collectionRoute(source string, fc *geojson.FeatureCollection) (*Route, error) {
+	for i, f := range fc.Features {
+		if f == nil {
+			return nil, &FormatError{Source: source, Point: i + 1, Column: "features", Msg: "feature is null"}
+		}
+	}
 	if len(fc.Features) == 1 {
 		if _, ok := fc.Features[0].Geometry.(orb.LineString); ok {
 			return lineRoute(source, fc.Features[0].Geometry)

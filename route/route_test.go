@@ -166,3 +166,41 @@ func TestDuplicatesDropped(t *testing.T) {
 		t.Errorf("9996 km leg rejected: %v", err)
 	}
 }
+
+// FuzzParse feeds arbitrary text to the three parsers: they must return a
+// route or an error, never panic, and any route must satisfy the
+// documented invariants.
+func FuzzParse(f *testing.F) {
+	for _, s := range []string{
+		`{"type":"LineString","coordinates":[[1],[2,3]]}`,
+		`{"type":"LineString","coordinates":[]}`,
+		`{"type":"Feature","geometry":null}`,
+		`{"type":"FeatureCollection","features":null}`,
+		`{"type":"FeatureCollection","features":[null]}`,
+		`{"type":"FeatureCollection","features":[{"type":"Feature","properties":{"name":7},"geometry":{"type":"Point","coordinates":[1,2]}}]}`,
+		"name,lat,lon\n\"a,1,2\n",
+		"lat,lon\n1,2,3\n4,5\n",
+		"1,2 3,4;5,6",
+		"=1,2 x=,",
+	} {
+		f.Add(s)
+	}
+	f.Fuzz(func(t *testing.T, s string) {
+		check := func(r *Route, err error) {
+			if err != nil {
+				return
+			}
+			if len(r.Points) < 2 {
+				t.Fatalf("%q: route of %d points", s, len(r.Points))
+			}
+			for _, p := range r.Points {
+				if !(p.Lat >= -90 && p.Lat <= 90 && p.Lon >= -180 && p.Lon < 180) {
+					t.Fatalf("%q: point %+v", s, p)
+				}
+			}
+		}
+		check(ParseGeoJSON([]byte(s), "fuzz"))
+		check(ParseCSV(strings.NewReader(s), "fuzz"))
+		check(ParseInline(s))
+	})
+}

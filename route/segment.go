@@ -176,20 +176,22 @@ func (t *Track) PointAt(s float64) (Point, float64) {
 
 func ll(p Point) s2.LatLng { return s2.LatLngFromDegrees(p.Lat, p.Lon) }
 
-// CrossTrack returns the distance in metres from p to the nearest leg of
+// CrossTrack returns the distance in metres from p to the nearest part of
 // the track, positive when p lies right of the direction of flight and
-// negative when left. It treats the Earth as a sphere of radius MeanRadius
-// and legs as great-circle arcs (github.com/golang/geo/s2), so it is a
-// spherical approximation (relative error up to about 0.5 % against the
-// ellipsoid) meant for checks and display, not for lengths.
-// Cost O(legs).
+// negative when left. The track is taken as the great-circle arcs between
+// consecutive segment boundaries (which lie on the ellipsoidal geodesic,
+// so with segments of 50 NM the arcs stray from it by metres), or between
+// waypoints if the track has no segments, on a sphere of radius
+// MeanRadius, using github.com/golang/geo/s2. It is a spherical
+// approximation (error up to about 0.5 % of the distance) meant for checks
+// and display, not for lengths. Cost O(segments).
 func CrossTrack(track *Track, p Point) float64 {
 	x := s2.PointFromLatLng(ll(p))
 	best := math.Inf(1)
 	sign := 1.0
-	for _, leg := range track.Legs {
-		a := s2.PointFromLatLng(ll(leg.From))
-		b := s2.PointFromLatLng(ll(leg.To))
+	try := func(from, to Point) {
+		a := s2.PointFromLatLng(ll(from))
+		b := s2.PointFromLatLng(ll(to))
 		d := s2.DistanceFromSegment(x, a, b).Radians()
 		if d < best {
 			best = d
@@ -199,6 +201,15 @@ func CrossTrack(track *Track, p Point) float64 {
 			} else {
 				sign = 1
 			}
+		}
+	}
+	if len(track.Segments) > 0 {
+		for _, sg := range track.Segments {
+			try(sg.Start, sg.End)
+		}
+	} else {
+		for _, leg := range track.Legs {
+			try(leg.From, leg.To)
 		}
 	}
 	return sign * best * MeanRadius

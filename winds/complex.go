@@ -24,6 +24,9 @@ const missingInt = math.MinInt64
 // Spatial differencing (5.3) is undone over the non-missing values, as in
 // the NCEP g2 library: order 1 x[i] += x[i-1]; order 2
 // x[i] += 2 x[i-1] - x[i-2], after adding the minimum to x[order:].
+// Order 0 in template 5.3 (reserved in code table 5.6, but what ecCodes
+// 2.28 writes for packingType=grid_complex_spatial_differencing) is read
+// as no differencing, as ecCodes reads it.
 func (d *grib2Decoder) unpackComplex(data []byte, at int) ([]float32, error) {
 	r := &d.repr
 	n, ng := r.nvalues, r.ngroups
@@ -45,7 +48,7 @@ func (d *grib2Decoder) unpackComplex(data []byte, at int) ([]float32, error) {
 	br := bitReader{buf: data}
 	var first [2]int64
 	var minDiff int64
-	if r.template == 3 {
+	if r.template == 3 && r.order != 0 {
 		if r.order != 1 && r.order != 2 {
 			return nil, d.unsupported(at, "spatial differencing of order %d (code table 5.6)", r.order)
 		}
@@ -142,7 +145,7 @@ func (d *grib2Decoder) unpackComplex(data []byte, at int) ([]float32, error) {
 			}
 		}
 	}
-	if r.template == 3 {
+	if r.template == 3 && r.order != 0 {
 		undifference(xs, r.order, first, minDiff)
 	}
 	a, b := scaleFactors(r.ref, r.e, r.d)

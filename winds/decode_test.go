@@ -146,6 +146,8 @@ func TestDecodeAgainstEccodes(t *testing.T) {
 		{"g2_bitmap.grib2", 0, 0, "u", true, true},
 		{"g2_complex_bitmap.grib2", 2, 0, "u", true, true},
 		{"g2_sd2_bitmap.grib2", 3, 0, "u", true, true},
+		{"g2_complex_missing.grib2", 2, 0, "u", false, true},
+		{"g2_sd1_missing.grib2", 3, 0, "u", false, true},
 		{"g2_multifield.grib2", 0, 0, "u v", true, true},
 		{"g1_wmo.grib1", 0, 0, "u v t", false, true},
 		{"g1_ecmwf.grib1", 0, 0, "u v t", false, true},

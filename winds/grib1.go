@@ -174,8 +174,8 @@ func decodeGRIB1(msg []byte, src string, index int, base int64, values bool, fn 
 		n = countBits(bitmap, npoints)
 	}
 	nbits := int(bds[10])
-	avail := uint64(len(bds)-11)*8 - uint64(bds[3]&0x0f)
-	if nbits > 32 || uint64(n)*uint64(nbits) > avail {
+	avail := int64(len(bds)-11)*8 - int64(bds[3]&0x0f)
+	if nbits > 32 || avail < 0 || int64(n)*int64(nbits) > avail {
 		return ferr(bdsAt, "%d values of %d bits need %d bytes, section 4 holds %d", n, nbits, (uint64(n)*uint64(nbits)+7)/8, len(bds)-11)
 	}
 	if npoints > maxPoints {

@@ -414,35 +414,36 @@ func (d *grib2Decoder) data(s []byte) error {
 		return d.formatErr(d.pos, "section 7 without sections 4 and 5")
 	}
 	m := d.cur
-	if m.Param != ParamOther && !d.gridOK {
+	if !d.values || m.Param == ParamOther {
+		return d.fn(&m)
+	}
+	if !d.gridOK {
 		if d.cur.Grid != 0 {
 			return d.unsupported(d.pos, "grid definition template 3.%d (only 3.0 regular lat/lon)", d.cur.Grid)
 		}
 		return d.unsupported(d.pos, "grid definition with a list of numbers of points (quasi-regular grid)")
 	}
-	if m.Param != ParamOther && (m.Di <= 0 || m.Dj <= 0) && (m.Ni > 1 || m.Nj > 1) {
+	if (m.Di <= 0 || m.Dj <= 0) && (m.Ni > 1 || m.Nj > 1) {
 		return d.formatErr(d.pos, "grid increments Di %g, Dj %g must be positive", m.Di, m.Dj)
 	}
-	if m.Param != ParamOther && m.ScanMode&0x0f != 0 {
+	if m.ScanMode&0x0f != 0 {
 		return d.unsupported(d.pos, "scanning mode %#02x (offset or staggered rows, code table 3.4 bits 5-8)", m.ScanMode)
 	}
-	if d.values && m.Param != ParamOther {
-		if d.npoints > maxPoints {
-			return d.unsupported(d.pos, "grid of %d points (limit %d)", d.npoints, maxPoints)
-		}
-		present := d.npoints
-		if d.bitmap != nil {
-			present = countBits(d.bitmap, d.npoints)
-		}
-		if d.repr.nvalues != present {
-			return d.formatErr(d.pos, "section 5 declares %d values, grid and bitmap give %d", d.repr.nvalues, present)
-		}
-		vals, err := d.unpack(s[5:], d.pos+5)
-		if err != nil {
-			return err
-		}
-		m.Values = reorder(scatter(vals, d.bitmap, d.npoints), m.Ni, m.Nj, m.ScanMode)
+	if d.npoints > maxPoints {
+		return d.unsupported(d.pos, "grid of %d points (limit %d)", d.npoints, maxPoints)
 	}
+	present := d.npoints
+	if d.bitmap != nil {
+		present = countBits(d.bitmap, d.npoints)
+	}
+	if d.repr.nvalues != present {
+		return d.formatErr(d.pos, "section 5 declares %d values, grid and bitmap give %d", d.repr.nvalues, present)
+	}
+	vals, err := d.unpack(s[5:], d.pos+5)
+	if err != nil {
+		return err
+	}
+	m.Values = reorder(scatter(vals, d.bitmap, d.npoints), m.Ni, m.Nj, m.ScanMode)
 	return d.fn(&m)
 }
 

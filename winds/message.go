@@ -106,9 +106,11 @@ func Decode(r io.Reader, source string) ([]Message, error) {
 	return out, err
 }
 
-// maxPoints bounds the grid size this package allocates for (2^27 points,
-// 512 MiB of float32; a 0.1-degree global grid has 6.5 million).
-const maxPoints = 1 << 27
+// maxPoints bounds the grid size this package allocates for: 2^24 points
+// (64 MiB of float32 per field; a 0.1-degree global grid has 6.5 million).
+// It matters for constant fields, whose data section is empty whatever the
+// grid size, so the data cannot bound the allocation.
+const maxPoints = 1 << 24
 
 // readMessages streams messages from r, reading each whole message into a
 // reused buffer, and calls fn for each field. The buffer grows with the

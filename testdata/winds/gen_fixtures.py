@@ -207,3 +207,148 @@ def g1(table, param, level=250, **kw):
 write("g1_wmo.grib1", [g1(3, 33), g1(3, 34), g1(3, 11)])
 write("g1_ecmwf.grib1", [g1(128, 131), g1(128, 132), g1(128, 130)])
 write("g1_bitmap.grib1", [g1(128, 131, missing=polar)])
+
+
+# ecCodes 2.28 writes template 5.3 only with order 0 (its packer resets the
+# order) and ignores alternativeRowScanning in its geoiterator, so these
+# fixtures are encoded here and decoded by ecCodes for the reference dump.
+def nbits_for(v):
+    return int(v).bit_length()
+
+
+def complex_pack(xs, order, missing_mgmt, group_lens=(16, 24)):
+    """Encode integers xs (None = missing) per templates 5.2/5.3 and 7.2/7.3.
+
+    Returns (section-5 tail from octet 20, section-7 payload)."""
+    present = [x for x in xs if x is not None]
+    first, mind = [], 0
+    vals = list(xs)
+    if order:
+        d = {}
+        idx = [i for i, x in enumerate(xs) if x is not None]
+        for k, i in enumerate(idx):
+            if k < order:
+                d[i] = 0
+            elif order == 1:
+                d[i] = xs[i] - xs[idx[k - 1]]
+            else:
+                d[i] = xs[i] - 2 * xs[idx[k - 1]] + xs[idx[k - 2]]
+        first = [xs[i] for i in idx[:order]]
+        mind = min(d[i] for i in idx[order:])
+        for k, i in enumerate(idx):
+            vals[i] = 0 if k < order else d[i] - mind
+    groups, i, g = [], 0, 0
+    while i < len(vals):
+        L = group_lens[g % len(group_lens)]
+        groups.append(vals[i:i + L])
+        i += L
+        g += 1
+    refs, widths = [], []
+    for grp in groups:
+        p = [v for v in grp if v is not None]
+        if not p:
+            refs.append(None)
+            widths.append(0)
+            continue
+        ref = min(p)
+        span = max(p) - ref
+        if missing_mgmt and len(p) < len(grp):
+            span += 1  # reserve all ones for missing
+        refs.append(ref)
+        widths.append(nbits_for(span))
+    nb = max(nbits_for(max(r for r in refs if r is not None)), 1)
+    if missing_mgmt:
+        nb = max(nb, nbits_for(max(r for r in refs if r is not None) + 1))
+    refs = [(1 << nb) - 1 if r is None else r for r in refs]
+    bw = max(nbits_for(max(widths)), 1)
+    lens = [len(grp) for grp in groups]
+    ref_len, inc = min(group_lens), abs(group_lens[1] - group_lens[0]) or 1
+    scaled = [(L - ref_len) // inc for L in lens[:-1]] + [0]
+    bl = max(nbits_for(max(scaled)), 1)
+
+    bits = []
+
+    def put(v, n):
+        for k in range(n - 1, -1, -1):
+            bits.append((v >> k) & 1)
+
+    def pad():
+        while len(bits) % 8:
+            bits.append(0)
+
+    octets = 0
+    if order:
+        big = max([abs(v) for v in first] + [abs(mind)])
+        octets = (nbits_for(big) + 1 + 7) // 8
+        for v in first:
+            put(v, 8 * octets)
+        put((1 << (8 * octets - 1)) | -mind if mind < 0 else mind, 8 * octets)
+    for r in refs:
+        put(r, nb)
+    pad()
+    for w in widths:
+        put(w, bw)
+    pad()
+    for s in scaled:
+        put(s, bl)
+    pad()
+    for grp, r, w in zip(groups, refs, widths):
+        if w == 0:
+            continue
+        for v in grp:
+            put((1 << w) - 1 if v is None else v - r, w)
+    pad()
+    data = bytes(int("".join(map(str, bits[k:k + 8])), 2) for k in range(0, len(bits), 8))
+    tail = struct.pack(">BBBBIIIBBIBIB", nb, 0, 1, missing_mgmt, 0, 0, len(groups), 0, bw,
+                       ref_len, inc, lens[-1], bl)
+    if order:
+        tail += struct.pack(">BB", order, octets)
+    return tail, data
+
+
+def splice(src, dst, order, missing_mgmt=0, drop_bitmap=False):
+    """Repack the 16-bit simple-packed field of src with complex packing."""
+    msg = open(src, "rb").read()
+    secs = sections(msg)
+    s5 = [s for n, s in secs if n == 5][0]
+    s6 = [s for n, s in secs if n == 6][0]
+    s7 = [s for n, s in secs if n == 7][0]
+    nvals = struct.unpack(">I", s5[5:9])[0]
+    xs = [struct.unpack(">H", s7[5 + 2 * i:7 + 2 * i])[0] for i in range(nvals)]
+    if drop_bitmap:  # move the bitmap's missing points into the data
+        npts = struct.unpack(">I", [s for n, s in secs if n == 3][0][6:10])[0]
+        it = iter(xs)
+        xs = [next(it) if (s6[6 + i // 8] >> (7 - i % 8)) & 1 else None for i in range(npts)]
+        nvals = npts
+        s6 = struct.pack(">IBB", 6, 6, 255)
+    tail, data = complex_pack(xs, order, missing_mgmt)
+    tmpl = 3 if order else 2
+    s5n = struct.pack(">IBIH", 0, 5, nvals, tmpl) + s5[11:19] + tail
+    s5n = struct.pack(">I", len(s5n)) + s5n[4:]
+    s7n = struct.pack(">IB", 5 + len(data), 7) + data
+    body = b"".join({5: s5n, 6: s6, 7: s7n}.get(n, s) for n, s in secs)
+    out = msg[:8] + struct.pack(">Q", 16 + len(body) + 4) + body + b"7777"
+    open(dst, "wb").write(out)
+
+
+splice("g2_simple.grib2", "g2_sd1.grib2", 1)
+splice("g2_simple.grib2", "g2_sd2.grib2", 2)
+splice("g2_bitmap.grib2", "g2_sd2_bitmap.grib2", 2)
+splice("g2_bitmap.grib2", "g2_complex_missing.grib2", 0, missing_mgmt=1, drop_bitmap=True)
+splice("g2_bitmap.grib2", "g2_sd1_missing.grib2", 1, missing_mgmt=1, drop_bitmap=True)
+
+# Boustrophedon rows (flag 0x10): reverse every odd row of g2_simple's data.
+msg = bytearray(open("g2_simple.grib2", "rb").read())
+secs = sections(bytes(msg))
+off = 16
+for n, s in secs:
+    if n == 3:
+        msg[off + 71] = 0x10
+    if n == 7:
+        row = 36 * 2
+        for j in range(1, 19, 2):
+            a = off + 5 + j * row
+            vals = [msg[a + 2 * i:a + 2 * i + 2] for i in range(36)]
+            msg[a:a + row] = b"".join(reversed(vals))
+    off += len(s)
+open("g2_boustro.grib2", "wb").write(bytes(msg))

@@ -21,27 +21,27 @@ const (
 
 // Doc is the JSON form of a plan.
 type Doc struct {
-	Caution        string      `json:"caution"`
-	Aircraft       string      `json:"aircraft"`
-	CI             float64     `json:"ci"`
-	FloorG         float64     `json:"floor_g"`
-	Speed          string      `json:"speed"`
-	Depart         string      `json:"depart"`
-	TakeoffMassKg  float64     `json:"takeoff_mass_kg"`
-	DistanceNM     float64     `json:"distance_nm"`
-	Profile        string      `json:"profile"`
-	InitialFL      int         `json:"initial_fl"`
-	MinMarginG     *float64    `json:"min_margin_g"`
-	Totals         Totals      `json:"totals"`
-	Baseline       *Baseline   `json:"baseline"`
-	Steps          []Step      `json:"steps"`
-	Legs           []Leg       `json:"legs"`
-	Warnings       []string    `json:"warnings"`
-	Violations     []Violation `json:"violations"`
-	SearchCost     *float64    `json:"search_cost,omitempty"`
-	SearchNodes    int         `json:"search_nodes,omitempty"`
-	SearchEdges    int         `json:"search_edges,omitempty"`
-	Assessed       bool        `json:"assessed"`
+	Caution       string      `json:"caution"`
+	Aircraft      string      `json:"aircraft"`
+	CI            float64     `json:"ci"`
+	FloorG        float64     `json:"floor_g"`
+	Speed         string      `json:"speed"`
+	Depart        string      `json:"depart"`
+	TakeoffMassKg float64     `json:"takeoff_mass_kg"`
+	DistanceNM    float64     `json:"distance_nm"`
+	Profile       string      `json:"profile"`
+	InitialFL     int         `json:"initial_fl"`
+	MinMarginG    *float64    `json:"min_margin_g"`
+	Totals        Totals      `json:"totals"`
+	Baseline      *Baseline   `json:"baseline"`
+	Steps         []Step      `json:"steps"`
+	Legs          []Leg       `json:"legs"`
+	Warnings      []string    `json:"warnings"`
+	Violations    []Violation `json:"violations"`
+	SearchCost    *float64    `json:"search_cost,omitempty"`
+	SearchNodes   int         `json:"search_nodes,omitempty"`
+	SearchEdges   int         `json:"search_edges,omitempty"`
+	Assessed      bool        `json:"assessed"`
 }
 
 // Totals sums the flight.

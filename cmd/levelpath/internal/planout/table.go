@@ -117,4 +117,3 @@ func (e *errWriter) Write(b []byte) (int, error) {
 func (e *errWriter) printf(format string, args ...any) {
 	fmt.Fprintf(e, format, args...)
 }
-

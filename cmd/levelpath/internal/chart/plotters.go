@@ -1,0 +1,114 @@
+package chart
+
+import (
+	"fmt"
+	"image/color"
+
+	"gonum.org/v1/plot"
+	"gonum.org/v1/plot/plotter"
+	"gonum.org/v1/plot/text"
+	"gonum.org/v1/plot/vg"
+	"gonum.org/v1/plot/vg/draw"
+)
+
+// legendBox is a plot.Legend drawn on an opaque box inside the data area.
+// AX and AY place it: the box's point at relative position (AX, AY) (0 =
+// left/bottom, 1 = right/top) lies at the same relative position of the
+// data area, so (0, 1) is the top-left corner and (0.5, 0) bottom centre.
+type legendBox struct {
+	plot.Legend
+	AX, AY float64
+}
+
+func newLegendBox(p *plot.Plot, ax, ay float64) *legendBox {
+	return &legendBox{Legend: p.Legend, AX: ax, AY: ay}
+}
+
+// Plot implements plot.Plotter.
+func (b *legendBox) Plot(c draw.Canvas, _ *plot.Plot) {
+	r := b.Legend.Rectangle(c)
+	w, h := r.Size().X, r.Size().Y
+	pad := vg.Points(5)
+	bw, bh := w+2*pad, h+2*pad
+	x0 := c.Min.X + (c.Max.X-c.Min.X-bw)*vg.Length(b.AX)
+	y0 := c.Min.Y + (c.Max.Y-c.Min.Y-bh)*vg.Length(b.AY)
+	box := vg.Rectangle{Min: vg.Point{X: x0, Y: y0}, Max: vg.Point{X: x0 + bw, Y: y0 + bh}}
+	c.SetColor(color.NRGBA{R: 0xff, G: 0xff, B: 0xff, A: 0xee})
+	c.Fill(box.Path())
+	c.SetLineStyle(lineStyle(colGuide, 0.8, nil))
+	c.Stroke(box.Path())
+	l := b.Legend
+	l.Left, l.Top = true, true
+	l.XOffs, l.YOffs = 0, 0
+	l.Draw(draw.Canvas{Canvas: c.Canvas, Rectangle: vg.Rectangle{
+		Min: vg.Point{X: x0 + pad, Y: y0 + pad}, Max: vg.Point{X: x0 + pad + w, Y: y0 + pad + h}}})
+}
+
+// hLines draws full-width horizontal guides at the given Y values, each
+// labelled just right of the data area, without widening the axis range.
+type hLines struct {
+	Ys     []float64
+	Labels []string // beside each guide; "" for none
+	Style  draw.LineStyle
+	Text   text.Style
+}
+
+// Plot implements plot.Plotter.
+func (h *hLines) Plot(c draw.Canvas, p *plot.Plot) {
+	_, ty := p.Transforms(&c)
+	for i, v := range h.Ys {
+		if v < p.Y.Min || v > p.Y.Max {
+			continue
+		}
+		y := ty(v)
+		c.StrokeLine2(h.Style, c.Min.X, y, c.Max.X, y)
+		if i < len(h.Labels) && h.Labels[i] != "" {
+			c.FillText(h.Text, vg.Point{X: c.Max.X + vg.Points(4), Y: y}, h.Labels[i])
+		}
+	}
+}
+
+// Thumbnail implements plot.Thumbnailer.
+func (h *hLines) Thumbnail(c *draw.Canvas) {
+	y := c.Center().Y
+	c.StrokeLine2(h.Style, c.Min.X, y, c.Max.X, y)
+}
+
+// triangleDown is a downward-pointing triangle glyph, the mirror of
+// draw.TriangleGlyph, for step descents.
+type triangleDown struct{}
+
+// DrawGlyph implements draw.GlyphDrawer.
+func (triangleDown) DrawGlyph(c *draw.Canvas, sty draw.GlyphStyle, pt vg.Point) {
+	c.SetLineStyle(draw.LineStyle{Color: sty.Color, Width: vg.Points(0.5)})
+	r := sty.Radius
+	var p vg.Path
+	p.Move(vg.Point{X: pt.X, Y: pt.Y - r})
+	p.Line(vg.Point{X: pt.X - r*0.866, Y: pt.Y + r/2})
+	p.Line(vg.Point{X: pt.X + r*0.866, Y: pt.Y + r/2})
+	p.Close()
+	c.Fill(p)
+}
+
+// line returns a plotter.Line through xys in style s.
+func line(xys plotter.XYs, s draw.LineStyle) *plotter.Line {
+	l := &plotter.Line{XYs: xys, LineStyle: s}
+	return l
+}
+
+// scatter returns a plotter.Scatter of xys with glyph g.
+func scatter(xys plotter.XYs, g draw.GlyphStyle) *plotter.Scatter {
+	return &plotter.Scatter{XYs: xys, GlyphStyle: g}
+}
+
+// labels returns a plotter.Labels at xys with one style and an offset.
+func labels(xys plotter.XYs, strs []string, sty text.Style, off vg.Point) *plotter.Labels {
+	styles := make([]text.Style, len(strs))
+	for i := range styles {
+		styles[i] = sty
+	}
+	return &plotter.Labels{XYs: xys, Labels: strs, TextStyle: styles, Offset: off}
+}
+
+// flName formats a flight level as "FL370".
+func flName(fl float64) string { return fmt.Sprintf("FL%03.0f", fl) }

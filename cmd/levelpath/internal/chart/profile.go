@@ -1,0 +1,315 @@
+package chart
+
+import (
+	"fmt"
+	"io"
+	"math"
+	"sort"
+
+	"gonum.org/v1/plot"
+	"gonum.org/v1/plot/plotter"
+	"gonum.org/v1/plot/text"
+	"gonum.org/v1/plot/vg"
+	"gonum.org/v1/plot/vg/draw"
+
+	"levelpath/optimizer"
+)
+
+// ProfileInput is what the profile chart and the report show.
+type ProfileInput struct {
+	Plan   *optimizer.Plan
+	Levels []int  // allowed flight levels, drawn as faint guides
+	Title  string // chart and page title; a default names the aircraft and CI
+}
+
+// checkPlan returns a FormatError for a plan that cannot be drawn: nil, no
+// legs, a leg with a non-finite or decreasing distance or level, or a level
+// guide outside FL000..FL999.
+func checkPlan(in ProfileInput) error {
+	p := in.Plan
+	if p == nil {
+		return FormatError("profile: no plan")
+	}
+	if len(p.Legs) == 0 {
+		return FormatError("profile: the plan has no legs")
+	}
+	for i, l := range p.Legs {
+		if !finite(l.FromDist, l.ToDist, l.FromFL, l.FL) {
+			return FormatError(fmt.Sprintf("profile: leg %d: non-finite distance or level (from %g m to %g m, FL%g to FL%g)", i, l.FromDist, l.ToDist, l.FromFL, l.FL))
+		}
+		if l.ToDist < l.FromDist {
+			return FormatError(fmt.Sprintf("profile: leg %d: ends at %g m before it starts at %g m", i, l.ToDist, l.FromDist))
+		}
+	}
+	for _, s := range p.Steps {
+		if !finite(s.AtDist) {
+			return FormatError(fmt.Sprintf("profile: step FL%03d to FL%03d: non-finite distance %g", s.FromFL, s.ToFL, s.AtDist))
+		}
+	}
+	for _, lv := range in.Levels {
+		if lv < 0 || lv > 999 {
+			return FormatError(fmt.Sprintf("profile: allowed level %d outside FL000..FL999", lv))
+		}
+	}
+	return nil
+}
+
+func (in ProfileInput) title() string {
+	if in.Title != "" {
+		return in.Title
+	}
+	return fmt.Sprintf("Vertical profile: %s, CI %g kg/min, buffet floor %.2f g", in.Plan.Aircraft, in.Plan.CI, in.Plan.Floor)
+}
+
+// Profile draws the plan's vertical profile in format ("svg", "png" or
+// "pdf") to w: three panels sharing the distance axis (NM from departure).
+//
+//   - top: flight level of the planned profile (each leg from FromFL at
+//     FromDist to FL at ToDist), the step climbs and descents marked and
+//     labelled with their new level, the buffet-limited and thrust-limited
+//     maximum levels at each cruise leg's start mass (NaN values skipped),
+//     and the allowed levels as faint guides labelled at the right;
+//   - middle: the along-track wind in kt (tailwind positive), per leg;
+//   - bottom: the buffet margin in g at each cruise leg's start against the
+//     protection floor that applied to the leg.
+//
+// The chart is 1200 x 700 px. It returns a FormatError for a plan that
+// cannot be drawn and an UnsupportedError for an unknown format. Cost is
+// linear in the number of legs.
+func Profile(w io.Writer, format string, in ProfileInput) error {
+	if err := checkPlan(in); err != nil {
+		return err
+	}
+	if _, err := newCanvas(format); err != nil {
+		return err
+	}
+	top, mid, bot := profilePanels(in)
+	return render(w, format, func(dc draw.Canvas) {
+		dc = draw.Crop(dc, vg.Points(8), -vg.Points(44), vg.Points(6), -vg.Points(8))
+		stack(dc, []*plot.Plot{top, mid, bot}, []float64{0.58, 0.19, 0.23}, vg.Points(6))
+	})
+}
+
+// profilePanels builds the three panels of the profile chart.
+func profilePanels(in ProfileInput) (top, mid, bot *plot.Plot) {
+	pl := in.Plan
+	legs := pl.Legs
+	xmax := pl.Distance / mPerNM
+	for _, l := range legs {
+		xmax = math.Max(xmax, l.ToDist/mPerNM)
+	}
+
+	// Top: the profile.
+	top = newPlot(in.title(), "", "flight level")
+	profile := legRuns(legs, func(l optimizer.Leg) (float64, float64, bool) { return l.FromFL, l.FL, true })
+	ymax := 0.0
+	for _, l := range legs {
+		ymax = math.Max(ymax, math.Max(l.FromFL, l.FL))
+	}
+	cruiseTop := ymax
+	var buf, thr plotter.XYs
+	for _, l := range legs {
+		if l.Phase != optimizer.PhaseCruise {
+			continue
+		}
+		x := l.FromDist / mPerNM
+		if finite(l.MaxFLBuffet) {
+			buf = append(buf, plotter.XY{X: x, Y: l.MaxFLBuffet})
+			ymax = math.Max(ymax, l.MaxFLBuffet)
+		}
+		if finite(l.MaxFLThrust) {
+			thr = append(thr, plotter.XY{X: x, Y: l.MaxFLThrust})
+			ymax = math.Max(ymax, l.MaxFLThrust)
+		}
+	}
+	// Limits far above the cruise (a bisection that stopped at its top)
+	// would squash the profile: show at most 120 FL above it.
+	ymax = math.Min(ymax, cruiseTop+120)
+	ymax = math.Ceil((ymax+15)/50) * 50
+
+	guides := &hLines{Style: lineStyle(colGuide, 0.7, nil), Text: textStyle(8, colGuide, text.XLeft, text.YCenter)}
+	guides.Text.Color = rgb(0x8a, 0x96, 0xa3)
+	lastLabel := math.Inf(-1)
+	for _, lv := range in.Levels {
+		guides.Ys = append(guides.Ys, float64(lv))
+	}
+	sort.Float64s(guides.Ys)
+	for _, v := range guides.Ys {
+		lab := ""
+		if v-lastLabel >= 20 { // keep labels ~15 px apart at 1200 x 700
+			lab, lastLabel = flName(v), v
+		}
+		guides.Labels = append(guides.Labels, lab)
+	}
+	grid := plotter.NewGrid()
+	grid.Vertical = lineStyle(colGrid, 0.6, nil)
+	grid.Horizontal.Width = 0
+	top.Add(grid)
+	if len(guides.Ys) > 0 {
+		top.Add(guides)
+	}
+	var bufLine, thrLine *plotter.Line
+	if len(buf) > 0 {
+		bufLine = line(buf, lineStyle(colBuffet, 1.8, dashed))
+		top.Add(bufLine)
+	}
+	if len(thr) > 0 {
+		thrLine = line(thr, lineStyle(colThrust, 1.8, dashDot))
+		top.Add(thrLine)
+	}
+	var first *plotter.Line
+	for _, r := range profile {
+		l := line(r, lineStyle(colProfile, 2.6, nil))
+		top.Add(l)
+		if first == nil {
+			first = l
+		}
+	}
+	top.Legend.Add("planned profile", first)
+	if len(pl.Steps) > 0 {
+		var up, down, at plotter.XYs
+		var names []string
+		for _, s := range pl.Steps {
+			pt := plotter.XY{X: s.AtDist / mPerNM, Y: float64(s.FromFL)}
+			if s.ToFL >= s.FromFL {
+				up = append(up, pt)
+			} else {
+				down = append(down, pt)
+			}
+			at = append(at, plotter.XY{X: pt.X, Y: math.Max(float64(s.FromFL), float64(s.ToFL))})
+			names = append(names, fmt.Sprintf("%s at %.0f NM", flName(float64(s.ToFL)), pt.X))
+		}
+		g := draw.GlyphStyle{Color: colStep, Radius: vg.Points(5), Shape: draw.TriangleGlyph{}}
+		var thumb *plotter.Scatter
+		if len(up) > 0 {
+			thumb = scatter(up, g)
+			top.Add(thumb)
+		}
+		if len(down) > 0 {
+			gd := g
+			gd.Shape = triangleDown{}
+			s := scatter(down, gd)
+			top.Add(s)
+			if thumb == nil {
+				thumb = s
+			}
+		}
+		top.Add(labels(at, names, textStyle(9, colStep, text.XCenter, text.YBottom), vg.Point{Y: vg.Points(7)}))
+		top.Legend.Add("level change (new level)", thumb)
+	}
+	if bufLine != nil {
+		top.Legend.Add(fmt.Sprintf("buffet-limited max level (floor %.2f g)", pl.Floor), bufLine)
+	}
+	if thrLine != nil {
+		top.Legend.Add("thrust-limited max level (300 ft/min)", thrLine)
+	}
+	if len(guides.Ys) > 0 {
+		top.Legend.Add("allowed levels", guides)
+	}
+	top.X.Min, top.X.Max = 0, xmax
+	top.Y.Min, top.Y.Max = 0, ymax
+	top.Y.Tick.Marker = flTicks{step: 50}
+	top.X.Tick.Marker = blankLabels{plot.DefaultTicks{}}
+	top.Add(newLegendBox(top, 0.5, 0.04))
+
+	// Middle: along-track wind.
+	mid = newPlot("", "", "wind (kt)")
+	zero := &hLines{Ys: []float64{0}, Labels: []string{""}, Style: lineStyle(colMMO, 0.8, nil)}
+	mgrid := plotter.NewGrid()
+	mgrid.Vertical = lineStyle(colGrid, 0.6, nil)
+	mgrid.Horizontal = lineStyle(colGrid, 0.6, nil)
+	mid.Add(mgrid)
+	wind := legRuns(legs, func(l optimizer.Leg) (float64, float64, bool) {
+		v := l.WindAlong / msPerKt
+		return v, v, finite(v)
+	})
+	wlo, whi := 0.0, 0.0
+	for i, r := range wind {
+		for _, p := range r {
+			wlo, whi = math.Min(wlo, p.Y), math.Max(whi, p.Y)
+		}
+		l := line(r, lineStyle(colWind, 2, nil))
+		l.FillColor = nil
+		mid.Add(l)
+		if i == 0 {
+			mid.Legend.Add("along-track wind (tailwind +)", l)
+		}
+	}
+	mid.Add(zero)
+	pad := math.Max(5, 0.15*(whi-wlo))
+	mid.X.Min, mid.X.Max = 0, xmax
+	mid.Y.Min, mid.Y.Max = math.Floor((wlo-pad)/10)*10, math.Ceil((whi+pad)/10)*10
+	mid.X.Tick.Marker = blankLabels{plot.DefaultTicks{}}
+	mid.Add(newLegendBox(mid, 1, 1))
+
+	// Bottom: buffet margin against the floor.
+	bot = newPlot("", "distance from departure (NM)", "margin (g)")
+	bgrid := plotter.NewGrid()
+	bgrid.Vertical = lineStyle(colGrid, 0.6, nil)
+	bgrid.Horizontal = lineStyle(colGrid, 0.6, nil)
+	bot.Add(bgrid)
+	glo, ghi := math.Inf(1), math.Inf(-1)
+	margin := legRuns(legs, func(l optimizer.Leg) (float64, float64, bool) {
+		return l.BuffetMargin, l.BuffetMargin, finite(l.BuffetMargin)
+	})
+	floor := legRuns(legs, func(l optimizer.Leg) (float64, float64, bool) {
+		return l.Floor, l.Floor, finite(l.Floor) && l.Floor > 0
+	})
+	for i, r := range floor {
+		l := line(r, lineStyle(colBuffet, 1.6, dashed))
+		bot.Add(l)
+		if i == 0 {
+			bot.Legend.Add("protection floor", l)
+		}
+		for _, p := range r {
+			glo, ghi = math.Min(glo, p.Y), math.Max(ghi, p.Y)
+		}
+	}
+	for i, r := range margin {
+		l := line(r, lineStyle(colMargin, 2.2, nil))
+		bot.Add(l)
+		if i == 0 {
+			bot.Legend.Add("buffet margin at leg start", l)
+		}
+		for _, p := range r {
+			glo, ghi = math.Min(glo, p.Y), math.Max(ghi, p.Y)
+		}
+	}
+	if !finite(glo, ghi) {
+		glo, ghi = 1, 1.5
+	}
+	gpad := math.Max(0.03, 0.12*(ghi-glo))
+	bot.X.Min, bot.X.Max = 0, xmax
+	bot.Y.Min, bot.Y.Max = math.Floor((glo-gpad)*20)/20, math.Ceil((ghi+gpad)*20)/20
+	bot.Add(newLegendBox(bot, 1, 1))
+	return top, mid, bot
+}
+
+// legRuns returns, for the legs where v reports ok, the polyline from
+// (FromDist, a) to (ToDist, b) in NM, joined into one run while the legs
+// are contiguous and split where a leg is skipped or a gap opens.
+func legRuns(legs []optimizer.Leg, v func(optimizer.Leg) (a, b float64, ok bool)) []plotter.XYs {
+	var runs []plotter.XYs
+	var cur plotter.XYs
+	prevEnd := math.NaN()
+	for _, l := range legs {
+		a, b, ok := v(l)
+		if !ok || !finite(a, b) {
+			if len(cur) > 0 {
+				runs = append(runs, cur)
+			}
+			cur, prevEnd = nil, math.NaN()
+			continue
+		}
+		if len(cur) > 0 && math.Abs(l.FromDist-prevEnd) > 1 {
+			runs = append(runs, cur)
+			cur = nil
+		}
+		cur = append(cur, plotter.XY{X: l.FromDist / mPerNM, Y: a}, plotter.XY{X: l.ToDist / mPerNM, Y: b})
+		prevEnd = l.ToDist
+	}
+	if len(cur) > 0 {
+		runs = append(runs, cur)
+	}
+	return runs
+}

@@ -1,0 +1,100 @@
+// Package demo writes the invented demonstration scenario: routes, a
+// synthetic weather file and a day's schedule. Everything in it is
+// invented for demonstration; none of it is a check value.
+package demo
+
+import (
+	"math"
+	"time"
+
+	"levelpath/perf"
+	"levelpath/winds"
+)
+
+// Grid of the synthetic weather: global, 2 degrees, north to south.
+const (
+	gridStep = 2.0
+	gridNi   = 180
+	gridNj   = 91
+)
+
+// PressureLevels of the synthetic weather, Pa.
+var PressureLevels = []float64{85000, 70000, 50000, 40000, 30000, 25000, 20000, 15000, 10000}
+
+// WeatherHours are the valid times after the reference time.
+var WeatherHours = []int{0, 6, 12, 18, 24, 30, 36}
+
+// Weather returns the invented weather as GRIB messages valid at ref plus
+// WeatherHours: a meandering westerly jet stream near 250 hPa in each
+// hemisphere, a temperature deviation from ISA that is warm in the tropics
+// and cold towards the poles, and a patch of turbulence (EDR) near the
+// northern jet. Reproducible: no randomness.
+func Weather(ref time.Time) []winds.Message {
+	var msgs []winds.Message
+	n := gridNi * gridNj
+	for _, h := range WeatherHours {
+		vt := ref.Add(time.Duration(h) * time.Hour)
+		for _, p := range PressureLevels {
+			u := make([]float32, n)
+			v := make([]float32, n)
+			t := make([]float32, n)
+			e := make([]float32, n)
+			for j := 0; j < gridNj; j++ {
+				lat := 90 - float64(j)*gridStep
+				for i := 0; i < gridNi; i++ {
+					lon := float64(i) * gridStep
+					uu, vv, tt, ee := Point(lat, lon, p, float64(h))
+					k := j*gridNi + i
+					u[k], v[k], t[k], e[k] = float32(uu), float32(vv), float32(tt), float32(ee)
+				}
+			}
+			base := winds.Message{LevelType: 100, Level: p, RefTime: ref, ValidTime: vt, Ni: gridNi, Nj: gridNj,
+				Lat1: 90, Lon1: 0, Lat2: -90, Lon2: 360 - gridStep, Di: gridStep, Dj: gridStep, ScanMode: 0, Ensemble: -1}
+			for _, f := range []struct {
+				cat, num int
+				par      winds.Param
+				vals     []float32
+			}{{2, 2, "u", u}, {2, 3, "v", v}, {0, 0, "t", t}, {19, 30, "edr", e}} {
+				m := base
+				m.Discipline, m.Category, m.Number, m.Param, m.Values = 0, f.cat, f.num, f.par, f.vals
+				msgs = append(msgs, m)
+			}
+		}
+	}
+	return msgs
+}
+
+// Point is the invented weather at a point: u, v (m/s), T (K) and EDR
+// (m^(2/3)/s) at latitude, longitude (degrees), pressure p (Pa) and hours
+// after the reference time.
+func Point(lat, lon, p, hours float64) (u, v, t, edr float64) {
+	rad := math.Pi / 180
+	// Jet axes meander with longitude and drift eastward with time.
+	phase := (lon - 8*hours) * rad
+	jetN := 42 + 7*math.Sin(3*phase)
+	jetS := -45 + 5*math.Sin(2*phase+1)
+	vert := math.Exp(-sq(math.Log(p/25000) / 0.45))
+	u = 8*math.Cos(lat*rad) + vert*(62*math.Exp(-sq((lat-jetN)/7))+45*math.Exp(-sq((lat-jetS)/7)))
+	// Meridional wind follows the meander: the slope of the jet axis.
+	slopeN := 21 * math.Cos(3*phase)
+	v = vert * 62 * math.Exp(-sq((lat-jetN)/7)) * slopeN / 57.3 * 0.9
+	// Temperature: ISA at the pressure level plus a latitude-dependent
+	// deviation, smaller above the tropopause.
+	h := perf.AltitudeAt(p)
+	dev := 9*math.Cos(2*lat*rad) - 2
+	if h > 11000 {
+		dev *= 0.5
+	}
+	t = perf.ISATemperature(h) + dev
+	// Turbulence: a patch near the northern jet core over the ocean.
+	edr = 0.04 + 0.32*vert*math.Exp(-sq((lat-jetN-2)/4))*math.Exp(-sq(angDiff(lon, 330)/12))
+	return u, v, t, edr
+}
+
+func sq(x float64) float64 { return x * x }
+
+// angDiff returns a-b in degrees wrapped to [-180, 180).
+func angDiff(a, b float64) float64 {
+	d := math.Mod(a-b+540, 360) - 180
+	return d
+}

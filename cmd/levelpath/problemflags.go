@@ -1,0 +1,252 @@
+package main
+
+import (
+	"fmt"
+	"io"
+	"math"
+	"os"
+	"strconv"
+	"strings"
+	"time"
+
+	"github.com/spf13/cobra"
+
+	"levelpath/optimizer"
+	"levelpath/route"
+	"levelpath/winds"
+)
+
+// problemFlags are the inputs shared by plan and assess.
+type problemFlags struct {
+	route       string
+	aircraft    string
+	mass        float64
+	zfw, fuel   float64
+	weather     []string
+	depart      string
+	ci          float64
+	speed       string
+	floor       float64
+	levels      string
+	maxSegNM    float64
+	minFL       int
+	maxFL       int
+	maxStepFt   int
+	stepDescent bool
+	minStepNM   float64
+	maxSteps    int
+	noSteps     bool
+	blocks      []string
+	turb        string
+	bucketKg    float64
+	date        string
+}
+
+func (f *problemFlags) register(c *cobra.Command) {
+	fl := c.Flags()
+	fl.StringVar(&f.route, "route", "", "route: GeoJSON or CSV file, or inline \"lat,lon lat,lon ...\"")
+	fl.StringVar(&f.aircraft, "aircraft", "", "built-in aircraft name or YAML file")
+	fl.Float64Var(&f.mass, "mass", 0, "take-off mass, kg (or give --zfw and --fuel)")
+	fl.Float64Var(&f.zfw, "zfw", 0, "zero-fuel mass, kg (with --fuel)")
+	fl.Float64Var(&f.fuel, "fuel", 0, "fuel on board at take-off, kg (with --zfw)")
+	fl.StringArrayVar(&f.weather, "weather", nil, "GRIB2 or GRIB1 weather file (repeatable); none: ISA and still air")
+	fl.StringVar(&f.depart, "depart", "", "departure time, RFC3339 (default: the weather's first valid time)")
+	fl.Float64Var(&f.ci, "ci", 0, "cost index, kg/min")
+	fl.StringVar(&f.speed, "speed", "econ", "speed policy: econ, lrc or a Mach number such as 0.84")
+	fl.Float64Var(&f.floor, "floor", 1.3, "buffet protection floor, g (common practice 1.3)")
+	fl.StringVar(&f.levels, "levels", "", "level rule, e.g. odd-even-magnetic, odd-even-true, every-1000:290-430, list:310,350,390 (default odd-even-magnetic)")
+	fl.Float64Var(&f.maxSegNM, "max-seg-nm", 50, "longest route segment, NM")
+	fl.IntVar(&f.minFL, "min-fl", 0, "lowest cruise level (default FL100)")
+	fl.IntVar(&f.maxFL, "max-fl", 0, "highest cruise level (default: certified ceiling)")
+	fl.IntVar(&f.maxStepFt, "max-step-ft", 4000, "largest level change of one step, ft")
+	fl.BoolVar(&f.stepDescent, "step-descents", false, "allow step descents in cruise")
+	fl.Float64Var(&f.minStepNM, "min-step-nm", 0, "least distance between steps, NM")
+	fl.IntVar(&f.maxSteps, "max-steps", 0, "most steps (0: no limit)")
+	fl.BoolVar(&f.noSteps, "no-steps", false, "fly one constant level")
+	fl.StringArrayVar(&f.blocks, "block", nil, "levels unavailable over a distance range: FL370,FL390@1200-1800 (NM, repeatable)")
+	fl.StringVar(&f.turb, "turbulence", "", "EDR rules: EDR:FLOOR or EDR:closed, comma-separated (default 0.20:1.5,0.45:closed)")
+	fl.Float64Var(&f.bucketKg, "mass-bucket-kg", 0, "mass bucket of the search, kg (default 0.1 % of MTOW)")
+	fl.StringVar(&f.date, "date", "", "date for magnetic variation, YYYY-MM-DD (default: departure date)")
+}
+
+// loadWeather opens the weather files (nil when none).
+func loadWeather(paths []string) (*winds.Field, error) {
+	if len(paths) == 0 {
+		return nil, nil
+	}
+	for _, p := range paths {
+		if _, err := os.Stat(p); err != nil {
+			return nil, badInputf("--weather %s: %v", p, err)
+		}
+	}
+	f, err := winds.Open(paths...)
+	if err != nil {
+		return nil, badInput(err)
+	}
+	return f, nil
+}
+
+// problem builds the optimizer problem from the flags, with weather
+// already decoded (shared by batch runs).
+func (f *problemFlags) problem(c *cobra.Command, wx *winds.Field, stderr io.Writer) (*optimizer.Problem, error) {
+	a, err := loadAircraft(f.aircraft)
+	if err != nil {
+		return nil, err
+	}
+	if f.route == "" {
+		return nil, badInputf("--route is required")
+	}
+	p := &optimizer.Problem{Aircraft: a, Weather: wx, CI: f.ci, Floor: f.floor, MinFL: f.minFL, MaxFL: f.maxFL, MassBucket: f.bucketKg}
+	massSet := c.Flags().Changed("mass")
+	switch {
+	case massSet && (f.zfw != 0 || f.fuel != 0):
+		return nil, badInputf("give either --mass or --zfw with --fuel, not both")
+	case massSet:
+		p.TakeoffMass = f.mass
+	case f.zfw > 0 && f.fuel > 0:
+		if f.zfw > a.MZFW {
+			return nil, badInputf("--zfw %.0f kg is over MZFW %.0f kg of %s", f.zfw, a.MZFW, a.Name)
+		}
+		if f.fuel > a.FuelCapacity {
+			return nil, badInputf("--fuel %.0f kg is over the fuel capacity %.0f kg of %s", f.fuel, a.FuelCapacity, a.Name)
+		}
+		p.TakeoffMass, p.ZFW = f.zfw+f.fuel, f.zfw
+	default:
+		return nil, badInputf("--mass (kg) or both --zfw and --fuel are required")
+	}
+	if p.TakeoffMass > a.MTOW {
+		return nil, badInputf("take-off mass %.0f kg is over MTOW %.0f kg of %s", p.TakeoffMass, a.MTOW, a.Name)
+	}
+	if f.depart != "" {
+		t, err := time.Parse(time.RFC3339, f.depart)
+		if err != nil {
+			return nil, badInputf("--depart %q: want RFC3339 such as 2026-12-01T22:00:00Z", f.depart)
+		}
+		p.Depart = t
+	} else if wx != nil {
+		p.Depart = wx.Times()[0]
+	}
+	sp, err := optimizer.ParseSpeed(f.speed)
+	if err != nil {
+		return nil, badInputf("--speed: %v", err)
+	}
+	p.Speed = sp
+	p.Steps = optimizer.StepRules{MaxChange: f.maxStepFt, AllowDescent: f.stepDescent, MinDistance: f.minStepNM * 1852, MaxSteps: f.maxSteps, NoSteps: f.noSteps}
+	for _, b := range f.blocks {
+		blk, err := parseBlock(b)
+		if err != nil {
+			return nil, err
+		}
+		p.Blocked = append(p.Blocked, blk)
+	}
+	if f.turb != "" {
+		rules, err := parseTurbulence(f.turb)
+		if err != nil {
+			return nil, err
+		}
+		p.Turbulence = rules
+	}
+	tr, err := buildTrack(f.route, f.levels, f.maxSegNM, f.date, p.Depart, stderr)
+	if err != nil {
+		return nil, err
+	}
+	p.Track = tr
+	return p, nil
+}
+
+// buildTrack loads a route and segments it.
+func buildTrack(arg, levels string, maxSegNM float64, date string, depart time.Time, stderr io.Writer) (*route.Track, error) {
+	r, err := route.Load(arg)
+	if err != nil {
+		return nil, badInput(err)
+	}
+	for _, w := range r.Warnings {
+		warnf(stderr, "%s", w)
+	}
+	if math.IsNaN(maxSegNM) || maxSegNM < 1 || maxSegNM > 1000 {
+		return nil, badInputf("--max-seg-nm %v: want 1..1000", maxSegNM)
+	}
+	opt := route.Options{MaxSegment: maxSegNM * 1852}
+	if levels != "" {
+		rule, err := route.ParseLevelRule(levels)
+		if err != nil {
+			return nil, badInputf("--levels: %v", err)
+		}
+		opt.Levels = rule
+	} else {
+		rule, _ := route.ParseLevelRule("odd-even-magnetic")
+		opt.Levels = rule
+	}
+	switch {
+	case date != "":
+		d, err := time.Parse("2006-01-02", date)
+		if err != nil {
+			return nil, badInputf("--date %q: want YYYY-MM-DD", date)
+		}
+		opt.Date = d
+	case !depart.IsZero():
+		opt.Date = depart
+	}
+	tr, err := route.Build(r, opt)
+	if err != nil {
+		return nil, badInput(err)
+	}
+	return tr, nil
+}
+
+// parseBlock reads "FL370,FL390@1200-1800".
+func parseBlock(s string) (optimizer.Block, error) {
+	var b optimizer.Block
+	lv, rng, ok := strings.Cut(s, "@")
+	from, to, ok2 := strings.Cut(rng, "-")
+	if !ok || !ok2 {
+		return b, badInputf("--block %q: want FL370,FL390@FROM_NM-TO_NM", s)
+	}
+	x, err1 := strconv.ParseFloat(from, 64)
+	y, err2 := strconv.ParseFloat(to, 64)
+	if err1 != nil || err2 != nil || !(x >= 0) || !(y > x) {
+		return b, badInputf("--block %q: distances must be numbers with FROM < TO", s)
+	}
+	b.FromDist, b.ToDist = x*1852, y*1852
+	for _, l := range strings.Split(lv, ",") {
+		n, err := strconv.Atoi(strings.TrimPrefix(strings.TrimSpace(strings.ToUpper(l)), "FL"))
+		if err != nil || n < 10 || n > 600 {
+			return b, badInputf("--block %q: level %q is not like FL370", s, l)
+		}
+		b.Levels = append(b.Levels, n)
+	}
+	return b, nil
+}
+
+// parseTurbulence reads "0.20:1.5,0.45:closed".
+func parseTurbulence(s string) ([]optimizer.TurbulenceRule, error) {
+	var out []optimizer.TurbulenceRule
+	for _, part := range strings.Split(s, ",") {
+		e, v, ok := strings.Cut(strings.TrimSpace(part), ":")
+		edr, err := strconv.ParseFloat(e, 64)
+		if !ok || err != nil || !(edr > 0) {
+			return nil, badInputf("--turbulence %q: item %q: want EDR:FLOOR or EDR:closed", s, part)
+		}
+		r := optimizer.TurbulenceRule{EDR: edr}
+		if v == "closed" {
+			r.Closed = true
+		} else if fl, err := strconv.ParseFloat(v, 64); err == nil && fl >= 1 && fl <= 2.5 {
+			r.Floor = fl
+		} else {
+			return nil, badInputf("--turbulence %q: item %q: floor must be 1.0..2.5 g or closed", s, part)
+		}
+		out = append(out, r)
+	}
+	return out, nil
+}
+
+// planErr maps optimizer errors to exit codes.
+func planErr(err error) error {
+	if err == nil {
+		return nil
+	}
+	if optimizer.IsInputError(err) {
+		return badInput(err)
+	}
+	return fmt.Errorf("internal: %w", err)
+}

@@ -1,0 +1,141 @@
+package main
+
+import (
+	"encoding/json"
+	"fmt"
+	"text/tabwriter"
+	"time"
+
+	"github.com/paulmach/orb"
+	"github.com/paulmach/orb/geojson"
+	"github.com/spf13/cobra"
+
+	"levelpath/route"
+)
+
+func init() { subcommands = append(subcommands, newRouteCmd) }
+
+type pointJSON struct {
+	Lat  float64 `json:"lat"`
+	Lon  float64 `json:"lon"`
+	Name string  `json:"name,omitempty"`
+}
+
+type legJSON struct {
+	Index            int       `json:"index"`
+	From             pointJSON `json:"from"`
+	To               pointJSON `json:"to"`
+	LengthNM         float64   `json:"length_nm"`
+	InitialCourseDeg float64   `json:"initial_course_deg"`
+}
+
+type segmentJSON struct {
+	Index         int       `json:"index"`
+	Leg           int       `json:"leg"`
+	FromNM        float64   `json:"from_nm"`
+	ToNM          float64   `json:"to_nm"`
+	LengthNM      float64   `json:"length_nm"`
+	Start         pointJSON `json:"start"`
+	End           pointJSON `json:"end"`
+	TrueCourseDeg float64   `json:"true_course_deg"`
+	MagVarDeg     float64   `json:"mag_var_deg"`
+	MagCourseDeg  float64   `json:"mag_course_deg"`
+	Levels        []int     `json:"levels"`
+}
+
+type routeJSON struct {
+	Source   string        `json:"source"`
+	TotalNM  float64       `json:"total_nm"`
+	Warnings []string      `json:"warnings"`
+	Legs     []legJSON     `json:"legs"`
+	Segments []segmentJSON `json:"segments"`
+}
+
+func pj(p route.Point) pointJSON { return pointJSON{Lat: p.Lat, Lon: p.Lon, Name: p.Name} }
+
+func routeDoc(t *route.Track) routeJSON {
+	d := routeJSON{Source: t.Route.Source, TotalNM: t.Total / 1852, Warnings: append([]string{}, t.Route.Warnings...)}
+	for _, l := range t.Legs {
+		d.Legs = append(d.Legs, legJSON{Index: l.Index, From: pj(l.From), To: pj(l.To), LengthNM: l.Length / 1852, InitialCourseDeg: l.InitialCourse})
+	}
+	for _, s := range t.Segments {
+		lv := s.Levels
+		if lv == nil {
+			lv = []int{}
+		}
+		d.Segments = append(d.Segments, segmentJSON{Index: s.Index, Leg: s.Leg, FromNM: s.FromDist / 1852, ToNM: s.ToDist / 1852,
+			LengthNM: s.Length / 1852, Start: pj(s.Start), End: pj(s.End), TrueCourseDeg: s.TrueCourse, MagVarDeg: s.MagVar,
+			MagCourseDeg: s.MagCourse, Levels: lv})
+	}
+	return d
+}
+
+func newRouteCmd() *cobra.Command {
+	var maxSeg float64
+	var date, levels string
+	c := &cobra.Command{
+		Use:   "route ROUTE",
+		Short: "Split a route into geodesic segments with courses, magnetic variation and allowed levels",
+		Example: `  levelpath route levelpath-demo/route.geojson
+  levelpath route "51.47,-0.45 53.63,-9.90 40.64,-73.78" --max-seg-nm 100 --format json`,
+		Args: cobra.ExactArgs(1),
+	}
+	format := formatFlag(c, "table", "json", "geojson")
+	c.Flags().Float64Var(&maxSeg, "max-seg-nm", 50, "longest segment, NM")
+	c.Flags().StringVar(&date, "date", "", "date for magnetic variation, YYYY-MM-DD (default today)")
+	c.Flags().StringVar(&levels, "levels", "", "level rule (default odd-even-magnetic)")
+	c.RunE = func(cmd *cobra.Command, args []string) error {
+		if err := checkFormat(*format, "table", "json", "geojson"); err != nil {
+			return err
+		}
+		dep := time.Now().UTC()
+		tr, err := buildTrack(args[0], levels, maxSeg, date, dep, cmd.ErrOrStderr())
+		if err != nil {
+			return err
+		}
+		out := cmd.OutOrStdout()
+		d := routeDoc(tr)
+		switch *format {
+		case "json":
+			return writeJSON(out, d)
+		case "geojson":
+			ls := orb.LineString{}
+			for i, s := range tr.Segments {
+				if i == 0 {
+					ls = append(ls, orb.Point{s.Start.Lon, s.Start.Lat})
+				}
+				ls = append(ls, orb.Point{s.End.Lon, s.End.Lat})
+			}
+			f := geojson.NewFeature(ls)
+			f.Properties["total_nm"] = d.TotalNM
+			f.Properties["segments"] = d.Segments
+			f.Properties["legs"] = d.Legs
+			b, err := json.MarshalIndent(geojson.NewFeatureCollection().Append(f), "", "  ")
+			if err != nil {
+				return err
+			}
+			_, err = fmt.Fprintf(out, "%s\n", b)
+			return err
+		}
+		fmt.Fprintf(out, "Route %s: %d legs, %d segments, %.1f NM\n\n", d.Source, len(d.Legs), len(d.Segments), d.TotalNM)
+		tw := tabwriter.NewWriter(out, 0, 0, 1, ' ', tabwriter.AlignRight)
+		fmt.Fprintln(tw, "seg\tleg\tfrom NM\tto NM\tlen NM\ttrue\tvar\tmag\tlevels\t")
+		for _, s := range d.Segments {
+			fmt.Fprintf(tw, "%d\t%d\t%.1f\t%.1f\t%.1f\t%05.1f\t%+.1f\t%05.1f\t%s\t\n", s.Index, s.Leg, s.FromNM, s.ToNM, s.LengthNM,
+				s.TrueCourseDeg, s.MagVarDeg, s.MagCourseDeg, levelList(s.Levels))
+		}
+		return tw.Flush()
+	}
+	return c
+}
+
+// levelList prints levels compactly: "290,310,...,410 (7)".
+func levelList(lv []int) string {
+	if len(lv) == 0 {
+		return "none"
+	}
+	if len(lv) <= 4 {
+		return fmt.Sprint(lv)
+	}
+	return fmt.Sprintf("%d,%d..%d (%d)", lv[0], lv[1], lv[len(lv)-1], len(lv))
+}

@@ -1,0 +1,113 @@
+package winds
+
+import (
+	"bytes"
+	"math"
+	"math/rand/v2"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"testing"
+	"time"
+)
+
+// benchGrid is a 0.25-degree global field of a smooth pattern plus noise,
+// as a 16-bit simple-packed GRIB2 message.
+func benchGrid(b *testing.B) []byte {
+	b.Helper()
+	r := rand.New(rand.NewPCG(1, 2))
+	m := Message{Param: ParamU, LevelType: 100, Level: 25000, RefTime: t0, ValidTime: t0,
+		Ni: 1440, Nj: 721, Lat1: 90, Lon1: 0, Lat2: -90, Lon2: 359.75, Di: 0.25, Dj: 0.25, Ensemble: -1}
+	m.Values = make([]float32, m.Ni*m.Nj)
+	for j := 0; j < m.Nj; j++ {
+		lat := (90 - 0.25*float64(j)) * math.Pi / 180
+		for i := 0; i < m.Ni; i++ {
+			lon := 0.25 * float64(i) * math.Pi / 180
+			m.Values[j*m.Ni+i] = float32(15 + 35*math.Cos(lat)*math.Sin(2*lon) + 10*math.Sin(3*lat) + r.NormFloat64()*0.5)
+		}
+	}
+	var buf bytes.Buffer
+	if err := WriteGRIB2(&buf, []Message{m}); err != nil {
+		b.Fatal(err)
+	}
+	return buf.Bytes()
+}
+
+// benchFiles writes the simple-packed benchmark grid to the temp directory
+// (BENCH_DIR if set, for bench_eccodes.py) and a complex-packed copy made
+// by ecCodes' grib_set, when installed.
+func benchFiles(b *testing.B) (simple, complex []byte) {
+	simple = benchGrid(b)
+	dir := os.Getenv("BENCH_DIR")
+	if dir == "" {
+		dir = b.TempDir()
+	}
+	sp := filepath.Join(dir, "bench_simple.grib2")
+	if err := os.WriteFile(sp, simple, 0o644); err != nil {
+		b.Fatal(err)
+	}
+	if exe, err := exec.LookPath("grib_set"); err == nil {
+		cp := filepath.Join(dir, "bench_complex.grib2")
+		if out, err := exec.Command(exe, "-r", "-s", "packingType=grid_complex", sp, cp).CombinedOutput(); err != nil {
+			b.Fatalf("grib_set: %v %s", err, out)
+		}
+		complex, _ = os.ReadFile(cp)
+	}
+	return simple, complex
+}
+
+func benchDecode(b *testing.B, data []byte) {
+	b.SetBytes(int64(len(data)))
+	b.ReportAllocs()
+	b.ResetTimer()
+	for b.Loop() {
+		ms, err := Decode(bytes.NewReader(data), "bench")
+		if err != nil || len(ms[0].Values) != 1440*721 {
+			b.Fatal(err)
+		}
+	}
+	b.ReportMetric(float64(1440*721)*float64(b.N)/b.Elapsed().Seconds(), "values/s")
+}
+
+func BenchmarkDecodeSimple(b *testing.B) {
+	simple, _ := benchFiles(b)
+	benchDecode(b, simple)
+}
+
+func BenchmarkDecodeComplex(b *testing.B) {
+	_, complex := benchFiles(b)
+	if complex == nil {
+		b.Skip("grib_set not installed: no complex-packed file")
+	}
+	benchDecode(b, complex)
+}
+
+func BenchmarkSample(b *testing.B) {
+	fn := func(lat, lon, p float64, tt time.Time) float64 { return lat + lon + p/1000 }
+	var msgs []Message
+	for _, prm := range []Param{ParamU, ParamV, ParamT} {
+		for _, m := range synthetic(prm, []float64{30000, 25000, 20000, 15000}, []int{0, 6}, fn) {
+			msgs = append(msgs, m)
+		}
+	}
+	f, err := NewField(msgs)
+	if err != nil {
+		b.Fatal(err)
+	}
+	r := rand.New(rand.NewPCG(3, 4))
+	const n = 4096
+	var lat, lon, p [n]float64
+	var ts [n]time.Time
+	for i := range lat {
+		lat[i], lon[i] = r.Float64()*170-85, r.Float64()*360-180
+		p[i], ts[i] = 15000+r.Float64()*15000, t0.Add(time.Duration(r.Float64()*6*float64(time.Hour)))
+	}
+	b.ReportAllocs()
+	i := 0
+	for b.Loop() {
+		if _, err := f.Sample(lat[i], lon[i], p[i], ts[i]); err != nil {
+			b.Fatal(err)
+		}
+		i = (i + 1) % n
+	}
+}
