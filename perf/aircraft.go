@@ -51,10 +51,11 @@ type BuffetPoint struct {
 	Mach, CL float64
 }
 
-// Engines describes the engines with the high-bypass turbofan correlations
-// of Mattingly (Aircraft Engine Design, 2nd ed., AIAA 2002, eqs. 2.45a and
-// 2.55a-style), with per-aircraft coefficients instead of Mattingly's
-// generic 0.49, 3.0, 0.4 and 0.45:
+// Engines describes the engines with the high-bypass turbofan thrust-lapse
+// and TSFC correlations of Mattingly, Heiser and Pratt (Aircraft Engine
+// Design, 2nd ed., AIAA 2002, ch. 2; equation numbers not checked here),
+// with per-aircraft coefficients in place of the generic 0.49, 3.0, 0.4 and
+// 0.45 (TSFC in 1/h) given there:
 //
 //	δ0 = (p/P0)(1+0.2M²)^3.5, θ0 = (T/T0)(1+0.2M²)
 //	α  = δ0 (1 - LapseMach √M)                                 θ0 <= ThrottleRatio

@@ -7,7 +7,7 @@ import (
 
 func relErr(got, want float64) float64 { return math.Abs(got-want) / math.Abs(want) }
 
-// Check values: U.S. Standard Atmosphere 1976 (NOAA/NASA/USAF, 1976), Table I,
+// Check values: U.S. Standard Atmosphere 1976 (NOAA/NASA/USAF, 1976),
 // as listed in shared/REFERENCES.md; tolerance 0.01 %.
 func TestISAReferenceValues(t *testing.T) {
 	tests := []struct {

@@ -8,8 +8,9 @@ import (
 
 // Total-energy equation at constant TAS (constant Mach in the isothermal
 // layer): dh/dt = (T - D) V/(m g), so a short climb takes Δh/ResidualClimb
-// (Anderson, Aircraft Performance and Design, 1999, sec. 5.3, with the
-// hydrostatic T_ISA/T factor for pressure altitude).
+// (energy method: Rutowski, J. Aeronautical Sciences 21, 1954; textbook form
+// in Anderson, Aircraft Performance and Design, 1999), with the hydrostatic
+// T_ISA/T factor for pressure altitude.
 func TestClimbMatchesEnergyEquation(t *testing.T) {
 	a := mustBuiltin(t, "demo-widebody")
 	for _, dev := range []float64{0, 15} {

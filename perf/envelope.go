@@ -115,7 +115,7 @@ func (a *Aircraft) Envelope(mass, isaDev, floor float64) (Envelope, error) {
 	env.MaxFL = math.Min(env.MaxFLCertified, math.Min(env.MaxFLBuffet, env.MaxFLThrust))
 	env.OptimumFL = nan
 	if bestRow >= 0 && !math.IsNaN(env.MaxFL) {
-		env.OptimumFL, env.optimumSpecificRange = a.optimumLevel(mass, isaDev, floor, env.Rows[bestRow].FL, env.MaxFL)
+		env.OptimumFL, _ = a.optimumLevel(mass, isaDev, floor, env.Rows[bestRow].FL, env.MaxFL)
 	}
 	return env, nil
 }

@@ -32,7 +32,8 @@ func TestOptimumLevelVsMass(t *testing.T) {
 		}
 	}
 	want := 6341.6 * math.Log(m1/m2) / FtToM / 100
-	if got := e2.OptimumFL - e1.OptimumFL; /* the lighter flies higher */ math.Abs(got-want) > 1 {
+	// The lighter aircraft flies higher.
+	if got := e2.OptimumFL - e1.OptimumFL; math.Abs(got-want) > 1 {
 		t.Errorf("optimum rise %.2f FL, want %.2f FL (within 100 ft)", got, want)
 	}
 }

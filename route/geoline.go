@@ -14,12 +14,7 @@ type geoLine struct {
 	c3a                               [nOrd]float64
 }
 
-func newGeoLine(lat1, lon1, azi1 float64) *geoLine {
-	l := &geoLine{lat1: lat1, lon1: lon1}
-	l.init(lat1, lon1, azi1)
-	return l
-}
-
+// init sets l to the geodesic from (lat1, lon1) with azimuth azi1 (degrees).
 func (l *geoLine) init(lat1, lon1, azi1 float64) {
 	l.lat1, l.lon1 = lat1, lon1
 	salp1, calp1 := sincosd(angRound(angNorm(azi1)))

@@ -35,12 +35,17 @@ func TestBadInput(t *testing.T) {
 		"total length huge":   mod(g2, func(b []byte) { binary.BigEndian.PutUint64(b[8:], 1<<39) }),
 		"section length":      mod(g2, func(b []byte) { binary.BigEndian.PutUint32(b[37:], 5000) }),
 		"section order":       mod(g2, func(b []byte) { b[37+4] = 5 }),
-		"more points":         mod(g2, func(b []byte) { binary.BigEndian.PutUint32(b[37+30:], 3600); binary.BigEndian.PutUint32(b[37+34:], 1800); binary.BigEndian.PutUint32(b[37+6:], 3600*1800); binary.BigEndian.PutUint32(b[143+5:], 3600*1800) }),
-		"points disagree":     mod(g2, func(b []byte) { binary.BigEndian.PutUint32(b[37+6:], 100) }),
-		"values disagree":     mod(g2, func(b []byte) { binary.BigEndian.PutUint32(b[143+5:], 683) }),
-		"missing 7777":        mod(g2, func(b []byte) { copy(b[len(b)-4:], "7778") }),
-		"trailing junk":       append(append([]byte(nil), g2...), "JUNKJUNKJUNKJUNK"...),
-		"grib1 truncated":     g1[:len(g1)-500],
+		"more points": mod(g2, func(b []byte) {
+			binary.BigEndian.PutUint32(b[37+30:], 3600)
+			binary.BigEndian.PutUint32(b[37+34:], 1800)
+			binary.BigEndian.PutUint32(b[37+6:], 3600*1800)
+			binary.BigEndian.PutUint32(b[143+5:], 3600*1800)
+		}),
+		"points disagree": mod(g2, func(b []byte) { binary.BigEndian.PutUint32(b[37+6:], 100) }),
+		"values disagree": mod(g2, func(b []byte) { binary.BigEndian.PutUint32(b[143+5:], 683) }),
+		"missing 7777":    mod(g2, func(b []byte) { copy(b[len(b)-4:], "7778") }),
+		"trailing junk":   append(append([]byte(nil), g2...), "JUNKJUNKJUNKJUNK"...),
+		"grib1 truncated": g1[:len(g1)-500],
 		"grib1 bds length": mod(g1, func(b []byte) {
 			pds := 8 + u24(b[8:])
 			bds := pds + u24(b[pds:])

@@ -52,12 +52,12 @@ func TestGroundSpeedVector(t *testing.T) {
 // definition of the projection (exact for the axis-aligned cases).
 func TestAlongAcross(t *testing.T) {
 	for _, c := range []struct{ u, v, course, along, across float64 }{
-		{0, 10, 0, 10, 0},     // southerly wind, northbound: tailwind
-		{10, 0, 0, 0, 10},     // westerly, northbound: from the left
-		{-10, 0, 0, 0, -10},   // easterly, northbound: from the right
-		{10, 0, 90, 10, 0},    // westerly, eastbound: tailwind
-		{0, 10, 90, 0, -10},   // southerly, eastbound: from the right
-		{0, -20, 180, 20, 0},  // northerly, southbound: tailwind
+		{0, 10, 0, 10, 0},    // southerly wind, northbound: tailwind
+		{10, 0, 0, 0, 10},    // westerly, northbound: from the left
+		{-10, 0, 0, 0, -10},  // easterly, northbound: from the right
+		{10, 0, 90, 10, 0},   // westerly, eastbound: tailwind
+		{0, 10, 90, 0, -10},  // southerly, eastbound: from the right
+		{0, -20, 180, 20, 0}, // northerly, southbound: tailwind
 		{3, 4, 36.8698976, 5, 0},
 	} {
 		a, x := AlongAcross(c.u, c.v, c.course)

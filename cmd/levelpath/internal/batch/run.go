@@ -10,6 +10,7 @@ import (
 	"path/filepath"
 	"runtime"
 	"runtime/debug"
+	"slices"
 	"strings"
 	"sync"
 )
@@ -157,6 +158,7 @@ func Run(ctx context.Context, rows []Row, bad []RowError, plan Planner, opt Opti
 	for line := range badByLine {
 		man.Records = append(man.Records, badName(line))
 	}
+	slices.Sort(man.Records)
 
 	if err := prepareOut(opt.Out, opt.Resume); err != nil {
 		return sum, err

@@ -16,9 +16,9 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"strconv"
 	"strings"
 
-	xfont "golang.org/x/image/font"
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/font"
 	"gonum.org/v1/plot/text"
@@ -133,12 +133,19 @@ func newCanvas(format string) (vg.CanvasWriterTo, error) {
 	return nil, UnsupportedError(fmt.Sprintf("format %q; want svg, png or pdf", format))
 }
 
-// render draws fn on a fresh canvas for format and writes it to w.
-func render(w io.Writer, format string, fn func(dc draw.Canvas)) error {
+// render draws fn on a fresh canvas for format and writes it to w. A panic
+// inside the plotting library (its canvases panic on some font and path
+// errors) is returned as an error rather than passed on.
+func render(w io.Writer, format string, fn func(dc draw.Canvas)) (err error) {
 	c, err := newCanvas(format)
 	if err != nil {
 		return err
 	}
+	defer func() {
+		if r := recover(); r != nil {
+			err = fmt.Errorf("chart: drawing %s: %v", format, r)
+		}
+	}()
 	dc := draw.New(c)
 	dc.SetColor(color.White)
 	dc.Fill(dc.Rectangle.Path())
@@ -154,6 +161,7 @@ var (
 	colGuide    = rgb(0xc9, 0xd1, 0xdb)
 	colProfile  = rgb(0x0b, 0x4f, 0x8a) // deep blue
 	colStep     = rgb(0xe0, 0x8a, 0x00) // amber
+	stepText    = rgb(0x9a, 0x5b, 0x00) // darker amber, readable on white
 	colBuffet   = rgb(0xc6, 0x28, 0x28) // red
 	colThrust   = rgb(0x6a, 0x3d, 0x9a) // violet
 	colWind     = rgb(0x00, 0x83, 0x8f) // teal
@@ -176,18 +184,12 @@ func sans(size vg.Length) font.Font {
 	return font.Font{Typeface: "Liberation", Variant: "Sans", Size: size}
 }
 
-func sansBold(size vg.Length) font.Font {
-	f := sans(size)
-	f.Weight = xfont.WeightBold
-	return f
-}
-
 // newPlot returns a plot in the package's look: sans-serif text, light
 // grid, no top padding beyond the title.
 func newPlot(title, xlabel, ylabel string) *plot.Plot {
 	p := plot.New()
 	p.Title.Text = title
-	p.Title.TextStyle.Font = sansBold(14)
+	p.Title.TextStyle.Font = sans(15) // regular: vgpdf v0.17 fails on bold faces
 	p.Title.TextStyle.Color = colInk
 	p.Title.Padding = vg.Points(6)
 	for _, ax := range []*plot.Axis{&p.X, &p.Y} {
@@ -272,13 +274,63 @@ func (b blankLabels) Ticks(min, max float64) []plot.Tick {
 	return ts
 }
 
-// flTicks marks flight levels every step FL, labelled "FL350".
+// flTicks labels flight levels every step FL ("FL350"), with minor ticks
+// every 10 FL.
 type flTicks struct{ step float64 }
 
 func (f flTicks) Ticks(min, max float64) []plot.Tick {
 	var ts []plot.Tick
-	for v := math.Ceil(min/f.step) * f.step; v <= max+1e-9; v += f.step {
-		ts = append(ts, plot.Tick{Value: v, Label: fmt.Sprintf("FL%03.0f", v)})
+	for v := math.Ceil(min/10) * 10; v <= max+1e-9; v += 10 {
+		t := plot.Tick{Value: v}
+		if math.Mod(v, f.step) == 0 {
+			t.Label = fmt.Sprintf("FL%03.0f", v)
+		}
+		ts = append(ts, t)
+	}
+	return ts
+}
+
+// color4 returns c with alpha a (non-premultiplied).
+func color4(c color.Color, a uint8) color.Color {
+	n := color.NRGBAModel.Convert(c).(color.NRGBA)
+	n.A = a
+	return n
+}
+
+// niceTicks marks round values (1, 2 or 5 x 10^k apart) aiming at about N
+// labelled ticks, with four unlabelled minor ticks between neighbours
+// where they fit, labelled without trailing zeros.
+type niceTicks struct{ N int }
+
+func (n niceTicks) Ticks(min, max float64) []plot.Tick {
+	if !(max > min) || !finite(min, max) {
+		return nil
+	}
+	target := float64(n.N)
+	if target < 2 {
+		target = 6
+	}
+	raw := (max - min) / target
+	mag := math.Pow(10, math.Floor(math.Log10(raw)))
+	step := mag
+	for _, m := range []float64{1, 2, 5, 10} {
+		if m*mag >= raw {
+			step = m * mag
+			break
+		}
+	}
+	minor := step / 5
+	if step == 2*mag {
+		minor = step / 4
+	}
+	var ts []plot.Tick
+	for k := math.Ceil(min / minor); k*minor <= max+1e-9*step; k++ {
+		v := k * minor
+		t := plot.Tick{Value: v}
+		if r := v / step; math.Abs(r-math.Round(r)) < 1e-6 {
+			t.Label = strconv.FormatFloat(math.Round(r)*step, 'f', -1, 64)
+		}
+		ts = append(ts, t)
 	}
 	return ts
 }

@@ -20,8 +20,12 @@ type legendBox struct {
 	AX, AY float64
 }
 
+// newLegendBox moves p's legend entries into a legendBox, leaving p's own
+// legend empty so that they are drawn once.
 func newLegendBox(p *plot.Plot, ax, ay float64) *legendBox {
-	return &legendBox{Legend: p.Legend, AX: ax, AY: ay}
+	b := &legendBox{Legend: p.Legend, AX: ax, AY: ay}
+	p.Legend = plot.NewLegend()
+	return b
 }
 
 // Plot implements plot.Plotter.
@@ -42,6 +46,36 @@ func (b *legendBox) Plot(c draw.Canvas, _ *plot.Plot) {
 	l.XOffs, l.YOffs = 0, 0
 	l.Draw(draw.Canvas{Canvas: c.Canvas, Rectangle: vg.Rectangle{
 		Min: vg.Point{X: x0 + pad, Y: y0 + pad}, Max: vg.Point{X: x0 + pad + w, Y: y0 + pad + h}}})
+}
+
+// legendRow is a one-line legend drawn just above the data area, left to
+// right from its left edge, for short panels where a boxed legend would
+// hide data.
+type legendRow struct {
+	Names  []string
+	Thumbs []plot.Thumbnailer
+	Text   text.Style
+}
+
+func (r *legendRow) Add(name string, t plot.Thumbnailer) {
+	r.Names = append(r.Names, name)
+	r.Thumbs = append(r.Thumbs, t)
+}
+
+// Plot implements plot.Plotter.
+func (r *legendRow) Plot(c draw.Canvas, _ *plot.Plot) {
+	h := r.Text.Rectangle("Mg").Size().Y
+	x := c.Min.X
+	y := c.Max.Y + vg.Points(3)
+	thumbW := vg.Points(26)
+	for i, name := range r.Names {
+		icon := &draw.Canvas{Canvas: c.Canvas, Rectangle: vg.Rectangle{
+			Min: vg.Point{X: x, Y: y}, Max: vg.Point{X: x + thumbW, Y: y + h}}}
+		r.Thumbs[i].Thumbnail(icon)
+		x += thumbW + vg.Points(4)
+		c.FillText(r.Text, vg.Point{X: x, Y: y + h/2}, name)
+		x += r.Text.Rectangle(name).Size().X + vg.Points(18)
+	}
 }
 
 // hLines draws full-width horizontal guides at the given Y values, each
@@ -86,6 +120,22 @@ func (triangleDown) DrawGlyph(c *draw.Canvas, sty draw.GlyphStyle, pt vg.Point) 
 	p.Move(vg.Point{X: pt.X, Y: pt.Y - r})
 	p.Line(vg.Point{X: pt.X - r*0.866, Y: pt.Y + r/2})
 	p.Line(vg.Point{X: pt.X + r*0.866, Y: pt.Y + r/2})
+	p.Close()
+	c.Fill(p)
+}
+
+// triangleUp is a filled upward-pointing triangle glyph (draw.TriangleGlyph
+// is only outlined), for step climbs.
+type triangleUp struct{}
+
+// DrawGlyph implements draw.GlyphDrawer.
+func (triangleUp) DrawGlyph(c *draw.Canvas, sty draw.GlyphStyle, pt vg.Point) {
+	c.SetLineStyle(draw.LineStyle{Color: sty.Color, Width: vg.Points(0.5)})
+	r := sty.Radius
+	var p vg.Path
+	p.Move(vg.Point{X: pt.X, Y: pt.Y + r})
+	p.Line(vg.Point{X: pt.X - r*0.866, Y: pt.Y - r/2})
+	p.Line(vg.Point{X: pt.X + r*0.866, Y: pt.Y - r/2})
 	p.Close()
 	c.Fill(p)
 }

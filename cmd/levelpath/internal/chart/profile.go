@@ -86,7 +86,7 @@ func Profile(w io.Writer, format string, in ProfileInput) error {
 	top, mid, bot := profilePanels(in)
 	return render(w, format, func(dc draw.Canvas) {
 		dc = draw.Crop(dc, vg.Points(8), -vg.Points(44), vg.Points(6), -vg.Points(8))
-		stack(dc, []*plot.Plot{top, mid, bot}, []float64{0.58, 0.19, 0.23}, vg.Points(6))
+		stack(dc, []*plot.Plot{top, mid, bot}, []float64{0.58, 0.19, 0.23}, vg.Points(20))
 	})
 }
 
@@ -176,10 +176,10 @@ func profilePanels(in ProfileInput) (top, mid, bot *plot.Plot) {
 			} else {
 				down = append(down, pt)
 			}
-			at = append(at, plotter.XY{X: pt.X, Y: math.Max(float64(s.FromFL), float64(s.ToFL))})
+			at = append(at, plotter.XY{X: pt.X, Y: math.Min(float64(s.FromFL), float64(s.ToFL))})
 			names = append(names, fmt.Sprintf("%s at %.0f NM", flName(float64(s.ToFL)), pt.X))
 		}
-		g := draw.GlyphStyle{Color: colStep, Radius: vg.Points(5), Shape: draw.TriangleGlyph{}}
+		g := draw.GlyphStyle{Color: colStep, Radius: vg.Points(5), Shape: triangleUp{}}
 		var thumb *plotter.Scatter
 		if len(up) > 0 {
 			thumb = scatter(up, g)
@@ -194,7 +194,7 @@ func profilePanels(in ProfileInput) (top, mid, bot *plot.Plot) {
 				thumb = s
 			}
 		}
-		top.Add(labels(at, names, textStyle(9, colStep, text.XCenter, text.YBottom), vg.Point{Y: vg.Points(7)}))
+		top.Add(labels(at, names, textStyle(9, stepText, text.XCenter, text.YTop), vg.Point{Y: -vg.Points(8)}))
 		top.Legend.Add("level change (new level)", thumb)
 	}
 	if bufLine != nil {
@@ -209,11 +209,12 @@ func profilePanels(in ProfileInput) (top, mid, bot *plot.Plot) {
 	top.X.Min, top.X.Max = 0, xmax
 	top.Y.Min, top.Y.Max = 0, ymax
 	top.Y.Tick.Marker = flTicks{step: 50}
-	top.X.Tick.Marker = blankLabels{plot.DefaultTicks{}}
+	top.X.Tick.Marker = blankLabels{niceTicks{N: 10}}
 	top.Add(newLegendBox(top, 0.5, 0.04))
 
 	// Middle: along-track wind.
 	mid = newPlot("", "", "wind (kt)")
+	midLegend := &legendRow{Text: textStyle(10, colInk, text.XLeft, text.YCenter)}
 	zero := &hLines{Ys: []float64{0}, Labels: []string{""}, Style: lineStyle(colMMO, 0.8, nil)}
 	mgrid := plotter.NewGrid()
 	mgrid.Vertical = lineStyle(colGrid, 0.6, nil)
@@ -232,18 +233,19 @@ func profilePanels(in ProfileInput) (top, mid, bot *plot.Plot) {
 		l.FillColor = nil
 		mid.Add(l)
 		if i == 0 {
-			mid.Legend.Add("along-track wind (tailwind +)", l)
+			midLegend.Add("along-track wind (tailwind +)", l)
 		}
 	}
 	mid.Add(zero)
 	pad := math.Max(5, 0.15*(whi-wlo))
 	mid.X.Min, mid.X.Max = 0, xmax
 	mid.Y.Min, mid.Y.Max = math.Floor((wlo-pad)/10)*10, math.Ceil((whi+pad)/10)*10
-	mid.X.Tick.Marker = blankLabels{plot.DefaultTicks{}}
-	mid.Add(newLegendBox(mid, 1, 1))
+	mid.X.Tick.Marker = blankLabels{niceTicks{N: 10}}
+	mid.Add(midLegend)
 
 	// Bottom: buffet margin against the floor.
 	bot = newPlot("", "distance from departure (NM)", "margin (g)")
+	botLegend := &legendRow{Text: textStyle(10, colInk, text.XLeft, text.YCenter)}
 	bgrid := plotter.NewGrid()
 	bgrid.Vertical = lineStyle(colGrid, 0.6, nil)
 	bgrid.Horizontal = lineStyle(colGrid, 0.6, nil)
@@ -259,7 +261,7 @@ func profilePanels(in ProfileInput) (top, mid, bot *plot.Plot) {
 		l := line(r, lineStyle(colBuffet, 1.6, dashed))
 		bot.Add(l)
 		if i == 0 {
-			bot.Legend.Add("protection floor", l)
+			botLegend.Add("protection floor", l)
 		}
 		for _, p := range r {
 			glo, ghi = math.Min(glo, p.Y), math.Max(ghi, p.Y)
@@ -269,7 +271,7 @@ func profilePanels(in ProfileInput) (top, mid, bot *plot.Plot) {
 		l := line(r, lineStyle(colMargin, 2.2, nil))
 		bot.Add(l)
 		if i == 0 {
-			bot.Legend.Add("buffet margin at leg start", l)
+			botLegend.Add("buffet margin at leg start", l)
 		}
 		for _, p := range r {
 			glo, ghi = math.Min(glo, p.Y), math.Max(ghi, p.Y)
@@ -280,8 +282,9 @@ func profilePanels(in ProfileInput) (top, mid, bot *plot.Plot) {
 	}
 	gpad := math.Max(0.03, 0.12*(ghi-glo))
 	bot.X.Min, bot.X.Max = 0, xmax
+	bot.X.Tick.Marker = niceTicks{N: 10}
 	bot.Y.Min, bot.Y.Max = math.Floor((glo-gpad)*20)/20, math.Ceil((ghi+gpad)*20)/20
-	bot.Add(newLegendBox(bot, 1, 1))
+	bot.Add(botLegend)
 	return top, mid, bot
 }
 

@@ -1,3 +1,7 @@
+// Package demo writes the invented demonstration scenario: routes, a
+// synthetic weather file (winds.SyntheticWeather) and a day's schedule.
+// Everything in it is invented for demonstration; none of it is a check
+// value.
 package demo
 
 import (
@@ -121,7 +125,7 @@ func Write(dir string) (Files, error) {
 	}
 	fs.Route = fs.Routes[0]
 	var buf bytes.Buffer
-	if err := winds.WriteGRIB2(&buf, Weather(Ref)); err != nil {
+	if err := winds.WriteGRIB2(&buf, winds.SyntheticWeather(Ref)); err != nil {
 		return fs, err
 	}
 	fs.Weather = filepath.Join(dir, "weather.grib2")

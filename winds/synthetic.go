@@ -1,58 +1,53 @@
-// Package demo writes the invented demonstration scenario: routes, a
-// synthetic weather file and a day's schedule. Everything in it is
-// invented for demonstration; none of it is a check value.
-package demo
+package winds
 
 import (
 	"math"
 	"time"
-
-	"levelpath/perf"
-	"levelpath/winds"
 )
 
 // Grid of the synthetic weather: global, 2 degrees, north to south.
 const (
-	gridStep = 2.0
-	gridNi   = 180
-	gridNj   = 91
+	synStep = 2.0
+	synNi   = 180
+	synNj   = 91
 )
 
-// PressureLevels of the synthetic weather, Pa.
-var PressureLevels = []float64{85000, 70000, 50000, 40000, 30000, 25000, 20000, 15000, 10000}
+// SyntheticLevels are the pressure levels of the synthetic weather, Pa.
+var SyntheticLevels = []float64{85000, 70000, 50000, 40000, 30000, 25000, 20000, 15000, 10000}
 
-// WeatherHours are the valid times after the reference time.
-var WeatherHours = []int{0, 6, 12, 18, 24, 30, 36}
+// SyntheticHours are the valid times after the reference time.
+var SyntheticHours = []int{0, 6, 12, 18, 24, 30, 36}
 
-// Weather returns the invented weather as GRIB messages valid at ref plus
-// WeatherHours: a meandering westerly jet stream near 250 hPa in each
+// SyntheticWeather returns invented weather for demonstrations and
+// benchmarks, as GRIB messages valid at ref plus SyntheticHours on a global
+// 2-degree grid at SyntheticLevels: a meandering westerly jet stream near 250 hPa in each
 // hemisphere, a temperature deviation from ISA that is warm in the tropics
 // and cold towards the poles, and a patch of turbulence (EDR) near the
 // northern jet. Reproducible: no randomness.
-func Weather(ref time.Time) []winds.Message {
-	var msgs []winds.Message
-	n := gridNi * gridNj
-	for _, h := range WeatherHours {
+func SyntheticWeather(ref time.Time) []Message {
+	var msgs []Message
+	n := synNi * synNj
+	for _, h := range SyntheticHours {
 		vt := ref.Add(time.Duration(h) * time.Hour)
-		for _, p := range PressureLevels {
+		for _, p := range SyntheticLevels {
 			u := make([]float32, n)
 			v := make([]float32, n)
 			t := make([]float32, n)
 			e := make([]float32, n)
-			for j := 0; j < gridNj; j++ {
-				lat := 90 - float64(j)*gridStep
-				for i := 0; i < gridNi; i++ {
-					lon := float64(i) * gridStep
-					uu, vv, tt, ee := Point(lat, lon, p, float64(h))
-					k := j*gridNi + i
+			for j := 0; j < synNj; j++ {
+				lat := 90 - float64(j)*synStep
+				for i := 0; i < synNi; i++ {
+					lon := float64(i) * synStep
+					uu, vv, tt, ee := SyntheticPoint(lat, lon, p, float64(h))
+					k := j*synNi + i
 					u[k], v[k], t[k], e[k] = float32(uu), float32(vv), float32(tt), float32(ee)
 				}
 			}
-			base := winds.Message{LevelType: 100, Level: p, RefTime: ref, ValidTime: vt, Ni: gridNi, Nj: gridNj,
-				Lat1: 90, Lon1: 0, Lat2: -90, Lon2: 360 - gridStep, Di: gridStep, Dj: gridStep, ScanMode: 0, Ensemble: -1}
+			base := Message{LevelType: 100, Level: p, RefTime: ref, ValidTime: vt, Ni: synNi, Nj: synNj,
+				Lat1: 90, Lon1: 0, Lat2: -90, Lon2: 360 - synStep, Di: synStep, Dj: synStep, ScanMode: 0, Ensemble: -1}
 			for _, f := range []struct {
 				cat, num int
-				par      winds.Param
+				par      Param
 				vals     []float32
 			}{{2, 2, "u", u}, {2, 3, "v", v}, {0, 0, "t", t}, {19, 30, "edr", e}} {
 				m := base
@@ -64,10 +59,10 @@ func Weather(ref time.Time) []winds.Message {
 	return msgs
 }
 
-// Point is the invented weather at a point: u, v (m/s), T (K) and EDR
+// SyntheticPoint is the invented weather at a point: u, v (m/s), T (K) and EDR
 // (m^(2/3)/s) at latitude, longitude (degrees), pressure p (Pa) and hours
 // after the reference time.
-func Point(lat, lon, p, hours float64) (u, v, t, edr float64) {
+func SyntheticPoint(lat, lon, p, hours float64) (u, v, t, edr float64) {
 	rad := math.Pi / 180
 	// Jet axes meander with longitude and drift eastward with time.
 	phase := (lon - 8*hours) * rad
@@ -80,18 +75,31 @@ func Point(lat, lon, p, hours float64) (u, v, t, edr float64) {
 	v = vert * 62 * math.Exp(-sq((lat-jetN)/7)) * slopeN / 57.3 * 0.9
 	// Temperature: ISA at the pressure level plus a latitude-dependent
 	// deviation, smaller above the tropopause.
-	h := perf.AltitudeAt(p)
 	dev := 9*math.Cos(2*lat*rad) - 2
-	if h > 11000 {
+	if p < synTropopause {
 		dev *= 0.5
 	}
-	t = perf.ISATemperature(h) + dev
+	t = synISA(p) + dev
 	// Turbulence: a patch near the northern jet core over the ocean.
 	edr = 0.04 + 0.32*vert*math.Exp(-sq((lat-jetN-2)/4))*math.Exp(-sq(angDiff(lon, 330)/12))
 	return u, v, t, edr
 }
 
 func sq(x float64) float64 { return x * x }
+
+// synTropopause is the ISA pressure at 11 km, Pa.
+const synTropopause = 22632.06
+
+// synISA is the ICAO standard-atmosphere temperature at pressure p below
+// 20 km (Doc 7488: 288.15 K, lapse 6.5 K/km to 11 km, then 216.65 K).
+// The optimizer and the CLI use package perf's atmosphere; this copy keeps
+// winds free of imports from perf for the invented weather only.
+func synISA(p float64) float64 {
+	if p <= synTropopause {
+		return 216.65
+	}
+	return 288.15 * math.Pow(p/101325, 0.0065*287.05287/9.80665)
+}
 
 // angDiff returns a-b in degrees wrapped to [-180, 180).
 func angDiff(a, b float64) float64 {
