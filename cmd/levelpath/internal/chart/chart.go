@@ -323,12 +323,16 @@ func (n niceTicks) Ticks(min, max float64) []plot.Tick {
 	if step == 2*mag {
 		minor = step / 4
 	}
+	dec := 0
+	if l := math.Floor(math.Log10(step) + 1e-9); l < 0 {
+		dec = int(-l)
+	}
 	var ts []plot.Tick
 	for k := math.Ceil(min / minor); k*minor <= max+1e-9*step; k++ {
 		v := k * minor
 		t := plot.Tick{Value: v}
 		if r := v / step; math.Abs(r-math.Round(r)) < 1e-6 {
-			t.Label = strconv.FormatFloat(math.Round(r)*step, 'f', -1, 64)
+			t.Label = strconv.FormatFloat(math.Round(r)*step, 'f', dec, 64)
 		}
 		ts = append(ts, t)
 	}

@@ -54,16 +54,39 @@ func Envelope(w io.Writer, format string, e perf.Envelope) error {
 			}
 		}
 	}
-	band := func(lo, hi func(perf.EnvelopeRow) float64) []plotter.XYs {
-		var out []plotter.XYs
+	// band returns the boundary curves of a buffet band, up the low-speed
+	// side and down the high-speed side of each run of rows with a band
+	// (the topmost run through its apex when the band closes; as two
+	// curves when it is still open at the top row), and the closed areas.
+	band := func(lo, hi func(perf.EnvelopeRow) float64) (out, areas []plotter.XYs) {
 		var l, h plotter.XYs
+		m, f, ok := bandApex(e.Rows, func(r perf.EnvelopeRow) (float64, float64) { return lo(r), hi(r) })
+		topFL := math.NaN() // the level of the highest row with a band
+		for _, r := range e.Rows {
+			if a, b := lo(r), hi(r); finite(a, b) && b >= a {
+				topFL = r.FL
+			}
+		}
 		flush := func() {
 			if len(l) > 0 {
 				run := append(plotter.XYs{}, l...)
+				split := false
+				if ok && l[len(l)-1].Y == topFL && f > topFL {
+					run = append(run, plotter.XY{X: m, Y: f})
+				} else if l[len(l)-1].Y == e.Rows[len(e.Rows)-1].FL {
+					split = true
+				}
+				area := append(plotter.XYs{}, run...)
+				if split {
+					out = append(out, run)
+					run = nil
+				}
 				for i := len(h) - 1; i >= 0; i-- {
 					run = append(run, h[i])
+					area = append(area, h[i])
 				}
 				out = append(out, run)
+				areas = append(areas, area)
 			}
 			l, h = nil, nil
 		}
@@ -78,11 +101,11 @@ func Envelope(w io.Writer, format string, e perf.Envelope) error {
 			h = append(h, plotter.XY{X: b, Y: r.FL})
 		}
 		flush()
-		return out
+		return out, areas
 	}
-	oneG := band(func(r perf.EnvelopeRow) float64 { return r.LowBuffet1g }, func(r perf.EnvelopeRow) float64 { return r.HighBuffet1g })
-	atFloor := band(func(r perf.EnvelopeRow) float64 { return r.LowBuffetFloor }, func(r perf.EnvelopeRow) float64 { return r.HighBuffetFloor })
-	for _, run := range atFloor {
+	oneG, _ := band(func(r perf.EnvelopeRow) float64 { return r.LowBuffet1g }, func(r perf.EnvelopeRow) float64 { return r.HighBuffet1g })
+	atFloor, floorAreas := band(func(r perf.EnvelopeRow) float64 { return r.LowBuffetFloor }, func(r perf.EnvelopeRow) float64 { return r.HighBuffetFloor })
+	for _, run := range floorAreas {
 		if len(run) >= 3 {
 			if poly, err := plotter.NewPolygon(run); err == nil {
 				poly.Color = color4(colMargin, 0x22)
@@ -148,7 +171,7 @@ func Envelope(w io.Writer, format string, e perf.Envelope) error {
 		pt := plotter.XYs{{X: m, Y: fl}}
 		s := scatter(pt, draw.GlyphStyle{Color: colCorner, Radius: vg.Points(5), Shape: draw.CircleGlyph{}})
 		p.Add(s)
-		p.Add(labels(pt, []string{fmt.Sprintf("%s, M%.3f", flName(fl), m)}, textStyle(9, colCorner, text.XLeft, text.YCenter), vg.Point{X: vg.Points(9)}))
+		p.Add(labels(pt, []string{fmt.Sprintf("%s, M%.3f", flName(fl), m)}, textStyle(9, colCorner, text.XCenter, text.YBottom), vg.Point{Y: vg.Points(8)}))
 		p.Legend.Add(fmt.Sprintf("coffin corner at %.2f g", e.Floor), s)
 	}
 	if finite(e.MaxFL) {
@@ -165,9 +188,15 @@ func Envelope(w io.Writer, format string, e perf.Envelope) error {
 		p.Add(h)
 		p.Legend.Add(fmt.Sprintf("optimum level %s", flName(e.OptimumFL)), h)
 	}
-	p.Add(newLegendBox(p, 0, 1))
+	p.X.Tick.Marker = niceTicks{N: 10}
+	leg := newLegendBox(p, 0, 1)
 	return render(w, format, func(dc draw.Canvas) {
-		p.Draw(draw.Crop(dc, vg.Points(8), -vg.Points(40), vg.Points(6), -vg.Points(8)))
+		legW := vg.Points(230)
+		p.Draw(draw.Crop(dc, vg.Points(8), -(legW + vg.Points(40)), vg.Points(6), -vg.Points(8)))
+		da := p.DataCanvas(draw.Crop(dc, vg.Points(8), -(legW + vg.Points(40)), vg.Points(6), -vg.Points(8)))
+		side := da
+		side.Min.X, side.Max.X = dc.Max.X-legW-vg.Points(4), dc.Max.X-vg.Points(4)
+		leg.Plot(side, p)
 	})
 }
 
@@ -184,40 +213,47 @@ func maxFLReason(e perf.Envelope) string {
 	return "least limit"
 }
 
-// coffinCorner returns where the buffet-free band at the floor closes: at
-// the highest row i whose floor band is finite, the low- and high-speed
-// boundaries are extended as straight lines through rows i-1 and i until
-// they meet, the meeting level limited to the gap before row i+1 (or to
-// row i when the band is still open at the top row, or no row is above).
-// The corner's Mach is the low-speed boundary there. ok is false when no
-// row has a finite band. This linear extrapolation is our choice: the
-// boundaries steepen towards the corner, so it may place the corner up to
-// one row spacing low, which is within the row spacing the envelope is
-// tabulated at.
+// coffinCorner returns where the buffet-free band at the floor closes
+// (see bandApex), from the low- and high-speed floor boundaries.
 func coffinCorner(rows []perf.EnvelopeRow) (mach, fl float64, ok bool) {
+	return bandApex(rows, func(r perf.EnvelopeRow) (float64, float64) { return r.LowBuffetFloor, r.HighBuffetFloor })
+}
+
+// bandApex returns the level and Mach where a buffet band closes. At the
+// highest row i with a finite band, if row i+1 exists (band closed) and
+// row i-1 has a band too, the closing level is extrapolated from rows i-1
+// and i: the two buffet Machs are the roots of CL_buffet(M) = CL(M, n),
+// which merge in a double root as the level rises, so near the closure the
+// band width w goes as the square root of the distance to it and w² is
+// close to linear in level. The level where that line of w² reaches zero,
+// limited to [FL_i, FL_i+1], is the apex, and its Mach is the band centre
+// extrapolated linearly. Otherwise (the band open at the top row, or a
+// single-row band) the apex is the centre of row i. ok is false when no
+// row has a band. Cost O(len(rows)). This extrapolation is our method.
+func bandApex(rows []perf.EnvelopeRow, band func(perf.EnvelopeRow) (lo, hi float64)) (mach, fl float64, ok bool) {
 	i := -1
 	for k, r := range rows {
-		if finite(r.LowBuffetFloor, r.HighBuffetFloor) {
+		if lo, hi := band(r); finite(lo, hi) && hi >= lo {
 			i = k
 		}
 	}
 	if i < 0 {
 		return 0, 0, false
 	}
-	r := rows[i]
-	lo, hi := r.LowBuffetFloor, r.HighBuffetFloor
-	if i == len(rows)-1 || i == 0 || !finite(rows[i-1].LowBuffetFloor, rows[i-1].HighBuffetFloor) {
-		return (lo + hi) / 2, r.FL, true
+	lo, hi := band(rows[i])
+	c, w := (lo+hi)/2, hi-lo
+	if i == len(rows)-1 || i == 0 {
+		return c, rows[i].FL, true
 	}
-	q := rows[i-1]
-	dfl := r.FL - q.FL
-	sLo := (lo - q.LowBuffetFloor) / dfl  // Mach per FL, > 0 as the low side moves right
-	sHi := (hi - q.HighBuffetFloor) / dfl // < 0 as the high side moves left
-	top := rows[i+1].FL
-	if sLo-sHi <= 0 {
-		return (lo + hi) / 2, r.FL, true
+	qlo, qhi := band(rows[i-1])
+	if !finite(qlo, qhi) || qhi < qlo {
+		return c, rows[i].FL, true
 	}
-	f := r.FL + (hi-lo)/(sLo-sHi)
-	f = math.Min(f, top)
-	return lo + sLo*(f-r.FL), f, true
+	dfl := rows[i].FL - rows[i-1].FL
+	qc, qw := (qlo+qhi)/2, qhi-qlo
+	f := rows[i+1].FL
+	if d := qw*qw - w*w; d > 0 {
+		f = math.Min(f, rows[i].FL+w*w/d*dfl)
+	}
+	return c + (c-qc)/dfl*(f-rows[i].FL), f, true
 }

@@ -119,7 +119,7 @@ func sampleEnvelope() perf.Envelope {
 		row := perf.EnvelopeRow{FL: fl, Pressure: perf.FLToPressure(fl), LowBuffet1g: lo1, HighBuffet1g: hi1,
 			LowBuffetFloor: lof, HighBuffetFloor: hif, MMO: 0.82, LRCMach: nan, ResidualClimb: nan}
 		if finite(lof) {
-			row.LRCMach = math.Min(0.79, math.Max(lof+0.02, 0.6))
+			row.LRCMach = math.Min(0.79, (lof+hif)/2)
 		}
 		e.Rows = append(e.Rows, row)
 	}
