@@ -45,7 +45,7 @@ func (s *sim) step(k int, ch Change, c cond, steps *int, lastStep *float64) erro
 	if mach == 0 && len(s.plan.Legs) > 0 {
 		mach = s.plan.Legs[len(s.plan.Legs)-1].Mach
 	}
-	sch := machSchedule(q.ClimbSchedule, mach, math.Max(pFrom, pTo))
+	sch := machSchedule(a, q.ClimbSchedule, mach, math.Max(pFrom, pTo))
 	tr := transition(a, s.m, pFrom, pTo, (c.isaDev+cNew.isaDev)/2, sch, to > from)
 	if !tr.ok {
 		return inputErrorf("profile", "change FL%03d to FL%03d at %.0f NM at %.0f kg: %s", from, to, s.x/nmToM, s.m, tr.why)

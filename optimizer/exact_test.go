@@ -12,7 +12,7 @@ func smallProblem(t testing.TB, bucket float64) *Problem {
 	return &Problem{
 		Track:       track(t, "45.0,-73.0 44.0,-61.0", "every-1000:330-350", 50),
 		Aircraft:    aircraft(t, "demo-narrowbody"),
-		TakeoffMass: 70000, CI: 30, MassBucket: bucket,
+		TakeoffMass: 66000, CI: 30, MassBucket: bucket,
 		Steps: StepRules{MaxChange: 2000, AllowDescent: true},
 	}
 }
@@ -103,11 +103,11 @@ func TestPlanIsCheapestAssessedProfile(t *testing.T) {
 	toc, tod := plan.Legs[0].ToDist, plan.Legs[len(plan.Legs)-1].FromDist
 	var bounds []float64
 	for k := 1; k < len(s.bounds)-1; k++ {
-		if s.bounds[k] > toc-60*nmToM && s.bounds[k] < tod+60*nmToM {
+		if s.bounds[k] > toc-60*nmToM && s.bounds[k] < tod+60*nmToM && len(bounds) < 7 {
 			bounds = append(bounds, s.bounds[k])
 		}
 	}
-	best, n := math.Inf(1), 0
+	best, n, rejected := math.Inf(1), 0, 0
 	var prof []int
 	var rec func(i int)
 	rec = func(i int) {
@@ -120,6 +120,7 @@ func TestPlanIsCheapestAssessedProfile(t *testing.T) {
 			}
 			ap, err := Assess(p, pr)
 			if err != nil || len(ap.Violations) > 0 {
+				rejected++
 				return
 			}
 			n++
@@ -137,13 +138,13 @@ func TestPlanIsCheapestAssessedProfile(t *testing.T) {
 		prof = []int{fl}
 		rec(0)
 	}
-	if n == 0 {
-		t.Fatal("no feasible profile enumerated")
+	if n < 20 {
+		t.Fatalf("only %d feasible profiles enumerated (%d rejected)", n, rejected)
 	}
 	if plan.Totals.Cost > best*(1+5e-4) {
 		t.Errorf("plan cost %.3f exceeds the best of %d assessed profiles %.3f", plan.Totals.Cost, n, best)
 	}
-	t.Logf("plan %s cost %.3f; best of %d assessed profiles %.3f", plan.Profile, plan.Totals.Cost, n, best)
+	t.Logf("plan %s cost %.3f; best of %d feasible assessed profiles %.3f (%d rejected)", plan.Profile, plan.Totals.Cost, n, best, rejected)
 }
 
 // TestAssessReproducesPlan: pricing the plan's own profile, also through
@@ -160,7 +161,7 @@ func TestAssessReproducesPlan(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		if relDiff(ap.Totals.Cost, plan.Totals.Cost) > 1e-9 || len(ap.Violations) != 0 {
+		if relDiff(ap.Totals.Cost, plan.Totals.Cost) > 1e-7 || len(ap.Violations) != 0 {
 			t.Errorf("assess %s: cost %.3f (plan %.3f), %d violations %v", prof, ap.Totals.Cost, plan.Totals.Cost, len(ap.Violations), ap.Violations)
 		}
 	}

@@ -101,8 +101,10 @@ func transition(a *perf.Aircraft, m, pFrom, pTo, isaDev float64, s perf.Schedule
 	return transVal{ok: true, fuel: tr.Fuel, time: tr.Time, dist: tr.Distance, mach: s.Mach}
 }
 
-// machSchedule returns a schedule that flies Mach mach throughout between
-// the pressures (its CAS lies above the Mach's CAS at the lower level).
-func machSchedule(base perf.Schedule, mach, pLow float64) perf.Schedule {
-	return perf.Schedule{CASLow: base.CASLow, CAS: perf.MachToCAS(mach, pLow) * 1.001, Mach: mach}
+// machSchedule returns the schedule of a step: Mach mach, but never above
+// VMO, so that a step from a VMO-limited level accelerates to the new
+// level's Mach as it climbs (the climb integration charges the kinetic
+// energy) instead of starting at that Mach.
+func machSchedule(a *perf.Aircraft, base perf.Schedule, mach, pLow float64) perf.Schedule {
+	return perf.Schedule{CASLow: base.CASLow, CAS: math.Min(a.VMO, perf.MachToCAS(mach, pLow)*1.001), Mach: mach}
 }

@@ -222,7 +222,7 @@ func (p *Problem) normalise() ([]string, error) {
 		return nil, inputErrorf("mass-bucket", "mass bucket %v kg must be positive", p.MassBucket)
 	}
 	if p.ClimbSchedule == (perf.Schedule{}) {
-		p.ClimbSchedule = perf.DefaultSchedule(a)
+		p.ClimbSchedule = bestClimbSchedule(a, p.TakeoffMass, p.CI, p.MaxFL, p.Speed, p.Floor)
 	}
 	if p.DescentSchedule == (perf.Schedule{}) {
 		p.DescentSchedule = perf.DefaultSchedule(a)

@@ -43,10 +43,20 @@ func Solve(p *Problem) (*Plan, error) {
 	}
 	plan.SearchCost = res.cost
 	plan.Nodes, plan.Edges = res.nodes, s.edges
-	if len(plan.Violations) > 0 {
-		// The exact pricing disagrees with the search at a limit (a
-		// margin interpolated at the edge of feasibility); say so.
-		plan.Warnings = append(plan.Warnings, fmt.Sprintf("exact pricing found %d limit(s) broken that the search did not see; first: %s", len(plan.Violations), plan.Violations[0].Detail))
+	// Mass limits at landing are the loading's, not the profile's: warn.
+	// Anything else means the exact pricing disagrees with the search at
+	// a limit (a value interpolated at the edge of feasibility); say so.
+	var other []Violation
+	for _, v := range plan.Violations {
+		switch v.Limit {
+		case "landing-mass", "fuel":
+			plan.Warnings = append(plan.Warnings, v.Detail)
+		default:
+			other = append(other, v)
+		}
+	}
+	if len(other) > 0 {
+		plan.Warnings = append(plan.Warnings, fmt.Sprintf("exact pricing found %d limit(s) broken that the search did not see; first: %s", len(other), other[0].Detail))
 	}
 	// Baseline: the same problem with steps forbidden.
 	bq := q

@@ -165,31 +165,12 @@ func (s *solver) cruiseLeg(k, li int, m, d float64) (fuel, t float64, v cruiseVa
 }
 
 // transAt prices a step from level li to lj starting on segment k at mass
-// m, interpolated between grid masses like cruiseAt. The step is flown at
-// the cruise Mach of the new level (or of the old one where the new level
-// is not feasible at that mass).
+// m. The step is flown at the cruise Mach of the new level (or of the old
+// one where the new level is not feasible at that mass) and at the mean
+// temperature deviation of the two levels; both are rounded (Mach to
+// 0.002, deviation to 0.5 K) so that steps on many segments share one
+// memo, and the price is interpolated between grid masses like cruiseAt.
 func (s *solver) transAt(k, li, lj int, m float64) transVal {
-	g := int(math.Floor(m / s.grid))
-	v0, v1 := s.transGrid(k, li, lj, g), s.transGrid(k, li, lj, g+1)
-	if !v0.ok || !v1.ok {
-		return s.transExact(k, li, lj, m)
-	}
-	t := (m - float64(g)*s.grid) / s.grid
-	l := func(a, b float64) float64 { return a + (b-a)*t }
-	return transVal{ok: true, fuel: l(v0.fuel, v1.fuel), time: l(v0.time, v1.time), dist: l(v0.dist, v1.dist), mach: l(v0.mach, v1.mach)}
-}
-
-func (s *solver) transGrid(k, li, lj, g int) transVal {
-	key := memoKey(k, li, lj, g)
-	if v, ok := s.transMemo[key]; ok {
-		return v
-	}
-	v := s.transExact(k, li, lj, float64(g)*s.grid)
-	s.transMemo[key] = v
-	return v
-}
-
-func (s *solver) transExact(k, li, lj int, m float64) transVal {
 	c := s.cruiseAt(k, lj, m)
 	if !c.ok {
 		c = s.cruiseAt(k, li, m)
@@ -197,9 +178,34 @@ func (s *solver) transExact(k, li, lj int, m float64) transVal {
 	if !c.ok {
 		return transVal{why: "no feasible cruise Mach at either level"}
 	}
-	dev := (s.conds[k][li].isaDev + s.conds[k][lj].isaDev) / 2
+	mi := int(math.Round(c.mach / 0.002))
+	di := int(math.Round((s.conds[k][li].isaDev+s.conds[k][lj].isaDev)/2/0.5)) + 200
+	if di < 0 || di > 400 {
+		return s.transExact(li, lj, m, c.mach, (s.conds[k][li].isaDev+s.conds[k][lj].isaDev)/2)
+	}
+	g := int(math.Floor(m / s.grid))
+	v0, v1 := s.transGrid(li, lj, g, mi, di), s.transGrid(li, lj, g+1, mi, di)
+	if !v0.ok || !v1.ok {
+		return s.transExact(li, lj, m, float64(mi)*0.002, float64(di-200)*0.5)
+	}
+	t := (m - float64(g)*s.grid) / s.grid
+	l := func(a, b float64) float64 { return a + (b-a)*t }
+	return transVal{ok: true, fuel: l(v0.fuel, v1.fuel), time: l(v0.time, v1.time), dist: l(v0.dist, v1.dist), mach: v0.mach}
+}
+
+func (s *solver) transGrid(li, lj, g, mi, di int) transVal {
+	key := uint64(li)<<56 | uint64(lj)<<48 | uint64(mi)<<36 | uint64(di)<<24 | uint64(uint32(g))&0xffffff
+	if v, ok := s.transMemo[key]; ok {
+		return v
+	}
+	v := s.transExact(li, lj, float64(g)*s.grid, float64(mi)*0.002, float64(di-200)*0.5)
+	s.transMemo[key] = v
+	return v
+}
+
+func (s *solver) transExact(li, lj int, m, mach, dev float64) transVal {
 	pLow := math.Max(s.press[li], s.press[lj])
-	sch := machSchedule(s.p.ClimbSchedule, c.mach, pLow)
+	sch := machSchedule(s.a, s.p.ClimbSchedule, mach, pLow)
 	return transition(s.a, m, s.press[li], s.press[lj], dev, sch, lj > li)
 }
 

@@ -48,7 +48,7 @@ func (p *progress) begin(total, skipped, badRows, workers int) {
 		fmt.Fprintf(p.w, ", %d already recorded", skipped)
 	}
 	if badRows > 0 {
-		fmt.Fprintf(p.w, ", %d bad schedule rows (see errors.csv)", badRows)
+		fmt.Fprintf(p.w, ", %d bad schedule row(s) (see errors.csv)", badRows)
 	}
 	fmt.Fprintln(p.w)
 }

@@ -277,6 +277,8 @@ func writeResult(out, name string, rec *record, planJSON []byte) error {
 			return err
 		}
 		rec.Plan = plansDir + "/" + name
+	} else if err := os.Remove(filepath.Join(out, plansDir, name)); err != nil && !errors.Is(err, os.ErrNotExist) {
+		return err // a stale plan of an earlier, successful run must not stay
 	}
 	return writeRecord(out, name, rec)
 }

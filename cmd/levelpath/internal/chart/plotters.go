@@ -162,3 +162,50 @@ func labels(xys plotter.XYs, strs []string, sty text.Style, off vg.Point) *plott
 
 // flName formats a flight level as "FL370".
 func flName(fl float64) string { return fmt.Sprintf("FL%03.0f", fl) }
+
+// placedLabels draws a label under each point, Gap below it and starting
+// just right of it (the side a climbing profile leaves free),
+// kept inside the data area. A label that would overlap one already drawn
+// moves down a line at a time, up to Rows lines; one that still overlaps
+// is left out (its point stays marked), so dense steps do not turn into
+// an unreadable heap. Cost O(n²) in the number of labels.
+type placedLabels struct {
+	XYs    plotter.XYs
+	Labels []string
+	Text   text.Style // XAlign and YAlign are overridden
+	Gap    vg.Length
+	Rows   int
+}
+
+// Plot implements plot.Plotter.
+func (l *placedLabels) Plot(c draw.Canvas, p *plot.Plot) {
+	tx, ty := p.Transforms(&c)
+	sty := l.Text
+	sty.XAlign, sty.YAlign = text.XLeft, text.YBottom
+	lineH := sty.Rectangle("Mg").Size().Y
+	var placed []vg.Rectangle
+	for i, xy := range l.XYs {
+		if i >= len(l.Labels) {
+			break
+		}
+		w := sty.Rectangle(l.Labels[i]).Size().X
+		x := tx(xy.X) + vg.Points(2)
+		x = max(c.Min.X, min(x, c.Max.X-w))
+		for row := 0; row < max(1, l.Rows); row++ {
+			y := ty(xy.Y) - l.Gap - lineH*vg.Length(row+1)
+			r := vg.Rectangle{Min: vg.Point{X: x, Y: y}, Max: vg.Point{X: x + w, Y: y + lineH}}
+			clash := false
+			for _, q := range placed {
+				if r.Min.X < q.Max.X+vg.Points(3) && q.Min.X < r.Max.X+vg.Points(3) && r.Min.Y < q.Max.Y && q.Min.Y < r.Max.Y {
+					clash = true
+					break
+				}
+			}
+			if !clash {
+				placed = append(placed, r)
+				c.FillText(sty, r.Min, l.Labels[i])
+				break
+			}
+		}
+	}
+}

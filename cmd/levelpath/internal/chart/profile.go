@@ -194,7 +194,7 @@ func profilePanels(in ProfileInput) (top, mid, bot *plot.Plot) {
 				thumb = s
 			}
 		}
-		top.Add(labels(at, names, textStyle(9, stepText, text.XCenter, text.YTop), vg.Point{Y: -vg.Points(8)}))
+		top.Add(&placedLabels{XYs: at, Labels: names, Text: textStyle(9, stepText, text.XCenter, text.YTop), Gap: vg.Points(8), Rows: 4})
 		top.Legend.Add("level change (new level)", thumb)
 	}
 	if bufLine != nil {

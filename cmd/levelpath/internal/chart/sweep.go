@@ -74,6 +74,8 @@ func Sweep(w io.Writer, format string, pts []SweepPoint, title string) error {
 	// Room for the labels: 8 % each side, at least 1 min and 1 kg.
 	dx := math.Max(1, 0.08*(xhi-xlo))
 	dy := math.Max(1, 0.08*(yhi-ylo))
+	p.X.Tick.Marker = niceTicks{N: 8}
+	p.Y.Tick.Marker = niceTicks{N: 8}
 	p.X.Min, p.X.Max = xlo-dx, xhi+2*dx
 	p.Y.Min, p.Y.Max = ylo-dy, yhi+2*dy
 	return render(w, format, func(dc draw.Canvas) {

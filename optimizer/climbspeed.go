@@ -1,0 +1,59 @@
+package optimizer
+
+import (
+	"math"
+
+	"levelpath/perf"
+)
+
+const ktToMS = 1852.0 / 3600
+
+// bestClimbSchedule chooses the climb CAS for the initial climb: among the
+// aircraft's schedule CAS and 280 kt to VMO in 10 kt steps, the one that
+// minimises fuel + CI x time from the start of the climb to a common point
+// at a reference cruise level (60 levels under the highest, at most
+// FL350), in still air at ISA at the take-off mass. The climb stays at
+// 250 kt below 10,000 ft and at the schedule's Mach above the crossover.
+// One schedule serves the whole plan, so Assess prices a profile the same
+// way.
+func bestClimbSchedule(a *perf.Aircraft, tow, ci float64, maxFL int, sp Speed, floor float64) perf.Schedule {
+	base := perf.DefaultSchedule(a)
+	ref := math.Min(350, float64(maxFL-60))
+	pRef := perf.FLToPressure(ref)
+	pStart := perf.PressureAt(1500 * 0.3048)
+	cands := []float64{base.CAS}
+	for cas := 280 * ktToMS; cas <= a.VMO+1e-9; cas += 10 * ktToMS {
+		cands = append(cands, cas)
+	}
+	type res struct {
+		s    perf.Schedule
+		tr   perf.Transition
+		cost float64
+	}
+	var rs []res
+	far := 0.0
+	for _, cas := range cands {
+		s := perf.Schedule{CASLow: base.CASLow, CAS: cas, Mach: base.Mach}
+		tr, err := a.Climb(tow, pStart, pRef, 0, s)
+		if err != nil {
+			continue
+		}
+		far = math.Max(far, tr.Distance)
+		rs = append(rs, res{s: s, tr: tr})
+	}
+	best, bestCost := base, math.Inf(1)
+	for _, r := range rs {
+		c := cond{floor: floor}
+		v := cruisePoint(a, sp, ci, tow-r.tr.Fuel, pRef, c)
+		if !v.ok {
+			continue
+		}
+		d := far + 10*nmToM - r.tr.Distance
+		t := d / v.tas
+		cost := r.tr.Fuel + v.ff*t + ci*(r.tr.Time+t)/60
+		if cost < bestCost {
+			best, bestCost = r.s, cost
+		}
+	}
+	return best
+}
