@@ -78,11 +78,10 @@ func assess(q *Problem, prof Profile, warn []string, detail bool) (*Plan, error)
 	copy(pr.Changes, prof.Changes)
 	for i := range pr.Changes {
 		d := pr.Changes[i].AtDist
+		best := 0.5 * nmToM
 		for _, sg := range segs {
-			for _, b := range [2]float64{sg.FromDist, sg.ToDist} {
-				if math.Abs(b-d) <= 0.5*nmToM && math.Abs(b-d) < math.Abs(pr.Changes[i].AtDist-d)+1e-9 {
-					pr.Changes[i].AtDist = b
-				}
+			if b := sg.FromDist; math.Abs(b-d) <= best {
+				best, pr.Changes[i].AtDist = math.Abs(b-d), b
 			}
 		}
 	}
@@ -130,7 +129,9 @@ func (s *sim) run(pr Profile, total float64, detail bool) error {
 		break
 	}
 	steps := 0
-	lastStep := math.Inf(-1)
+	// The minimum step distance counts from the start of the segment that
+	// holds the top of climb, as the search does.
+	lastStep := s.segs[s.segAt(s.x)].FromDist
 	for guard := 0; guard < 10*len(s.segs)+10*len(pr.Changes)+10; guard++ {
 		if s.x >= total-1e-6 {
 			s.violate("profile", 0, "", "the profile reaches the destination without a final descent")

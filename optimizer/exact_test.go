@@ -13,7 +13,7 @@ func smallProblem(t testing.TB, bucket float64) *Problem {
 		Track:       track(t, "45.0,-73.0 44.0,-61.0", "every-1000:330-350", 50),
 		Aircraft:    aircraft(t, "demo-narrowbody"),
 		TakeoffMass: 66000, CI: 30, MassBucket: bucket,
-		Steps: StepRules{MaxChange: 2000, AllowDescent: true},
+		Steps: StepRules{MaxChange: 2000, AllowDescent: true, MinDistance: -1},
 	}
 }
 

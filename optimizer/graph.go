@@ -220,7 +220,10 @@ func (s *solver) climbEdges(emit func(edge)) {
 		if !ok {
 			continue
 		}
-		n := state{k: j + 1, li: li, b: b, since: s.sinceCap}
+		n := state{k: j + 1, li: li, b: b}
+		if s.sinceCap > 0 {
+			n.since = 1 // the climb counts as a step for the minimum distance
+		}
 		emit(edge{kind: edgeClimb, to: n.id(), fuel: f, time: t, cost: s.costOf(f, t), fromLevel: -1, toLevel: li})
 	}
 }

@@ -69,7 +69,10 @@ type StepRules struct {
 	// AllowDescent permits step descents in cruise.
 	AllowDescent bool
 	// MinDistance is the least distance between the starts of two steps,
-	// metres (0: none).
+	// and from the segment of the top of climb to the first step, metres.
+	// Zero means the default, 100 NM (common practice: no steps in quick
+	// succession, and no level-off just to step again after the climb);
+	// a negative value means no minimum.
 	MinDistance float64
 	// MaxSteps limits the number of steps (0: no limit; use NoSteps for a
 	// constant level).
@@ -199,8 +202,16 @@ func (p *Problem) normalise() ([]string, error) {
 	if p.Steps.MaxChange < 1000 || p.Steps.MaxChange > 10000 {
 		return nil, inputErrorf("max-step", "largest step %d ft must lie in 1000..10000", p.Steps.MaxChange)
 	}
-	if p.Steps.MaxSteps < 0 || p.Steps.MinDistance < 0 {
-		return nil, inputErrorf("steps", "step limits must not be negative")
+	if p.Steps.MaxSteps < 0 {
+		return nil, inputErrorf("steps", "the largest number of steps must not be negative")
+	}
+	switch d := p.Steps.MinDistance; {
+	case d == 0:
+		p.Steps.MinDistance = 100 * nmToM
+	case d < 0:
+		p.Steps.MinDistance = 0
+	case math.IsNaN(d) || d > 20000*nmToM:
+		return nil, inputErrorf("min-step-nm", "least distance between steps %v m is not usable", d)
 	}
 	if p.MinFL == 0 {
 		p.MinFL = 100

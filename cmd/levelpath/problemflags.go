@@ -60,7 +60,7 @@ func (f *problemFlags) register(c *cobra.Command) {
 	fl.IntVar(&f.maxFL, "max-fl", 0, "highest cruise level (default: certified ceiling)")
 	fl.IntVar(&f.maxStepFt, "max-step-ft", 4000, "largest level change of one step, ft")
 	fl.BoolVar(&f.stepDescent, "step-descents", false, "allow step descents in cruise")
-	fl.Float64Var(&f.minStepNM, "min-step-nm", 0, "least distance between steps, NM")
+	fl.Float64Var(&f.minStepNM, "min-step-nm", 100, "least distance between steps, and from the top of climb to the first step, NM (0: none)")
 	fl.IntVar(&f.maxSteps, "max-steps", 0, "most steps (0: no limit)")
 	fl.BoolVar(&f.noSteps, "no-steps", false, "fly one constant level")
 	fl.StringArrayVar(&f.blocks, "block", nil, "levels unavailable over a distance range: FL370,FL390@1200-1800 (NM, repeatable)")
@@ -131,7 +131,14 @@ func (f *problemFlags) problem(c *cobra.Command, wx *winds.Field, stderr io.Writ
 		return nil, badInputf("--speed: %v", err)
 	}
 	p.Speed = sp
-	p.Steps = optimizer.StepRules{MaxChange: f.maxStepFt, AllowDescent: f.stepDescent, MinDistance: f.minStepNM * 1852, MaxSteps: f.maxSteps, NoSteps: f.noSteps}
+	if math.IsNaN(f.minStepNM) || f.minStepNM < 0 {
+		return nil, badInputf("--min-step-nm %v: must be 0 or more", f.minStepNM)
+	}
+	minStep := f.minStepNM * 1852
+	if minStep == 0 {
+		minStep = -1 // no minimum
+	}
+	p.Steps = optimizer.StepRules{MaxChange: f.maxStepFt, AllowDescent: f.stepDescent, MinDistance: minStep, MaxSteps: f.maxSteps, NoSteps: f.noSteps}
 	for _, b := range f.blocks {
 		blk, err := parseBlock(b)
 		if err != nil {
@@ -186,6 +193,9 @@ func buildTrack(arg, levels string, maxSegNM float64, date string, depart time.T
 		opt.Date = d
 	case !depart.IsZero():
 		opt.Date = depart
+	}
+	if !opt.Date.IsZero() {
+		opt.Date = clampMagDate(opt.Date, stderr)
 	}
 	tr, err := route.Build(r, opt)
 	if err != nil {
@@ -249,4 +259,25 @@ func planErr(err error) error {
 		return badInput(err)
 	}
 	return fmt.Errorf("internal: %w", err)
+}
+
+// WMM2025 is valid from 2025.0 to 2030.0. Dates outside (a replay of an
+// older reanalysis day, say) take the nearest valid date, with a warning:
+// the variation drifts by a fraction of a degree a year, which moves the
+// semicircular level rule only on tracks within that of north or south.
+var (
+	wmmFirst = time.Date(2025, 1, 1, 0, 0, 0, 0, time.UTC)
+	wmmLast  = time.Date(2029, 12, 31, 0, 0, 0, 0, time.UTC)
+)
+
+func clampMagDate(d time.Time, stderr io.Writer) time.Time {
+	switch {
+	case d.Before(wmmFirst):
+		warnf(stderr, "magnetic variation: %s is before WMM2025 (2025.0-2030.0); using %s", d.Format("2006-01-02"), wmmFirst.Format("2006-01-02"))
+		return wmmFirst
+	case d.After(wmmLast):
+		warnf(stderr, "magnetic variation: %s is after WMM2025 (2025.0-2030.0); using %s", d.Format("2006-01-02"), wmmLast.Format("2006-01-02"))
+		return wmmLast
+	}
+	return d
 }
