@@ -3,6 +3,7 @@ package optimizer
 import (
 	"math"
 	"testing"
+	"time"
 )
 
 // smallProblem is a short flight with few levels, small enough to
@@ -175,8 +176,11 @@ func TestAssessReproducesPlan(t *testing.T) {
 func TestMassBucketConvergence(t *testing.T) {
 	a := aircraft(t, "demo-widebody")
 	tr := track(t, longHaulRoute, "every-1000:290-430", 50)
-	coarse := solve(t, &Problem{Track: tr, Aircraft: a, TakeoffMass: 245000, CI: 40})
-	fine := solve(t, &Problem{Track: tr, Aircraft: a, TakeoffMass: 245000, CI: 40, MassBucket: 0.0001 * a.MTOW})
+	wx, ref := demoWeather(t)
+	p := Problem{Track: tr, Aircraft: a, Weather: wx, Depart: ref.Add(2 * time.Hour), TakeoffMass: 245000, CI: 40}
+	coarse := solve(t, &p)
+	p.MassBucket = 0.00025 * a.MTOW // the default is 0.25 % of MTOW
+	fine := solve(t, &p)
 	if d := relDiff(coarse.Totals.Cost, fine.Totals.Cost); d > 5e-4 {
 		t.Errorf("default bucket cost %.1f, ten times finer %.1f: %.4f %%", coarse.Totals.Cost, fine.Totals.Cost, 100*d)
 	}

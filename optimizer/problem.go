@@ -122,7 +122,7 @@ type Problem struct {
 	Turbulence  []TurbulenceRule // nil: DefaultTurbulence
 
 	// MassBucket is the width of the search's mass buckets, kg (default
-	// 0.1 % of MTOW). States at the same boundary and level whose masses
+	// 0.25 % of MTOW). States at the same boundary and level whose masses
 	// fall in one bucket are merged, keeping the cheapest.
 	MassBucket float64
 	// ClimbSchedule and DescentSchedule (zero: perf.DefaultSchedule).
@@ -227,7 +227,7 @@ func (p *Problem) normalise() ([]string, error) {
 		p.Turbulence = DefaultTurbulence
 	}
 	if p.MassBucket == 0 {
-		p.MassBucket = 0.001 * a.MTOW
+		p.MassBucket = 0.0025 * a.MTOW
 	}
 	if !(p.MassBucket > 0) {
 		return nil, inputErrorf("mass-bucket", "mass bucket %v kg must be positive", p.MassBucket)

@@ -20,9 +20,12 @@ type solver struct {
 	total  float64
 	grid   float64 // mass spacing of the interpolation memo, kg
 
-	cruiseMemo map[uint64]cruiseVal
+	// Memos. Cruise and descent prices at grid masses gLo..gHi are held
+	// in dense rows allocated when first touched; steps in a map.
+	gLo, gHi   int
+	cruiseMemo [][]gridVal // [segment*levels+level][g-gLo]
+	descMemo   [][]gridTrans
 	transMemo  map[uint64]transVal
-	descMemo   map[uint64]transVal
 
 	// limits for step-state bookkeeping
 	sinceCap int // segments after which MinDistance is surely met
@@ -33,8 +36,9 @@ type solver struct {
 
 // newSolver prepares p (already normalised).
 func newSolver(p *Problem) (*solver, error) {
-	s := &solver{p: p, a: p.Aircraft, grid: 0.01 * p.Aircraft.MTOW,
-		cruiseMemo: make(map[uint64]cruiseVal), transMemo: make(map[uint64]transVal), descMemo: make(map[uint64]transVal)}
+	s := &solver{p: p, a: p.Aircraft, grid: 0.01 * p.Aircraft.MTOW, transMemo: make(map[uint64]transVal)}
+	s.gLo = int(math.Floor(p.Aircraft.OEW/s.grid)) - 1
+	s.gHi = int(math.Ceil(p.TakeoffMass/s.grid)) + 1
 	segs := p.Track.Segments
 	set := map[int]bool{}
 	for _, seg := range segs {
@@ -94,6 +98,8 @@ func newSolver(p *Problem) (*solver, error) {
 		return nil, err
 	}
 	s.conds = conds
+	s.cruiseMemo = make([][]gridVal, len(segs)*len(s.levels))
+	s.descMemo = make([][]gridTrans, len(s.levels))
 	return s, nil
 }
 
@@ -111,19 +117,33 @@ func blocked(bs []Block, from, to float64, fl int) bool {
 	return false
 }
 
-func memoKey(a, b, c int, g int) uint64 {
-	return uint64(a)<<48 | uint64(b)<<40 | uint64(c)<<32 | uint64(uint32(g))
+// gridVal is a memoised cruise price at a grid mass.
+type gridVal struct {
+	v    cruiseVal
+	done bool
+}
+
+// gridTrans is a memoised descent price at a grid mass.
+type gridTrans struct {
+	v    transVal
+	done bool
 }
 
 // cruiseGrid is cruise on segment k at level li at grid mass g*grid.
 func (s *solver) cruiseGrid(k, li, g int) cruiseVal {
-	key := memoKey(k, li, 0, g)
-	if v, ok := s.cruiseMemo[key]; ok {
-		return v
+	if g < s.gLo || g > s.gHi {
+		return cruisePoint(s.a, s.p.Speed, s.p.CI, float64(g)*s.grid, s.press[li], s.conds[k][li])
 	}
-	v := cruisePoint(s.a, s.p.Speed, s.p.CI, float64(g)*s.grid, s.press[li], s.conds[k][li])
-	s.cruiseMemo[key] = v
-	return v
+	row := s.cruiseMemo[k*len(s.levels)+li]
+	if row == nil {
+		row = make([]gridVal, s.gHi-s.gLo+1)
+		s.cruiseMemo[k*len(s.levels)+li] = row
+	}
+	e := &row[g-s.gLo]
+	if !e.done {
+		e.v, e.done = cruisePoint(s.a, s.p.Speed, s.p.CI, float64(g)*s.grid, s.press[li], s.conds[k][li]), true
+	}
+	return e.v
 }
 
 // cruiseAt is cruise at mass m, interpolated between grid masses where
@@ -168,8 +188,8 @@ func (s *solver) cruiseLeg(k, li int, m, d float64) (fuel, t float64, v cruiseVa
 // m. The step is flown at the cruise Mach of the new level (or of the old
 // one where the new level is not feasible at that mass) and at the mean
 // temperature deviation of the two levels; both are rounded (Mach to
-// 0.002, deviation to 0.5 K) so that steps on many segments share one
-// memo, and the price is interpolated between grid masses like cruiseAt.
+// 0.005, deviation to 1 K) so that steps on many segments share one memo,
+// and the price is interpolated between grid masses like cruiseAt.
 func (s *solver) transAt(k, li, lj int, m float64) transVal {
 	c := s.cruiseAt(k, lj, m)
 	if !c.ok {
@@ -178,27 +198,33 @@ func (s *solver) transAt(k, li, lj int, m float64) transVal {
 	if !c.ok {
 		return transVal{why: "no feasible cruise Mach at either level"}
 	}
-	mi := int(math.Round(c.mach / 0.002))
-	di := int(math.Round((s.conds[k][li].isaDev+s.conds[k][lj].isaDev)/2/0.5)) + 200
+	mi := int(math.Round(c.mach / machStep))
+	di := int(math.Round((s.conds[k][li].isaDev+s.conds[k][lj].isaDev)/2/devStep)) + 200
 	if di < 0 || di > 400 {
 		return s.transExact(li, lj, m, c.mach, (s.conds[k][li].isaDev+s.conds[k][lj].isaDev)/2)
 	}
 	g := int(math.Floor(m / s.grid))
 	v0, v1 := s.transGrid(li, lj, g, mi, di), s.transGrid(li, lj, g+1, mi, di)
 	if !v0.ok || !v1.ok {
-		return s.transExact(li, lj, m, float64(mi)*0.002, float64(di-200)*0.5)
+		return s.transExact(li, lj, m, float64(mi)*machStep, float64(di-200)*devStep)
 	}
 	t := (m - float64(g)*s.grid) / s.grid
 	l := func(a, b float64) float64 { return a + (b-a)*t }
 	return transVal{ok: true, fuel: l(v0.fuel, v1.fuel), time: l(v0.time, v1.time), dist: l(v0.dist, v1.dist), mach: v0.mach}
 }
 
+// Rounding of a step's Mach and temperature deviation for its memo.
+const (
+	machStep = 0.005
+	devStep  = 1.0
+)
+
 func (s *solver) transGrid(li, lj, g, mi, di int) transVal {
 	key := uint64(li)<<56 | uint64(lj)<<48 | uint64(mi)<<36 | uint64(di)<<24 | uint64(uint32(g))&0xffffff
 	if v, ok := s.transMemo[key]; ok {
 		return v
 	}
-	v := s.transExact(li, lj, float64(g)*s.grid, float64(mi)*0.002, float64(di-200)*0.5)
+	v := s.transExact(li, lj, float64(g)*s.grid, float64(mi)*machStep, float64(di-200)*devStep)
 	s.transMemo[key] = v
 	return v
 }
@@ -209,24 +235,33 @@ func (s *solver) transExact(li, lj int, m, mach, dev float64) transVal {
 	return transition(s.a, m, s.press[li], s.press[lj], dev, sch, lj > li)
 }
 
-// descent prices the final descent from level li at mass m (memoised on
-// the mass grid, interpolated).
+// descent prices the final descent from level li at mass m, memoised on
+// a mass grid four times coarser than cruise (a descent's fuel and
+// distance change little with mass) and interpolated.
 func (s *solver) descent(li int, m float64) transVal {
-	g := int(math.Floor(m / s.grid))
+	dg := 4 * s.grid
+	g := int(math.Floor(m / dg))
 	get := func(g int) transVal {
-		key := memoKey(li, 0, 0, g)
-		if v, ok := s.descMemo[key]; ok {
-			return v
+		i := g - s.gLo/4
+		if i < 0 || i > (s.gHi-s.gLo)/4+2 {
+			return s.descentExact(li, float64(g)*dg)
 		}
-		v := s.descentExact(li, float64(g)*s.grid)
-		s.descMemo[key] = v
-		return v
+		row := s.descMemo[li]
+		if row == nil {
+			row = make([]gridTrans, (s.gHi-s.gLo)/4+3)
+			s.descMemo[li] = row
+		}
+		e := &row[i]
+		if !e.done {
+			e.v, e.done = s.descentExact(li, float64(g)*dg), true
+		}
+		return e.v
 	}
 	v0, v1 := get(g), get(g+1)
 	if !v0.ok || !v1.ok {
 		return s.descentExact(li, m)
 	}
-	t := (m - float64(g)*s.grid) / s.grid
+	t := (m - float64(g)*dg) / dg
 	l := func(a, b float64) float64 { return a + (b-a)*t }
 	return transVal{ok: true, fuel: l(v0.fuel, v1.fuel), time: l(v0.time, v1.time), dist: l(v0.dist, v1.dist), mach: v0.mach}
 }

@@ -83,12 +83,16 @@ func floorFor(base float64, edr float64, rules []TurbulenceRule) (floor float64,
 }
 
 // buildConds samples the weather for every segment and level at an
-// estimated time of passage (departure plus distance over a nominal ground
-// speed of Mach 0.8 at FL350 ISA, about 460 kt). Levels above or below the
-// weather's pressure levels are closed with a reason; a segment outside the
-// weather's area or times is an error.
+// estimated time of passage: departure plus distance over a nominal ground
+// speed, the aircraft's schedule Mach at FL350 ISA (295.07 m/s speed of
+// sound) in still air. Levels above or below the weather's pressure levels
+// are closed with a reason; a segment outside the weather's area or times
+// is an error.
 func buildConds(p *Problem, levels []int) ([][]cond, error) {
-	const nominal = 0.8 * 295.07 // m/s
+	nominal := perf.DefaultSchedule(p.Aircraft).Mach * 295.07 // m/s
+	if !(nominal > 100) {
+		nominal = 0.8 * 295.07
+	}
 	segs := p.Track.Segments
 	out := make([][]cond, len(segs))
 	for k := range segs {
