@@ -21,7 +21,7 @@ func (s *sim) step(k int, ch Change, c cond, steps *int, lastStep *float64) erro
 		s.violate("step-rule", 0, "", fmt.Sprintf("change at %.0f NM: steps are not allowed", s.x/nmToM))
 	case abs(to-from)*100 > q.Steps.MaxChange:
 		s.violate("step-rule", float64(abs(to-from)*100-q.Steps.MaxChange), "ft", fmt.Sprintf("change FL%03d to FL%03d exceeds the largest step %d ft", from, to, q.Steps.MaxChange))
-	case to < from && !q.Steps.AllowDescent && containsInt(seg.Levels, from):
+	case to < from && !q.Steps.AllowDescent && containsInt(seg.Levels, from) && !blocked(q.Blocked, s.x, s.x+1, from) && !c.closed:
 		s.violate("step-rule", 0, "", fmt.Sprintf("step descent FL%03d to FL%03d at %.0f NM: step descents are not allowed", from, to, s.x/nmToM))
 	}
 	*steps++

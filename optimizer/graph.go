@@ -124,9 +124,10 @@ func (s *solver) successors(id int64, m float64, emit func(edge)) {
 		if dfl == 0 || dfl > maxD || -dfl > maxD || !s.allow[k][lj] {
 			continue
 		}
-		if dfl < 0 && !s.p.Steps.AllowDescent && s.allow[k][li] {
+		if dfl < 0 && !s.p.Steps.AllowDescent && s.allow[k][li] && !s.conds[k][li].closed {
 			// A step descent is taken only where allowed, or where the
-			// current level stops being allowed (a change of direction).
+			// current level stops being available (a change of direction,
+			// a block, turbulence).
 			continue
 		}
 		s.edges++

@@ -2,7 +2,9 @@ package optimizer
 
 import (
 	"math"
+	"strings"
 	"testing"
+	"time"
 
 	"levelpath/perf"
 )
@@ -192,4 +194,43 @@ func TestStepRules(t *testing.T) {
 	if len(plan.Steps) != 0 {
 		t.Errorf("steps with NoSteps: %s", plan.Profile)
 	}
+}
+
+// TestTurbulenceRaisesFloor: where the forecast EDR exceeds 0.20 the floor
+// is 1.5 g and every leg there keeps it; with a rule closing levels above
+// EDR 0.20 no cruise leg flies where it is exceeded. The thresholds are the
+// default operator table (common practice; ICAO Annex 3 moderate and
+// severe, from memory).
+func TestTurbulenceRaisesFloor(t *testing.T) {
+	wx, ref := demoWeather(t)
+	p := longHaul(t, "odd-even-magnetic")
+	p.Weather, p.Depart = wx, ref.Add(2*time.Hour)
+	plan := solve(t, p)
+	hit := 0
+	for i, l := range plan.Legs {
+		if l.Phase != PhaseCruise || math.IsNaN(l.EDR) {
+			continue
+		}
+		if l.EDR > 0.20 {
+			hit++
+			if l.Floor != 1.5 || !strings.Contains(l.FloorReason, "EDR") {
+				t.Errorf("leg %d: EDR %.3f but floor %.2f g (%s)", i, l.EDR, l.Floor, l.FloorReason)
+			}
+		} else if l.Floor != 1.3 { // the default floor (common practice)
+			t.Errorf("leg %d: EDR %.3f and floor %.2f g", i, l.EDR, l.Floor)
+		}
+	}
+	if hit == 0 {
+		t.Fatal("the route meets no EDR over 0.20; the test has nothing to check")
+	}
+	checkMargins(t, plan)
+	q := *p
+	q.Turbulence = []TurbulenceRule{{EDR: 0.20, Closed: true}}
+	closed := solve(t, &q)
+	for i, l := range closed.Legs {
+		if l.Phase == PhaseCruise && l.EDR > 0.20 {
+			t.Errorf("leg %d flies FL%.0f through EDR %.3f although such levels are closed", i, l.FL, l.EDR)
+		}
+	}
+	t.Logf("%d legs under raised floor: %s; with closure: %s", hit, plan.Profile, closed.Profile)
 }

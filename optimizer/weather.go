@@ -72,10 +72,10 @@ func floorFor(base float64, edr float64, rules []TurbulenceRule) (floor float64,
 	for _, r := range rules {
 		if edr > r.EDR {
 			if r.Closed {
-				return floor, fmt.Sprintf("EDR %.2f over %.2f: level closed", edr, r.EDR), true
+				return floor, fmt.Sprintf("EDR %.3f over %.2f: level closed", edr, r.EDR), true
 			}
 			if r.Floor > floor {
-				floor, why = r.Floor, fmt.Sprintf("EDR %.2f over %.2f", edr, r.EDR)
+				floor, why = r.Floor, fmt.Sprintf("EDR %.3f over %.2f: floor %.2f g", edr, r.EDR, r.Floor)
 			}
 		}
 	}

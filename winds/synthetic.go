@@ -22,8 +22,8 @@ var SyntheticHours = []int{0, 6, 12, 18, 24, 30, 36}
 // benchmarks, as GRIB messages valid at ref plus SyntheticHours on a global
 // 2-degree grid at SyntheticLevels: a meandering westerly jet stream near 250 hPa in each
 // hemisphere, a temperature deviation from ISA that is warm in the tropics
-// and cold towards the poles, and a patch of turbulence (EDR) near the
-// northern jet. Reproducible: no randomness.
+// and cold towards the poles, and a patch of turbulence (EDR) over the
+// northern ocean. Reproducible: no randomness.
 func SyntheticWeather(ref time.Time) []Message {
 	var msgs []Message
 	n := synNi * synNj
@@ -80,8 +80,8 @@ func SyntheticPoint(lat, lon, p, hours float64) (u, v, t, edr float64) {
 		dev *= 0.5
 	}
 	t = synISA(p) + dev
-	// Turbulence: a patch near the northern jet core over the ocean.
-	edr = 0.04 + 0.32*vert*math.Exp(-sq((lat-jetN-2)/4))*math.Exp(-sq(angDiff(lon, 330)/12))
+	// Turbulence: a patch over the northern ocean near the jet level.
+	edr = 0.04 + 0.36*vert*math.Exp(-sq((lat-59)/3))*math.Exp(-sq(angDiff(lon, 340)/8))
 	return u, v, t, edr
 }
 

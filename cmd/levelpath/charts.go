@@ -1,7 +1,9 @@
 package main
 
 import (
+	"errors"
 	"io"
+	"io/fs"
 
 	"levelpath/cmd/levelpath/internal/chart"
 	"levelpath/optimizer"
@@ -31,12 +33,12 @@ func writeCharts(chartPath, reportPath string, plan *optimizer.Plan, pr *optimiz
 			return badInputf("--chart: %v", err)
 		}
 		if err := chart.WriteFile(chartPath, func(w io.Writer, format string) error { return chart.Profile(w, format, in) }); err != nil {
-			return err
+			return chartErr(err)
 		}
 	}
 	if reportPath != "" {
-		if err := chart.WriteFile(reportPath, func(w io.Writer, _ string) error { return chart.Report(w, in) }); err != nil {
-			return err
+		if err := chart.WriteReportFile(reportPath, in); err != nil {
+			return chartErr(err)
 		}
 	}
 	return nil
@@ -48,4 +50,15 @@ func drawEnvelopeChart(path string, e perf.Envelope) error {
 		return badInputf("--chart: %v", err)
 	}
 	return chart.WriteFile(path, func(w io.Writer, format string) error { return chart.Envelope(w, format, e) })
+}
+
+// chartErr maps chart errors: a file name the charts cannot write is bad
+// input; anything else is internal.
+func chartErr(err error) error {
+	var ue chart.UnsupportedError
+	var pe *fs.PathError
+	if errors.As(err, &ue) || errors.As(err, &pe) {
+		return badInput(err)
+	}
+	return err
 }

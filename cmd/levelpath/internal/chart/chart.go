@@ -85,6 +85,21 @@ func WriteFile(path string, draw func(w io.Writer, format string) error) (err er
 	if err != nil {
 		return err
 	}
+	return writeAtomic(path, format, draw)
+}
+
+// WriteReportFile writes the HTML flight report (see Report) to path, which
+// must end in .html or .htm, atomically like WriteFile.
+func WriteReportFile(path string, in ProfileInput) error {
+	switch strings.ToLower(filepath.Ext(path)) {
+	case ".html", ".htm":
+	default:
+		return UnsupportedError(fmt.Sprintf("%s: a report is HTML; name the file .html", path))
+	}
+	return writeAtomic(path, "html", func(w io.Writer, _ string) error { return Report(w, in) })
+}
+
+func writeAtomic(path, format string, draw func(w io.Writer, format string) error) (err error) {
 	dir, base := filepath.Split(path)
 	if dir == "" {
 		dir = "."
