@@ -111,15 +111,15 @@ type Problem struct {
 	TakeoffMass float64 // kg
 	// ZFW is the zero-fuel mass, kg (0: unknown); with it Assess flags a
 	// trip that burns more than the fuel on board.
-	ZFW float64
-	CI          float64 // cost index, kg/min
-	Speed       Speed
-	Floor       float64 // protection floor, g (default 1.3, common practice)
-	Steps       StepRules
-	MinFL       int // lowest cruise level considered (default FL100)
-	MaxFL       int // highest (default: certified ceiling)
-	Blocked     []Block
-	Turbulence  []TurbulenceRule // nil: DefaultTurbulence
+	ZFW        float64
+	CI         float64 // cost index, kg/min
+	Speed      Speed
+	Floor      float64 // protection floor, g (default 1.3, common practice)
+	Steps      StepRules
+	MinFL      int // lowest cruise level considered (default FL100)
+	MaxFL      int // highest (default: certified ceiling)
+	Blocked    []Block
+	Turbulence []TurbulenceRule // nil: DefaultTurbulence
 
 	// MassBucket is the width of the search's mass buckets, kg (default
 	// 0.25 % of MTOW). States at the same boundary and level whose masses
