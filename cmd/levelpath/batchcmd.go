@@ -207,7 +207,13 @@ func newBatchCmd() *cobra.Command {
 		pl := &planner{wx: wx, maxSegNM: maxSegNM, aircraft: map[string]*perf.Aircraft{}, tracks: map[string]*route.Track{}}
 		ctx, stop := signal.NotifyContext(cmd.Context(), os.Interrupt, syscall.SIGTERM)
 		defer stop()
+		start := time.Now()
 		sum, err := batch.Run(ctx, rows, bad, pl.plan, opt)
+		if el := time.Since(start); err == nil && sum.Planned > sum.Skipped {
+			n := sum.Planned - sum.Skipped
+			fmt.Fprintf(cmd.ErrOrStderr(), "levelpath: %d plans in %.1f s (%.1f plans/s), peak memory %.0f MiB\n",
+				n, el.Seconds(), float64(n)/el.Seconds(), float64(peakRSS())/(1<<20))
+		}
 		if err != nil {
 			if errors.Is(err, batch.ErrStopped) {
 				return &exitError{code: exitInternal, msg: err.Error() + "; rerun with --resume to finish"}
