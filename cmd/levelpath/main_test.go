@@ -4,14 +4,19 @@ import (
 	"bytes"
 	"encoding/csv"
 	"encoding/json"
+	"encoding/xml"
+	pngdec "image/png"
+	"io"
 	"os"
 	"path/filepath"
 	"strconv"
 	"strings"
 	"sync"
 	"testing"
+	"time"
 
 	"levelpath/cmd/levelpath/internal/demo"
+	"levelpath/winds"
 )
 
 // runCLI runs the command line and returns exit code, stdout and stderr.
@@ -332,5 +337,139 @@ func TestBatchCLI(t *testing.T) {
 	}
 	if !strings.Contains(stdout, "CI") {
 		t.Errorf("no sweep table on stdout: %s", stdout)
+	}
+}
+
+// TestRouteCommand: JSON fields, the GeoJSON form, and a bad route naming
+// its point. The length is checked against GeographicLib (GeodSolve 2.1.2,
+// REFERENCES.md): (40.6, -73.8) -> (51.6, -0.5) is 5551759.400319 m.
+func TestRouteCommand(t *testing.T) {
+	code, out, errs := runCLI(t, "route", "40.6,-73.8 51.6,-0.5", "--date", "2026-12-01", "--format", "json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	var d map[string]any
+	if err := json.Unmarshal([]byte(out), &d); err != nil {
+		t.Fatal(err)
+	}
+	if got := d["total_nm"].(float64) * 1852; abs(got-5551759.400319) > 0.005 {
+		t.Errorf("total %.4f m, GeodSolve 5551759.4003 m", got)
+	}
+	leg := d["legs"].([]any)[0].(map[string]any)
+	for _, k := range []string{"index", "from", "to", "length_nm", "initial_course_deg"} {
+		if _, ok := leg[k]; !ok {
+			t.Errorf("leg lacks %q", k)
+		}
+	}
+	if c := leg["initial_course_deg"].(float64); abs(c-51.198883) > 1e-6 {
+		t.Errorf("initial course %.7f, GeodSolve 51.198883", c)
+	}
+	seg := d["segments"].([]any)[0].(map[string]any)
+	for _, k := range []string{"index", "leg", "from_nm", "to_nm", "length_nm", "start", "end", "true_course_deg", "mag_var_deg", "mag_course_deg", "levels"} {
+		if _, ok := seg[k]; !ok {
+			t.Errorf("segment lacks %q", k)
+		}
+	}
+	code, out, _ = runCLI(t, "route", "40.6,-73.8 51.6,-0.5", "--date", "2026-12-01", "--format", "geojson")
+	var fc struct {
+		Type     string
+		Features []struct{ Geometry struct{ Type string } }
+	}
+	if err := json.Unmarshal([]byte(out), &fc); code != 0 || err != nil || fc.Features[0].Geometry.Type != "LineString" {
+		t.Errorf("geojson: exit %d, %v, %+v", code, err, fc)
+	}
+	if code, _, errs := runCLI(t, "route", "40.6,-73.8 95,-0.5"); code != 2 || !strings.Contains(errs, "point 2") {
+		t.Errorf("latitude 95: exit %d, %q", code, errs)
+	}
+}
+
+// TestWeatherCoverage: weather that does not cover the route, and weather
+// without winds aloft, are bad input naming the weather.
+func TestWeatherCoverage(t *testing.T) {
+	fs := demoFiles(t)
+	// A regional field over the Pacific: the Lakeport route lies outside.
+	dir := t.TempDir()
+	var msgs []winds.Message
+	ref := demo.Ref
+	for _, h := range []int{0, 24} {
+		for _, p := range []float64{30000, 25000, 20000} {
+			for _, f := range []struct {
+				c, n int
+				par  winds.Param
+			}{{2, 2, "u"}, {2, 3, "v"}, {0, 0, "t"}} {
+				vals := make([]float32, 11*11)
+				for i := range vals {
+					vals[i] = 220
+				}
+				msgs = append(msgs, winds.Message{Discipline: 0, Category: f.c, Number: f.n, Param: f.par, LevelType: 100, Level: p,
+					RefTime: ref, ValidTime: ref.Add(time.Duration(h) * time.Hour), Ni: 11, Nj: 11, Lat1: 50, Lon1: 150, Lat2: 40, Lon2: 160,
+					Di: 1, Dj: 1, Ensemble: -1, Values: vals})
+			}
+		}
+	}
+	path := filepath.Join(dir, "pacific.grib2")
+	var buf bytes.Buffer
+	if err := winds.WriteGRIB2(&buf, msgs); err != nil {
+		t.Fatal(err)
+	}
+	os.WriteFile(path, buf.Bytes(), 0o644)
+	code, _, errs := runCLI(t, "plan", "--route", fs.Routes[3], "--aircraft", "demo-regional", "--mass", "36000", "--weather", path, "--depart", "2026-12-01T20:00:00Z")
+	if code != 2 || !strings.Contains(errs, "weather") || !strings.Contains(errs, "segment 0") {
+		t.Errorf("weather off the route: exit %d, %q", code, errs)
+	}
+	// The ecCodes fixture g2_regional.grib2 holds temperature only.
+	code, _, errs = runCLI(t, "plan", "--route", fs.Routes[3], "--aircraft", "demo-regional", "--mass", "36000", "--weather", "../../testdata/winds/g2_regional.grib2", "--depart", "2024-01-15T06:00:00Z")
+	if code != 2 || !strings.Contains(errs, "no winds aloft") {
+		t.Errorf("weather without winds: exit %d, %q", code, errs)
+	}
+}
+
+// TestCharts: the plan's chart and report and the sweep chart are written;
+// the SVG parses as XML and the PNG decodes at 1200 x 700.
+func TestCharts(t *testing.T) {
+	fs := demoFiles(t)
+	dir := t.TempDir()
+	svg, png, html := filepath.Join(dir, "p.svg"), filepath.Join(dir, "p.png"), filepath.Join(dir, "r.html")
+	args := []string{"plan", "--route", fs.Routes[3], "--aircraft", "demo-regional", "--mass", "36000", "--weather", fs.Weather, "--depart", "2026-12-01T20:00:00Z"}
+	if code, _, errs := runCLI(t, append(args, "--chart", svg, "--report", html)...); code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	if code, _, errs := runCLI(t, append(args, "--chart", png)...); code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	b, _ := os.ReadFile(svg)
+	dec := xml.NewDecoder(bytes.NewReader(b))
+	for {
+		if _, err := dec.Token(); err != nil {
+			if err != io.EOF {
+				t.Errorf("SVG does not parse: %v", err)
+			}
+			break
+		}
+	}
+	f, _ := os.Open(png)
+	img, err := pngdec.Decode(f)
+	f.Close()
+	if err != nil || img.Bounds().Dx() != 1200 || img.Bounds().Dy() != 700 {
+		t.Errorf("PNG: %v %v", err, img)
+	}
+	// Nothing loaded from elsewhere: no src attribute, no link, no href to
+	// a URL (the SVG namespace declarations are names, not loads).
+	rb, _ := os.ReadFile(html)
+	page := string(rb)
+	if !strings.Contains(page, "not certified") || strings.Contains(page, "src=") || strings.Contains(page, "<link") || strings.Contains(page, `href="http`) {
+		t.Errorf("report lacks the caution or loads from the network")
+	}
+	if code, _, errs := runCLI(t, append(args, "--chart", filepath.Join(dir, "p.gif"))...); code != 2 || !strings.Contains(errs, "p.gif") {
+		t.Errorf("--chart p.gif: exit %d, %q", code, errs)
+	}
+	sched := filepath.Join(fs.Dir, "sched-chart.csv")
+	os.WriteFile(sched, []byte("flight,departure,route,aircraft,tow_kg,ci\nC1,2026-12-01T21:00:00Z,route-lakeport.geojson,demo-regional,36000,10\n"), 0o644)
+	sweep := filepath.Join(dir, "sweep.svg")
+	if code, _, errs := runCLI(t, "batch", "--schedule", sched, "--weather", fs.Weather, "--out", filepath.Join(dir, "o"), "--ci-sweep", "0,50", "--chart", sweep); code != 0 {
+		t.Fatalf("sweep: exit %d: %s", code, errs)
+	}
+	if sb, _ := os.ReadFile(sweep); !strings.Contains(string(sb), "CI 50") {
+		t.Errorf("sweep chart lacks the CI 50 label")
 	}
 }
