@@ -89,15 +89,20 @@ func (g *Implicit) Weight(xid, yid int64) (float64, bool) {
 
 // NewImplicit prepares the implicit graph of p.
 func NewImplicit(p *Problem) (*Implicit, error) {
-	q := *p
-	if _, err := q.normalise(); err != nil {
-		return nil, err
-	}
-	s, err := newSolver(&q)
+	s, err := prepare(p)
 	if err != nil {
 		return nil, err
 	}
 	return newImplicit(s), nil
+}
+
+// prepare normalises a copy of p and builds its solver.
+func prepare(p *Problem) (*solver, error) {
+	q := *p
+	if _, err := q.normalise(); err != nil {
+		return nil, err
+	}
+	return newSolver(&q)
 }
 
 func newImplicit(s *solver) *Implicit {
@@ -136,11 +141,7 @@ func expID(id int64) int64 {
 //
 // Complexity: O(V + E) edge pricings plus gonum's graph construction.
 func NewExplicit(p *Problem) (*Explicit, error) {
-	q := *p
-	if _, err := q.normalise(); err != nil {
-		return nil, err
-	}
-	s, err := newSolver(&q)
+	s, err := prepare(p)
 	if err != nil {
 		return nil, err
 	}

@@ -21,90 +21,79 @@ func writePlan(w io.Writer, format string, p *optimizer.Plan, assessed bool) err
 	return planout.WriteTable(w, p, assessed)
 }
 
+// planFlags are the flags of plan and assess beyond the problem's.
+type planFlags struct {
+	problemFlags
+	chart, report, profile string
+	format                 *string
+}
+
+func (f *planFlags) register(c *cobra.Command) {
+	f.format = formatFlag(c, "table", "json", "csv")
+	f.problemFlags.register(c)
+	c.Flags().StringVar(&f.chart, "chart", "", "also draw the profile chart to FILE (.svg, .png or .pdf)")
+	c.Flags().StringVar(&f.report, "report", "", "also write a self-contained HTML flight report to FILE (.html)")
+}
+
+// run builds the problem, prices it with price and writes the outputs.
+func (f *planFlags) run(cmd *cobra.Command, assessed bool, price func(*optimizer.Problem) (*optimizer.Plan, error)) error {
+	if err := checkFormat(*f.format, "table", "json", "csv"); err != nil {
+		return err
+	}
+	wx, err := loadWeather(f.weather)
+	if err != nil {
+		return err
+	}
+	pr, err := f.problem(cmd, wx, cmd.ErrOrStderr())
+	if err != nil {
+		return err
+	}
+	pr.LegCeilings = assessed || f.chart != "" || f.report != "" || *f.format != "table"
+	plan, err := price(pr)
+	if err != nil {
+		return planErr(err)
+	}
+	if err := writeCharts(f.chart, f.report, plan, pr); err != nil {
+		return err
+	}
+	return writePlan(cmd.OutOrStdout(), *f.format, plan, assessed)
+}
+
 func newPlanCmd() *cobra.Command {
-	var pf problemFlags
-	var chartPath, reportPath string
+	var f planFlags
 	c := &cobra.Command{
 		Use:   "plan",
 		Short: "Plan the cheapest vertical profile of one flight",
-		Example: `  levelpath plan --route levelpath-demo/route.geojson --aircraft demo-widebody --mass 240000 \
-      --weather levelpath-demo/weather.grib2 --depart 2026-12-01T21:00:00Z --ci 40
+		Example: `  levelpath plan --route levelpath-demo/route.geojson --aircraft demo-widebody --mass 245000 \
+      --weather levelpath-demo/weather.grib2 --depart 2026-12-01T20:00:00Z --ci 40
   levelpath plan --route "51.47,-0.45 40.64,-73.78" --aircraft demo-narrowbody --zfw 58000 --fuel 19000 --format json`,
 		Args: cobra.NoArgs,
 	}
-	format := formatFlag(c, "table", "json", "csv")
-	pf.register(c)
-	c.Flags().StringVar(&chartPath, "chart", "", "also draw the profile chart to FILE (.svg, .png or .pdf)")
-	c.Flags().StringVar(&reportPath, "report", "", "also write a self-contained HTML flight report to FILE")
-	c.RunE = func(cmd *cobra.Command, _ []string) error {
-		if err := checkFormat(*format, "table", "json", "csv"); err != nil {
-			return err
-		}
-		wx, err := loadWeather(pf.weather)
-		if err != nil {
-			return err
-		}
-		pr, err := pf.problem(cmd, wx, cmd.ErrOrStderr())
-		if err != nil {
-			return err
-		}
-		pr.LegCeilings = chartPath != "" || reportPath != "" || *format != "table"
-		plan, err := optimizer.Solve(pr)
-		if err != nil {
-			return planErr(err)
-		}
-		if err := writeCharts(chartPath, reportPath, plan, pr); err != nil {
-			return err
-		}
-		return writePlan(cmd.OutOrStdout(), *format, plan, false)
-	}
+	f.register(c)
+	c.RunE = func(cmd *cobra.Command, _ []string) error { return f.run(cmd, false, optimizer.Solve) }
 	return c
 }
 
 func newAssessCmd() *cobra.Command {
-	var pf problemFlags
-	var profile string
-	var chartPath, reportPath string
+	var f planFlags
 	c := &cobra.Command{
 		Use:   "assess",
 		Short: "Price a proposed vertical profile and list the limits it breaks",
-		Example: `  levelpath assess --route levelpath-demo/route.geojson --aircraft demo-widebody --mass 240000 \
+		Example: `  levelpath assess --route levelpath-demo/route.geojson --aircraft demo-widebody --mass 245000 \
       --weather levelpath-demo/weather.grib2 --profile "FL350,FL370@1250,FL390@2900"`,
 		Args: cobra.NoArgs,
 	}
-	format := formatFlag(c, "table", "json", "csv")
-	pf.register(c)
-	c.Flags().StringVar(&profile, "profile", "", "profile: initial level, then LEVEL@NM where each change begins, e.g. FL350,FL370@1250")
-	c.Flags().StringVar(&chartPath, "chart", "", "also draw the profile chart to FILE (.svg, .png or .pdf)")
-	c.Flags().StringVar(&reportPath, "report", "", "also write a self-contained HTML flight report to FILE")
+	f.register(c)
+	c.Flags().StringVar(&f.profile, "profile", "", "profile: initial level, then LEVEL@NM where each change begins, e.g. FL350,FL370@1250")
 	c.RunE = func(cmd *cobra.Command, _ []string) error {
-		if err := checkFormat(*format, "table", "json", "csv"); err != nil {
-			return err
-		}
-		if profile == "" {
+		if f.profile == "" {
 			return badInputf("--profile is required, e.g. FL350,FL370@1250,FL390@2900")
 		}
-		prof, err := optimizer.ParseProfile(profile)
+		prof, err := optimizer.ParseProfile(f.profile)
 		if err != nil {
 			return badInputf("--profile: %v", err)
 		}
-		wx, err := loadWeather(pf.weather)
-		if err != nil {
-			return err
-		}
-		pr, err := pf.problem(cmd, wx, cmd.ErrOrStderr())
-		if err != nil {
-			return err
-		}
-		pr.LegCeilings = true
-		plan, err := optimizer.Assess(pr, prof)
-		if err != nil {
-			return planErr(err)
-		}
-		if err := writeCharts(chartPath, reportPath, plan, pr); err != nil {
-			return err
-		}
-		return writePlan(cmd.OutOrStdout(), *format, plan, true)
+		return f.run(cmd, true, func(p *optimizer.Problem) (*optimizer.Plan, error) { return optimizer.Assess(p, prof) })
 	}
 	return c
 }
