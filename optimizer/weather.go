@@ -83,21 +83,30 @@ func floorFor(base float64, edr float64, rules []TurbulenceRule) (floor float64,
 }
 
 // buildConds samples the weather for every segment and level at an
-// estimated time of passage: departure plus distance over a nominal ground
-// speed, the aircraft's schedule Mach at FL350 ISA (295.07 m/s speed of
-// sound) in still air. Levels above or below the weather's pressure levels
-// are closed with a reason; a segment outside the weather's area or times
-// is an error.
+// estimated time of passage. The estimate flies the aircraft's schedule
+// Mach at FL350 ISA (speed of sound 295.07 m/s) with the along-track wind
+// at the candidate level nearest FL350, segment by segment, so that a
+// strong tail- or headwind moves the later segments' times as it would in
+// flight. Levels above or below the weather's pressure levels are closed
+// with a reason; a segment outside the weather's area or times is an
+// error.
 func buildConds(p *Problem, levels []int) ([][]cond, error) {
-	nominal := perf.DefaultSchedule(p.Aircraft).Mach * 295.07 // m/s
-	if !(nominal > 100) {
-		nominal = 0.8 * 295.07
+	tas := perf.DefaultSchedule(p.Aircraft).Mach * 295.07 // m/s
+	if !(tas > 100) {
+		tas = 0.8 * 295.07
+	}
+	ref := 0
+	for i, fl := range levels {
+		if abs(fl-350) < abs(levels[ref]-350) {
+			ref = i
+		}
 	}
 	segs := p.Track.Segments
 	out := make([][]cond, len(segs))
+	clock := p.Depart
 	for k := range segs {
 		seg := &segs[k]
-		t := p.Depart.Add(time.Duration((seg.FromDist + seg.Length/2) / nominal * float64(time.Second)))
+		t := clock.Add(time.Duration(seg.Length / 2 / tas * float64(time.Second)))
 		row := make([]cond, len(levels))
 		for li, fl := range levels {
 			pr := perf.FLToPressure(float64(fl))
@@ -119,6 +128,8 @@ func buildConds(p *Problem, levels []int) ([][]cond, error) {
 			row[li] = c
 		}
 		out[k] = row
+		gs := math.Max(tas+row[ref].wind, 0.5*tas)
+		clock = clock.Add(time.Duration(seg.Length / gs * float64(time.Second)))
 	}
 	return out, nil
 }
