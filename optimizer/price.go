@@ -106,5 +106,12 @@ func transition(a *perf.Aircraft, m, pFrom, pTo, isaDev float64, s perf.Schedule
 // level's Mach as it climbs (the climb integration charges the kinetic
 // energy) instead of starting at that Mach.
 func machSchedule(a *perf.Aircraft, base perf.Schedule, mach, pLow float64) perf.Schedule {
-	return perf.Schedule{CASLow: base.CASLow, CAS: math.Min(a.VMO, perf.MachToCAS(mach, pLow)*1.001), Mach: mach}
+	cas := perf.MachToCAS(mach, pLow) * 1.001
+	if cas <= a.VMO && pLow < perf.PressureAt(10000*0.3048) {
+		// The Mach's CAS is highest at the lower level and still under
+		// VMO there: Mach governs throughout, and no CAS limit is needed
+		// (perf: a zero field sets no limit).
+		return perf.Schedule{Mach: mach}
+	}
+	return perf.Schedule{CASLow: base.CASLow, CAS: math.Min(a.VMO, cas), Mach: mach}
 }
