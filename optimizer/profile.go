@@ -66,8 +66,8 @@ func ParseProfile(s string) (Profile, error) {
 			return p, &ProfileError{s, part, "a level change needs @NM (distance from departure where it begins)"}
 		}
 		nm, err := strconv.ParseFloat(strings.TrimSpace(at), 64)
-		if err != nil || math.IsNaN(nm) || math.IsInf(nm, 0) || nm < 0 {
-			return p, &ProfileError{s, part, "distance must be a non-negative number of NM"}
+		if err != nil || math.IsNaN(nm) || math.IsInf(nm, 0) || nm < 0 || nm > 30000 {
+			return p, &ProfileError{s, part, "distance must be a number of NM from 0 to 30000"}
 		}
 		if nm <= last {
 			return p, &ProfileError{s, part, "distances must increase along the profile"}
