@@ -61,7 +61,11 @@ func WriteTable(w io.Writer, p *optimizer.Plan, assessed bool) error {
 	if assessed {
 		bw.printf("\nViolations: %d\n", len(d.Violations))
 		for _, v := range d.Violations {
-			bw.printf("  - leg %d: %s by %s %s: %s\n", v.Leg, v.Limit, strconv.FormatFloat(v.By, 'f', 3, 64), v.Unit, v.Detail)
+			if v.Unit != "" {
+				bw.printf("  - leg %d: %s, by %s %s: %s\n", v.Leg, v.Limit, strconv.FormatFloat(v.By, 'f', 3, 64), v.Unit, v.Detail)
+			} else {
+				bw.printf("  - leg %d: %s: %s\n", v.Leg, v.Limit, v.Detail)
+			}
 		}
 	}
 	bw.printf("\n%s\n", optimizer.Caution)
