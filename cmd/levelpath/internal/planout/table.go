@@ -25,6 +25,7 @@ func WriteTable(w io.Writer, p *optimizer.Plan, assessed bool) error {
 	bw.printf("Profile  %s\n", d.Profile)
 	t := d.Totals
 	bw.printf("Totals   fuel %.0f kg, time %s, cost %.0f, CO2 %.0f kg, landing mass %.0f kg\n", t.FuelKg, hhmm(t.TimeMin), t.Cost, t.CO2Kg, t.LandingMassKg)
+	bw.printf("         (trip from 1,500 ft after take-off to 1,500 ft on approach; taxi, take-off, approach and reserve fuel not included)\n")
 	if d.MinMarginG != nil {
 		bw.printf("Least buffet margin %.3f g (floor %.2f g)\n", *d.MinMarginG, d.FloorG)
 	}
