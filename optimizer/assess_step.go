@@ -68,7 +68,17 @@ func abs(x int) int {
 
 // addTransLeg appends a climb, step or descent leg of ground length g.
 func (s *sim) addTransLeg(ph Phase, k int, fromFL, toFL, g float64, tr transVal, c cond) {
-	leg := Leg{Segment: k, Phase: ph, FromDist: s.x, ToDist: s.x + g, FromFL: fromFL, FL: toFL, Mach: tr.mach,
+	mach := tr.mach
+	if ph != PhaseStep {
+		// The Mach at the cruise end of a climb or descent on its
+		// CAS/Mach schedule (the schedule's Mach may not be reached).
+		sch, fl := s.q.ClimbSchedule, toFL
+		if ph == PhaseDescent {
+			sch, fl = s.q.DescentSchedule, fromFL
+		}
+		mach = scheduleMach(sch, perf.FLToPressure(fl))
+	}
+	leg := Leg{Segment: k, Phase: ph, FromDist: s.x, ToDist: s.x + g, FromFL: fromFL, FL: toFL, Mach: mach,
 		ISADev: c.isaDev, EDR: c.edr, Fuel: tr.fuel, Time: tr.time, MassStart: s.m,
 		BuffetMargin: nan, Floor: c.floor, FloorReason: c.why, MaxFLBuffet: nan, MaxFLThrust: nan, ResidualClimb: nan}
 	if tr.time > 0 {
@@ -162,4 +172,16 @@ func addWarnings(p *Plan) {
 	if thrust > 0 {
 		p.Warnings = append(p.Warnings, fmt.Sprintf("%d cruise leg(s) limited by thrust (residual climb under 400 ft/min), first at %.0f NM", thrust, firstThrust/nmToM))
 	}
+}
+
+// scheduleMach is the Mach a CAS/Mach schedule flies at pressure p above
+// 10,000 ft: the lesser of the schedule's Mach and its CAS's Mach.
+func scheduleMach(s perf.Schedule, p float64) float64 {
+	m := s.Mach
+	if s.CAS > 0 {
+		if c := perf.CASToMach(s.CAS, p); c == c && (m == 0 || c < m) {
+			m = c
+		}
+	}
+	return m
 }

@@ -64,7 +64,7 @@ func Solve(p *Problem) (*Plan, error) {
 	if bs, err := newSolver(&bq); err == nil {
 		if br, ok := bs.search(); ok {
 			bp := bs.profileOf(br.path)
-			if bplan, err := assess(&bq, bp, nil, false); err == nil && len(bplan.Violations) == 0 {
+			if bplan, err := assess(&bq, bp, nil, false); err == nil && !breaksProfileLimits(bplan.Violations) {
 				plan.Baseline = &Baseline{FL: bp.Initial, Totals: bplan.Totals}
 				if bplan.Totals.Cost > 0 {
 					plan.Baseline.SavingPct = (bplan.Totals.Cost - plan.Totals.Cost) / bplan.Totals.Cost * 100
@@ -158,4 +158,15 @@ func flRange(fls []int) string {
 		return strings.Join(s, ",")
 	}
 	return fmt.Sprintf("FL%03d-FL%03d", fls[0], fls[len(fls)-1])
+}
+
+// breaksProfileLimits reports whether vs holds a limit of the profile
+// itself; landing mass and fuel on board are the loading's.
+func breaksProfileLimits(vs []Violation) bool {
+	for _, v := range vs {
+		if v.Limit != "landing-mass" && v.Limit != "fuel" {
+			return true
+		}
+	}
+	return false
 }

@@ -125,6 +125,8 @@ func (f *problemFlags) problem(c *cobra.Command, wx *winds.Field, stderr io.Writ
 		p.Depart = t
 	} else if wx != nil {
 		p.Depart = wx.Times()[0]
+	} else {
+		p.Depart = time.Now().UTC().Truncate(time.Minute)
 	}
 	sp, err := optimizer.ParseSpeed(f.speed)
 	if err != nil {
