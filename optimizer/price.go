@@ -48,7 +48,24 @@ func machFor(a *perf.Aircraft, sp Speed, ci, m, p float64, c cond) (float64, boo
 }
 
 // cruisePoint evaluates cruise at one level, mass and condition exactly.
+// The reason of an infeasible result is left empty (the search asks
+// millions of times); explainCruise fills it.
 func cruisePoint(a *perf.Aircraft, sp Speed, ci, m, p float64, c cond) cruiseVal {
+	return cruiseEval(a, sp, ci, m, p, c, false)
+}
+
+// explainCruise is cruisePoint with the reason of an infeasible result.
+func explainCruise(a *perf.Aircraft, sp Speed, ci, m, p float64, c cond) cruiseVal {
+	return cruiseEval(a, sp, ci, m, p, c, true)
+}
+
+func cruiseEval(a *perf.Aircraft, sp Speed, ci, m, p float64, c cond, explain bool) cruiseVal {
+	why := func(format string, args ...any) string {
+		if !explain {
+			return ""
+		}
+		return fmt.Sprintf(format, args...)
+	}
 	if c.closed {
 		return cruiseVal{lim: "turbulence", why: c.closedWhy}
 	}
@@ -56,10 +73,10 @@ func cruisePoint(a *perf.Aircraft, sp Speed, ci, m, p float64, c cond) cruiseVal
 	if !ok {
 		lo, hi, bok := a.BuffetMachs(m, p, c.floor)
 		if !bok || lo >= math.Min(hi, a.MMO) {
-			return cruiseVal{lim: "buffet", why: fmt.Sprintf("no Mach keeps %.2f g to buffet", c.floor)}
+			return cruiseVal{lim: "buffet", why: why("no Mach keeps %.2f g to buffet", c.floor)}
 		}
 		if sp.Kind == SpeedFixed {
-			return cruiseVal{lim: "mach-band", why: fmt.Sprintf("Mach %.3f outside the band %.3f-%.3f at %.2f g, MMO and thrust", sp.Mach, lo, math.Min(hi, a.MMO), c.floor)}
+			return cruiseVal{lim: "mach-band", why: why("Mach %.3f outside the band %.3f-%.3f at %.2f g, MMO and thrust", sp.Mach, lo, math.Min(hi, a.MMO), c.floor)}
 		}
 		return cruiseVal{lim: "thrust", why: "drag exceeds maximum cruise thrust across the buffet band"}
 	}
@@ -70,9 +87,9 @@ func cruisePoint(a *perf.Aircraft, sp Speed, ci, m, p float64, c cond) cruiseVal
 	case pt.ThrustLimited:
 		v.lim, v.why = "thrust", "drag exceeds maximum cruise thrust"
 	case pt.ResidualClimb < fpm300:
-		v.lim, v.why = "thrust", fmt.Sprintf("residual climb %.0f ft/min under 300 ft/min", pt.ResidualClimb/0.3048*60)
+		v.lim, v.why = "thrust", why("residual climb %.0f ft/min under 300 ft/min", pt.ResidualClimb/0.3048*60)
 	case pt.BuffetMargin < c.floor-1e-9:
-		v.lim, v.why = "buffet", fmt.Sprintf("buffet margin %.3f g under the %.2f g floor", pt.BuffetMargin, c.floor)
+		v.lim, v.why = "buffet", why("buffet margin %.3f g under the %.2f g floor", pt.BuffetMargin, c.floor)
 	default:
 		v.ok = true
 	}

@@ -109,7 +109,7 @@ func (s *solver) infeasible() error {
 			byLim["level-rule"] = append(byLim["level-rule"], fl)
 			continue
 		}
-		v := cruisePoint(s.a, s.p.Speed, s.p.CI, m, s.press[li], s.conds[0][li])
+		v := explainCruise(s.a, s.p.Speed, s.p.CI, m, s.press[li], s.conds[0][li])
 		if v.ok {
 			c, g := s.initialClimb(li)
 			switch {

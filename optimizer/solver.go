@@ -117,10 +117,14 @@ func blocked(bs []Block, from, to float64, fl int) bool {
 	return false
 }
 
-// gridVal is a memoised cruise price at a grid mass.
+// gridVal is a memoised cruise price at a grid mass, and, when the next
+// heavier grid mass is infeasible, the feasibility boundary between them.
 type gridVal struct {
-	v    cruiseVal
-	done bool
+	v     cruiseVal
+	done  bool
+	bDone bool
+	bm    float64   // heaviest feasible mass found below the next grid mass
+	bv    cruiseVal // cruise at bm
 }
 
 // gridTrans is a memoised descent price at a grid mass.
@@ -149,13 +153,63 @@ func (s *solver) cruiseGrid(k, li, g int) cruiseVal {
 // cruiseAt is cruise at mass m, interpolated between grid masses where
 // both neighbours are feasible, and evaluated exactly otherwise, so that
 // feasibility is always decided at the true mass.
+//
+// Feasibility falls as mass rises (the buffet margin and the residual
+// climb both shrink), so where the lighter grid mass is feasible and the
+// heavier is not, the boundary between them is found once by bisection to
+// 1/4096 of the grid spacing and kept: masses up to it interpolate towards
+// the boundary's price, heavier ones are infeasible. The boundary kept is
+// the feasible side, so the search never accepts an infeasible mass.
 func (s *solver) cruiseAt(k, li int, m float64) cruiseVal {
 	g := int(math.Floor(m / s.grid))
 	v0, v1 := s.cruiseGrid(k, li, g), s.cruiseGrid(k, li, g+1)
-	if !v0.ok || !v1.ok {
-		return cruisePoint(s.a, s.p.Speed, s.p.CI, m, s.press[li], s.conds[k][li])
+	switch {
+	case v0.ok && v1.ok:
+		return lerpCruise(v1, v0, (float64(g+1)*s.grid-m)/s.grid)
+	case !v0.ok && !v1.ok:
+		return v0
+	case v0.ok:
+		e := s.gridEntry(k, li, g)
+		if e == nil {
+			break
+		}
+		if !e.bDone {
+			e.bm, e.bv = s.boundary(k, li, float64(g)*s.grid, v0)
+			e.bDone = true
+		}
+		if m > e.bm {
+			return v1
+		}
+		m0 := float64(g) * s.grid
+		if e.bm-m0 < 1e-9 {
+			return v0
+		}
+		return lerpCruise(v0, e.bv, (m-m0)/(e.bm-m0))
 	}
-	return lerpCruise(v1, v0, (float64(g+1)*s.grid-m)/s.grid)
+	return cruisePoint(s.a, s.p.Speed, s.p.CI, m, s.press[li], s.conds[k][li])
+}
+
+// boundary bisects between the feasible mass lo (value vlo) and lo + grid
+// for the heaviest feasible mass.
+func (s *solver) boundary(k, li int, lo float64, vlo cruiseVal) (float64, cruiseVal) {
+	hi := lo + s.grid
+	for i := 0; i < 12; i++ {
+		mid := (lo + hi) / 2
+		if v := cruisePoint(s.a, s.p.Speed, s.p.CI, mid, s.press[li], s.conds[k][li]); v.ok {
+			lo, vlo = mid, v
+		} else {
+			hi = mid
+		}
+	}
+	return lo, vlo
+}
+
+// gridEntry returns the memo entry of grid mass g (nil outside the memo).
+func (s *solver) gridEntry(k, li, g int) *gridVal {
+	if g < s.gLo || g > s.gHi {
+		return nil
+	}
+	return &s.cruiseMemo[k*len(s.levels)+li][g-s.gLo]
 }
 
 // cruiseLeg prices level flight over ground distance d on segment k at
@@ -236,19 +290,20 @@ func (s *solver) transExact(li, lj int, m, mach, dev float64) transVal {
 }
 
 // descent prices the final descent from level li at mass m, memoised on
-// a mass grid four times coarser than cruise (a descent's fuel and
-// distance change little with mass) and interpolated.
+// a mass grid ten times coarser than cruise (an idle descent's fuel, time
+// and distance change little and smoothly with mass) and interpolated.
 func (s *solver) descent(li int, m float64) transVal {
-	dg := 4 * s.grid
+	const coarse = 10
+	dg := coarse * s.grid
 	g := int(math.Floor(m / dg))
 	get := func(g int) transVal {
-		i := g - s.gLo/4
-		if i < 0 || i > (s.gHi-s.gLo)/4+2 {
+		i := g - s.gLo/coarse
+		if i < 0 || i > (s.gHi-s.gLo)/coarse+2 {
 			return s.descentExact(li, float64(g)*dg)
 		}
 		row := s.descMemo[li]
 		if row == nil {
-			row = make([]gridTrans, (s.gHi-s.gLo)/4+3)
+			row = make([]gridTrans, (s.gHi-s.gLo)/coarse+3)
 			s.descMemo[li] = row
 		}
 		e := &row[i]
