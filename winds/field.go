@@ -198,7 +198,11 @@ func layout(msgs []Message) (*Field, error) {
 	for _, l := range f.levels {
 		f.lnp = append(f.lnp, math.Log(l))
 	}
+	// Winds and temperature must cover every level and time; EDR is
+	// often forecast on fewer levels, so its missing planes are NaN (no
+	// turbulence information there) rather than an error.
 	var missing []string
+	edrGaps := false
 	for s := 0; s < nslots; s++ {
 		if !have[s] {
 			continue
@@ -206,6 +210,10 @@ func layout(msgs []Message) (*Field, error) {
 		for _, t := range f.times {
 			for _, l := range f.levels {
 				if seen[fieldKey{s, t.Unix(), l}] == nil {
+					if s == slotEDR {
+						edrGaps = true
+						continue
+					}
 					missing = append(missing, fmt.Sprintf("%s at %g Pa, %s", slotParams[s], l, t.Format(time.RFC3339)))
 				}
 			}
@@ -223,6 +231,12 @@ func layout(msgs []Message) (*Field, error) {
 	for s := 0; s < nslots; s++ {
 		if have[s] {
 			f.vars[s] = make([]float32, size)
+		}
+	}
+	if edrGaps {
+		nan := float32(math.NaN())
+		for i := range f.vars[slotEDR] {
+			f.vars[slotEDR][i] = nan
 		}
 	}
 	return f, nil
