@@ -115,6 +115,7 @@ func (p *planner) plan(ctx context.Context, row batch.Row, ci float64) (batch.Re
 	}
 	res = batch.Result{Fuel: plan.Totals.Fuel, Time: plan.Totals.Time / 60, Cost: plan.Totals.Cost, CO2: plan.Totals.CO2,
 		InitialFL: plan.Profile.Initial, Steps: len(plan.Steps), MinMargin: plan.MinMargin(), BaselineSavingPct: math.NaN(),
+		LandingMass: plan.Totals.LandingMass, Profile: plan.Profile.String(),
 		PlanJSON: []byte(buf.String())}
 	if plan.Baseline != nil {
 		res.BaselineSavingPct = plan.Baseline.SavingPct

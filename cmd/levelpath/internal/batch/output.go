@@ -51,7 +51,7 @@ func scheduleFingerprint(rows []Row, bad []RowError) string {
 // resultColumns are the columns of results.csv, in order.
 var resultColumns = []string{"flight", "ci", "status", "departure", "aircraft", "row",
 	"fuel_kg", "time_min", "cost", "co2_kg", "initial_fl", "steps", "min_margin_g",
-	"baseline_saving_pct", "error"}
+	"baseline_saving_pct", "landing_mass_kg", "profile", "error"}
 
 // parquetRow is one row of results.parquet: the same columns as
 // results.csv, departure as a UTC timestamp in milliseconds, absent values
@@ -71,6 +71,8 @@ type parquetRow struct {
 	Steps             *int64   `parquet:"steps,optional"`
 	MinMarginG        *float64 `parquet:"min_margin_g,optional"`
 	BaselineSavingPct *float64 `parquet:"baseline_saving_pct,optional"`
+	LandingMassKg     *float64 `parquet:"landing_mass_kg,optional"`
+	Profile           string   `parquet:"profile"`
 	Error             string   `parquet:"error"`
 }
 
@@ -190,7 +192,7 @@ func resultsCSV(results []record) ([]byte, error) {
 	for _, r := range results {
 		recs = append(recs, []string{r.Flight, ciText(r.CI), r.Status, r.Departure, r.Aircraft,
 			strconv.Itoa(r.Row), fmtF(r.FuelKg), fmtF(r.TimeMin), fmtF(r.Cost), fmtF(r.CO2Kg),
-			fmtI(r.InitialFL), fmtI(r.Steps), fmtF(r.MinMarginG), fmtF(r.BaselineSavingPct), r.Reason})
+			fmtI(r.InitialFL), fmtI(r.Steps), fmtF(r.MinMarginG), fmtF(r.BaselineSavingPct), fmtF(r.LandingMassKg), r.Profile, r.Reason})
 	}
 	return writeCSV(recs)
 }
@@ -211,7 +213,7 @@ func resultsParquet(results []record) ([]byte, error) {
 		rows[i] = parquetRow{Flight: r.Flight, CI: r.CI, Status: r.Status, Departure: dep.UnixMilli(),
 			Aircraft: r.Aircraft, Row: int64(r.Row), FuelKg: r.FuelKg, TimeMin: r.TimeMin, Cost: r.Cost,
 			CO2Kg: r.CO2Kg, InitialFL: i64(r.InitialFL), Steps: i64(r.Steps), MinMarginG: r.MinMarginG,
-			BaselineSavingPct: r.BaselineSavingPct, Error: r.Reason}
+			BaselineSavingPct: r.BaselineSavingPct, LandingMassKg: r.LandingMassKg, Profile: r.Profile, Error: r.Reason}
 	}
 	var buf bytes.Buffer
 	if err := parquet.Write(&buf, rows); err != nil {

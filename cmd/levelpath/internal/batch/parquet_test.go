@@ -31,6 +31,8 @@ type readBack struct {
 	Steps             *int64   `parquet:"steps,optional"`
 	MinMarginG        *float64 `parquet:"min_margin_g,optional"`
 	BaselineSavingPct *float64 `parquet:"baseline_saving_pct,optional"`
+	LandingMassKg     *float64 `parquet:"landing_mass_kg,optional"`
+	Profile           string   `parquet:"profile"`
 	Error             string   `parquet:"error"`
 }
 
@@ -108,10 +110,10 @@ func TestParquetMatchesCSV(t *testing.T) {
 		}
 		got := []string{p.Flight, strconv.FormatFloat(p.CI, 'f', -1, 64), p.Status, p.Aircraft,
 			strconv.FormatInt(p.Row, 10), f(p.FuelKg), f(p.TimeMin), f(p.Cost), f(p.CO2Kg),
-			i(p.InitialFL), i(p.Steps), f(p.MinMarginG), f(p.BaselineSavingPct), p.Error}
+			i(p.InitialFL), i(p.Steps), f(p.MinMarginG), f(p.BaselineSavingPct), f(p.LandingMassKg), p.Profile, p.Error}
 		want := []string{c[col["flight"]], c[col["ci"]], c[col["status"]], c[col["aircraft"]],
 			c[col["row"]], c[col["fuel_kg"]], c[col["time_min"]], c[col["cost"]], c[col["co2_kg"]],
-			c[col["initial_fl"]], c[col["steps"]], c[col["min_margin_g"]], c[col["baseline_saving_pct"]], c[col["error"]]}
+			c[col["initial_fl"]], c[col["steps"]], c[col["min_margin_g"]], c[col["baseline_saving_pct"]], c[col["landing_mass_kg"]], c[col["profile"]], c[col["error"]]}
 		if !reflect.DeepEqual(got, want) {
 			t.Errorf("row %d: parquet %q\ncsv %q", n, got, want)
 		}

@@ -45,6 +45,8 @@ type record struct {
 	Steps             *int       `json:"steps,omitempty"`
 	MinMarginG        *float64   `json:"min_margin_g,omitempty"`
 	BaselineSavingPct *float64   `json:"baseline_saving_pct,omitempty"`
+	LandingMassKg     *float64   `json:"landing_mass_kg,omitempty"`
+	Profile           string     `json:"profile,omitempty"`
 	Reason            string     `json:"reason,omitempty"`
 	Errors            []RowError `json:"errors,omitempty"` // bad rows only
 	Plan              string     `json:"plan,omitempty"`   // path relative to Out
@@ -135,6 +137,10 @@ func resultRecord(row *Row, ci float64, res Result, planErr error) record {
 	rec.Cost = ptr(round(res.Cost, 1))
 	rec.CO2Kg = ptr(round(res.CO2, 1))
 	rec.InitialFL = ptr(res.InitialFL)
+	rec.Profile = res.Profile
+	if !math.IsNaN(res.LandingMass) && !math.IsInf(res.LandingMass, 0) && res.LandingMass > 0 {
+		rec.LandingMassKg = ptr(round(res.LandingMass, 1))
+	}
 	rec.Steps = ptr(res.Steps)
 	if !math.IsNaN(res.MinMargin) && !math.IsInf(res.MinMargin, 0) {
 		rec.MinMarginG = ptr(round(res.MinMargin, 3))

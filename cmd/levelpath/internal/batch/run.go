@@ -21,6 +21,8 @@ type Result struct {
 	InitialFL, Steps      int
 	MinMargin             float64 // g; NaN if none
 	BaselineSavingPct     float64 // NaN if none
+	LandingMass           float64 // kg
+	Profile               string  // e.g. "FL350,FL370@1250"
 	PlanJSON              []byte  // full plan document, written to plans/
 }
 
