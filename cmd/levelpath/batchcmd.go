@@ -35,6 +35,7 @@ const exitSomeFailed = 3
 type planner struct {
 	wx       *winds.Field
 	maxSegNM float64
+	steps    optimizer.StepRules
 	mu       sync.Mutex
 	aircraft map[string]*perf.Aircraft
 	tracks   map[string]*route.Track
@@ -86,7 +87,7 @@ func (p *planner) plan(ctx context.Context, row batch.Row, ci float64) (batch.Re
 	if err != nil {
 		return res, err
 	}
-	pr := &optimizer.Problem{Track: tr, Aircraft: a, Weather: p.wx, Depart: row.Departure, CI: ci, Floor: row.Floor}
+	pr := &optimizer.Problem{Track: tr, Aircraft: a, Weather: p.wx, Depart: row.Departure, CI: ci, Floor: row.Floor, Steps: p.steps}
 	switch {
 	case row.TOW > 0:
 		pr.TakeoffMass = row.TOW
@@ -130,6 +131,9 @@ func newBatchCmd() *cobra.Command {
 		workers, shardCount                    int
 		resume                                 bool
 		maxSegNM                               float64
+		maxStepFt, maxSteps                    int
+		minStepNM                              float64
+		stepDescents, noSteps                  bool
 	)
 	c := &cobra.Command{
 		Use:   "batch",
@@ -152,6 +156,11 @@ func newBatchCmd() *cobra.Command {
 	fl.BoolVar(&resume, "resume", false, "continue a stopped run in --out, planning only what is missing")
 	fl.Float64Var(&maxSegNM, "max-seg-nm", 50, "longest route segment, NM")
 	fl.StringVar(&chartPath, "chart", "", "with --ci-sweep: draw total fuel against total time per CI to FILE (.svg, .png, .pdf)")
+	fl.IntVar(&maxStepFt, "max-step-ft", 4000, "step rule for every flight: largest level change of one step, ft")
+	fl.BoolVar(&stepDescents, "step-descents", false, "step rule for every flight: allow step descents in cruise")
+	fl.Float64Var(&minStepNM, "min-step-nm", 100, "step rule for every flight: least distance between steps, NM (0: none)")
+	fl.IntVar(&maxSteps, "max-steps", 0, "step rule for every flight: most steps (0: no limit)")
+	fl.BoolVar(&noSteps, "no-steps", false, "step rule for every flight: one constant level")
 	c.RunE = func(cmd *cobra.Command, _ []string) error {
 		if err := checkFormat(*format, "table", "json", "csv"); err != nil {
 			return err
@@ -205,7 +214,11 @@ func newBatchCmd() *cobra.Command {
 		if err != nil {
 			return err
 		}
-		pl := &planner{wx: wx, maxSegNM: maxSegNM, aircraft: map[string]*perf.Aircraft{}, tracks: map[string]*route.Track{}}
+		steps, err := stepRules(maxStepFt, stepDescents, minStepNM, maxSteps, noSteps)
+		if err != nil {
+			return err
+		}
+		pl := &planner{wx: wx, maxSegNM: maxSegNM, steps: steps, aircraft: map[string]*perf.Aircraft{}, tracks: map[string]*route.Track{}}
 		ctx, stop := signal.NotifyContext(cmd.Context(), os.Interrupt, syscall.SIGTERM)
 		defer stop()
 		start := time.Now()

@@ -473,3 +473,32 @@ func TestCharts(t *testing.T) {
 		t.Errorf("sweep chart lacks the CI 50 label")
 	}
 }
+
+// TestBatchStepPolicy: a step rule given to batch applies to every flight
+// (a researcher comparing step policies): with --no-steps no flight steps.
+func TestBatchStepPolicy(t *testing.T) {
+	fs := demoFiles(t)
+	out := filepath.Join(t.TempDir(), "o")
+	code, _, errs := runCLI(t, "batch", "--schedule", fs.Schedule, "--weather", fs.Weather, "--out", out, "--no-steps")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	f, err := os.Open(filepath.Join(out, "results.csv"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	recs, _ := csv.NewReader(f).ReadAll()
+	col := map[string]int{}
+	for i, h := range recs[0] {
+		col[h] = i
+	}
+	for _, r := range recs[1:] {
+		if r[col["steps"]] != "0" || strings.Contains(r[col["profile"]], "@") {
+			t.Errorf("%s: %s steps, profile %s", r[col["flight"]], r[col["steps"]], r[col["profile"]])
+		}
+	}
+	if code, _, errs := runCLI(t, "batch", "--schedule", fs.Schedule, "--out", filepath.Join(t.TempDir(), "x"), "--max-step-ft", "50"); code != 2 || !strings.Contains(errs, "--max-step-ft") {
+		t.Errorf("--max-step-ft 50: exit %d, %q", code, errs)
+	}
+}

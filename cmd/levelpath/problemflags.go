@@ -133,14 +133,9 @@ func (f *problemFlags) problem(c *cobra.Command, wx *winds.Field, stderr io.Writ
 		return nil, badInputf("--speed: %v", err)
 	}
 	p.Speed = sp
-	if math.IsNaN(f.minStepNM) || f.minStepNM < 0 {
-		return nil, badInputf("--min-step-nm %v: must be 0 or more", f.minStepNM)
+	if p.Steps, err = stepRules(f.maxStepFt, f.stepDescent, f.minStepNM, f.maxSteps, f.noSteps); err != nil {
+		return nil, err
 	}
-	minStep := f.minStepNM * 1852
-	if minStep == 0 {
-		minStep = -1 // no minimum
-	}
-	p.Steps = optimizer.StepRules{MaxChange: f.maxStepFt, AllowDescent: f.stepDescent, MinDistance: minStep, MaxSteps: f.maxSteps, NoSteps: f.noSteps}
 	for _, b := range f.blocks {
 		blk, err := parseBlock(b)
 		if err != nil {
@@ -282,4 +277,22 @@ func clampMagDate(d time.Time, stderr io.Writer) time.Time {
 		return wmmLast
 	}
 	return d
+}
+
+// stepRules checks the step flags and builds the rules.
+func stepRules(maxStepFt int, descents bool, minStepNM float64, maxSteps int, none bool) (optimizer.StepRules, error) {
+	if math.IsNaN(minStepNM) || minStepNM < 0 {
+		return optimizer.StepRules{}, badInputf("--min-step-nm %v: must be 0 or more", minStepNM)
+	}
+	if maxStepFt < 1000 || maxStepFt > 10000 {
+		return optimizer.StepRules{}, badInputf("--max-step-ft %d: must lie in 1000..10000", maxStepFt)
+	}
+	if maxSteps < 0 {
+		return optimizer.StepRules{}, badInputf("--max-steps %d: must be 0 or more", maxSteps)
+	}
+	minStep := minStepNM * 1852
+	if minStep == 0 {
+		minStep = -1 // no minimum
+	}
+	return optimizer.StepRules{MaxChange: maxStepFt, AllowDescent: descents, MinDistance: minStep, MaxSteps: maxSteps, NoSteps: none}, nil
 }
