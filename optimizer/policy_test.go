@@ -90,3 +90,21 @@ func TestAssessViolations(t *testing.T) {
 		t.Errorf("FL350 at 1.6 g: violations %s, want buffet", s)
 	}
 }
+
+// TestMissingWeatherValues: a hole in the weather (bitmap-missing values)
+// on the route is an input error naming it, never still air.
+func TestMissingWeatherValues(t *testing.T) {
+	tr := track(t, "45.0,-73.0 47.0,-40.0", "every-1000:310-390", 50)
+	fls := []int{300, 320, 340, 360, 380, 400}
+	wx := levelField(t, fls, func(fl int) float64 {
+		if fl == 340 {
+			return math.NaN()
+		}
+		return 10
+	})
+	_, err := Solve(&Problem{Track: tr, Aircraft: aircraft(t, "demo-narrowbody"), Weather: wx, TakeoffMass: 70000,
+		Depart: wx.Times()[0]})
+	if err == nil || !IsInputError(err) || !strings.Contains(err.Error(), "missing values") {
+		t.Errorf("got %v, want an input error about missing values", err)
+	}
+}

@@ -251,10 +251,10 @@ func (p *Problem) normalise() ([]string, error) {
 	if p.Weather == nil {
 		warn = append(warn, "no weather given: ISA and still air assumed")
 	} else {
-		if !p.Weather.Has(winds.Param("u")) || !p.Weather.Has(winds.Param("v")) {
+		if !p.Weather.Has(winds.ParamU) || !p.Weather.Has(winds.ParamV) {
 			return nil, inputErrorf("weather", "the weather has no winds aloft (u and v on isobaric levels)")
 		}
-		if !p.Weather.Has(winds.Param("t")) {
+		if !p.Weather.Has(winds.ParamT) {
 			warn = append(warn, "the weather has no temperature: ISA temperature assumed")
 		}
 	}

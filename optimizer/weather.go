@@ -33,11 +33,19 @@ func weatherAt(f *winds.Field, lat, lon, p float64, t time.Time, course float64)
 	if err != nil {
 		return 0, 0, nan, err
 	}
-	along, _ := winds.AlongAcross(s.U, s.V, course)
+	// Missing values (a bitmap's holes) next to the point are an error,
+	// not still air or ISA: the field says nothing there.
+	if math.IsNaN(s.U) || math.IsNaN(s.V) {
+		return 0, 0, nan, fmt.Errorf("no wind at %.3f, %.3f, %.0f hPa (missing values in the weather)", lat, lon, p/100)
+	}
 	dev := 0.0
-	if !math.IsNaN(s.T) {
+	if f.Has(winds.ParamT) {
+		if math.IsNaN(s.T) {
+			return 0, 0, nan, fmt.Errorf("no temperature at %.3f, %.3f, %.0f hPa (missing values in the weather)", lat, lon, p/100)
+		}
 		dev = perf.ISADeviation(p, s.T)
 	}
+	along, _ := winds.AlongAcross(s.U, s.V, course)
 	return along, dev, s.EDR, nil
 }
 
