@@ -63,7 +63,7 @@ func (s *sim) condAt(k, fl int) (cond, error) {
 	}
 	c := cond{wind: w, isaDev: d, edr: e}
 	c.floor, c.why, c.closed = floorFor(s.q.Floor, e, s.q.Turbulence)
-	c.closedWhy = c.why
+	c.closedLim, c.closedWhy = "turbulence", c.why
 	return c, nil
 }
 

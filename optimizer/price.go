@@ -67,7 +67,11 @@ func cruiseEval(a *perf.Aircraft, sp Speed, ci, m, p float64, c cond, explain bo
 		return fmt.Sprintf(format, args...)
 	}
 	if c.closed {
-		return cruiseVal{lim: "turbulence", why: c.closedWhy}
+		lim := c.closedLim
+		if lim == "" {
+			lim = "turbulence"
+		}
+		return cruiseVal{lim: lim, why: c.closedWhy}
 	}
 	mach, ok := machFor(a, sp, ci, m, p, c)
 	if !ok {

@@ -18,8 +18,10 @@ type cond struct {
 	floor  float64 // protection floor after the turbulence rule, g
 	why    string  // reason for the floor
 	closed bool    // level unavailable here (turbulence, weather top)
-	// closedWhy tells why a level is closed.
+	// closedWhy tells why a level is closed; closedLim is the limit's
+	// name ("turbulence", or "weather" outside the weather's levels).
 	closedWhy string
+	closedLim string
 }
 
 // weatherAt samples the weather at a point and returns the along-track wind
@@ -122,7 +124,7 @@ func buildConds(p *Problem, levels []int) ([][]cond, error) {
 			c := cond{wind: w, isaDev: d, edr: e}
 			if err != nil {
 				if isLevelRange(p.Weather, pr) {
-					c.closed, c.closedWhy = true, fmt.Sprintf("FL%d outside the weather's pressure levels", fl)
+					c.closed, c.closedLim, c.closedWhy = true, "weather", fmt.Sprintf("FL%d outside the weather's pressure levels", fl)
 					row[li] = c
 					continue
 				}
@@ -131,7 +133,7 @@ func buildConds(p *Problem, levels []int) ([][]cond, error) {
 			}
 			c.floor, c.why, c.closed = floorFor(p.Floor, e, p.Turbulence)
 			if c.closed {
-				c.closedWhy = c.why
+				c.closedLim, c.closedWhy = "turbulence", c.why
 			}
 			row[li] = c
 		}
