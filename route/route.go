@@ -139,7 +139,7 @@ func looksInline(s string) bool {
 
 // ParseInline parses a route written as waypoints separated by spaces or
 // semicolons, each "lat,lon" in decimal degrees with an optional name
-// prefix "NAME=lat,lon", e.g. "40.6,-73.8 EGLL=51.47,-0.45". Unnamed
+// prefix "NAME=lat,lon", e.g. "40.6,-73.8 AVALON=44.6,-74.2". Unnamed
 // points are called P1, P2, ... by position.
 func ParseInline(s string) (*Route, error) {
 	const src = "inline"

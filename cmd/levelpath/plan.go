@@ -66,7 +66,7 @@ func newPlanCmd() *cobra.Command {
 		Short: "Plan the cheapest vertical profile of one flight",
 		Example: `  levelpath plan --route levelpath-demo/route.geojson --aircraft demo-widebody --mass 245000 \
       --weather levelpath-demo/weather.grib2 --depart 2026-12-01T20:00:00Z --ci 40
-  levelpath plan --route "51.47,-0.45 40.64,-73.78" --aircraft demo-narrowbody --zfw 58000 --fuel 19000 --format json`,
+  levelpath plan --route levelpath-demo/route-sunhaven.geojson --aircraft demo-narrowbody --zfw 58000 --fuel 12000 --format json`,
 		Args: cobra.NoArgs,
 	}
 	f.register(c)

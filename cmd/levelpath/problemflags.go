@@ -65,7 +65,7 @@ func (f *problemFlags) register(c *cobra.Command) {
 	fl.BoolVar(&f.noSteps, "no-steps", false, "fly one constant level")
 	fl.StringArrayVar(&f.blocks, "block", nil, "levels unavailable over a distance range: FL370,FL390@1200-1800 (NM, repeatable)")
 	fl.StringVar(&f.turb, "turbulence", "", "EDR rules: EDR:FLOOR or EDR:closed, comma-separated (default 0.20:1.5,0.45:closed)")
-	fl.Float64Var(&f.bucketKg, "mass-bucket-kg", 0, "mass bucket of the search, kg (default 0.1 % of MTOW)")
+	fl.Float64Var(&f.bucketKg, "mass-bucket-kg", 0, "mass bucket of the search, kg (default 0.25 % of MTOW)")
 	fl.StringVar(&f.date, "date", "", "date for magnetic variation, YYYY-MM-DD (default: departure date)")
 }
 

@@ -77,7 +77,7 @@ func newRouteCmd() *cobra.Command {
 		Use:   "route ROUTE",
 		Short: "Split a route into geodesic segments with courses, magnetic variation and allowed levels",
 		Example: `  levelpath route levelpath-demo/route.geojson
-  levelpath route "51.47,-0.45 53.63,-9.90 40.64,-73.78" --max-seg-nm 100 --format json`,
+  levelpath route "44.6,-74.2 WPT01=48.5,-60.0 51.0,-1.0" --max-seg-nm 100 --format json`,
 		Args: cobra.ExactArgs(1),
 	}
 	format := formatFlag(c, "table", "json", "geojson")
