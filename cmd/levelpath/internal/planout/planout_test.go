@@ -100,3 +100,29 @@ func TestCSVAndTableCarryCaution(t *testing.T) {
 		}
 	}
 }
+
+func TestViolationGroups(t *testing.T) {
+	p := testPlan()
+	p.Violations = []optimizer.Violation{
+		{Leg: 2, Limit: "buffet", By: 0.1, Unit: "g", Detail: "a"},
+		{Leg: 2, Limit: "thrust", By: 50, Unit: "fpm", Detail: "t"},
+		{Leg: 3, Limit: "buffet", By: 0.3, Unit: "g", Detail: "worst"},
+		{Leg: 4, Limit: "buffet", By: 0.2, Unit: "g", Detail: "c"},
+		{Leg: 7, Limit: "buffet", By: 0.05, Unit: "g", Detail: "later"},
+	}
+	gs := groupViolations(FromPlan(p, true))
+	if len(gs) != 3 {
+		t.Fatalf("%d groups, want 3: %+v", len(gs), gs)
+	}
+	if g := gs[0]; g.limit != "buffet" || g.first != 2 || g.last != 4 || g.count != 3 || g.worst != 0.3 || g.detail != "worst" {
+		t.Errorf("first group %+v", g)
+	}
+	if g := gs[2]; g.first != 7 || g.count != 1 {
+		t.Errorf("last group %+v", g)
+	}
+	var buf bytes.Buffer
+	WriteTable(&buf, p, true)
+	if !strings.Contains(buf.String(), "legs 2-4 (3 legs): buffet, worst by 0.300 g: worst") {
+		t.Errorf("table:\n%s", buf.String())
+	}
+}

@@ -61,12 +61,19 @@ func WriteTable(w io.Writer, p *optimizer.Plan, assessed bool) error {
 	}
 	if assessed {
 		bw.printf("\nViolations: %d\n", len(d.Violations))
-		for _, v := range d.Violations {
-			if v.Unit != "" {
-				bw.printf("  - leg %d: %s, by %s %s: %s\n", v.Leg, v.Limit, strconv.FormatFloat(v.By, 'f', 3, 64), v.Unit, v.Detail)
-			} else {
-				bw.printf("  - leg %d: %s: %s\n", v.Leg, v.Limit, v.Detail)
+		for _, g := range groupViolations(d) {
+			where := fmt.Sprintf("leg %d", g.first)
+			if g.last != g.first {
+				where = fmt.Sprintf("legs %d-%d (%d legs)", g.first, g.last, g.count)
 			}
+			if g.unit != "" {
+				bw.printf("  - %s: %s, worst by %s %s: %s\n", where, g.limit, strconv.FormatFloat(g.worst, 'f', 3, 64), g.unit, g.detail)
+			} else {
+				bw.printf("  - %s: %s: %s\n", where, g.limit, g.detail)
+			}
+		}
+		if len(d.Violations) > 0 {
+			bw.printf("  (every violation, leg by leg: --format json)\n")
 		}
 	}
 	bw.printf("\n%s\n", optimizer.Caution)
@@ -121,4 +128,35 @@ func (e *errWriter) Write(b []byte) (int, error) {
 
 func (e *errWriter) printf(format string, args ...any) {
 	fmt.Fprintf(e, format, args...)
+}
+
+// violationGroup is a run of violations of one limit on consecutive legs.
+type violationGroup struct {
+	limit, unit, detail string
+	first, last, count  int
+	worst               float64
+}
+
+// groupViolations merges violations of the same limit on consecutive legs,
+// keeping the detail of the worst one, so that a dispatcher reads one line
+// per stretch of route instead of one per leg.
+func groupViolations(d *Doc) []violationGroup {
+	var out []violationGroup
+	open := map[string]int{} // limit -> index in out of its latest group
+	for _, v := range d.Violations {
+		if i, ok := open[v.Limit]; ok && v.Leg <= out[i].last+1 {
+			g := &out[i]
+			if v.Leg != g.last {
+				g.count++
+			}
+			g.last = v.Leg
+			if v.By > g.worst {
+				g.worst, g.detail = v.By, v.Detail
+			}
+			continue
+		}
+		open[v.Limit] = len(out)
+		out = append(out, violationGroup{limit: v.Limit, unit: v.Unit, detail: v.Detail, first: v.Leg, last: v.Leg, count: 1, worst: v.By})
+	}
+	return out
 }
