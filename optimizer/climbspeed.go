@@ -26,9 +26,8 @@ func bestClimbSchedule(a *perf.Aircraft, tow, ci float64, maxFL int, sp Speed, f
 		cands = append(cands, cas)
 	}
 	type res struct {
-		s    perf.Schedule
-		tr   perf.Transition
-		cost float64
+		s  perf.Schedule
+		tr perf.Transition
 	}
 	var rs []res
 	far := 0.0

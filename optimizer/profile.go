@@ -102,18 +102,6 @@ func (p Profile) String() string {
 	return b.String()
 }
 
-// levelAt returns the level in effect at distance d (changes that begin at
-// or before d have happened).
-func (p Profile) levelAt(d float64) int {
-	fl := p.Initial
-	for _, c := range p.Changes {
-		if c.AtDist <= d {
-			fl = c.FL
-		}
-	}
-	return fl
-}
-
 // sorted reports whether changes are in increasing distance.
 func (p Profile) sorted() bool {
 	return sort.SliceIsSorted(p.Changes, func(i, j int) bool { return p.Changes[i].AtDist < p.Changes[j].AtDist })

@@ -21,15 +21,14 @@ type EnvelopeRow struct {
 // protection floor. Levels are continuous flight levels; NaN where a limit
 // does not exist within the search range.
 type Envelope struct {
-	Aircraft             string
-	Mass, ISADev, Floor  float64 // kg, K, g
-	Rows                 []EnvelopeRow
-	MaxFLBuffet          float64 // highest level with a buffet-free band at Floor below MMO
-	MaxFLThrust          float64 // highest level with residual climb >= 300 ft/min at LRC
-	MaxFLCertified       float64
-	MaxFL                float64 // least of the three
-	OptimumFL            float64 // level of best specific range at the max-range Mach, at most MaxFL
-	optimumSpecificRange float64
+	Aircraft            string
+	Mass, ISADev, Floor float64 // kg, K, g
+	Rows                []EnvelopeRow
+	MaxFLBuffet         float64 // highest level with a buffet-free band at Floor below MMO
+	MaxFLThrust         float64 // highest level with residual climb >= 300 ft/min at LRC
+	MaxFLCertified      float64
+	MaxFL               float64 // least of the three
+	OptimumFL           float64 // level of best specific range at the max-range Mach, at most MaxFL
 }
 
 const (

@@ -42,11 +42,6 @@ type Point struct {
 	ThrustLimited bool // drag exceeds max cruise thrust
 }
 
-// liftCoeff returns CL = 2 n m g / (γ p M² S).
-func (a *Aircraft) liftCoeff(mass, p, mach, n float64) float64 {
-	return 2 * n * mass * G0 / (Gamma * p * mach * mach * a.WingArea)
-}
-
 // dragCoeff returns CD = CD0 + K CL² + ΔCD_wave, the wave drag from the
 // Korn equation with Lock's fourth-power law (Malone and Mason, "Multi-
 // disciplinary optimization in aircraft design using analytic technology

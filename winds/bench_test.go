@@ -86,9 +86,7 @@ func BenchmarkSample(b *testing.B) {
 	fn := func(lat, lon, p float64, tt time.Time) float64 { return lat + lon + p/1000 }
 	var msgs []Message
 	for _, prm := range []Param{ParamU, ParamV, ParamT} {
-		for _, m := range synthetic(prm, []float64{30000, 25000, 20000, 15000}, []int{0, 6}, fn) {
-			msgs = append(msgs, m)
-		}
+		msgs = append(msgs, synthetic(prm, []float64{30000, 25000, 20000, 15000}, []int{0, 6}, fn)...)
 	}
 	f, err := NewField(msgs)
 	if err != nil {

@@ -42,32 +42,6 @@ func (b *bitReader) read(n uint) uint32 {
 // align moves to the next octet boundary.
 func (b *bitReader) align() { b.pos = (b.pos + 7) &^ 7 }
 
-// unpackBits decodes n unsigned values of width bits each, starting at bit 0
-// of buf, into dst[:n]. The caller has checked that buf holds n*width bits.
-func unpackBits(dst []uint32, buf []byte, width uint) {
-	switch width {
-	case 0:
-		for i := range dst {
-			dst[i] = 0
-		}
-		return
-	case 8:
-		for i := range dst {
-			dst[i] = uint32(buf[i])
-		}
-		return
-	case 16:
-		for i := range dst {
-			dst[i] = uint32(buf[2*i])<<8 | uint32(buf[2*i+1])
-		}
-		return
-	}
-	br := bitReader{buf: buf}
-	for i := range dst {
-		dst[i] = br.read(width)
-	}
-}
-
 // Integers in GRIB sections are big-endian; signed ones use a sign bit and
 // magnitude, not two's complement (FM 92 GRIB, Regulation 92.1.5).
 

@@ -191,8 +191,7 @@ func allZero(p []byte) bool {
 
 // decodeScratch holds buffers reused between fields.
 type decodeScratch struct {
-	ints   []int64
-	values []float32
+	ints []int64
 }
 
 // pow10 returns 10^n for the decimal scale factors of GRIB.

@@ -246,8 +246,8 @@ func TestBadRowsAndPanicDoNotStopOthers(t *testing.T) {
 	planner := func(ctx context.Context, row Row, ci float64) (Result, error) {
 		switch row.Flight {
 		case "T0003":
-			var m map[string]int
-			m["boom"]++ // nil map write: a real runtime panic
+			i := len(row.Flight) + 10
+			_ = row.Flight[i] // index out of range: a real runtime panic
 		case "T0007":
 			return Result{}, errors.New("no level meets the buffet floor")
 		}
