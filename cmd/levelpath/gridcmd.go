@@ -157,9 +157,14 @@ func newGridSampleCmd() *cobra.Command {
 			}
 			p = perf.FLToPressure(fl)
 		}
-		field, err := loadWeather(args)
+		for _, a := range args {
+			if _, err := os.Stat(a); err != nil {
+				return badInput(err)
+			}
+		}
+		field, err := winds.Open(args...) // every level, not only the cruise band
 		if err != nil {
-			return err
+			return badInput(err)
 		}
 		t := field.Times()[0]
 		if tm != "" {

@@ -12,6 +12,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"levelpath/optimizer"
+	"levelpath/perf"
 	"levelpath/route"
 	"levelpath/winds"
 )
@@ -79,7 +80,9 @@ func loadWeather(paths []string) (*winds.Field, error) {
 			return nil, badInputf("--weather %s: %v", p, err)
 		}
 	}
-	f, err := winds.Open(paths...)
+	// Cruise levels lie between FL050 and FL600: keep those pressure levels
+	// (and one beyond each end) and drop the rest of a full forecast.
+	f, err := winds.OpenBetween(perf.FLToPressure(600), perf.FLToPressure(50), paths...)
 	if err != nil {
 		return nil, badInput(err)
 	}
