@@ -3,7 +3,6 @@ package optimizer
 import (
 	"fmt"
 	"math"
-	"sort"
 	"time"
 
 	"levelpath/perf"
@@ -46,13 +45,7 @@ func (s *sim) violate(limit string, by float64, unit, detail string) {
 }
 
 // segAt returns the segment holding distance d.
-func (s *sim) segAt(d float64) int {
-	k := sort.Search(len(s.segs), func(i int) bool { return s.segs[i].ToDist > d })
-	if k >= len(s.segs) {
-		k = len(s.segs) - 1
-	}
-	return k
-}
+func (s *sim) segAt(d float64) int { return segmentIndex(s.segs, d) }
 
 // condAt samples the weather on segment k at level fl at the current time.
 func (s *sim) condAt(k, fl int) (cond, error) {
@@ -123,12 +116,12 @@ func (s *sim) run(pr Profile, total float64, detail bool) error {
 	g := cl.dist + 0.5*c0.wind*cl.time
 	s.addTransLeg(PhaseClimb, 0, 0, float64(s.fl), g, cl, c0)
 	ci := 0
-	for ci < len(pr.Changes) && pr.Changes[ci].AtDist < s.x-1e-6 {
+	if ci < len(pr.Changes) && pr.Changes[ci].AtDist < s.x-1e-6 {
 		s.violate("profile", (s.x-pr.Changes[ci].AtDist)/nmToM, "NM", fmt.Sprintf("change to FL%03d at %.0f NM begins before the top of climb (%.0f NM); taken there", pr.Changes[ci].FL, pr.Changes[ci].AtDist/nmToM, s.x/nmToM))
 		pr.Changes[ci].AtDist = s.x
-		break
 	}
 	steps := 0
+	descFL, descGround := -1, 0.0 // level and ground distance of the last descent priced
 	// The minimum step distance counts from the start of the segment that
 	// holds the top of climb, as the search does.
 	lastStep := s.segs[s.segAt(s.x)].FromDist
@@ -142,23 +135,32 @@ func (s *sim) run(pr Profile, total float64, detail bool) error {
 		if err != nil {
 			return err
 		}
-		p := perf.FLToPressure(float64(s.fl))
-		last := s.segs[len(s.segs)-1]
-		cLast, err := s.condAt(len(s.segs)-1, s.fl)
-		if err != nil {
-			return err
-		}
-		_ = last
-		de := transition(a, s.m, p, endP, cLast.isaDev, q.DescentSchedule, false)
-		if !de.ok {
-			return inputErrorf("profile", "final descent from FL%03d: %s", s.fl, de.why)
-		}
-		tod := total - (de.dist + 0.5*cLast.wind*de.time)
 		xc := math.Inf(1)
 		if ci < len(pr.Changes) {
 			xc = pr.Changes[ci].AtDist
 		}
-		end := math.Min(s.segs[k].ToDist, math.Min(xc, tod))
+		end := math.Min(s.segs[k].ToDist, xc)
+		// The final descent is priced exactly only where its top may fall
+		// in this piece. Its ground distance, first priced on reaching a
+		// level, changes with mass and wind by a few NM: far less than
+		// the margin of half that distance plus 50 NM.
+		if s.fl != descFL {
+			de, cLast, err := s.finalDescent(endP)
+			if err != nil {
+				return err
+			}
+			descFL, descGround = s.fl, de.dist+0.5*cLast.wind*de.time
+		}
+		tod := math.Inf(1)
+		var de transVal
+		var cLast cond
+		if end >= total-1.5*descGround-50*nmToM {
+			if de, cLast, err = s.finalDescent(endP); err != nil {
+				return err
+			}
+			tod = total - (de.dist + 0.5*cLast.wind*de.time)
+			end = math.Min(end, tod)
+		}
 		if end > s.x+1e-6 {
 			s.cruise(k, end, c, detail)
 		}
@@ -178,6 +180,20 @@ func (s *sim) run(pr Profile, total float64, detail bool) error {
 		}
 	}
 	return fmt.Errorf("optimizer: profile simulation did not converge")
+}
+
+// finalDescent prices the idle descent from the current level and mass
+// to the end altitude, with the last segment's weather at the current time.
+func (s *sim) finalDescent(endP float64) (transVal, cond, error) {
+	cLast, err := s.condAt(len(s.segs)-1, s.fl)
+	if err != nil {
+		return transVal{}, cond{}, err
+	}
+	de := transition(s.a, s.m, perf.FLToPressure(float64(s.fl)), endP, cLast.isaDev, s.q.DescentSchedule, false)
+	if !de.ok {
+		return transVal{}, cond{}, inputErrorf("profile", "final descent from FL%03d: %s", s.fl, de.why)
+	}
+	return de, cLast, nil
 }
 
 // cruise flies level from s.x to end on segment k.

@@ -4,16 +4,6 @@ import (
 	"math"
 )
 
-// edgeKind tells what an edge flies.
-type edgeKind uint8
-
-const (
-	edgeClimb   edgeKind = iota // departure to the first cruise level
-	edgeCruise                  // level flight along one segment
-	edgeStep                    // level change at a boundary, then level flight
-	edgeDescent                 // top of descent to the destination
-)
-
 // state is a search node: boundary k (0..len(segments)), level index li,
 // mass bucket b, steps flown and segments since the last step (both only
 // tracked when the step rules need them).
@@ -38,14 +28,12 @@ func stateOf(id int64) state {
 	return state{k: int(id >> 47), li: int(id>>39) & 0xff, steps: int(id>>33) & 0x3f, since: int(id>>23) & 0x3ff, b: int(id & (1<<23 - 1))}
 }
 
-// edge is one priced edge out of a node.
+// edge is one priced edge out of a node: the node it leads to, the fuel
+// it burns (which sets the mass there) and its cost.
 type edge struct {
-	kind       edgeKind
-	to         int64 // node ID
-	fuel, time float64
-	cost       float64
-	fromLevel  int // level index at the start (-1 for the climb)
-	toLevel    int
+	to   int64 // node ID
+	fuel float64
+	cost float64
 }
 
 // bucket returns the mass bucket of mass m.
@@ -92,7 +80,7 @@ func (s *solver) successors(id int64, m float64, emit func(edge)) {
 				if v.ok {
 					f += d.fuel
 					t += d.time
-					emit(edge{kind: edgeDescent, to: sinkID, fuel: f, time: t, cost: s.costOf(f, t), fromLevel: li, toLevel: li})
+					emit(edge{to: sinkID, fuel: f, cost: s.costOf(f, t)})
 				}
 			}
 		}
@@ -110,7 +98,7 @@ func (s *solver) successors(id int64, m float64, emit func(edge)) {
 			if b, ok := s.bucket(m - f); ok {
 				n := next
 				n.b = b
-				emit(edge{kind: edgeCruise, to: n.id(), fuel: f, time: t, cost: s.costOf(f, t), fromLevel: li, toLevel: li})
+				emit(edge{to: n.id(), fuel: f, cost: s.costOf(f, t)})
 			}
 		}
 	}
@@ -166,7 +154,7 @@ func (s *solver) successors(id int64, m float64, emit func(edge)) {
 		if s.sinceCap > 0 {
 			n.since = 1
 		}
-		emit(edge{kind: edgeStep, to: n.id(), fuel: f, time: t, cost: s.costOf(f, t), fromLevel: li, toLevel: lj})
+		emit(edge{to: n.id(), fuel: f, cost: s.costOf(f, t)})
 	}
 }
 
@@ -204,7 +192,7 @@ func (s *solver) climbEdges(emit func(edge)) {
 		if !c.ok || ground >= s.total {
 			continue
 		}
-		j := s.segmentAt(ground)
+		j := segmentIndex(s.p.Track.Segments, ground)
 		if !s.allow[j][li] {
 			continue
 		}
@@ -225,6 +213,6 @@ func (s *solver) climbEdges(emit func(edge)) {
 		if s.sinceCap > 0 {
 			n.since = 1 // the climb counts as a step for the minimum distance
 		}
-		emit(edge{kind: edgeClimb, to: n.id(), fuel: f, time: t, cost: s.costOf(f, t), fromLevel: -1, toLevel: li})
+		emit(edge{to: n.id(), fuel: f, cost: s.costOf(f, t)})
 	}
 }

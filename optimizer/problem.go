@@ -216,7 +216,7 @@ func (p *Problem) normalise() ([]string, error) {
 	if p.MinFL == 0 {
 		p.MinFL = 100
 	}
-	cert := int(math.Floor(perf.PressureToFL(perf.PressureAt(a.CertifiedCeiling)) + 1e-6))
+	cert := int(math.Floor(a.CertifiedCeiling/(100*perf.FtToM) + 1e-6)) // pressure altitude to FL
 	if p.MaxFL == 0 || p.MaxFL > cert {
 		p.MaxFL = cert
 	}

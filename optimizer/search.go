@@ -5,10 +5,7 @@ type label struct {
 	id      int64
 	cost    float64
 	mass    float64
-	time    float64
-	fuel    float64
 	pred    int32 // slot of the predecessor, -1 for the source
-	kind    edgeKind
 	settled bool
 }
 
@@ -112,7 +109,7 @@ func (s *solver) search() (searchResult, bool) {
 		cur := *x
 		s.successors(cur.id, cur.mass, func(e edge) {
 			c := cur.cost + e.cost
-			nl := label{id: e.to, cost: c, mass: cur.mass - e.fuel, time: cur.time + e.time, fuel: cur.fuel + e.fuel, pred: it.slot, kind: e.kind}
+			nl := label{id: e.to, cost: c, mass: cur.mass - e.fuel, pred: it.slot}
 			if j, ok := index[e.to]; ok {
 				y := &slots[j]
 				if y.settled || c >= y.cost {

@@ -59,16 +59,13 @@ func Solve(p *Problem) (*Plan, error) {
 		plan.Warnings = append(plan.Warnings, fmt.Sprintf("exact pricing found %d limit(s) broken that the search did not see; first: %s", len(other), other[0].Detail))
 	}
 	// Baseline: the same problem with steps forbidden.
-	bq := q
-	bq.Steps.NoSteps = true
-	if bs, err := newSolver(&bq); err == nil {
-		if br, ok := bs.search(); ok {
-			bp := bs.profileOf(br.path)
-			if bplan, err := assess(&bq, bp, nil, false); err == nil && !breaksProfileLimits(bplan.Violations) {
-				plan.Baseline = &Baseline{FL: bp.Initial, Totals: bplan.Totals}
-				if bplan.Totals.Cost > 0 {
-					plan.Baseline.SavingPct = (bplan.Totals.Cost - plan.Totals.Cost) / bplan.Totals.Cost * 100
-				}
+	bs := s.withoutSteps()
+	if br, ok := bs.search(); ok {
+		bp := bs.profileOf(br.path)
+		if bplan, err := assess(bs.p, bp, nil, false); err == nil && !breaksProfileLimits(bplan.Violations) {
+			plan.Baseline = &Baseline{FL: bp.Initial, Totals: bplan.Totals}
+			if bplan.Totals.Cost > 0 {
+				plan.Baseline.SavingPct = (bplan.Totals.Cost - plan.Totals.Cost) / bplan.Totals.Cost * 100
 			}
 		}
 	}

@@ -5,6 +5,7 @@ import (
 	"sort"
 
 	"levelpath/perf"
+	"levelpath/route"
 )
 
 // solver holds a prepared problem: levels, per-segment conditions and the
@@ -165,7 +166,7 @@ func (s *solver) cruiseAt(k, li int, m float64) cruiseVal {
 	v0, v1 := s.cruiseGrid(k, li, g), s.cruiseGrid(k, li, g+1)
 	switch {
 	case v0.ok && v1.ok:
-		return lerpCruise(v1, v0, (float64(g+1)*s.grid-m)/s.grid)
+		return lerpCruise(v0, v1, (m-float64(g)*s.grid)/s.grid)
 	case !v0.ok && !v1.ok:
 		return v0
 	case v0.ok:
@@ -350,14 +351,24 @@ func (s *solver) initialClimb(li int) (transVal, float64) {
 	return c, c.dist + 0.5*s.conds[0][li].wind*c.time
 }
 
-// segmentAt returns the segment index holding distance d.
-func (s *solver) segmentAt(d float64) int {
-	k := sort.SearchFloat64s(s.bounds, d)
-	if k > 0 && (k >= len(s.bounds) || s.bounds[k] > d) {
-		k--
-	}
-	if k >= len(s.conds) {
-		k = len(s.conds) - 1
+// segmentIndex returns the index of the segment holding distance d from
+// departure (the segment that starts at d when d is a boundary; the last
+// one at or past the end).
+func segmentIndex(segs []route.Segment, d float64) int {
+	k := sort.Search(len(segs), func(i int) bool { return segs[i].ToDist > d })
+	if k >= len(segs) {
+		k = len(segs) - 1
 	}
 	return k
+}
+
+// withoutSteps returns the solver of the same problem with steps
+// forbidden (the constant-level baseline). It shares s's prepared levels,
+// weather and memoised prices, which do not depend on the step rules.
+func (s *solver) withoutSteps() *solver {
+	q := *s.p
+	q.Steps.NoSteps = true
+	c := *s
+	c.p, c.edges = &q, 0
+	return &c
 }
