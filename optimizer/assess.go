@@ -114,7 +114,7 @@ func (s *sim) run(pr Profile, total float64, detail bool) error {
 		return inputErrorf("profile", "initial climb to FL%03d at %.0f kg: %s", s.fl, s.m, cl.why)
 	}
 	g := cl.dist + 0.5*c0.wind*cl.time
-	s.addTransLeg(PhaseClimb, 0, 0, float64(s.fl), g, cl, c0)
+	s.addTransLeg(PhaseClimb, 0, q.EndAltitude/(100*perf.FtToM), float64(s.fl), g, cl, c0)
 	ci := 0
 	if ci < len(pr.Changes) && pr.Changes[ci].AtDist < s.x-1e-6 {
 		s.violate("profile", (s.x-pr.Changes[ci].AtDist)/nmToM, "NM", fmt.Sprintf("change to FL%03d at %.0f NM begins before the top of climb (%.0f NM); taken there", pr.Changes[ci].FL, pr.Changes[ci].AtDist/nmToM, s.x/nmToM))
@@ -168,7 +168,7 @@ func (s *sim) run(pr Profile, total float64, detail bool) error {
 			for ; ci < len(pr.Changes); ci++ {
 				s.violate("profile", 0, "", fmt.Sprintf("change to FL%03d at %.0f NM lies past the top of descent (%.0f NM); ignored", pr.Changes[ci].FL, pr.Changes[ci].AtDist/nmToM, tod/nmToM))
 			}
-			s.addTransLeg(PhaseDescent, s.segAt(s.x), float64(s.fl), q.EndAltitude/0.3048/100, total-s.x, de, cLast)
+			s.addTransLeg(PhaseDescent, s.segAt(s.x), float64(s.fl), q.EndAltitude/(100*perf.FtToM), total-s.x, de, cLast)
 			return nil
 		}
 		if ci < len(pr.Changes) && s.x >= xc-1e-6 {

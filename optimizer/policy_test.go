@@ -108,3 +108,21 @@ func TestMissingWeatherValues(t *testing.T) {
 		t.Errorf("got %v, want an input error about missing values", err)
 	}
 }
+
+// TestLegEnds: the climb starts and the descent ends at the end altitude
+// (1,500 ft by default, FL015), and the legs tile the route without gaps.
+func TestLegEnds(t *testing.T) {
+	plan := solve(t, &Problem{Track: track(t, "45.0,-73.0 47.0,-40.0", "every-1000:310-390", 50), Aircraft: aircraft(t, "demo-narrowbody"), TakeoffMass: 70000})
+	first, last := plan.Legs[0], plan.Legs[len(plan.Legs)-1]
+	if first.Phase != PhaseClimb || math.Abs(first.FromFL-15) > 1e-9 || last.Phase != PhaseDescent || math.Abs(last.FL-15) > 1e-9 {
+		t.Errorf("climb from FL%.1f, descent to FL%.1f; want FL015 both", first.FromFL, last.FL)
+	}
+	for i := 1; i < len(plan.Legs); i++ {
+		if math.Abs(plan.Legs[i].FromDist-plan.Legs[i-1].ToDist) > 1e-6 {
+			t.Errorf("gap between legs %d and %d", i-1, i)
+		}
+	}
+	if math.Abs(last.ToDist-plan.Distance) > 1e-6 {
+		t.Errorf("last leg ends at %.3f m, route %.3f m", last.ToDist, plan.Distance)
+	}
+}
