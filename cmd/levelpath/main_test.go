@@ -5,6 +5,7 @@ import (
 	"encoding/csv"
 	"encoding/json"
 	"encoding/xml"
+	"errors"
 	pngdec "image/png"
 	"io"
 	"os"
@@ -14,6 +15,8 @@ import (
 	"sync"
 	"testing"
 	"time"
+
+	"github.com/spf13/cobra"
 
 	"levelpath/cmd/levelpath/internal/demo"
 	"levelpath/winds"
@@ -500,5 +503,27 @@ func TestBatchStepPolicy(t *testing.T) {
 	}
 	if code, _, errs := runCLI(t, "batch", "--schedule", fs.Schedule, "--out", filepath.Join(t.TempDir(), "x"), "--max-step-ft", "50"); code != 2 || !strings.Contains(errs, "--max-step-ft") {
 		t.Errorf("--max-step-ft 50: exit %d, %q", code, errs)
+	}
+}
+
+// TestExitCodeClasses: a command's own failure exits 1, its bad-input
+// error 2, and cobra's rejection of the command line 2 (DESIGN.md).
+func TestExitCodeClasses(t *testing.T) {
+	saved := subcommands
+	defer func() { subcommands = saved }()
+	subcommands = append(append([]func() *cobra.Command(nil), saved...),
+		func() *cobra.Command {
+			return &cobra.Command{Use: "fail-internal", RunE: func(*cobra.Command, []string) error { return errors.New("boom") }}
+		},
+		func() *cobra.Command {
+			return &cobra.Command{Use: "fail-input", RunE: func(*cobra.Command, []string) error { return badInputf("bad value") }}
+		})
+	for _, c := range []struct {
+		args []string
+		want int
+	}{{[]string{"fail-internal"}, 1}, {[]string{"fail-input"}, 2}, {[]string{"no-such-command"}, 2}, {[]string{"route"}, 2}, {[]string{"fail-internal", "--nope"}, 2}} {
+		if code, _, errs := runCLI(t, c.args...); code != c.want {
+			t.Errorf("%v: exit %d, want %d (%s)", c.args, code, c.want, errs)
+		}
 	}
 }

@@ -4,7 +4,6 @@ import (
 	"errors"
 	"fmt"
 	"io"
-	"strings"
 
 	"github.com/spf13/cobra"
 )
@@ -76,7 +75,32 @@ certified ceilings.
 	for _, add := range subcommands {
 		root.AddCommand(add())
 	}
+	markRunErrors(root)
 	return root
+}
+
+// ranError marks an error returned by a command's own work, as opposed to
+// one from cobra parsing the command line (unknown command, wrong number
+// of arguments), which is bad input.
+type ranError struct{ err error }
+
+func (e *ranError) Error() string { return e.err.Error() }
+func (e *ranError) Unwrap() error { return e.err }
+
+// markRunErrors wraps the RunE of c and of every command below it so that
+// their errors are ranErrors.
+func markRunErrors(c *cobra.Command) {
+	if runE := c.RunE; runE != nil {
+		c.RunE = func(cmd *cobra.Command, args []string) error {
+			if err := runE(cmd, args); err != nil {
+				return &ranError{err}
+			}
+			return nil
+		}
+	}
+	for _, sub := range c.Commands() {
+		markRunErrors(sub)
+	}
 }
 
 // subcommands lists constructors of the subcommands; each file that defines
@@ -100,20 +124,12 @@ func run(args []string, stdout, stderr io.Writer) int {
 	}
 	fmt.Fprintln(stderr, "levelpath:", err)
 	var ie *inputError
-	if errors.As(err, &ie) || isUsageError(err) {
+	var re *ranError
+	switch {
+	case errors.As(err, &ie):
 		return exitBadInput
+	case errors.As(err, &re):
+		return exitInternal
 	}
-	return exitInternal
-}
-
-// isUsageError reports whether cobra rejected the command line itself
-// (unknown command, wrong argument count).
-func isUsageError(err error) bool {
-	msg := err.Error()
-	for _, p := range []string{"unknown command", "unknown flag", "unknown shorthand", "accepts ", "requires at least", "requires at most", "invalid argument", "required flag"} {
-		if strings.Contains(msg, p) {
-			return true
-		}
-	}
-	return false
+	return exitBadInput // cobra rejected the command line itself
 }
