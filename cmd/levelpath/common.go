@@ -47,14 +47,6 @@ func writeJSON(w io.Writer, v any) error {
 	return enc.Encode(v)
 }
 
-// fnum returns nil for NaN so that JSON shows null.
-func fnum(x float64) *float64 {
-	if x != x {
-		return nil
-	}
-	return &x
-}
-
 func warnf(w io.Writer, format string, args ...any) {
 	fmt.Fprintf(w, "levelpath: warning: "+format+"\n", args...)
 }

@@ -4,11 +4,11 @@ import (
 	"encoding/csv"
 	"fmt"
 	"math"
-	"strconv"
 	"text/tabwriter"
 
 	"github.com/spf13/cobra"
 
+	"levelpath/cmd/levelpath/internal/planout"
 	"levelpath/perf"
 )
 
@@ -44,18 +44,18 @@ type envelopeJSON struct {
 
 func envelopeDoc(e perf.Envelope) envelopeJSON {
 	d := envelopeJSON{Caution: cautionLine, Aircraft: e.Aircraft, MassKg: e.Mass, ISADevC: e.ISADev, FloorG: e.Floor,
-		MaxFLBuffet: fnum(e.MaxFLBuffet), MaxFLThrust: fnum(e.MaxFLThrust), MaxFLCertified: e.MaxFLCertified,
-		MaxFL: fnum(e.MaxFL), OptimumFL: fnum(e.OptimumFL), Rows: []envelopeRowJSON{}}
+		MaxFLBuffet: planout.Number(e.MaxFLBuffet), MaxFLThrust: planout.Number(e.MaxFLThrust), MaxFLCertified: e.MaxFLCertified,
+		MaxFL: planout.Number(e.MaxFL), OptimumFL: planout.Number(e.OptimumFL), Rows: []envelopeRowJSON{}}
 	for _, r := range e.Rows {
 		var rc *float64
 		if !math.IsNaN(r.ResidualClimb) {
-			v := r.ResidualClimb / 0.3048 * 60
+			v := r.ResidualClimb / perf.FtToM * 60
 			rc = &v
 		}
 		d.Rows = append(d.Rows, envelopeRowJSON{FL: r.FL, PressureHPa: r.Pressure / 100, OATC: r.OAT - 273.15,
-			SoundKt: r.SoundSpeed / (1852.0 / 3600), LowBuffetMach1g: fnum(r.LowBuffet1g), HighBuffetMach1g: fnum(r.HighBuffet1g),
-			LowBuffetMachFloor: fnum(r.LowBuffetFloor), HighBuffetMachFloor: fnum(r.HighBuffetFloor), MMO: r.MMO,
-			LRCMach: fnum(r.LRCMach), ResidualClimbFPM: rc})
+			SoundKt: r.SoundSpeed / perf.KtToMS, LowBuffetMach1g: planout.Number(r.LowBuffet1g), HighBuffetMach1g: planout.Number(r.HighBuffet1g),
+			LowBuffetMachFloor: planout.Number(r.LowBuffetFloor), HighBuffetMachFloor: planout.Number(r.HighBuffetFloor), MMO: r.MMO,
+			LRCMach: planout.Number(r.LRCMach), ResidualClimbFPM: rc})
 	}
 	return d
 }
@@ -116,8 +116,8 @@ func newEnvelopeCmd() *cobra.Command {
 			w := csv.NewWriter(out)
 			w.Write([]string{"fl", "pressure_hpa", "oat_c", "sound_kt", "low_buffet_mach_1g", "high_buffet_mach_1g", "low_buffet_mach_floor", "high_buffet_mach_floor", "mmo", "lrc_mach", "residual_climb_fpm"})
 			for _, r := range d.Rows {
-				w.Write([]string{g(r.FL), g(r.PressureHPa), g(r.OATC), g(r.SoundKt), gp(r.LowBuffetMach1g), gp(r.HighBuffetMach1g),
-					gp(r.LowBuffetMachFloor), gp(r.HighBuffetMachFloor), g(r.MMO), gp(r.LRCMach), gp(r.ResidualClimbFPM)})
+				w.Write([]string{planout.CSVNumber(r.FL), planout.CSVNumber(r.PressureHPa), planout.CSVNumber(r.OATC), planout.CSVNumber(r.SoundKt), planout.CSVPointer(r.LowBuffetMach1g), planout.CSVPointer(r.HighBuffetMach1g),
+					planout.CSVPointer(r.LowBuffetMachFloor), planout.CSVPointer(r.HighBuffetMachFloor), planout.CSVNumber(r.MMO), planout.CSVPointer(r.LRCMach), planout.CSVPointer(r.ResidualClimbFPM)})
 			}
 			w.Flush()
 			return w.Error()
@@ -137,15 +137,6 @@ func newEnvelopeCmd() *cobra.Command {
 		return nil
 	}
 	return c
-}
-
-func g(x float64) string { return strconv.FormatFloat(x, 'g', -1, 64) }
-
-func gp(x *float64) string {
-	if x == nil {
-		return ""
-	}
-	return g(*x)
 }
 
 func machStr(x *float64) string {

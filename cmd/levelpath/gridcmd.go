@@ -11,6 +11,7 @@ import (
 
 	"github.com/spf13/cobra"
 
+	"levelpath/cmd/levelpath/internal/planout"
 	"levelpath/perf"
 	"levelpath/winds"
 )
@@ -75,7 +76,7 @@ func newGridInfoCmd() *cobra.Command {
 					ValidTime: m.ValidTime.UTC().Format(time.RFC3339), Ni: m.Ni, Nj: m.Nj, Lat1: m.Lat1, Lon1: m.Lon1, Lat2: m.Lat2,
 					Lon2: m.Lon2, Packing: m.Packing, Ensemble: m.Ensemble, Kept: m.Param != "other"}
 				if m.LevelType == 100 {
-					j.LevelHPa = fnum(m.Level / 100)
+					j.LevelHPa = planout.Number(m.Level / 100)
 				}
 				all = append(all, j)
 			}
@@ -176,7 +177,7 @@ func newGridSampleCmd() *cobra.Command {
 		if err != nil {
 			return badInput(err)
 		}
-		d := sampleJSON{Lat: lat, Lon: lon, HPa: p / 100, Time: t.UTC().Format(time.RFC3339), U: fnum(s.U), V: fnum(s.V), T: fnum(s.T), EDR: fnum(s.EDR)}
+		d := sampleJSON{Lat: lat, Lon: lon, HPa: p / 100, Time: t.UTC().Format(time.RFC3339), U: planout.Number(s.U), V: planout.Number(s.V), T: planout.Number(s.T), EDR: planout.Number(s.EDR)}
 		out := cmd.OutOrStdout()
 		if *format == "json" {
 			return writeJSON(out, d)

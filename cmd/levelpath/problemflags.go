@@ -173,7 +173,7 @@ func buildTrack(arg, levels string, maxSegNM float64, date string, depart time.T
 	if math.IsNaN(maxSegNM) || maxSegNM < 1 || maxSegNM > 1000 {
 		return nil, badInputf("--max-seg-nm %v: want 1..1000", maxSegNM)
 	}
-	opt := route.Options{MaxSegment: maxSegNM * 1852}
+	opt := route.Options{MaxSegment: maxSegNM * perf.NMToM}
 	if levels != "" {
 		rule, err := route.ParseLevelRule(levels)
 		if err != nil {
@@ -217,7 +217,7 @@ func parseBlock(s string) (optimizer.Block, error) {
 	if err1 != nil || err2 != nil || !(x >= 0) || !(y > x) {
 		return b, badInputf("--block %q: distances must be numbers with FROM < TO", s)
 	}
-	b.FromDist, b.ToDist = x*1852, y*1852
+	b.FromDist, b.ToDist = x*perf.NMToM, y*perf.NMToM
 	for _, l := range strings.Split(lv, ",") {
 		n, err := strconv.Atoi(strings.TrimPrefix(strings.TrimSpace(strings.ToUpper(l)), "FL"))
 		if err != nil || n < 10 || n > 600 {
@@ -293,7 +293,7 @@ func stepRules(maxStepFt int, descents bool, minStepNM float64, maxSteps int, no
 	if maxSteps < 0 {
 		return optimizer.StepRules{}, badInputf("--max-steps %d: must be 0 or more", maxSteps)
 	}
-	minStep := minStepNM * 1852
+	minStep := minStepNM * perf.NMToM
 	if minStep == 0 {
 		minStep = -1 // no minimum
 	}

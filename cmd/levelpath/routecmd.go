@@ -10,6 +10,7 @@ import (
 	"github.com/paulmach/orb/geojson"
 	"github.com/spf13/cobra"
 
+	"levelpath/perf"
 	"levelpath/route"
 )
 
@@ -54,17 +55,17 @@ type routeJSON struct {
 func pj(p route.Point) pointJSON { return pointJSON{Lat: p.Lat, Lon: p.Lon, Name: p.Name} }
 
 func routeDoc(t *route.Track) routeJSON {
-	d := routeJSON{Source: t.Route.Source, TotalNM: t.Total / 1852, Warnings: append([]string{}, t.Route.Warnings...)}
+	d := routeJSON{Source: t.Route.Source, TotalNM: t.Total / perf.NMToM, Warnings: append([]string{}, t.Route.Warnings...)}
 	for _, l := range t.Legs {
-		d.Legs = append(d.Legs, legJSON{Index: l.Index, From: pj(l.From), To: pj(l.To), LengthNM: l.Length / 1852, InitialCourseDeg: l.InitialCourse})
+		d.Legs = append(d.Legs, legJSON{Index: l.Index, From: pj(l.From), To: pj(l.To), LengthNM: l.Length / perf.NMToM, InitialCourseDeg: l.InitialCourse})
 	}
 	for _, s := range t.Segments {
 		lv := s.Levels
 		if lv == nil {
 			lv = []int{}
 		}
-		d.Segments = append(d.Segments, segmentJSON{Index: s.Index, Leg: s.Leg, FromNM: s.FromDist / 1852, ToNM: s.ToDist / 1852,
-			LengthNM: s.Length / 1852, Start: pj(s.Start), End: pj(s.End), TrueCourseDeg: s.TrueCourse, MagVarDeg: s.MagVar,
+		d.Segments = append(d.Segments, segmentJSON{Index: s.Index, Leg: s.Leg, FromNM: s.FromDist / perf.NMToM, ToNM: s.ToDist / perf.NMToM,
+			LengthNM: s.Length / perf.NMToM, Start: pj(s.Start), End: pj(s.End), TrueCourseDeg: s.TrueCourse, MagVarDeg: s.MagVar,
 			MagCourseDeg: s.MagCourse, Levels: lv})
 	}
 	return d

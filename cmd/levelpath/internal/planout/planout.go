@@ -10,13 +10,14 @@ import (
 	"time"
 
 	"levelpath/optimizer"
+	"levelpath/perf"
 )
 
+// Trade units at the edge (perf holds the definitions).
 const (
-	mPerNM   = 1852.0
-	msPerKt  = 1852.0 / 3600
-	mPerFt   = 0.3048
-	fpmPerMS = 60 / 0.3048
+	mPerNM   = perf.NMToM
+	msPerKt  = perf.KtToMS
+	fpmPerMS = 60 / perf.FtToM
 )
 
 // Doc is the JSON form of a plan.
@@ -103,7 +104,8 @@ type Violation struct {
 	Detail string  `json:"detail"`
 }
 
-func num(x float64) *float64 {
+// Number returns x for JSON, or nil (null) when x is NaN or infinite.
+func Number(x float64) *float64 {
 	if math.IsNaN(x) || math.IsInf(x, 0) {
 		return nil
 	}
@@ -116,7 +118,7 @@ func FromPlan(p *optimizer.Plan, assessed bool) *Doc {
 	d := &Doc{
 		Caution: optimizer.Caution, Aircraft: p.Aircraft, CI: p.CI, FloorG: p.Floor, Speed: p.Speed,
 		Depart: p.Depart.UTC().Format(time.RFC3339), TakeoffMassKg: p.TakeoffMass, DistanceNM: p.Distance / mPerNM,
-		Profile: p.Profile.String(), InitialFL: p.Profile.Initial, MinMarginG: num(p.MinMargin()),
+		Profile: p.Profile.String(), InitialFL: p.Profile.Initial, MinMarginG: Number(p.MinMargin()),
 		Totals:   totals(p.Totals),
 		Steps:    []Step{},
 		Legs:     make([]Leg, 0, len(p.Legs)),
@@ -133,14 +135,14 @@ func FromPlan(p *optimizer.Plan, assessed bool) *Doc {
 	for _, l := range p.Legs {
 		var resid *float64
 		if !math.IsNaN(l.ResidualClimb) {
-			resid = num(l.ResidualClimb * fpmPerMS)
+			resid = Number(l.ResidualClimb * fpmPerMS)
 		}
 		d.Legs = append(d.Legs, Leg{
 			Segment: l.Segment, FromNM: l.FromDist / mPerNM, ToNM: l.ToDist / mPerNM, Phase: string(l.Phase),
 			FromFL: l.FromFL, FL: l.FL, Mach: l.Mach, TASKt: l.TAS / msPerKt, WindKt: l.WindAlong / msPerKt,
-			GSKt: l.GS / msPerKt, ISADevC: l.ISADev, EDR: num(l.EDR), FuelKg: l.Fuel, TimeMin: l.Time / 60,
-			MassStartKg: l.MassStart, BuffetMarginG: num(l.BuffetMargin), FloorG: l.Floor, FloorReason: l.FloorReason,
-			ResidualClimbFPM: resid, MaxFLBuffet: num(l.MaxFLBuffet), MaxFLThrust: num(l.MaxFLThrust),
+			GSKt: l.GS / msPerKt, ISADevC: l.ISADev, EDR: Number(l.EDR), FuelKg: l.Fuel, TimeMin: l.Time / 60,
+			MassStartKg: l.MassStart, BuffetMarginG: Number(l.BuffetMargin), FloorG: l.Floor, FloorReason: l.FloorReason,
+			ResidualClimbFPM: resid, MaxFLBuffet: Number(l.MaxFLBuffet), MaxFLThrust: Number(l.MaxFLThrust),
 		})
 	}
 	d.Violations = []Violation{}
@@ -148,7 +150,7 @@ func FromPlan(p *optimizer.Plan, assessed bool) *Doc {
 		d.Violations = append(d.Violations, Violation{Leg: v.Leg, Limit: v.Limit, By: v.By, Unit: v.Unit, Detail: v.Detail})
 	}
 	if !assessed {
-		d.SearchCost = num(p.SearchCost)
+		d.SearchCost = Number(p.SearchCost)
 		d.SearchNodes, d.SearchEdges = p.Nodes, p.Edges
 	}
 	return d

@@ -90,20 +90,22 @@ func WriteCSV(w io.Writer, p *optimizer.Plan, assessed bool) error {
 	cw := csv.NewWriter(w)
 	cw.Write([]string{"from_nm", "to_nm", "phase", "from_fl", "fl", "mach", "tas_kt", "wind_kt", "gs_kt", "isa_dev_c", "fuel_kg", "time_min", "mass_start_kg", "buffet_margin_g", "floor_g", "floor_reason"})
 	for _, l := range d.Legs {
-		cw.Write([]string{f(l.FromNM), f(l.ToNM), l.Phase, f(l.FromFL), f(l.FL), f(l.Mach), f(l.TASKt), f(l.WindKt), f(l.GSKt), f(l.ISADevC),
-			f(l.FuelKg), f(l.TimeMin), f(l.MassStartKg), fp(l.BuffetMarginG), f(l.FloorG), l.FloorReason})
+		cw.Write([]string{CSVNumber(l.FromNM), CSVNumber(l.ToNM), l.Phase, CSVNumber(l.FromFL), CSVNumber(l.FL), CSVNumber(l.Mach), CSVNumber(l.TASKt), CSVNumber(l.WindKt), CSVNumber(l.GSKt), CSVNumber(l.ISADevC),
+			CSVNumber(l.FuelKg), CSVNumber(l.TimeMin), CSVNumber(l.MassStartKg), CSVPointer(l.BuffetMarginG), CSVNumber(l.FloorG), l.FloorReason})
 	}
 	cw.Flush()
 	return cw.Error()
 }
 
-func f(x float64) string { return strconv.FormatFloat(x, 'g', -1, 64) }
+// CSVNumber formats x for CSV: the shortest form that reads back exactly.
+func CSVNumber(x float64) string { return strconv.FormatFloat(x, 'g', -1, 64) }
 
-func fp(x *float64) string {
+// CSVPointer formats an optional number for CSV, empty when absent.
+func CSVPointer(x *float64) string {
 	if x == nil {
 		return ""
 	}
-	return f(*x)
+	return CSVNumber(*x)
 }
 
 func hhmm(min float64) string {
