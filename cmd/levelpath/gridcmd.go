@@ -158,14 +158,9 @@ func newGridSampleCmd() *cobra.Command {
 			}
 			p = perf.FLToPressure(fl)
 		}
-		for _, a := range args {
-			if _, err := os.Stat(a); err != nil {
-				return badInput(err)
-			}
-		}
-		field, err := winds.Open(args...) // every level, not only the cruise band
+		field, err := openWeather(args, 0, math.Inf(1)) // every level, not only the cruise band
 		if err != nil {
-			return badInput(err)
+			return err
 		}
 		t := field.Times()[0]
 		if tm != "" {

@@ -70,19 +70,25 @@ func (f *problemFlags) register(c *cobra.Command) {
 	fl.StringVar(&f.date, "date", "", "date for magnetic variation, YYYY-MM-DD (default: departure date)")
 }
 
-// loadWeather opens the weather files (nil when none).
+// loadWeather opens the weather files for planning (nil when none).
+// Cruise levels lie between FL050 and FL600: it keeps those pressure
+// levels (and one beyond each end) and drops the rest of a full forecast.
 func loadWeather(paths []string) (*winds.Field, error) {
 	if len(paths) == 0 {
 		return nil, nil
 	}
+	return openWeather(paths, perf.FLToPressure(600), perf.FLToPressure(50))
+}
+
+// openWeather opens the weather files keeping the levels from pLow to
+// pHigh (Pa); a missing file is named.
+func openWeather(paths []string, pLow, pHigh float64) (*winds.Field, error) {
 	for _, p := range paths {
 		if _, err := os.Stat(p); err != nil {
-			return nil, badInputf("--weather %s: %v", p, err)
+			return nil, badInputf("weather file %s: %v", p, err)
 		}
 	}
-	// Cruise levels lie between FL050 and FL600: keep those pressure levels
-	// (and one beyond each end) and drop the rest of a full forecast.
-	f, err := winds.OpenBetween(perf.FLToPressure(600), perf.FLToPressure(50), paths...)
+	f, err := winds.OpenBetween(pLow, pHigh, paths...)
 	if err != nil {
 		return nil, badInput(err)
 	}
