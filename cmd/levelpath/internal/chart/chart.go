@@ -21,19 +21,22 @@ import (
 
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/font"
+	"gonum.org/v1/plot/plotter"
 	"gonum.org/v1/plot/text"
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
 	"gonum.org/v1/plot/vg/vgimg"
 	"gonum.org/v1/plot/vg/vgpdf"
 	"gonum.org/v1/plot/vg/vgsvg"
+
+	"levelpath/perf"
 )
 
-// Unit conversions at the edge (exact by definition: 1 NM = 1852 m,
+// Unit conversions at the edge, perf's exact definitions (1 NM = 1852 m,
 // 1 kt = 1 NM/h).
 const (
-	mPerNM  = 1852.0
-	msPerKt = 1852.0 / 3600
+	mPerNM  = perf.NMToM
+	msPerKt = perf.KtToMS
 )
 
 // Chart size: 1200 x 700 px at 96 dpi.
@@ -134,7 +137,22 @@ func writeAtomic(path, format string, draw func(w io.Writer, format string) erro
 	return nil
 }
 
-// newCanvas returns a chart-sized canvas for format.
+// checkFormat returns an UnsupportedError unless format is "svg", "png" or
+// "pdf". It allocates nothing, so the drawing functions can reject a bad
+// format before building their plots.
+func checkFormat(format string) error {
+	switch format {
+	case "svg", "png", "pdf":
+		return nil
+	}
+	return unsupportedFormat(format)
+}
+
+func unsupportedFormat(format string) error {
+	return UnsupportedError(fmt.Sprintf("format %q; want svg, png or pdf", format))
+}
+
+// newCanvas returns a chart-sized canvas for format (see checkFormat).
 func newCanvas(format string) (vg.CanvasWriterTo, error) {
 	switch format {
 	case "svg":
@@ -145,7 +163,7 @@ func newCanvas(format string) (vg.CanvasWriterTo, error) {
 	case "pdf":
 		return vgpdf.New(chartW, chartH), nil
 	}
-	return nil, UnsupportedError(fmt.Sprintf("format %q; want svg, png or pdf", format))
+	return nil, unsupportedFormat(format)
 }
 
 // render draws fn on a fresh canvas for format and writes it to w. A panic
@@ -222,6 +240,19 @@ func newPlot(title, xlabel, ylabel string) *plot.Plot {
 	p.Legend.ThumbnailWidth = vg.Points(26)
 	p.Legend.Padding = vg.Points(1.5)
 	return p
+}
+
+// newGrid returns the package's light grid: vertical lines always,
+// horizontal lines too when horizontal is set.
+func newGrid(horizontal bool) *plotter.Grid {
+	g := plotter.NewGrid()
+	g.Vertical = lineStyle(colGrid, 0.6, nil)
+	if horizontal {
+		g.Horizontal = lineStyle(colGrid, 0.6, nil)
+	} else {
+		g.Horizontal.Width = 0
+	}
+	return g
 }
 
 // textStyle returns a label style in the package's look.

@@ -96,14 +96,22 @@ func svgTexts(t *testing.T, b []byte) (texts []string, paths int) {
 	return texts, paths
 }
 
+// drawChart draws a chart in format, failing the test on an error, and
+// keeps it as name.format (see keep).
+func drawChart(t *testing.T, name string, draw func(io.Writer, string) error, format string) *bytes.Buffer {
+	t.Helper()
+	var b bytes.Buffer
+	if err := draw(&b, format); err != nil {
+		t.Fatal(err)
+	}
+	keep(t, name+"."+format, b.Bytes())
+	return &b
+}
+
 func TestSVG(t *testing.T) {
 	for _, c := range charts {
 		t.Run(c.name, func(t *testing.T) {
-			var b bytes.Buffer
-			if err := c.draw(&b, "svg"); err != nil {
-				t.Fatal(err)
-			}
-			keep(t, c.name+".svg", b.Bytes())
+			b := drawChart(t, c.name, c.draw, "svg")
 			texts, paths := svgTexts(t, b.Bytes())
 			have := map[string]bool{}
 			for _, s := range texts {
@@ -124,11 +132,7 @@ func TestSVG(t *testing.T) {
 func TestPNGSize(t *testing.T) {
 	for _, c := range charts {
 		t.Run(c.name, func(t *testing.T) {
-			var b bytes.Buffer
-			if err := c.draw(&b, "png"); err != nil {
-				t.Fatal(err)
-			}
-			keep(t, c.name+".png", b.Bytes())
+			b := drawChart(t, c.name, c.draw, "png")
 			img, err := png.Decode(bytes.NewReader(b.Bytes()))
 			if err != nil {
 				t.Fatal(err)
@@ -162,11 +166,7 @@ func distinctColours(img image.Image, limit int) int {
 func TestPDF(t *testing.T) {
 	for _, c := range charts {
 		t.Run(c.name, func(t *testing.T) {
-			var b bytes.Buffer
-			if err := c.draw(&b, "pdf"); err != nil {
-				t.Fatal(err)
-			}
-			keep(t, c.name+".pdf", b.Bytes())
+			b := drawChart(t, c.name, c.draw, "pdf")
 			// PDF files begin with the header "%PDF-" (ISO 32000-1, 7.5.2).
 			if !bytes.HasPrefix(b.Bytes(), []byte("%PDF-")) {
 				t.Errorf("PDF begins %q", b.Bytes()[:min(16, b.Len())])

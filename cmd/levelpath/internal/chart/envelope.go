@@ -36,15 +36,12 @@ func Envelope(w io.Writer, format string, e perf.Envelope) error {
 			return FormatError(fmt.Sprintf("envelope %q: row %d: level FL%g does not increase", e.Aircraft, i, r.FL))
 		}
 	}
-	if _, err := newCanvas(format); err != nil {
+	if err := checkFormat(format); err != nil {
 		return err
 	}
 	p := newPlot(fmt.Sprintf("Cruise envelope: %s, %.0f kg, ISA%+.0f °C, buffet floor %.2f g", e.Aircraft, e.Mass, e.ISADev, e.Floor),
 		"Mach", "flight level")
-	grid := plotter.NewGrid()
-	grid.Vertical = lineStyle(colGrid, 0.6, nil)
-	grid.Horizontal = lineStyle(colGrid, 0.6, nil)
-	p.Add(grid)
+	p.Add(newGrid(true))
 
 	xlo, xhi := math.Inf(1), math.Inf(-1)
 	widen := func(xs ...float64) {
@@ -175,10 +172,8 @@ func Envelope(w io.Writer, format string, e perf.Envelope) error {
 		p.Legend.Add(fmt.Sprintf("coffin corner at %.2f g", e.Floor), s)
 	}
 	if finite(e.MaxFL) {
-		h := &hLines{Ys: []float64{e.MaxFL}, Labels: []string{flName(e.MaxFL)}, Style: lineStyle(colBuffet, 1.4, nil),
-			Text: textStyle(9, colBuffet, text.XLeft, text.YCenter)}
-		h.Style.Color = colInk
-		h.Text.Color = colInk
+		h := &hLines{Ys: []float64{e.MaxFL}, Labels: []string{flName(e.MaxFL)}, Style: lineStyle(colInk, 1.4, nil),
+			Text: textStyle(9, colInk, text.XLeft, text.YCenter)}
 		p.Add(h)
 		p.Legend.Add(fmt.Sprintf("max level %s (%s)", flName(e.MaxFL), maxFLReason(e)), h)
 	}
@@ -192,9 +187,9 @@ func Envelope(w io.Writer, format string, e perf.Envelope) error {
 	leg := newLegendBox(p, 0, 1)
 	return render(w, format, func(dc draw.Canvas) {
 		legW := vg.Points(230)
-		p.Draw(draw.Crop(dc, vg.Points(8), -(legW + vg.Points(40)), vg.Points(6), -vg.Points(8)))
-		da := p.DataCanvas(draw.Crop(dc, vg.Points(8), -(legW + vg.Points(40)), vg.Points(6), -vg.Points(8)))
-		side := da
+		pc := draw.Crop(dc, vg.Points(8), -(legW + vg.Points(40)), vg.Points(6), -vg.Points(8))
+		p.Draw(pc)
+		side := p.DataCanvas(pc)
 		side.Min.X, side.Max.X = dc.Max.X-legW-vg.Points(4), dc.Max.X-vg.Points(4)
 		leg.Plot(side, p)
 	})

@@ -89,32 +89,23 @@ func TestEnvelopeBuiltin(t *testing.T) {
 	}
 }
 
-func BenchmarkProfileSVG(b *testing.B) {
+// benchSample times write on the sample plan and levels.
+func benchSample(b *testing.B, write func(io.Writer, ProfileInput) error) {
 	in := ProfileInput{Plan: samplePlan(), Levels: sampleLevels()}
 	b.ReportAllocs()
 	for b.Loop() {
-		if err := Profile(io.Discard, "svg", in); err != nil {
+		if err := write(io.Discard, in); err != nil {
 			b.Fatal(err)
 		}
 	}
+}
+
+func BenchmarkProfileSVG(b *testing.B) {
+	benchSample(b, func(w io.Writer, in ProfileInput) error { return Profile(w, "svg", in) })
 }
 
 func BenchmarkProfilePNG(b *testing.B) {
-	in := ProfileInput{Plan: samplePlan(), Levels: sampleLevels()}
-	b.ReportAllocs()
-	for b.Loop() {
-		if err := Profile(io.Discard, "png", in); err != nil {
-			b.Fatal(err)
-		}
-	}
+	benchSample(b, func(w io.Writer, in ProfileInput) error { return Profile(w, "png", in) })
 }
 
-func BenchmarkReport(b *testing.B) {
-	in := ProfileInput{Plan: samplePlan(), Levels: sampleLevels()}
-	b.ReportAllocs()
-	for b.Loop() {
-		if err := Report(io.Discard, in); err != nil {
-			b.Fatal(err)
-		}
-	}
-}
+func BenchmarkReport(b *testing.B) { benchSample(b, Report) }

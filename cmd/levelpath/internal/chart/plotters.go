@@ -108,42 +108,29 @@ func (h *hLines) Thumbnail(c *draw.Canvas) {
 	c.StrokeLine2(h.Style, c.Min.X, y, c.Max.X, y)
 }
 
-// triangleDown is a downward-pointing triangle glyph, the mirror of
-// draw.TriangleGlyph, for step descents.
-type triangleDown struct{}
+// triangle is a filled triangle glyph (draw.TriangleGlyph is only
+// outlined) pointing up for step climbs, or down when Down is set, for
+// step descents.
+type triangle struct{ Down bool }
 
 // DrawGlyph implements draw.GlyphDrawer.
-func (triangleDown) DrawGlyph(c *draw.Canvas, sty draw.GlyphStyle, pt vg.Point) {
+func (t triangle) DrawGlyph(c *draw.Canvas, sty draw.GlyphStyle, pt vg.Point) {
 	c.SetLineStyle(draw.LineStyle{Color: sty.Color, Width: vg.Points(0.5)})
 	r := sty.Radius
-	var p vg.Path
-	p.Move(vg.Point{X: pt.X, Y: pt.Y - r})
-	p.Line(vg.Point{X: pt.X - r*0.866, Y: pt.Y + r/2})
-	p.Line(vg.Point{X: pt.X + r*0.866, Y: pt.Y + r/2})
-	p.Close()
-	c.Fill(p)
-}
-
-// triangleUp is a filled upward-pointing triangle glyph (draw.TriangleGlyph
-// is only outlined), for step climbs.
-type triangleUp struct{}
-
-// DrawGlyph implements draw.GlyphDrawer.
-func (triangleUp) DrawGlyph(c *draw.Canvas, sty draw.GlyphStyle, pt vg.Point) {
-	c.SetLineStyle(draw.LineStyle{Color: sty.Color, Width: vg.Points(0.5)})
-	r := sty.Radius
+	if t.Down {
+		r = -r
+	}
 	var p vg.Path
 	p.Move(vg.Point{X: pt.X, Y: pt.Y + r})
-	p.Line(vg.Point{X: pt.X - r*0.866, Y: pt.Y - r/2})
-	p.Line(vg.Point{X: pt.X + r*0.866, Y: pt.Y - r/2})
+	p.Line(vg.Point{X: pt.X - sty.Radius*0.866, Y: pt.Y - r/2})
+	p.Line(vg.Point{X: pt.X + sty.Radius*0.866, Y: pt.Y - r/2})
 	p.Close()
 	c.Fill(p)
 }
 
 // line returns a plotter.Line through xys in style s.
 func line(xys plotter.XYs, s draw.LineStyle) *plotter.Line {
-	l := &plotter.Line{XYs: xys, LineStyle: s}
-	return l
+	return &plotter.Line{XYs: xys, LineStyle: s}
 }
 
 // scatter returns a plotter.Scatter of xys with glyph g.

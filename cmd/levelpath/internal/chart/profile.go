@@ -80,7 +80,7 @@ func Profile(w io.Writer, format string, in ProfileInput) error {
 	if err := checkPlan(in); err != nil {
 		return err
 	}
-	if _, err := newCanvas(format); err != nil {
+	if err := checkFormat(format); err != nil {
 		return err
 	}
 	top, mid, bot := profilePanels(in)
@@ -127,8 +127,7 @@ func profilePanels(in ProfileInput) (top, mid, bot *plot.Plot) {
 	ymax = math.Min(ymax, cruiseTop+120)
 	ymax = math.Ceil((ymax+15)/50) * 50
 
-	guides := &hLines{Style: lineStyle(colGuide, 0.7, nil), Text: textStyle(8, colGuide, text.XLeft, text.YCenter)}
-	guides.Text.Color = rgb(0x8a, 0x96, 0xa3)
+	guides := &hLines{Style: lineStyle(colGuide, 0.7, nil), Text: textStyle(8, rgb(0x8a, 0x96, 0xa3), text.XLeft, text.YCenter)}
 	lastLabel := math.Inf(-1)
 	for _, lv := range in.Levels {
 		guides.Ys = append(guides.Ys, float64(lv))
@@ -141,10 +140,7 @@ func profilePanels(in ProfileInput) (top, mid, bot *plot.Plot) {
 		}
 		guides.Labels = append(guides.Labels, lab)
 	}
-	grid := plotter.NewGrid()
-	grid.Vertical = lineStyle(colGrid, 0.6, nil)
-	grid.Horizontal.Width = 0
-	top.Add(grid)
+	top.Add(newGrid(false))
 	if len(guides.Ys) > 0 {
 		top.Add(guides)
 	}
@@ -179,7 +175,7 @@ func profilePanels(in ProfileInput) (top, mid, bot *plot.Plot) {
 			at = append(at, plotter.XY{X: pt.X, Y: math.Min(float64(s.FromFL), float64(s.ToFL))})
 			names = append(names, fmt.Sprintf("%s at %.0f NM", flName(float64(s.ToFL)), pt.X))
 		}
-		g := draw.GlyphStyle{Color: colStep, Radius: vg.Points(5), Shape: triangleUp{}}
+		g := draw.GlyphStyle{Color: colStep, Radius: vg.Points(5), Shape: triangle{}}
 		var thumb *plotter.Scatter
 		if len(up) > 0 {
 			thumb = scatter(up, g)
@@ -187,7 +183,7 @@ func profilePanels(in ProfileInput) (top, mid, bot *plot.Plot) {
 		}
 		if len(down) > 0 {
 			gd := g
-			gd.Shape = triangleDown{}
+			gd.Shape = triangle{Down: true}
 			s := scatter(down, gd)
 			top.Add(s)
 			if thumb == nil {
@@ -216,26 +212,12 @@ func profilePanels(in ProfileInput) (top, mid, bot *plot.Plot) {
 	mid = newPlot("", "", "wind (kt)")
 	midLegend := &legendRow{Text: textStyle(10, colInk, text.XLeft, text.YCenter)}
 	zero := &hLines{Ys: []float64{0}, Labels: []string{""}, Style: lineStyle(colMMO, 0.8, nil)}
-	mgrid := plotter.NewGrid()
-	mgrid.Vertical = lineStyle(colGrid, 0.6, nil)
-	mgrid.Horizontal = lineStyle(colGrid, 0.6, nil)
-	mid.Add(mgrid)
+	mid.Add(newGrid(true))
 	wind := legRuns(legs, func(l optimizer.Leg) (float64, float64, bool) {
 		v := l.WindAlong / msPerKt
 		return v, v, finite(v)
 	})
-	wlo, whi := 0.0, 0.0
-	for i, r := range wind {
-		for _, p := range r {
-			wlo, whi = math.Min(wlo, p.Y), math.Max(whi, p.Y)
-		}
-		l := line(r, lineStyle(colWind, 2, nil))
-		l.FillColor = nil
-		mid.Add(l)
-		if i == 0 {
-			midLegend.Add("along-track wind (tailwind +)", l)
-		}
-	}
+	wlo, whi := addRuns(mid, midLegend, "along-track wind (tailwind +)", wind, lineStyle(colWind, 2, nil), 0, 0)
 	mid.Add(zero)
 	pad := math.Max(5, 0.15*(whi-wlo))
 	mid.X.Min, mid.X.Max = 0, xmax
@@ -246,37 +228,15 @@ func profilePanels(in ProfileInput) (top, mid, bot *plot.Plot) {
 	// Bottom: buffet margin against the floor.
 	bot = newPlot("", "distance from departure (NM)", "margin (g)")
 	botLegend := &legendRow{Text: textStyle(10, colInk, text.XLeft, text.YCenter)}
-	bgrid := plotter.NewGrid()
-	bgrid.Vertical = lineStyle(colGrid, 0.6, nil)
-	bgrid.Horizontal = lineStyle(colGrid, 0.6, nil)
-	bot.Add(bgrid)
-	glo, ghi := math.Inf(1), math.Inf(-1)
+	bot.Add(newGrid(true))
 	margin := legRuns(legs, func(l optimizer.Leg) (float64, float64, bool) {
 		return l.BuffetMargin, l.BuffetMargin, finite(l.BuffetMargin)
 	})
 	floor := legRuns(legs, func(l optimizer.Leg) (float64, float64, bool) {
 		return l.Floor, l.Floor, finite(l.Floor) && l.Floor > 0
 	})
-	for i, r := range floor {
-		l := line(r, lineStyle(colBuffet, 1.6, dashed))
-		bot.Add(l)
-		if i == 0 {
-			botLegend.Add("protection floor", l)
-		}
-		for _, p := range r {
-			glo, ghi = math.Min(glo, p.Y), math.Max(ghi, p.Y)
-		}
-	}
-	for i, r := range margin {
-		l := line(r, lineStyle(colMargin, 2.2, nil))
-		bot.Add(l)
-		if i == 0 {
-			botLegend.Add("buffet margin at leg start", l)
-		}
-		for _, p := range r {
-			glo, ghi = math.Min(glo, p.Y), math.Max(ghi, p.Y)
-		}
-	}
+	glo, ghi := addRuns(bot, botLegend, "protection floor", floor, lineStyle(colBuffet, 1.6, dashed), math.Inf(1), math.Inf(-1))
+	glo, ghi = addRuns(bot, botLegend, "buffet margin at leg start", margin, lineStyle(colMargin, 2.2, nil), glo, ghi)
 	if !finite(glo, ghi) {
 		glo, ghi = 1, 1.5
 	}
@@ -286,6 +246,23 @@ func profilePanels(in ProfileInput) (top, mid, bot *plot.Plot) {
 	bot.Y.Min, bot.Y.Max = math.Floor((glo-gpad)*20)/20, math.Ceil((ghi+gpad)*20)/20
 	bot.Add(botLegend)
 	return top, mid, bot
+}
+
+// addRuns adds each run to p as a line in style s, enters the first in leg
+// under name, and returns lo and hi widened to the runs' least and
+// greatest y.
+func addRuns(p *plot.Plot, leg *legendRow, name string, runs []plotter.XYs, s draw.LineStyle, lo, hi float64) (float64, float64) {
+	for i, r := range runs {
+		l := line(r, s)
+		p.Add(l)
+		if i == 0 {
+			leg.Add(name, l)
+		}
+		for _, q := range r {
+			lo, hi = math.Min(lo, q.Y), math.Max(hi, q.Y)
+		}
+	}
+	return lo, hi
 }
 
 // legRuns returns, for the legs where v reports ok, the polyline from

@@ -35,7 +35,7 @@ func Sweep(w io.Writer, format string, pts []SweepPoint, title string) error {
 			return FormatError(fmt.Sprintf("sweep: point %d: CI %g, fuel %g kg, time %g min, %d flights: want finite, non-negative values", i, s.CI, s.FuelKg, s.TimeMin, s.Flights))
 		}
 	}
-	if _, err := newCanvas(format); err != nil {
+	if err := checkFormat(format); err != nil {
 		return err
 	}
 	sorted := append([]SweepPoint(nil), pts...)
@@ -53,10 +53,7 @@ func Sweep(w io.Writer, format string, pts []SweepPoint, title string) error {
 		title += fmt.Sprintf(" (%d flights)", flights)
 	}
 	p := newPlot(title, "total time (min)", "total fuel (kg)")
-	grid := plotter.NewGrid()
-	grid.Vertical = lineStyle(colGrid, 0.6, nil)
-	grid.Horizontal = lineStyle(colGrid, 0.6, nil)
-	p.Add(grid)
+	p.Add(newGrid(true))
 	xys := make(plotter.XYs, len(sorted))
 	names := make([]string, len(sorted))
 	xlo, xhi, ylo, yhi := math.Inf(1), math.Inf(-1), math.Inf(1), math.Inf(-1)
