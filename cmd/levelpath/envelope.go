@@ -85,6 +85,9 @@ func newEnvelopeCmd() *cobra.Command {
 		if err := checkFormat(*format, "table", "json", "csv"); err != nil {
 			return err
 		}
+		if err := checkOutputs(chart, ""); err != nil {
+			return err
+		}
 		a, err := loadAircraft(acName)
 		if err != nil {
 			return err

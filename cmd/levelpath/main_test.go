@@ -134,6 +134,9 @@ func TestBadInput(t *testing.T) {
 		{"bad speed", append(base, "--mass", "35000", "--speed", "fast"), "speed"},
 		{"unknown flag", []string{"plan", "--nonsense"}, "nonsense"},
 		{"bad depart", append(base, "--mass", "35000", "--depart", "tomorrow"), "--depart"},
+		{"report not HTML", append(base, "--mass", "35000", "--report", "r.txt"), "r.txt"},
+		{"chart directory missing", append(base, "--mass", "35000", "--chart", "/nonexistent/p.svg"), "/nonexistent"},
+		{"envelope chart directory missing", []string{"envelope", "--aircraft", "demo-widebody", "--mass", "200000", "--chart", "/nonexistent/e.png"}, "/nonexistent"},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {

@@ -40,6 +40,9 @@ func (f *planFlags) run(cmd *cobra.Command, assessed bool, price func(*optimizer
 	if err := checkFormat(*f.format, "table", "json", "csv"); err != nil {
 		return err
 	}
+	if err := checkOutputs(f.chart, f.report); err != nil {
+		return err
+	}
 	wx, err := loadWeather(f.weather)
 	if err != nil {
 		return err

@@ -94,12 +94,20 @@ func WriteFile(path string, draw func(w io.Writer, format string) error) (err er
 // WriteReportFile writes the HTML flight report (see Report) to path, which
 // must end in .html or .htm, atomically like WriteFile.
 func WriteReportFile(path string, in ProfileInput) error {
-	switch strings.ToLower(filepath.Ext(path)) {
-	case ".html", ".htm":
-	default:
-		return UnsupportedError(fmt.Sprintf("%s: a report is HTML; name the file .html", path))
+	if err := CheckReportPath(path); err != nil {
+		return err
 	}
 	return writeAtomic(path, "html", func(w io.Writer, _ string) error { return Report(w, in) })
+}
+
+// CheckReportPath reports whether path names an HTML file (.html or
+// .htm), as WriteReportFile requires.
+func CheckReportPath(path string) error {
+	switch strings.ToLower(filepath.Ext(path)) {
+	case ".html", ".htm":
+		return nil
+	}
+	return UnsupportedError(fmt.Sprintf("%s: a report is HTML; name the file .html", path))
 }
 
 func writeAtomic(path, format string, draw func(w io.Writer, format string) error) (err error) {
