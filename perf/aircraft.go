@@ -9,6 +9,7 @@ import (
 	"math"
 	"os"
 	"regexp"
+	"slices"
 	"strconv"
 	"strings"
 
@@ -87,16 +88,14 @@ func BuiltinNames() []string { return append([]string(nil), builtinNames...) }
 // Builtin returns a fresh copy of the built-in aircraft called name. The
 // error for an unknown name lists the built-in names.
 func Builtin(name string) (*Aircraft, error) {
-	for _, n := range builtinNames {
-		if n == name {
-			data, err := builtinFS.ReadFile("aircraft/" + n + ".yaml")
-			if err != nil {
-				return nil, err
-			}
-			return Parse(data, n)
-		}
+	if !slices.Contains(builtinNames, name) {
+		return nil, fmt.Errorf("perf: unknown aircraft %q (built-in: %s)", name, strings.Join(builtinNames, ", "))
 	}
-	return nil, fmt.Errorf("perf: unknown aircraft %q (built-in: %s)", name, strings.Join(builtinNames, ", "))
+	data, err := builtinFS.ReadFile("aircraft/" + name + ".yaml")
+	if err != nil {
+		return nil, err
+	}
+	return Parse(data, name)
 }
 
 // maxFileSize bounds an aircraft file read by Load.
@@ -105,10 +104,8 @@ const maxFileSize = 1 << 20
 // Load returns the built-in aircraft called nameOrPath, or else reads the
 // YAML file at that path.
 func Load(nameOrPath string) (*Aircraft, error) {
-	for _, n := range builtinNames {
-		if n == nameOrPath {
-			return Builtin(n)
-		}
+	if slices.Contains(builtinNames, nameOrPath) {
+		return Builtin(nameOrPath)
 	}
 	fi, err := os.Stat(nameOrPath)
 	if err != nil {
@@ -227,16 +224,14 @@ func yamlError(err error, source string) error {
 	if err == io.EOF {
 		return &FormatError{Source: source, Reason: "empty document"}
 	}
+	msg := strings.TrimPrefix(err.Error(), "yaml: ")
 	var te *yaml.TypeError
 	if errors.As(err, &te) && len(te.Errors) > 0 {
-		msg := te.Errors[0]
+		msg = te.Errors[0]
 		if m := reUnknown.FindStringSubmatch(msg); m != nil {
 			return &FieldError{Source: source, Field: sectionOf[m[3]] + m[2], Reason: "unknown field (line " + m[1] + ")"}
 		}
-		line := lineOf(msg)
-		return &FormatError{Source: source, Line: line, Reason: strings.TrimPrefix(msg, "line "+strconv.Itoa(line)+": ")}
 	}
-	msg := strings.TrimPrefix(err.Error(), "yaml: ")
 	line := lineOf(msg)
 	return &FormatError{Source: source, Line: line, Reason: strings.TrimPrefix(msg, "line "+strconv.Itoa(line)+": ")}
 }
@@ -262,7 +257,7 @@ func (r *fieldReader) fail(field, format string, args ...any) {
 }
 
 // num returns *v, requiring it present, finite and within [lo, hi]
-// (exclusive at lo when open is true).
+// (exclusive at lo when openLo is true).
 func (r *fieldReader) num(field string, v *float64, lo, hi float64, openLo bool) float64 {
 	if v == nil {
 		r.fail(field, "missing")
@@ -431,6 +426,14 @@ func (r *fieldReader) buffet(rows [][]float64, mmo float64) []BuffetPoint {
 func (a *Aircraft) CheckMass(m float64) error {
 	if !(m >= a.OEW && m <= a.MTOW) {
 		return &RangeError{Quantity: "mass", Value: m, Min: a.OEW, Max: a.MTOW, Unit: "kg", Aircraft: a.Name}
+	}
+	return nil
+}
+
+// checkISADev returns a *RangeError unless |isaDev| <= 100 K.
+func (a *Aircraft) checkISADev(isaDev float64) error {
+	if !(math.Abs(isaDev) <= 100) {
+		return &RangeError{Quantity: "ISA deviation", Value: isaDev, Min: -100, Max: 100, Unit: "K", Aircraft: a.Name}
 	}
 	return nil
 }

@@ -29,11 +29,17 @@ func impactPressure(m, p float64) float64 {
 	return p * (x*x*x*math.Sqrt(x) - 1)
 }
 
+// machFromImpact is the inverse of impactPressure: the Mach number whose
+// impact pressure at static pressure p is qc, M = sqrt(5 ((qc/p + 1)^(2/7) - 1)).
+func machFromImpact(qc, p float64) float64 {
+	return math.Sqrt(5 * (math.Pow(qc/p+1, 2.0/7) - 1))
+}
+
 // MachToCAS returns calibrated airspeed (m/s) at Mach m and static pressure
 // p (Pa): the sea-level speed that produces the same impact pressure.
 func MachToCAS(m, p float64) float64 {
 	qc := impactPressure(m, p)
-	v := a0 * math.Sqrt(5*(math.Pow(qc/P0+1, 2.0/7)-1))
+	v := a0 * machFromImpact(qc, P0)
 	if v >= a0 {
 		return math.NaN()
 	}
@@ -46,10 +52,7 @@ func CASToMach(cas, p float64) float64 {
 	if !(cas >= 0 && cas < a0) {
 		return math.NaN()
 	}
-	r := cas / a0
-	x := 1 + 0.2*r*r
-	qc := P0 * (x*x*x*math.Sqrt(x) - 1)
-	m := math.Sqrt(5 * (math.Pow(qc/p+1, 2.0/7) - 1))
+	m := machFromImpact(impactPressure(cas/a0, P0), p)
 	if m >= 1 {
 		return math.NaN()
 	}

@@ -9,8 +9,9 @@ import (
 // 10,000 ft pressure altitude, CAS (m/s) above it, and Mach above the
 // crossover altitude where that CAS reaches Mach. At each level the
 // aircraft flies the least Mach the applicable limits give. A zero field
-// (or a CAS at or above the sea-level speed of sound) sets no limit; at least one must apply at every level. For a step climb
-// at cruise Mach pass Schedule{CAS: large, Mach: cruise}.
+// (or a CAS at or above the sea-level speed of sound) sets no limit; at
+// least one must apply at every level. For a step climb at cruise Mach pass
+// Schedule{CAS: large, Mach: cruise}.
 type Schedule struct {
 	CASLow, CAS, Mach float64
 }
@@ -98,8 +99,8 @@ func (a *Aircraft) checkTransition(mass, fromP, toP, isaDev float64, s *Schedule
 			return &RangeError{Quantity: "pressure", Value: p, Min: 0, Max: 2 * P0, Unit: "Pa", Aircraft: a.Name}
 		}
 	}
-	if !(math.Abs(isaDev) <= 100) {
-		return &RangeError{Quantity: "ISA deviation", Value: isaDev, Min: -100, Max: 100, Unit: "K", Aircraft: a.Name}
+	if err := a.checkISADev(isaDev); err != nil {
+		return err
 	}
 	if !(s.CASLow >= 0 && s.CAS >= 0 && s.Mach >= 0) || (s.CAS == 0 && s.Mach == 0) {
 		return fmt.Errorf("perf: schedule %+v sets no speed above 10,000 ft (or a negative one)", *s)

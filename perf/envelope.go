@@ -1,8 +1,6 @@
 package perf
 
-import (
-	"math"
-)
+import "math"
 
 // EnvelopeRow is the envelope at one flight level.
 type EnvelopeRow struct {
@@ -38,8 +36,6 @@ const (
 	levelTol         = 0.001 // FL, i.e. 0.1 ft
 )
 
-func flPressure(fl float64) float64 { return PressureAt(fl * 100 * FtToM) }
-
 // Envelope returns the envelope at mass (kg), temperature ISA + isaDev (K)
 // and buffet protection floor (g, >= 1): rows from FL100 to the certified
 // ceiling plus 2,000 ft in 1,000 ft steps, and the ceilings as continuous
@@ -64,8 +60,8 @@ func (a *Aircraft) Envelope(mass, isaDev, floor float64) (Envelope, error) {
 	if !(floor >= 1 && floor <= 3) {
 		return Envelope{}, &RangeError{Quantity: "buffet floor", Value: floor, Min: 1, Max: 3, Unit: "g", Aircraft: a.Name}
 	}
-	if !(math.Abs(isaDev) <= 100) {
-		return Envelope{}, &RangeError{Quantity: "ISA deviation", Value: isaDev, Min: -100, Max: 100, Unit: "K", Aircraft: a.Name}
+	if err := a.checkISADev(isaDev); err != nil {
+		return Envelope{}, err
 	}
 	nan := math.NaN()
 	env := Envelope{Aircraft: a.Name, Mass: mass, ISADev: isaDev, Floor: floor}
@@ -74,9 +70,10 @@ func (a *Aircraft) Envelope(mass, isaDev, floor float64) (Envelope, error) {
 	nrows := int((top-envelopeLowFL)/10) + 1
 	env.Rows = make([]EnvelopeRow, 0, nrows)
 	bestRow, bestSR := -1, math.Inf(-1)
+	cosL := math.Cos(a.Sweep)
 	for i := 0; i < nrows; i++ {
 		fl := envelopeLowFL + 10*float64(i)
-		p := flPressure(fl)
+		p := FLToPressure(fl)
 		t := isaTemperatureAtPressure(p) + isaDev
 		r := EnvelopeRow{FL: fl, Pressure: p, OAT: t, SoundSpeed: SpeedOfSound(t), MMO: a.MMO,
 			LowBuffet1g: nan, HighBuffet1g: nan, LowBuffetFloor: nan, HighBuffetFloor: nan, LRCMach: nan, ResidualClimb: nan}
@@ -90,18 +87,18 @@ func (a *Aircraft) Envelope(mass, isaDev, floor float64) (Envelope, error) {
 			lrc, mr := a.lrcIn(mass, p, t, lo, hi)
 			r.LRCMach = lrc
 			r.ResidualClimb = a.residualClimb(mass, p, isaDev, lrc)
-			if sr := a.specificRange(mass, p, t, mr, math.Cos(a.Sweep)); sr > bestSR {
+			if sr := a.specificRange(mass, p, t, mr, cosL); sr > bestSR {
 				bestRow, bestSR = i, sr
 			}
 		}
 		env.Rows = append(env.Rows, r)
 	}
 	buffetOK := func(fl float64) bool {
-		lo, _, ok := a.BuffetMachs(mass, flPressure(fl), floor)
+		lo, _, ok := a.BuffetMachs(mass, FLToPressure(fl), floor)
 		return ok && lo < a.MMO
 	}
 	thrustOK := func(fl float64) bool {
-		p := flPressure(fl)
+		p := FLToPressure(fl)
 		lo, hi, ok := a.MachBand(mass, p, isaDev, 1)
 		if !ok {
 			return false
@@ -124,8 +121,7 @@ func (a *Aircraft) residualClimb(mass, p, isaDev, m float64) float64 {
 	tisa := isaTemperatureAtPressure(p)
 	t := tisa + isaDev
 	d, _, _ := a.drag(mass, p, m, math.Cos(a.Sweep))
-	v := m * SpeedOfSound(t)
-	return (a.climbThrust(p, t, m) - d) * v / (mass * G0) * tisa / t
+	return climbRate(a.climbThrust(p, t, m), d, m*SpeedOfSound(t), mass, tisa, t)
 }
 
 // highestLevel returns the highest flight level in [FL100, FL650] where ok
@@ -142,16 +138,7 @@ func highestLevel(ok func(fl float64) bool) float64 {
 	if lo >= levelSearchTopFL {
 		return levelSearchTopFL
 	}
-	hi := lo + 10
-	for hi-lo > levelTol {
-		m := 0.5 * (lo + hi)
-		if ok(m) {
-			lo = m
-		} else {
-			hi = m
-		}
-	}
-	return lo
+	return bisectEdge(lo, lo+10, levelTol, ok)
 }
 
 // optimumLevel maximises the specific range at the max-range Mach over the
@@ -159,7 +146,7 @@ func highestLevel(ok func(fl float64) bool) float64 {
 func (a *Aircraft) optimumLevel(mass, isaDev, floor, near, maxFL float64) (fl, sr float64) {
 	cosL := math.Cos(a.Sweep)
 	f := func(fl float64) float64 {
-		p := flPressure(fl)
+		p := FLToPressure(fl)
 		lo, hi, ok := a.MachBand(mass, p, isaDev, floor)
 		if !ok {
 			return math.Inf(-1)
@@ -172,21 +159,8 @@ func (a *Aircraft) optimumLevel(mass, isaDev, floor, near, maxFL float64) (fl, s
 	if x3 <= x0 {
 		return x3, f(x3)
 	}
-	x1 := x3 - invPhi*(x3-x0)
-	x2 := x0 + invPhi*(x3-x0)
-	f1, f2 := f(x1), f(x2)
-	for x3-x0 > levelTol {
-		if f1 > f2 {
-			x3, x2, f2 = x2, x1, f1
-			x1 = x3 - invPhi*(x3-x0)
-			f1 = f(x1)
-		} else {
-			x0, x1, f1 = x1, x2, f2
-			x2 = x0 + invPhi*(x3-x0)
-			f2 = f(x2)
-		}
-	}
-	fl = 0.5 * (x0 + x3)
+	g := goldenMax(x0, x3, levelTol, math.NaN(), f)
+	fl = 0.5 * (g.x0 + g.x3)
 	sr = f(fl)
 	if fm := f(maxFL); maxFL <= near+10 && fm > sr {
 		fl, sr = maxFL, fm

@@ -70,11 +70,17 @@ func (a *Aircraft) drag(mass, p, mach, cosL float64) (d, cl, cd float64) {
 	return cd * qs, cl, cd
 }
 
+// ramRatios returns the total-pressure and total-temperature ratios of
+// Mattingly's correlations (see Engines): δ0 = (p/P0)(1+0.2M²)^3.5 and
+// θ0 = (T/T0)(1+0.2M²).
+func ramRatios(p, t, mach float64) (d0, th0 float64) {
+	x := 1 + 0.2*mach*mach
+	return p / P0 * x * x * x * math.Sqrt(x), t / T0 * x
+}
+
 // thrustLapse returns Mattingly's α for the engine, see Engines.
 func (e *Engines) thrustLapse(p, t, mach float64) float64 {
-	x := 1 + 0.2*mach*mach
-	d0 := p / P0 * x * x * x * math.Sqrt(x)
-	th0 := t / T0 * x
+	d0, th0 := ramRatios(p, t, mach)
 	f := 1 - e.LapseMach*math.Sqrt(mach)
 	if th0 > e.ThrottleRatio {
 		f -= e.LapseTheta * (th0 - e.ThrottleRatio) / (1.5 + mach)
@@ -101,10 +107,15 @@ func (a *Aircraft) tsfc(t, mach float64) float64 {
 // flow held constant).
 func (a *Aircraft) idle(p, t, mach float64) (thrust, ff float64) {
 	e := &a.Engines
-	x := 1 + 0.2*mach*mach
-	d0 := p / P0 * x * x * x * math.Sqrt(x)
-	th0 := t / T0 * x
+	d0, th0 := ramRatios(p, t, mach)
 	return e.IdleFraction * a.climbThrust(p, t, mach), float64(e.Count) * e.IdleFuelFlow * d0 * math.Sqrt(th0)
+}
+
+// climbRate returns the residual rate of climb (m/s of pressure altitude)
+// defined on Point.ResidualClimb, from all-engine thrust and drag (N), true
+// airspeed (m/s), mass (kg), and the standard and actual temperatures (K).
+func climbRate(thrust, drag, tas, mass, tisa, t float64) float64 {
+	return (thrust - drag) * tas / (mass * G0) * tisa / t
 }
 
 // buffetCL returns the buffet-onset CL at mach: linear in the table,
@@ -151,7 +162,7 @@ func (a *Aircraft) Point(s State) Point {
 	pt.BuffetMargin = pt.BuffetCL / cl1
 	pt.MaxClimbThrust = a.climbThrust(s.Pressure, t, s.Mach)
 	pt.MaxCruiseThrust = pt.MaxClimbThrust * a.Engines.CruiseRatio
-	pt.ResidualClimb = (pt.MaxClimbThrust - d) * pt.TAS / (s.Mass * G0) * tisa / t
+	pt.ResidualClimb = climbRate(pt.MaxClimbThrust, d, pt.TAS, s.Mass, tisa, t)
 	pt.ThrustLimited = d > pt.MaxCruiseThrust
 	return pt
 }

@@ -130,6 +130,51 @@ const machTol = 1e-7
 // search for a maximum", Proc. AMS 4, 1953).
 var invPhi = (math.Sqrt(5) - 1) / 2
 
+// golden is the state of a golden-section search: the bracket x0 < x3 and
+// its inner points x1 < x2 with their values f1, f2.
+type golden struct {
+	x0, x1, x2, x3, f1, f2 float64
+}
+
+// goldenMax narrows [x0, x3] about the maximum of f, assumed unimodal there,
+// by golden-section search (Kiefer 1953): one evaluation of f per step,
+// until the bracket is no longer than tol or an inner value reaches stopAt
+// (NaN for never). Cost: 2 + log(tol/(x3-x0))/log(invPhi) evaluations.
+func goldenMax(x0, x3, tol, stopAt float64, f func(float64) float64) golden {
+	g := golden{x0: x0, x3: x3}
+	g.x1 = x3 - invPhi*(x3-x0)
+	g.x2 = x0 + invPhi*(x3-x0)
+	g.f1, g.f2 = f(g.x1), f(g.x2)
+	for g.x3-g.x0 > tol && !(g.f1 >= stopAt || g.f2 >= stopAt) {
+		if g.f1 > g.f2 {
+			g.x3, g.x2, g.f2 = g.x2, g.x1, g.f1
+			g.x1 = g.x3 - invPhi*(g.x3-g.x0)
+			g.f1 = f(g.x1)
+		} else {
+			g.x0, g.x1, g.f1 = g.x1, g.x2, g.f2
+			g.x2 = g.x0 + invPhi*(g.x3-g.x0)
+			g.f2 = f(g.x2)
+		}
+	}
+	return g
+}
+
+// bisectEdge returns the edge between good, where ok holds, and bad, where
+// it fails, by bisection until the two are within tol; the result is the
+// last point found where ok holds (good itself if none). ok is assumed to
+// change once between them.
+func bisectEdge(good, bad, tol float64, ok func(float64) bool) float64 {
+	for math.Abs(bad-good) > tol {
+		m := 0.5 * (good + bad)
+		if ok(m) {
+			good = m
+		} else {
+			bad = m
+		}
+	}
+	return good
+}
+
 // MachBand returns the Mach range usable in level flight: buffet-free at
 // load factor floor (g), at most MMO and the Mach of VMO (CAS), and with
 // drag no more than max cruise thrust. ok is false when the range is empty.
@@ -153,61 +198,26 @@ func (a *Aircraft) MachBand(mass, p, isaDev, floor float64) (lo, hi float64, ok 
 	}
 	t := isaTemperatureAtPressure(p) + isaDev
 	cosL := math.Cos(a.Sweep)
-	elo := a.excessThrust(mass, p, t, lo, cosL)
-	ehi := a.excessThrust(mass, p, t, hi, cosL)
+	excess := func(m float64) float64 { return a.excessThrust(mass, p, t, m, cosL) }
+	thrustOK := func(m float64) bool { return excess(m) >= 0 }
+	elo, ehi := excess(lo), excess(hi)
 	if elo >= 0 && ehi >= 0 {
 		return lo, hi, true
 	}
-	// Golden-section search for the maximum excess thrust.
-	x0, x3 := lo, hi
-	x1 := x3 - invPhi*(x3-x0)
-	x2 := x0 + invPhi*(x3-x0)
-	e1 := a.excessThrust(mass, p, t, x1, cosL)
-	e2 := a.excessThrust(mass, p, t, x2, cosL)
-	for x3-x0 > 1e-5 {
-		if e1 >= 0 || e2 >= 0 {
-			break
-		}
-		if e1 > e2 {
-			x3, x2, e2 = x2, x1, e1
-			x1 = x3 - invPhi*(x3-x0)
-			e1 = a.excessThrust(mass, p, t, x1, cosL)
-		} else {
-			x0, x1, e1 = x1, x2, e2
-			x2 = x0 + invPhi*(x3-x0)
-			e2 = a.excessThrust(mass, p, t, x2, cosL)
-		}
-	}
-	xm, em := x1, e1
-	if e2 > e1 {
-		xm, em = x2, e2
+	// The maximum excess thrust, or any Mach with some to spare.
+	g := goldenMax(lo, hi, 1e-5, 0, excess)
+	xm, em := g.x1, g.f1
+	if g.f2 > g.f1 {
+		xm, em = g.x2, g.f2
 	}
 	if em < 0 {
 		return nan, nan, false
 	}
 	if elo < 0 {
-		a2, b2 := lo, xm
-		for b2-a2 > machTol {
-			m := 0.5 * (a2 + b2)
-			if a.excessThrust(mass, p, t, m, cosL) >= 0 {
-				b2 = m
-			} else {
-				a2 = m
-			}
-		}
-		lo = b2
+		lo = bisectEdge(xm, lo, machTol, thrustOK)
 	}
 	if ehi < 0 {
-		a2, b2 := xm, hi
-		for b2-a2 > machTol {
-			m := 0.5 * (a2 + b2)
-			if a.excessThrust(mass, p, t, m, cosL) >= 0 {
-				a2 = m
-			} else {
-				b2 = m
-			}
-		}
-		hi = a2
+		hi = bisectEdge(xm, hi, machTol, thrustOK)
 	}
 	return lo, hi, lo <= hi
 }
@@ -241,22 +251,9 @@ func (a *Aircraft) EconMach(mass, p, isaDev, floor, ci, windAlong float64) (floa
 func (a *Aircraft) econMachIn(mass, p, t, lo, hi, ciPerS, wind float64) float64 {
 	cosL := math.Cos(a.Sweep)
 	f := func(m float64) float64 { return a.econCost(mass, p, t, m, cosL, ciPerS, wind) }
-	x0, x3 := lo, hi
-	x1 := x3 - invPhi*(x3-x0)
-	x2 := x0 + invPhi*(x3-x0)
-	f1, f2 := f(x1), f(x2)
-	for x3-x0 > machTol {
-		if f1 < f2 {
-			x3, x2, f2 = x2, x1, f1
-			x1 = x3 - invPhi*(x3-x0)
-			f1 = f(x1)
-		} else {
-			x0, x1, f1 = x1, x2, f2
-			x2 = x0 + invPhi*(x3-x0)
-			f2 = f(x2)
-		}
-	}
-	best, fb := 0.5*(x0+x3), f(0.5*(x0+x3))
+	g := goldenMax(lo, hi, machTol, math.NaN(), func(m float64) float64 { return -f(m) })
+	best := 0.5 * (g.x0 + g.x3)
+	fb := f(best)
 	if fl := f(lo); fl < fb {
 		best, fb = lo, fl
 	}
@@ -300,14 +297,6 @@ func (a *Aircraft) lrcIn(mass, p, t, lo, hi float64) (lrc, mr float64) {
 	if a.specificRange(mass, p, t, hi, cosL) >= target {
 		return hi, mr
 	}
-	x0, x1 := mr, hi
-	for x1-x0 > machTol {
-		m := 0.5 * (x0 + x1)
-		if a.specificRange(mass, p, t, m, cosL) >= target {
-			x0 = m
-		} else {
-			x1 = m
-		}
-	}
-	return x0, mr
+	rangeOK := func(m float64) bool { return a.specificRange(mass, p, t, m, cosL) >= target }
+	return bisectEdge(mr, hi, machTol, rangeOK), mr
 }
