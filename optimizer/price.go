@@ -74,6 +74,11 @@ func cruiseEval(a *perf.Aircraft, sp Speed, ci, m, p float64, c cond, explain bo
 		return cruiseVal{lim: lim, why: c.closedWhy}
 	}
 	mach, ok := machFor(a, sp, ci, m, p, c)
+	if !ok && !explain {
+		// Which limit closed the band matters only to an explanation;
+		// the search asks often, so it is not worked out here.
+		return cruiseVal{lim: "mach-band"}
+	}
 	if !ok {
 		lo, hi, bok := a.BuffetMachs(m, p, c.floor)
 		if !bok || lo >= math.Min(hi, a.MMO) {
