@@ -111,6 +111,7 @@ func Merge(dirs []string, out string) (Summary, error) {
 		return Summary{}, fmt.Errorf("merge: %w", err)
 	}
 	slices.Sort(names)
+	recs := make([]record, 0, len(names))
 	for _, name := range names {
 		dir := dirs[from[name]]
 		rec, err := readRecord(filepath.Join(dir, partsDir, name))
@@ -125,9 +126,10 @@ func Merge(dirs []string, out string) (Summary, error) {
 		if err := linkOrCopy(filepath.Join(dir, partsDir, name), filepath.Join(out, partsDir, name)); err != nil {
 			return Summary{}, fmt.Errorf("merge: %w", err)
 		}
+		recs = append(recs, rec)
 	}
 	man := manifest{Version: 1, Shard: 0, Shards: 1, Sweep: mans[0].Sweep, Schedule: mans[0].Schedule, Records: names}
-	return assemble(out, man)
+	return writeFinal(out, man, recs)
 }
 
 // linkOrCopy hard-links src to dst, or copies it (atomically) when links

@@ -79,12 +79,23 @@ type parquetRow struct {
 // assemble reads the records named by man from out/parts and writes the
 // final files and then the manifest.
 func assemble(out string, man manifest) (Summary, error) {
-	var results, bads []record
+	recs := make([]record, 0, len(man.Records))
 	for _, name := range man.Records {
 		rec, err := readRecord(filepath.Join(out, partsDir, name))
 		if err != nil {
 			return Summary{}, fmt.Errorf("batch: assembling results: %w", err)
 		}
+		recs = append(recs, rec)
+	}
+	return writeFinal(out, man, recs)
+}
+
+// writeFinal writes the final files of out from recs (the records named by
+// man, in any order; recs is reordered) and then the manifest.
+func writeFinal(out string, man manifest, recs []record) (Summary, error) {
+	var bads []record
+	results := recs[:0] // filtered in place
+	for _, rec := range recs {
 		if rec.Kind == badKind {
 			bads = append(bads, rec)
 		} else {
@@ -100,19 +111,17 @@ func assemble(out string, man manifest) (Summary, error) {
 	sum := summarize(results)
 	sum.BadRows = len(bads)
 
-	files := []struct {
+	type outFile struct {
 		name string
 		make func() ([]byte, error)
-	}{
+	}
+	files := []outFile{
 		{ResultsCSV, func() ([]byte, error) { return resultsCSV(results) }},
 		{ResultsParquet, func() ([]byte, error) { return resultsParquet(results) }},
 		{ErrorsCSV, func() ([]byte, error) { return errorsCSV(results, bads) }},
 	}
 	if man.Sweep != nil {
-		files = append(files, struct {
-			name string
-			make func() ([]byte, error)
-		}{SummaryCSV, func() ([]byte, error) { return summaryCSV(sum.ByCI) }})
+		files = append(files, outFile{SummaryCSV, func() ([]byte, error) { return summaryCSV(sum.ByCI) }})
 	}
 	for _, f := range files {
 		data, err := f.make()
@@ -164,11 +173,14 @@ func summarize(results []record) Summary {
 	return sum
 }
 
+// fmtNum formats a number for the CSV files: shortest exact form.
+func fmtNum(v float64) string { return strconv.FormatFloat(v, 'f', -1, 64) }
+
 func fmtF(p *float64) string {
 	if p == nil {
 		return ""
 	}
-	return strconv.FormatFloat(*p, 'f', -1, 64)
+	return fmtNum(*p)
 }
 
 func fmtI(p *int) string {
@@ -198,17 +210,17 @@ func resultsCSV(results []record) ([]byte, error) {
 }
 
 func resultsParquet(results []record) ([]byte, error) {
+	i64 := func(p *int) *int64 {
+		if p == nil {
+			return nil
+		}
+		return ptr(int64(*p))
+	}
 	rows := make([]parquetRow, len(results))
 	for i, r := range results {
 		dep, err := time.Parse(time.RFC3339, r.Departure)
 		if err != nil {
 			return nil, fmt.Errorf("record of flight %s: departure %q: %w", r.Flight, r.Departure, err)
-		}
-		i64 := func(p *int) *int64 {
-			if p == nil {
-				return nil
-			}
-			return ptr(int64(*p))
 		}
 		rows[i] = parquetRow{Flight: r.Flight, CI: r.CI, Status: r.Status, Departure: dep.UnixMilli(),
 			Aircraft: r.Aircraft, Row: int64(r.Row), FuelKg: r.FuelKg, TimeMin: r.TimeMin, Cost: r.Cost,
@@ -266,10 +278,9 @@ func errorsCSV(results, bads []record) ([]byte, error) {
 
 func summaryCSV(by []CISummary) ([]byte, error) {
 	recs := [][]string{{"ci", "flights", "fuel_kg", "time_min", "cost", "co2_kg", "failed"}}
-	f := func(v float64) string { return strconv.FormatFloat(v, 'f', -1, 64) }
 	for _, c := range by {
-		recs = append(recs, []string{ciText(c.CI), strconv.Itoa(c.Flights), f(c.Fuel), f(c.Time),
-			f(c.Cost), f(c.CO2), strconv.Itoa(c.Failed)})
+		recs = append(recs, []string{ciText(c.CI), strconv.Itoa(c.Flights), fmtNum(c.Fuel), fmtNum(c.Time),
+			fmtNum(c.Cost), fmtNum(c.CO2), strconv.Itoa(c.Failed)})
 	}
 	return writeCSV(recs)
 }

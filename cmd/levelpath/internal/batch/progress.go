@@ -8,31 +8,34 @@ import (
 	"time"
 )
 
+// Progress pacing.
+const (
+	tick      = 100 * time.Millisecond // least time between redraws of the TTY line
+	plainStep = 5                      // percent between plain lines
+	plainMax  = 10 * time.Second       // most time between plain lines
+)
+
 // progress reports a run on a terminal (one line rewritten with '\r' at
-// most every tick) or, for logs, as plain lines at every 5 % and at least
-// every plainEvery. Safe for concurrent use.
+// most every tick) or, for logs, as plain lines at every plainStep percent
+// and at least every plainMax. Safe for concurrent use.
 type progress struct {
-	mu        sync.Mutex
-	w         io.Writer
-	tty       bool
-	now       func() time.Time
-	total     int
-	done      int
-	failed    int
-	start     time.Time
-	lastDraw  time.Time
-	nextPct   int
-	drawn     bool // a TTY line is on screen
-	tick      time.Duration
-	plainStep int // percent between plain lines
-	plainMax  time.Duration
+	mu       sync.Mutex
+	w        io.Writer
+	tty      bool
+	total    int
+	done     int
+	failed   int
+	start    time.Time
+	lastDraw time.Time
+	nextPct  int
+	drawn    bool // a TTY line is on screen
 }
 
 func newProgress(w io.Writer, tty bool) *progress {
 	if w == nil {
 		w = io.Discard
 	}
-	return &progress{w: w, tty: tty, now: time.Now, tick: 100 * time.Millisecond, plainStep: 5, plainMax: 10 * time.Second}
+	return &progress{w: w, tty: tty}
 }
 
 // begin announces the run.
@@ -40,9 +43,9 @@ func (p *progress) begin(total, skipped, badRows, workers int) {
 	p.mu.Lock()
 	defer p.mu.Unlock()
 	p.total = total
-	p.start = p.now()
+	p.start = time.Now()
 	p.lastDraw = p.start
-	p.nextPct = p.plainStep
+	p.nextPct = plainStep
 	fmt.Fprintf(p.w, "batch: %d plans to make with %d workers", total, workers)
 	if skipped > 0 {
 		fmt.Fprintf(p.w, ", %d already recorded", skipped)
@@ -61,9 +64,9 @@ func (p *progress) step(failed bool) {
 	if failed {
 		p.failed++
 	}
-	now := p.now()
+	now := time.Now()
 	if p.tty {
-		if p.done == p.total || now.Sub(p.lastDraw) >= p.tick {
+		if p.done == p.total || now.Sub(p.lastDraw) >= tick {
 			p.draw(now)
 		}
 		return
@@ -72,9 +75,9 @@ func (p *progress) step(failed bool) {
 	if p.total > 0 {
 		pct = 100 * p.done / p.total
 	}
-	if pct >= p.nextPct || now.Sub(p.lastDraw) >= p.plainMax || p.done == p.total {
+	if pct >= p.nextPct || now.Sub(p.lastDraw) >= plainMax || p.done == p.total {
 		for p.nextPct <= pct {
-			p.nextPct += p.plainStep
+			p.nextPct += plainStep
 		}
 		p.lastDraw = now
 		fmt.Fprintf(p.w, "batch: %s\n", p.status(now))
@@ -90,7 +93,7 @@ func (p *progress) note(msg string) {
 	}
 	fmt.Fprintln(p.w, strings.TrimRight(msg, "\n"))
 	if p.tty && p.drawn {
-		p.draw(p.now())
+		p.draw(time.Now())
 	}
 }
 
@@ -98,7 +101,7 @@ func (p *progress) note(msg string) {
 func (p *progress) end(stopped bool, pending int) {
 	p.mu.Lock()
 	defer p.mu.Unlock()
-	now := p.now()
+	now := time.Now()
 	if p.tty {
 		p.draw(now)
 		fmt.Fprintln(p.w)

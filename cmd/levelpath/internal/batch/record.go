@@ -105,6 +105,9 @@ func round(v float64, decimals int) float64 {
 
 func ptr[T any](v T) *T { return &v }
 
+// finite reports whether v is neither NaN nor an infinity.
+func finite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
+
 // resultRecord makes the record of a planned flight. Fuel, cost and CO2
 // are rounded to 0.1, time to 0.01 min, the margin to 0.001 g and the
 // saving to 0.01 %; NaN margin or saving means "none" and is left out.
@@ -120,7 +123,7 @@ func resultRecord(row *Row, ci float64, res Result, planErr error) record {
 			name string
 			v    float64
 		}{{"fuel", res.Fuel}, {"time", res.Time}, {"cost", res.Cost}, {"CO2", res.CO2}} {
-			if math.IsNaN(c.v) || math.IsInf(c.v, 0) {
+			if !finite(c.v) {
 				planErr = fmt.Errorf("internal error: planner returned %s %v", c.name, c.v)
 				break
 			}
@@ -138,14 +141,14 @@ func resultRecord(row *Row, ci float64, res Result, planErr error) record {
 	rec.CO2Kg = ptr(round(res.CO2, 1))
 	rec.InitialFL = ptr(res.InitialFL)
 	rec.Profile = res.Profile
-	if !math.IsNaN(res.LandingMass) && !math.IsInf(res.LandingMass, 0) && res.LandingMass > 0 {
+	if finite(res.LandingMass) && res.LandingMass > 0 {
 		rec.LandingMassKg = ptr(round(res.LandingMass, 1))
 	}
 	rec.Steps = ptr(res.Steps)
-	if !math.IsNaN(res.MinMargin) && !math.IsInf(res.MinMargin, 0) {
+	if finite(res.MinMargin) {
 		rec.MinMarginG = ptr(round(res.MinMargin, 3))
 	}
-	if !math.IsNaN(res.BaselineSavingPct) && !math.IsInf(res.BaselineSavingPct, 0) {
+	if finite(res.BaselineSavingPct) {
 		rec.BaselineSavingPct = ptr(round(res.BaselineSavingPct, 2))
 	}
 	return rec
@@ -179,6 +182,10 @@ func atomicWrite(dir, name string, data []byte) error {
 	}
 	return nil
 }
+
+// planPath is the Plan field of the record file name: the plan's path
+// relative to Out, slash-separated.
+func planPath(name string) string { return plansDir + "/" + name }
 
 func writeRecord(out string, name string, rec *record) error {
 	data, err := json.Marshal(rec)

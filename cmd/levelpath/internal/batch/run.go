@@ -5,7 +5,6 @@ import (
 	"errors"
 	"fmt"
 	"io"
-	"math"
 	"os"
 	"path/filepath"
 	"runtime"
@@ -105,7 +104,7 @@ func Run(ctx context.Context, rows []Row, bad []RowError, plan Planner, opt Opti
 		return sum, fmt.Errorf("batch: shard %d/%d: K must be in 0..%d", opt.Shard, opt.Shards, n-1)
 	}
 	for i, ci := range opt.Sweep {
-		if math.IsNaN(ci) || math.IsInf(ci, 0) || ci < 0 {
+		if !finite(ci) || ci < 0 {
 			return sum, fmt.Errorf("batch: sweep cost index %v must be a finite number >= 0", ci)
 		}
 		for _, c := range opt.Sweep[:i] {
@@ -184,8 +183,9 @@ func Run(ctx context.Context, rows []Row, bad []RowError, plan Planner, opt Opti
 		}
 	}
 
+	workers = min(workers, max(len(pending), 1))
 	prog := newProgress(opt.Progress, opt.ProgressTTY)
-	prog.begin(len(pending), sum.Skipped, len(badByLine), min(workers, max(len(pending), 1)))
+	prog.begin(len(pending), sum.Skipped, len(badByLine), workers)
 	made, werr := runPool(ctx, pending, plan, workers, opt.Out, prog)
 	if werr != nil || ctx.Err() != nil && made < len(pending) {
 		sum.Pending = len(pending) - made
@@ -203,7 +203,7 @@ func Run(ctx context.Context, rows []Row, bad []RowError, plan Planner, opt Opti
 	return s, err
 }
 
-// runPool plans the jobs with workers goroutines and returns how many
+// runPool plans the jobs with workers (>= 1) goroutines and returns how many
 // records it wrote, and the first write error (which stops the pool).
 func runPool(ctx context.Context, jobs []job, plan Planner, workers int, out string, prog *progress) (int, error) {
 	ctx, cancel := context.WithCancel(ctx)
@@ -225,7 +225,7 @@ func runPool(ctx context.Context, jobs []job, plan Planner, workers int, out str
 		firstErr error
 		wg       sync.WaitGroup
 	)
-	for range min(workers, max(len(jobs), 1)) {
+	for range workers {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
@@ -278,7 +278,7 @@ func writeResult(out, name string, rec *record, planJSON []byte) error {
 		if err := atomicWrite(filepath.Join(out, plansDir), name, planJSON); err != nil {
 			return err
 		}
-		rec.Plan = plansDir + "/" + name
+		rec.Plan = planPath(name)
 	} else if err := os.Remove(filepath.Join(out, plansDir, name)); err != nil && !errors.Is(err, os.ErrNotExist) {
 		return err // a stale plan of an earlier, successful run must not stay
 	}
@@ -289,13 +289,11 @@ func writeResult(out, name string, rec *record, planJSON []byte) error {
 // by a killed run and the manifest (the run is now incomplete), and without
 // resume refuses a directory that already holds records.
 func prepareOut(out string, resume bool) error {
+	records := 0
 	for _, d := range []string{partsDir, plansDir} {
 		if err := os.MkdirAll(filepath.Join(out, d), 0o755); err != nil {
 			return fmt.Errorf("batch: output directory: %w", err)
 		}
-	}
-	records := 0
-	for _, d := range []string{partsDir, plansDir} {
 		ents, err := os.ReadDir(filepath.Join(out, d))
 		if err != nil {
 			return fmt.Errorf("batch: output directory: %w", err)

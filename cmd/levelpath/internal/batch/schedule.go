@@ -16,7 +16,6 @@ import (
 	"errors"
 	"fmt"
 	"io"
-	"math"
 	"os"
 	"path/filepath"
 	"strconv"
@@ -294,7 +293,7 @@ func parseRow(rec []string, col map[string]int, line int, file, dir string, rout
 		}
 		v, err := strconv.ParseFloat(s, 64)
 		switch {
-		case err != nil || math.IsNaN(v) || math.IsInf(v, 0):
+		case err != nil || !finite(v):
 			fail(name, "%q is not a number", s)
 		case v <= 0:
 			fail(name, "%s kg: a mass must be positive", s)
@@ -320,7 +319,7 @@ func parseRow(rec []string, col map[string]int, line int, file, dir string, rout
 	if s := get("ci"); s != "" {
 		v, err := strconv.ParseFloat(s, 64)
 		switch {
-		case err != nil || math.IsNaN(v) || math.IsInf(v, 0):
+		case err != nil || !finite(v):
 			fail("ci", "%q is not a number", s)
 		case v < 0:
 			fail("ci", "%s: a cost index must not be negative", s)
@@ -335,7 +334,7 @@ func parseRow(rec []string, col map[string]int, line int, file, dir string, rout
 	if s := get("floor_g"); s != "" {
 		v, err := strconv.ParseFloat(s, 64)
 		switch {
-		case err != nil || math.IsNaN(v) || math.IsInf(v, 0):
+		case err != nil || !finite(v):
 			fail("floor_g", "%q is not a number", s)
 		case v <= 1:
 			fail("floor_g", "%s g: a buffet floor of 1 g or less gives no protection", s)

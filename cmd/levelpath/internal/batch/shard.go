@@ -2,7 +2,6 @@ package batch
 
 import (
 	"fmt"
-	"math"
 	"strconv"
 	"strings"
 )
@@ -151,7 +150,7 @@ func ParseSweep(s string) ([]float64, error) {
 		switch {
 		case item == "":
 			return nil, fmt.Errorf("sweep %q: item %d is empty", s, i+1)
-		case err != nil || math.IsNaN(v) || math.IsInf(v, 0):
+		case err != nil || !finite(v):
 			return nil, fmt.Errorf("sweep %q: item %q is not a number", s, item)
 		case v < 0:
 			return nil, fmt.Errorf("sweep %q: item %q: a cost index must not be negative", s, item)
