@@ -218,5 +218,10 @@ func readRecord(path string) (record, error) {
 	if rec.Kind != recordKind && rec.Kind != badKind {
 		return rec, &FormatError{File: path, Msg: fmt.Sprintf("unknown record kind %q", rec.Kind)}
 	}
+	// Merge links (after removing) the file rec.Plan names: it must be this
+	// record's own plan, never a path of the reader's choosing.
+	if p, ok := strings.CutPrefix(rec.Plan, plansDir+"/"); rec.Plan != "" && (!ok || p != filepath.Base(path)) {
+		return rec, &FormatError{File: path, Msg: fmt.Sprintf("plan %q, want %q", rec.Plan, planPath(filepath.Base(path)))}
+	}
 	return rec, nil
 }

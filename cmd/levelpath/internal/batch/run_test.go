@@ -464,3 +464,44 @@ func TestResumeReplansChangedRows(t *testing.T) {
 	}
 	compareFiles(t, finalFiles(t, fresh), finalFiles(t, out))
 }
+
+// TestMergeRefusesForeignPlanPath: a record whose plan field points
+// outside its own plans/<name> is corrupt; Merge must refuse it rather
+// than remove and link the file it names.
+func TestMergeRefusesForeignPlanPath(t *testing.T) {
+	dir := t.TempDir()
+	rows, bad := mustRead(t, writeSchedule(t, dir, 4))
+	run := filepath.Join(dir, "run")
+	if _, err := Run(context.Background(), rows, bad, fakePlan, Options{Out: run}); err != nil {
+		t.Fatal(err)
+	}
+	victim := filepath.Join(dir, "victim.txt")
+	if err := os.WriteFile(victim, []byte("keep\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	man, err := readManifest(run)
+	if err != nil {
+		t.Fatal(err)
+	}
+	name := man.Records[0]
+	path := filepath.Join(run, partsDir, name)
+	data, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	good := `"plan":"` + planPath(name) + `"`
+	if !bytes.Contains(data, []byte(good)) {
+		t.Fatalf("record %s lacks %s: %s", name, good, data)
+	}
+	data = bytes.Replace(data, []byte(good), []byte(`"plan":"../../victim.txt"`), 1)
+	if err := os.WriteFile(path, data, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	var fe *FormatError
+	if _, err := Merge([]string{run}, filepath.Join(dir, "a", "b")); !errors.As(err, &fe) || fe.File != path {
+		t.Errorf("merge of a record with a foreign plan path: err = %v, want a FormatError naming %s", err, path)
+	}
+	if got, err := os.ReadFile(victim); err != nil || string(got) != "keep\n" {
+		t.Errorf("file outside the output directory touched: %q, %v", got, err)
+	}
+}

@@ -128,7 +128,9 @@ func ReadSchedule(path string) (rows []Row, bad []RowError, err error) {
 	dir := filepath.Dir(absPath)
 	base := filepath.Base(path)
 
-	r := csv.NewReader(io.LimitReader(f, maxScheduleBytes))
+	// The size check above cannot see a pipe or a growing file; capReader
+	// makes such input an error rather than cutting it off mid-row.
+	r := csv.NewReader(&capReader{r: f, max: maxScheduleBytes, file: path})
 	r.Comment = '#'
 	r.FieldsPerRecord = -1
 	header, err := r.Read()
@@ -178,7 +180,27 @@ func ReadSchedule(path string) (rows []Row, bad []RowError, err error) {
 	return rows, bad, nil
 }
 
+// capReader reads r and fails with a *FormatError naming file once more
+// than max bytes have come.
+type capReader struct {
+	r         io.Reader
+	read, max int64
+	file      string
+}
+
+func (c *capReader) Read(p []byte) (int, error) {
+	n, err := c.r.Read(p)
+	if c.read += int64(n); c.read > c.max {
+		return n, &FormatError{File: c.file, Msg: fmt.Sprintf("more than the %d bytes a schedule may have", c.max)}
+	}
+	return n, err
+}
+
 func csvError(path string, err error) error {
+	var fe *FormatError
+	if errors.As(err, &fe) {
+		return fe
+	}
 	var pe *csv.ParseError
 	if errors.As(err, &pe) {
 		return &FormatError{File: path, Line: pe.Line, Msg: "malformed CSV: " + pe.Err.Error()}

@@ -1,9 +1,11 @@
 package batch
 
 import (
+	"encoding/csv"
 	"errors"
 	"os"
 	"path/filepath"
+	"strconv"
 	"strings"
 	"testing"
 	"time"
@@ -137,5 +139,29 @@ func TestReadScheduleFatal(t *testing.T) {
 	_, _, err := ReadSchedule(filepath.Join(t.TempDir(), "absent.csv"))
 	if !errors.Is(err, os.ErrNotExist) || !strings.Contains(err.Error(), "absent.csv") {
 		t.Errorf("missing file: err = %v, want ErrNotExist naming absent.csv", err)
+	}
+}
+
+// TestCapReader: input longer than the cap is a *FormatError naming the
+// file (not a silent cut mid-row, which could leave a shorter but valid
+// number); input of exactly the cap reads whole.
+func TestCapReader(t *testing.T) {
+	text := header + "\nA1,2026-06-01T08:00:00Z,r.csv,x,61000,10\n"
+	for _, tc := range []struct {
+		max     int64
+		wantErr bool
+	}{{int64(len(text)), false}, {int64(len(text)) - 3, true}} {
+		r := csv.NewReader(&capReader{r: strings.NewReader(text), max: tc.max, file: "s.csv"})
+		recs, err := r.ReadAll()
+		if err != nil {
+			err = csvError("s.csv", err)
+		}
+		var fe *FormatError
+		switch {
+		case tc.wantErr && (!errors.As(err, &fe) || fe.File != "s.csv" || !strings.Contains(fe.Msg, strconv.FormatInt(tc.max, 10))):
+			t.Errorf("max %d: err = %v, want a FormatError for s.csv naming the limit", tc.max, err)
+		case !tc.wantErr && (err != nil || len(recs) != 2 || recs[1][4] != "61000"):
+			t.Errorf("max %d: records %q, err %v, want both lines whole", tc.max, recs, err)
+		}
 	}
 }
