@@ -181,14 +181,13 @@ func norm2(x, y float64) (float64, float64) {
 	return x / r, y / r
 }
 
-// sinCosSeries evaluates sum c[l] sin(2 l x) (sinp) or sum c[l] cos((2l+1)x)
-// by Clenshaw summation (Karney 2013, eq. 59). c[0] is unused when sinp.
-func sinCosSeries(sinp bool, sinx, cosx float64, c []float64) float64 {
+// sinSeries evaluates sum_{l>=1} c[l] sin(2 l x) from sin x and cos x by
+// Clenshaw summation (Karney 2013, eq. 59); c[0] is unused. GeographicLib's
+// SinCosSeries also sums the cosine series of the area term, which this
+// file does not compute.
+func sinSeries(sinx, cosx float64, c []float64) float64 {
 	k := len(c)
-	n := k
-	if sinp {
-		n--
-	}
+	n := k - 1
 	ar := 2 * (cosx - sinx) * (cosx + sinx)
 	var y0, y1 float64
 	if n&1 != 0 {
@@ -201,11 +200,13 @@ func sinCosSeries(sinp bool, sinx, cosx float64, c []float64) float64 {
 		k--
 		y0 = ar*y1 - y0 + c[k]
 	}
-	if sinp {
-		return 2 * sinx * cosx * y0
-	}
-	return cosx * (y0 - y1)
+	return 2 * sinx * cosx * y0
 }
+
+// epsOf returns the expansion parameter eps = (sqrt(1+k2) - 1) /
+// (sqrt(1+k2) + 1) for k2 = k^2 (Karney 2013, eq. 16), in a form without
+// cancellation.
+func epsOf(k2 float64) float64 { return k2 / (2*(1+math.Sqrt(1+k2)) + k2) }
 
 // a1m1f is A1 - 1 (eq. 17).
 func a1m1f(eps float64) float64 {
@@ -260,11 +261,11 @@ func lengths(eps, sig12, ssig1, csig1, dn1, ssig2, csig2, dn2 float64, wantS boo
 	m0x := a1 - a2
 	a2 = 1 + a2
 	a1 = 1 + a1
-	b1 := sinCosSeries(true, ssig2, csig2, c1a[:]) - sinCosSeries(true, ssig1, csig1, c1a[:])
+	b1 := sinSeries(ssig2, csig2, c1a[:]) - sinSeries(ssig1, csig1, c1a[:])
 	if wantS {
 		s12b = a1 * (sig12 + b1)
 	}
-	b2 := sinCosSeries(true, ssig2, csig2, c2a[:]) - sinCosSeries(true, ssig1, csig1, c2a[:])
+	b2 := sinSeries(ssig2, csig2, c2a[:]) - sinSeries(ssig1, csig1, c2a[:])
 	j12 := m0x*sig12 + (a1*b1 - a2*b2)
 	m12b = dn2*(csig1*ssig2) - dn1*(ssig1*csig2) - csig1*csig2*j12
 	return s12b, m12b
@@ -352,8 +353,7 @@ func inverseStart(sbet1, cbet1, dn1, sbet2, cbet2, dn2, lam12, slam12, clam12 fl
 	default:
 		// Nearly antipodal: scale to the astroid problem (Sec. 5, eq. 53).
 		lam12x := math.Atan2(-slam12, -clam12)
-		k2 := sbet1 * sbet1 * geoEp2
-		eps := k2 / (2*(1+math.Sqrt(1+k2)) + k2)
+		eps := epsOf(sbet1 * sbet1 * geoEp2)
 		lamscale := wgsF * cbet1 * a3f(eps) * math.Pi
 		betscale := lamscale * cbet1
 		x := lam12x / lamscale
@@ -420,11 +420,10 @@ func lambda12(sbet1, cbet1, dn1, sbet2, cbet2, dn2, salp1, calp1, slam120, clam1
 	somg12 := math.Max(0, comg1*somg2-somg1*comg2)
 	comg12 := comg1*comg2 + somg1*somg2
 	eta := math.Atan2(somg12*clam120-comg12*slam120, comg12*clam120+somg12*slam120)
-	k2 := calp0 * calp0 * geoEp2
-	o.eps = k2 / (2*(1+math.Sqrt(1+k2)) + k2)
+	o.eps = epsOf(calp0 * calp0 * geoEp2)
 	var c3a [nOrd]float64
 	c3f(o.eps, &c3a)
-	b312 := sinCosSeries(true, ssig2, csig2, c3a[:]) - sinCosSeries(true, ssig1, csig1, c3a[:])
+	b312 := sinSeries(ssig2, csig2, c3a[:]) - sinSeries(ssig1, csig1, c3a[:])
 	o.lam12 = eta - wgsF*a3f(o.eps)*salp0*(o.sig12+b312)
 	if diffp {
 		if o.calp2 == 0 {

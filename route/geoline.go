@@ -6,17 +6,17 @@ import "math"
 // points at many distances along it cost one series evaluation each
 // (Karney 2013, Sec. 3 and the "direct problem", eqs. 18-23, 25-28).
 type geoLine struct {
-	lat1, lon1                        float64
-	salp0, calp0, k2                  float64
+	lon1                              float64
+	salp0, calp0                      float64
 	ssig1, csig1, somg1, comg1        float64
 	a1m1, b11, stau1, ctau1, a3c, b31 float64
-	c1a, c1pa                         [nOrd + 1]float64
+	c1pa                              [nOrd + 1]float64
 	c3a                               [nOrd]float64
 }
 
 // init sets l to the geodesic from (lat1, lon1) with azimuth azi1 (degrees).
 func (l *geoLine) init(lat1, lon1, azi1 float64) {
-	l.lat1, l.lon1 = lat1, lon1
+	l.lon1 = lon1
 	salp1, calp1 := sincosd(angRound(angNorm(azi1)))
 	sbet1, cbet1 := sincosd(angRound(lat1))
 	sbet1 *= geoF1
@@ -33,18 +33,18 @@ func (l *geoLine) init(lat1, lon1, azi1 float64) {
 	}
 	l.comg1 = l.csig1
 	l.ssig1, l.csig1 = norm2(l.ssig1, l.csig1)
-	l.k2 = l.calp0 * l.calp0 * geoEp2
-	eps := l.k2 / (2*(1+math.Sqrt(1+l.k2)) + l.k2)
+	eps := epsOf(l.calp0 * l.calp0 * geoEp2)
 	l.a1m1 = a1m1f(eps)
-	seriesEps(eps, c1coef[:], &l.c1a)
-	l.b11 = sinCosSeries(true, l.ssig1, l.csig1, l.c1a[:])
+	var c1a [nOrd + 1]float64
+	seriesEps(eps, c1coef[:], &c1a)
+	l.b11 = sinSeries(l.ssig1, l.csig1, c1a[:])
 	s, c := math.Sincos(l.b11)
 	l.stau1 = l.ssig1*c + l.csig1*s
 	l.ctau1 = l.csig1*c - l.ssig1*s
 	seriesEps(eps, c1pcoef[:], &l.c1pa)
 	c3f(eps, &l.c3a)
 	l.a3c = -wgsF * l.salp0 * a3f(eps)
-	l.b31 = sinCosSeries(true, l.ssig1, l.csig1, l.c3a[:])
+	l.b31 = sinSeries(l.ssig1, l.csig1, l.c3a[:])
 }
 
 // position returns the point at distance s12 metres along the line, with
@@ -52,7 +52,7 @@ func (l *geoLine) init(lat1, lon1, azi1 float64) {
 func (l *geoLine) position(s12 float64) (lat2, lon2, azi2 float64) {
 	tau12 := s12 / (wgsB * (1 + l.a1m1))
 	s, c := math.Sincos(tau12)
-	b12 := -sinCosSeries(true, l.stau1*c+l.ctau1*s, l.ctau1*c-l.stau1*s, l.c1pa[:])
+	b12 := -sinSeries(l.stau1*c+l.ctau1*s, l.ctau1*c-l.stau1*s, l.c1pa[:])
 	sig12 := tau12 - (b12 - l.b11)
 	ssig12, csig12 := math.Sincos(sig12)
 	ssig2 := l.ssig1*csig12 + l.csig1*ssig12
@@ -65,7 +65,7 @@ func (l *geoLine) position(s12 float64) (lat2, lon2, azi2 float64) {
 	salp2, calp2 := l.salp0, l.calp0*csig2
 	somg2, comg2 := l.salp0*ssig2, csig2
 	omg12 := math.Atan2(somg2*l.comg1-comg2*l.somg1, comg2*l.comg1+somg2*l.somg1)
-	lam12 := omg12 + l.a3c*(sig12+(sinCosSeries(true, ssig2, csig2, l.c3a[:])-l.b31))
+	lam12 := omg12 + l.a3c*(sig12+(sinSeries(ssig2, csig2, l.c3a[:])-l.b31))
 	lon12 := lam12 * (180 / math.Pi)
 	lon2 = NormalizeLon(angNorm(l.lon1) + angNorm(lon12))
 	lat2 = atan2d(sbet2, geoF1*cbet2)

@@ -211,10 +211,12 @@ func newRoute(src string, pts []Point, lines []int) (*Route, error) {
 	r := &Route{Source: src}
 	out := make([]Point, 0, len(pts))
 	idx := make([]int, 0, len(pts)) // input index of each kept point
+	dist := make([]float64, 0, len(pts))
 	for i, p := range pts {
+		d := 0.0 // length of the leg ending at p; the first point has none
 		if n := len(out); n > 0 {
 			prev := out[n-1]
-			if d, _, _ := Inverse(prev.Lat, prev.Lon, p.Lat, p.Lon); d < dupTol {
+			if d, _, _ = Inverse(prev.Lat, prev.Lon, p.Lat, p.Lon); d < dupTol {
 				r.Warnings = append(r.Warnings, fmt.Sprintf("%s: point %d (%s) repeats point %d (%s); dropped",
 					src, i+1, p.Name, idx[n-1]+1, prev.Name))
 				continue
@@ -222,6 +224,7 @@ func newRoute(src string, pts []Point, lines []int) (*Route, error) {
 		}
 		out = append(out, p)
 		idx = append(idx, i)
+		dist = append(dist, d)
 	}
 	if len(out) < 2 {
 		return nil, &FormatError{Source: src, Msg: fmt.Sprintf("a route needs at least two distinct points, got %d", len(out))}
@@ -232,7 +235,7 @@ func newRoute(src string, pts []Point, lines []int) (*Route, error) {
 		if ang := centralAngle(a, b); ang > MaxLegAngle {
 			return nil, ferr(j, "", fmt.Sprintf("leg from point %d (%s) is nearly antipodal (%.1f degrees of arc); the shortest path is ill-determined: add an intermediate waypoint", i+1, a.Name, ang))
 		}
-		if d, _, _ := Inverse(a.Lat, a.Lon, b.Lat, b.Lon); d > MaxLeg {
+		if d := dist[k]; d > MaxLeg {
 			return nil, ferr(j, "", fmt.Sprintf("leg from point %d (%s) is %.0f km, longer than %.0f km: add an intermediate waypoint", i+1, a.Name, d/1e3, MaxLeg/1e3))
 		}
 	}

@@ -2,6 +2,7 @@ package route
 
 import (
 	"errors"
+	"fmt"
 	"os"
 	"path/filepath"
 	"strings"
@@ -203,4 +204,20 @@ func FuzzParse(f *testing.F) {
 		check(ParseCSV(strings.NewReader(s), "fuzz"))
 		check(ParseInline(s))
 	})
+}
+
+// BenchmarkParseInline100 measures parsing and validating a 100-waypoint
+// inline route (the route100 input).
+func BenchmarkParseInline100(b *testing.B) {
+	var s strings.Builder
+	for _, p := range route100(b).Points {
+		fmt.Fprintf(&s, "%s=%.4f,%.4f ", p.Name, p.Lat, p.Lon)
+	}
+	in := s.String()
+	b.ResetTimer()
+	for b.Loop() {
+		if _, err := ParseInline(in); err != nil {
+			b.Fatal(err)
+		}
+	}
 }
