@@ -370,7 +370,7 @@ func inverseStart(sbet1, cbet1, dn1, sbet2, cbet2, dn2, lam12, slam12, clam12 fl
 			calp1 = sbet12a - cbet2*sbet1*somg12*somg12/(1-comg12)
 		}
 	}
-	if salp1 > 0 {
+	if !(salp1 <= 0) { // not salp1 > 0: a NaN must propagate, as in GeographicLib
 		salp1, calp1 = norm2(salp1, calp1)
 	} else {
 		salp1, calp1 = 1, 0
@@ -443,7 +443,7 @@ func lambda12(sbet1, cbet1, dn1, sbet2, cbet2, dn2, salp1, calp1, slam120, clam1
 // (degrees clockwise from true north, in [-180, 180]). It uses Karney's
 // algorithm (J. Geodesy 87, 43-55, 2013), accurate to about 15 nm for any
 // pair of points, nearly antipodal ones included. A latitude outside
-// [-90, 90] gives NaN results.
+// [-90, 90] or a non-finite input gives NaN results.
 func Inverse(lat1, lon1, lat2, lon2 float64) (s12, azi1, azi2 float64) {
 	if math.Abs(lat1) > 90 || math.Abs(lat2) > 90 {
 		return math.NaN(), math.NaN(), math.NaN()

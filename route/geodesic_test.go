@@ -110,6 +110,20 @@ func TestGeodesicWorkedExamples(t *testing.T) {
 	}
 }
 
+// TestInverseNonFinite: a NaN or infinite coordinate gives NaN results, as
+// GeographicLib does: GeodSolve 2.1.2, run here on the five cases below
+// (`printf '10 nan 10 10\n10 inf 10 10\n10 10 10 -inf\nnan 10 10 10\n90 nan -90 0\n'
+// | GeodSolve -i -p 6`), prints "nan nan nan" for each.
+func TestInverseNonFinite(t *testing.T) {
+	nan, inf := math.NaN(), math.Inf(1)
+	for _, c := range [][4]float64{{10, nan, 10, 10}, {10, inf, 10, 10}, {10, 10, 10, -inf}, {nan, 10, 10, 10}, {90, nan, -90, 0}} {
+		s12, azi1, azi2 := Inverse(c[0], c[1], c[2], c[3])
+		if !math.IsNaN(s12) || !math.IsNaN(azi1) || !math.IsNaN(azi2) {
+			t.Errorf("Inverse%v = %v %v %v, GeodSolve gives nan nan nan", c, s12, azi1, azi2)
+		}
+	}
+}
+
 // TestDirectRoundTrip checks that Direct inverts Inverse on the fixture
 // pairs (self-consistency; the references are the fixture tests above).
 func TestDirectRoundTrip(t *testing.T) {

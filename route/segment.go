@@ -65,7 +65,9 @@ type Options struct {
 // problem), so they lie on the true geodesic. Each segment gets the true
 // course at its midpoint, the WMM2025 magnetic variation there (computed
 // once per segment) and the flight levels opt.Levels allows.
-// Cost O(number of segments).
+// A hand-built route with a point that has no geodesic (latitude outside
+// [-90, 90], a NaN or infinite coordinate) gives a *FormatError; more than
+// 2^20 segments an *UnsupportedError. Cost O(number of segments).
 func Build(r *Route, opt Options) (*Track, error) {
 	if r == nil || len(r.Points) < 2 {
 		return nil, fmt.Errorf("route: Build needs a route of at least two points")
@@ -97,13 +99,20 @@ func Build(r *Route, opt Options) (*Track, error) {
 	for i := range t.Legs {
 		a, b := r.Points[i], r.Points[i+1]
 		s12, azi1, azi2 := Inverse(a.Lat, a.Lon, b.Lat, b.Lon)
+		if math.IsNaN(s12) {
+			// Only a Route built by hand gets here; the parsers validate.
+			return nil, &FormatError{Source: r.Source, Point: i + 2, Name: b.Name, Msg: fmt.Sprintf("leg from point %d (%s) has no geodesic: (%v, %v) to (%v, %v) are not valid positions", i+1, a.Name, a.Lat, a.Lon, b.Lat, b.Lon)}
+		}
 		t.Legs[i] = Leg{Index: i, From: a, To: b, Length: s12, InitialCourse: course360(azi1), FinalCourse: course360(azi2), StartDist: t.Total}
 		t.Total += s12
-		counts[i] = max(1, int(math.Ceil(s12/maxSeg*(1-1e-12))))
-		nseg += counts[i]
-		if nseg > maxSegments {
-			return nil, &UnsupportedError{Source: r.Source, Msg: fmt.Sprintf("more than %d segments of %.0f m", maxSegments, maxSeg)}
+		// Bound the count as a float: converting a huge quotient (a tiny
+		// maxSeg) to int is implementation-defined in Go.
+		c := max(1, math.Ceil(s12/maxSeg*(1-1e-12)))
+		if c > float64(maxSegments-nseg) {
+			return nil, &UnsupportedError{Source: r.Source, Msg: fmt.Sprintf("more than %d segments of %g m", maxSegments, maxSeg)}
 		}
+		counts[i] = int(c)
+		nseg += counts[i]
 	}
 	t.Segments = make([]Segment, 0, nseg)
 	samples := make([]Point, 3*nseg)

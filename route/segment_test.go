@@ -2,6 +2,7 @@ package route
 
 import (
 	"bufio"
+	"errors"
 	"fmt"
 	"math"
 	"os"
@@ -252,7 +253,9 @@ func TestBuildOptionErrors(t *testing.T) {
 		{Date: time.Date(2031, 1, 1, 0, 0, 0, 0, time.UTC)}, // beyond WMM2025 validity
 		{Date: testDate, Levels: LevelRule{Kind: "bogus"}},
 		{Date: testDate, Levels: LevelRule{Kind: RuleList}},
-		{Date: testDate, MaxSegment: 1e-3}, // too many segments
+		{Date: testDate, MaxSegment: 1e-3},   // too many segments
+		{Date: testDate, MaxSegment: 1e-300}, // count beyond int range
+		{Date: testDate, MaxSegment: 5e-324},
 	} {
 		if _, err := Build(r, o); err == nil {
 			t.Errorf("Build accepted %+v", o)
@@ -260,6 +263,18 @@ func TestBuildOptionErrors(t *testing.T) {
 	}
 	if _, err := Build(&Route{}, Options{}); err == nil {
 		t.Error("Build accepted an empty route")
+	}
+	// Routes built by hand, bypassing the parsers' validation.
+	for _, pts := range [][]Point{
+		{{"A", 10, 10}, {"B", 95, 10}},
+		{{"A", 10, 10}, {"B", math.NaN(), 10}},
+		{{"A", 10, math.Inf(1)}, {"B", 10, 10}},
+	} {
+		_, err := Build(&Route{Source: "hand", Points: pts}, Options{Date: testDate})
+		var fe *FormatError
+		if !errors.As(err, &fe) || !strings.Contains(err.Error(), "point 2 (B)") {
+			t.Errorf("Build(%v) error %v, want a *FormatError naming point 2 (B)", pts, err)
+		}
 	}
 }
 
