@@ -109,3 +109,33 @@ func BenchmarkSample(b *testing.B) {
 		i = (i + 1) % n
 	}
 }
+
+// BenchmarkDecodeBitmapJPos decodes the benchmark grid with the points
+// north of 60N missing (a bitmap) and scanning mode 0x40 (rows from the
+// south): the message is benchGrid's with its section 3 rewritten to scan
+// from the southern row (WMO code table 3.4), so the rows decode mirrored.
+func BenchmarkDecodeBitmapJPos(b *testing.B) {
+	data := benchGrid(b)
+	ms, err := Decode(bytes.NewReader(data), "bench")
+	if err != nil {
+		b.Fatal(err)
+	}
+	m := ms[0]
+	for i := range m.Values[:120*m.Ni] {
+		m.Values[i] = float32(math.NaN())
+	}
+	var buf bytes.Buffer
+	if err := WriteGRIB2(&buf, []Message{m}); err != nil {
+		b.Fatal(err)
+	}
+	data = buf.Bytes()
+	s3 := 16 + int(u32(data[16:])) // section 3 follows sections 0 and 1
+	if data[s3+4] != 3 {
+		b.Fatal("section 3 not found")
+	}
+	la1, la2 := append([]byte(nil), data[s3+46:s3+50]...), append([]byte(nil), data[s3+55:s3+59]...)
+	copy(data[s3+46:], la2)
+	copy(data[s3+55:], la1)
+	data[s3+71] = 0x40
+	benchDecode(b, data)
+}

@@ -40,7 +40,7 @@ func (d *grib2Decoder) unpackComplex(data []byte, at int) ([]float32, error) {
 		return nil, d.unsupported(at, "group splitting method %d (code table 5.4)", r.splitting)
 	}
 	if n == 0 {
-		return []float32{}, nil
+		return d.scratch.floats(0, d.npoints), nil
 	}
 	if ng == 0 || ng > n {
 		return nil, d.formatErr(at, "%d groups for %d values", ng, n)
@@ -149,7 +149,7 @@ func (d *grib2Decoder) unpackComplex(data []byte, at int) ([]float32, error) {
 		undifference(xs, r.order, first, minDiff)
 	}
 	a, b := scaleFactors(r.ref, r.e, r.d)
-	out := make([]float32, n)
+	out := d.scratch.floats(n, d.npoints)
 	for i, x := range xs {
 		if x == missingInt {
 			out[i] = nan32

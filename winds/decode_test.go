@@ -146,6 +146,8 @@ func TestDecodeAgainstEccodes(t *testing.T) {
 		{"g2_bitmap.grib2", 0, 0, "u", true, true},
 		{"g2_complex_bitmap.grib2", 2, 0, "u", true, true},
 		{"g2_sd2_bitmap.grib2", 3, 0, "u", true, true},
+		{"g2_jcons_bitmap.grib2", 0, 0x20, "u", true, true},
+		{"g2_regional_bitmap.grib2", 0, 0xc0, "t", true, false},
 		{"g2_complex_missing.grib2", 2, 0, "u", false, true},
 		{"g2_sd1_missing.grib2", 3, 0, "u", false, true},
 		{"g2_multifield.grib2", 0, 0, "u v", true, true},

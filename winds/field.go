@@ -4,7 +4,6 @@ import (
 	"fmt"
 	"math"
 	"os"
-	"runtime/debug"
 	"sort"
 	"strings"
 	"time"
@@ -63,8 +62,9 @@ type Sample struct{ U, V, T, EDR float64 }
 
 // Open decodes the GRIB files at paths and builds one Field from their kept
 // messages (see NewField). Each file is read twice: once for the headers,
-// to lay out the field, and once to decode values straight into it, so that
-// peak memory is the field plus one message. Errors name the file.
+// to lay out the field, and once to decode each message into one reused
+// buffer and copy it into the field, so that peak memory is the field plus
+// one message. Errors name the file.
 func Open(paths ...string) (*Field, error) {
 	return OpenBetween(0, math.Inf(1), paths...)
 }
@@ -106,19 +106,15 @@ func OpenBetween(pLow, pHigh float64, paths ...string) (*Field, error) {
 	if err != nil {
 		return nil, err
 	}
-	// Each decoded message's values become garbage once copied into the
-	// field. With the default GC pacing that garbage may grow to the size
-	// of the live field itself before a collection, doubling peak memory;
-	// collect more often while filling (the field's arrays hold no
-	// pointers, so each collection is cheap). The setting is process-wide
-	// and restored on return.
-	defer debug.SetGCPercent(debug.SetGCPercent(10))
+	// Every message is decoded into the same scratch buffers and copied
+	// into the field, so filling it makes no garbage.
+	scratch := &decodeScratch{reuse: true}
 	for _, p := range paths {
 		f, err := os.Open(p)
 		if err != nil {
 			return nil, fmt.Errorf("winds: %w", err)
 		}
-		err = readMessages(f, p, true, func(m *Message) error {
+		err = readMessages(f, p, true, scratch, func(m *Message) error {
 			if m.Param != ParamOther && keep[m.Level] {
 				return fl.put(m)
 			}

@@ -11,7 +11,7 @@ import (
 // (GDS, optional), 3 bitmap (BMS, optional), 4 binary data (BDS), 5 end.
 // Only regular lat/lon grids (data representation type 0) with simple
 // grid-point packing are decoded.
-func decodeGRIB1(msg []byte, src string, index int, base int64, values bool, fn func(*Message) error) error {
+func decodeGRIB1(msg []byte, src string, index int, base int64, values bool, scratch *decodeScratch, fn func(*Message) error) error {
 	ferr := func(at int, format string, args ...any) error {
 		return &FormatError{src, index, base + int64(at), fmt.Sprintf(format, args...)}
 	}
@@ -181,9 +181,9 @@ func decodeGRIB1(msg []byte, src string, index int, base int64, values bool, fn 
 	if npoints > maxPoints {
 		return unsup(8, "grid of %d points (limit %d)", npoints, maxPoints)
 	}
-	vals := make([]float32, n)
+	vals := scratch.floats(n, npoints)
 	unpackSimple(vals, bds[11:], uint(nbits), ibmFloat(u32(bds[6:])), s16(bds[4:]), dec)
-	m.Values = reorder(scatter(vals, bitmap, npoints), m.Ni, m.Nj, m.ScanMode)
+	m.Values = scratch.canonical(vals, bitmap, npoints, m.Ni, m.Nj, m.ScanMode)
 	return fn(&m)
 }
 

@@ -3,6 +3,7 @@ package winds
 import (
 	"fmt"
 	"math"
+	"slices"
 	"time"
 )
 
@@ -42,9 +43,9 @@ type dataRepr struct {
 	e, d      int     // binary and decimal scale factors
 	nbits     int
 	precision int // 5.4
-	// complex packing (5.2, 5.3)
+	// complex packing (5.2, 5.3); octets 24-31, the substitute values
+	// for missing points, are not kept: missing points decode to NaN.
 	splitting, missingMgmt           int
-	primaryMissing, secondaryMissing uint32
 	ngroups                          int
 	refWidth, bitsWidth              int
 	refLength, lengthInc, lastLength int
@@ -88,9 +89,7 @@ func (d *grib2Decoder) decode() error {
 		}
 		sec := d.msg[d.pos : d.pos+length]
 		var err error
-		switch num {
-		case 2:
-			err = d.localUse(sec)
+		switch num { // section 2 (local use, centre-specific) is skipped
 		case 3:
 			err = d.gridDefinition(sec)
 		case 4:
@@ -168,9 +167,6 @@ func (d *grib2Decoder) identification() error {
 	d.pos += length
 	return nil
 }
-
-// localUse skips section 2 (local use; its content is centre-specific).
-func (d *grib2Decoder) localUse(sec []byte) error { return nil }
 
 // gridDefinition reads section 3 and template 3.0 (regular lat/lon):
 // octets 7-10 number of points, 11 octets for optional list, 13-14
@@ -359,7 +355,6 @@ func (d *grib2Decoder) dataRepresentation(s []byte) error {
 	r.e, r.d, r.nbits = s16(s[15:]), s16(s[17:]), int(s[19])
 	if r.template == 2 || r.template == 3 {
 		r.splitting, r.missingMgmt = int(s[21]), int(s[22])
-		r.primaryMissing, r.secondaryMissing = u32(s[23:]), u32(s[27:])
 		r.ngroups = int(u32(s[31:]))
 		r.refWidth, r.bitsWidth = int(s[35]), int(s[36])
 		r.refLength, r.lengthInc = int(u32(s[37:])), int(s[41])
@@ -443,7 +438,7 @@ func (d *grib2Decoder) data(s []byte) error {
 	if err != nil {
 		return err
 	}
-	m.Values = reorder(scatter(vals, d.bitmap, d.npoints), m.Ni, m.Nj, m.ScanMode)
+	m.Values = d.scratch.canonical(vals, d.bitmap, d.npoints, m.Ni, m.Nj, m.ScanMode)
 	return d.fn(&m)
 }
 
@@ -482,45 +477,53 @@ var popcount8 = func() (t [256]uint8) {
 	return
 }()
 
-// scatter expands the present values to n grid points using the bitmap,
-// filling NaN where the bitmap bit is 0. With no bitmap it returns vals.
-func scatter(vals []float32, bm []byte, n int) []float32 {
-	if bm == nil {
-		return vals
-	}
-	out := make([]float32, n)
-	k := 0
-	for i := range out {
-		if bm[i>>3]&(0x80>>(i&7)) != 0 {
-			out[i] = vals[k]
-			k++
-		} else {
-			out[i] = nan32
+// canonical returns a field's npoints values in canonical order (see
+// Message). vals holds the values present, in the file's scanning order
+// (code table 3.4), and must have capacity npoints; the bitmap bm (nil when
+// every point is present) expands them in place, with NaN where its bit is
+// 0. The scanning order is then undone in place by reversing rows and
+// swapping rows, except that j-consecutive scanning (a transpose) writes
+// into s.permuted. Time O(npoints).
+func (s *decodeScratch) canonical(vals []float32, bm []byte, npoints, ni, nj, mode int) []float32 {
+	v := vals[:npoints]
+	if bm != nil {
+		// From the end: the k-th present value moves to grid point i >= k,
+		// so no value is overwritten before it is read.
+		k := len(vals)
+		for i := npoints - 1; i >= 0; i-- {
+			if bm[i>>3]&(0x80>>(i&7)) != 0 {
+				k--
+				v[i] = v[k]
+			} else {
+				v[i] = nan32
+			}
 		}
 	}
-	return out
-}
-
-// reorder permutes values from the file's scanning order (code table 3.4)
-// into canonical order: rows north to south, columns west to east.
-func reorder(v []float32, ni, nj, mode int) []float32 {
 	if mode&0xf0 == 0 {
 		return v
 	}
-	out := make([]float32, len(v))
 	iNeg, jPos, jCons, alt := mode&0x80 != 0, mode&0x40 != 0, mode&0x20 != 0, mode&0x10 != 0
+	if !jCons {
+		for j := 0; j < nj; j++ {
+			if iNeg != (alt && j%2 == 1) {
+				slices.Reverse(v[j*ni : (j+1)*ni])
+			}
+		}
+		if jPos {
+			for j := 0; j < nj/2; j++ {
+				a, b := v[j*ni:(j+1)*ni], v[(nj-1-j)*ni:(nj-j)*ni]
+				for i := range a {
+					a[i], b[i] = b[i], a[i]
+				}
+			}
+		}
+		return v
+	}
+	out := s.permuted(npoints)
 	for k, x := range v {
-		var i, j int
-		if jCons {
-			i, j = k/nj, k%nj
-			if alt && i%2 == 1 {
-				j = nj - 1 - j
-			}
-		} else {
-			j, i = k/ni, k%ni
-			if alt && j%2 == 1 {
-				i = ni - 1 - i
-			}
+		i, j := k/nj, k%nj
+		if alt && i%2 == 1 {
+			j = nj - 1 - j
 		}
 		if iNeg {
 			i = ni - 1 - i

@@ -85,21 +85,18 @@ func (m *Message) Origin() (north, west float64) {
 // Scan reads every message of a GRIB1 or GRIB2 stream and returns the
 // headers of all fields, kept or not, without decoding values. Structure
 // and lengths are validated as in Decode.
-func Scan(r io.Reader, source string) ([]Message, error) {
-	var out []Message
-	err := readMessages(r, source, false, func(m *Message) error {
-		out = append(out, *m)
-		return nil
-	})
-	return out, err
-}
+func Scan(r io.Reader, source string) ([]Message, error) { return collect(r, source, false) }
 
 // Decode reads every message of a GRIB1 or GRIB2 stream and returns all
 // fields, with Values decoded for kept parameters (Param != ParamOther) and
 // nil for the others. Time is linear in the number of grid points.
-func Decode(r io.Reader, source string) ([]Message, error) {
+func Decode(r io.Reader, source string) ([]Message, error) { return collect(r, source, true) }
+
+// collect returns every field of the stream, with values when values is
+// set, each in its own slice.
+func collect(r io.Reader, source string, values bool) ([]Message, error) {
 	var out []Message
-	err := readMessages(r, source, true, func(m *Message) error {
+	err := readMessages(r, source, values, &decodeScratch{}, func(m *Message) error {
 		out = append(out, *m)
 		return nil
 	})
@@ -112,14 +109,15 @@ func Decode(r io.Reader, source string) ([]Message, error) {
 // grid size, so the data cannot bound the allocation.
 const maxPoints = 1 << 24
 
-// readMessages streams messages from r, reading each whole message into a
-// reused buffer, and calls fn for each field. The buffer grows with the
-// bytes actually read, never to a declared length alone.
-func readMessages(r io.Reader, source string, values bool, fn func(*Message) error) error {
+// readMessages streams messages from r, reading each whole message into
+// scratch's buffer, and calls fn for each field. The buffer grows with the
+// bytes actually read, never to a declared length alone. With
+// scratch.reuse, the Values given to fn are scratch buffers, overwritten
+// by the next field.
+func readMessages(r io.Reader, source string, values bool, scratch *decodeScratch, fn func(*Message) error) error {
 	br := bufio.NewReaderSize(r, 1<<16)
-	var buf bytes.Buffer
+	buf := &scratch.msg
 	var off int64
-	var scratch decodeScratch
 	for index := 1; ; index++ {
 		head, err := br.Peek(16)
 		if len(head) == 0 && err == io.EOF {
@@ -168,9 +166,9 @@ func readMessages(r io.Reader, source string, values bool, fn func(*Message) err
 		}
 		msg := buf.Bytes()
 		if head[7] == 1 {
-			err = decodeGRIB1(msg, source, index, off, values, fn)
+			err = decodeGRIB1(msg, source, index, off, values, scratch, fn)
 		} else {
-			d := grib2Decoder{src: source, index: index, base: off, msg: msg, values: values, fn: fn, scratch: &scratch}
+			d := grib2Decoder{src: source, index: index, base: off, msg: msg, values: values, fn: fn, scratch: scratch}
 			err = d.decode()
 		}
 		if err != nil {
@@ -189,9 +187,40 @@ func allZero(p []byte) bool {
 	return true
 }
 
-// decodeScratch holds buffers reused between fields.
+// decodeScratch holds buffers reused between messages and fields: the
+// message bytes, the integers of complex unpacking and, when reuse is set
+// (for a caller that copies each field's values before the next, as Open
+// does), the float32 values themselves.
 type decodeScratch struct {
-	ints []int64
+	msg   bytes.Buffer
+	ints  []int64
+	reuse bool
+	vals  []float32 // values as unpacked, then canonical (in place)
+	perm  []float32 // canonical values of j-consecutive scanning
+}
+
+// floats returns n float32s with capacity c >= n for one field's values:
+// the scratch buffer when reuse is set, else a new slice.
+func (s *decodeScratch) floats(n, c int) []float32 {
+	if !s.reuse {
+		return make([]float32, n, c)
+	}
+	if cap(s.vals) < c {
+		s.vals = make([]float32, c)
+	}
+	return s.vals[:n]
+}
+
+// permuted returns n float32s for canonical to transpose into: the scratch
+// buffer when reuse is set, else a new slice.
+func (s *decodeScratch) permuted(n int) []float32 {
+	if !s.reuse {
+		return make([]float32, n)
+	}
+	if cap(s.perm) < n {
+		s.perm = make([]float32, n)
+	}
+	return s.perm[:n]
 }
 
 // pow10 returns 10^n for the decimal scale factors of GRIB.

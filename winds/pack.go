@@ -9,7 +9,8 @@ import (
 
 // unpack decodes section 7 data (from its octet 6) according to the data
 // representation of section 5, returning d.repr.nvalues values in the order
-// they are stored. at is the offset of data in the message, for errors.
+// they are stored, in a slice of capacity d.npoints (for canonical). at is
+// the offset of data in the message, for errors.
 func (d *grib2Decoder) unpack(data []byte, at int) ([]float32, error) {
 	r := &d.repr
 	n := r.nvalues
@@ -21,7 +22,7 @@ func (d *grib2Decoder) unpack(data []byte, at int) ([]float32, error) {
 		if uint64(n)*uint64(r.nbits) > uint64(len(data))*8 {
 			return nil, d.formatErr(at, "%d values of %d bits need %d bytes, section 7 holds %d", n, r.nbits, (uint64(n)*uint64(r.nbits)+7)/8, len(data))
 		}
-		out := make([]float32, n)
+		out := d.scratch.floats(n, d.npoints)
 		unpackSimple(out, data, uint(r.nbits), r.ref, r.e, r.d)
 		return out, nil
 	case 2, 3:
@@ -34,7 +35,7 @@ func (d *grib2Decoder) unpack(data []byte, at int) ([]float32, error) {
 		if uint64(n)*uint64(size) > uint64(len(data)) {
 			return nil, d.formatErr(at, "%d IEEE values of %d bytes need %d bytes, section 7 holds %d", n, size, n*size, len(data))
 		}
-		out := make([]float32, n)
+		out := d.scratch.floats(n, d.npoints)
 		if size == 4 {
 			for i := range out {
 				out[i] = math.Float32frombits(u32(data[4*i:]))
@@ -106,8 +107,8 @@ func (d *grib2Decoder) unpackPNG(data []byte, at int) ([]float32, error) {
 	r := &d.repr
 	n := r.nvalues
 	a, b := scaleFactors(r.ref, r.e, r.d)
-	out := make([]float32, n)
 	if r.nbits == 0 || n == 0 {
+		out := d.scratch.floats(n, d.npoints)
 		for i := range out {
 			out[i] = float32(a)
 		}
@@ -129,6 +130,7 @@ func (d *grib2Decoder) unpackPNG(data []byte, at int) ([]float32, error) {
 		return nil, d.formatErr(at, "PNG data: %v", err)
 	}
 	w := cfg.Width
+	out := d.scratch.floats(n, d.npoints)
 	k := 0
 	switch im := img.(type) {
 	case *image.Gray:

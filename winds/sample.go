@@ -157,14 +157,13 @@ func bracket(a []float64, v float64, desc bool) (k0, k1 int, frac float64, ok bo
 }
 
 func (f *Field) rangeErr(lat, lon, p float64, t time.Time, what string) error {
-	s, n, w, e, g := f.Bounds()
+	s, n, w, e, _ := f.Bounds()
 	var msg string
 	switch what {
 	case "latitude":
 		msg = fmt.Sprintf("latitude outside %g..%g", s, n)
 	case "longitude":
 		msg = fmt.Sprintf("longitude outside %g..%g (regional grid)", w, e)
-		_ = g
 	case "pressure":
 		msg = fmt.Sprintf("pressure outside %g..%g Pa", f.levels[len(f.levels)-1], f.levels[0])
 	default:

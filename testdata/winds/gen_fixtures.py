@@ -134,6 +134,13 @@ write("g2_bitmap.grib2", [g2(missing=polar)])
 write("g2_complex_bitmap.grib2", [g2(missing=polar, packing="grid_complex")])
 write("g2_sd2_bitmap.grib2", [g2(missing=polar, packing="grid_complex_spatial_differencing",
                                  extra=[("orderOfSpatialDifferencing", 2)])])
+# Bitmaps with scanning modes other than 0 (bitmap bits in scanning order),
+# masks asymmetric in latitude and longitude.
+write("g2_jcons_bitmap.grib2", [g2(missing=lambda la, lo: (la > 60) | ((lo > 100) & (lo < 140)),
+                                   scan=[("jPointsAreConsecutive", 1)])])
+write("g2_regional_bitmap.grib2", [g2(kind=2, cat=0, num=0, missing=lambda la, lo: (la > 45) | (lo > 185),
+                                      scan=[("iScansNegatively", 1), ("jScansPositively", 1)],
+                                      geometry=(13, 9, 20.0, 200.0, 60.0, 140.0, 5.0, 5.0))])
 
 # Several messages: u, v, t, EDR (0.19.30) at 300 and 200 hPa, steps 0 and 6 h;
 # plus an ensemble member (template 4.1) and a 2 m temperature (skipped).
