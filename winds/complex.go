@@ -37,7 +37,7 @@ func (d *grib2Decoder) unpackComplex(data []byte, at int) ([]float32, error) {
 		return nil, d.formatErr(at, "missing value management %d (code table 5.5)", r.missingMgmt)
 	}
 	if r.splitting > 1 {
-		return nil, d.unsupported(at, "group splitting method %d (code table 5.4)", r.splitting)
+		return nil, d.unsupported(at, remedyRepack, "group splitting method %d (code table 5.4)", r.splitting)
 	}
 	if n == 0 {
 		return d.scratch.floats(0, d.npoints), nil
@@ -50,7 +50,7 @@ func (d *grib2Decoder) unpackComplex(data []byte, at int) ([]float32, error) {
 	var minDiff int64
 	if r.template == 3 && r.order != 0 {
 		if r.order != 1 && r.order != 2 {
-			return nil, d.unsupported(at, "spatial differencing of order %d (code table 5.6)", r.order)
+			return nil, d.unsupported(at, remedyRepack, "spatial differencing of order %d (code table 5.6)", r.order)
 		}
 		if r.extraOctets < 1 || r.extraOctets > 4 {
 			return nil, d.formatErr(at, "%d octets of extra descriptors (1 to 4 allowed)", r.extraOctets)

@@ -243,21 +243,23 @@ func TestMultiMessage(t *testing.T) {
 }
 
 // TestUnsupported checks that valid but unsupported templates written by
-// ecCodes give an *UnsupportedError naming the template and the repack
-// command.
+// ecCodes give an *UnsupportedError naming the template and what to do:
+// repack an unsupported packing, regrid an unsupported grid (repacking
+// would not change the grid).
 func TestUnsupported(t *testing.T) {
-	for file, want := range map[string]string{
-		"g2_jpeg.grib2":     "5.40",
-		"g2_ccsds.grib2":    "5.42",
-		"g2_gaussian.grib2": "3.40",
+	for file, c := range map[string]struct{ want, remedy string }{
+		"g2_jpeg.grib2":     {"5.40", RepackHint},
+		"g2_ccsds.grib2":    {"5.42", RepackHint},
+		"g2_gaussian.grib2": {"3.40", "regrid to a regular latitude/longitude grid"},
 	} {
+		want := c.want
 		b, err := os.ReadFile(filepath.Join(fixtures, file))
 		if err != nil {
 			t.Fatal(err)
 		}
 		_, err = Decode(bytes.NewReader(b), file)
 		var ue *UnsupportedError
-		if !errors.As(err, &ue) || !strings.Contains(err.Error(), want) || !strings.Contains(err.Error(), RepackHint) || !strings.Contains(err.Error(), file) {
+		if !errors.As(err, &ue) || !strings.Contains(err.Error(), want) || !strings.Contains(err.Error(), c.remedy) || !strings.Contains(err.Error(), file) {
 			t.Errorf("%s: %v, want UnsupportedError naming %s", file, err, want)
 		}
 		if _, err := Scan(bytes.NewReader(b), file); err != nil {

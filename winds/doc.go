@@ -18,7 +18,8 @@
 //   - GRIB1 regular latitude/longitude grids with simple packing and bitmap.
 //
 // Anything else is reported as an *UnsupportedError that names the template
-// and the ecCodes command that repacks the file; invalid input is reported as
+// and what to do (the ecCodes command that repacks an unsupported packing,
+// or a regridding for an unsupported grid); invalid input is reported as
 // a *FormatError naming the file, message and byte offset. Sizes declared in
 // the file are checked against the bytes present before anything is
 // allocated.

@@ -10,6 +10,13 @@ import (
 // packing, which this package always reads.
 const RepackHint = "grib_set -r -s packingType=grid_simple in.grib2 out.grib2"
 
+// Remedies for unsupported input, given in UnsupportedError.Remedy.
+const (
+	remedyRepack  = "repack with: " + RepackHint
+	remedyRepack1 = "repack with: grib_set -r -s packingType=grid_simple in.grib1 out.grib1"
+	remedyRegrid  = "regrid to a regular latitude/longitude grid (grid template 3.0), for example with: cdo remapbil,r1440x721 in.grib2 out.grib2"
+)
+
 // A FormatError reports that the input is not valid GRIB: it is truncated,
 // has the wrong magic, or its lengths and counts disagree.
 type FormatError struct {
@@ -30,11 +37,15 @@ type UnsupportedError struct {
 	Message  int
 	Offset   int64
 	Template string // e.g. "data representation template 5.40 (JPEG 2000)"
+	Remedy   string // what to do about it (repack, regrid), or ""
 }
 
 func (e *UnsupportedError) Error() string {
-	return fmt.Sprintf("winds: %s: message %d at byte %d: unsupported %s; repack with: %s",
-		e.Source, e.Message, e.Offset, e.Template, RepackHint)
+	s := fmt.Sprintf("winds: %s: message %d at byte %d: unsupported %s", e.Source, e.Message, e.Offset, e.Template)
+	if e.Remedy != "" {
+		s += "; " + e.Remedy
+	}
+	return s
 }
 
 // A RangeError reports a sample point outside the field's area, pressure

@@ -15,12 +15,12 @@ func decodeGRIB1(msg []byte, src string, index int, base int64, values bool, scr
 	ferr := func(at int, format string, args ...any) error {
 		return &FormatError{src, index, base + int64(at), fmt.Sprintf(format, args...)}
 	}
-	unsup := func(at int, format string, args ...any) error {
-		return &UnsupportedError{src, index, base + int64(at), fmt.Sprintf(format, args...)}
+	unsup := func(at int, remedy, format string, args ...any) error {
+		return &UnsupportedError{src, index, base + int64(at), fmt.Sprintf(format, args...), remedy}
 	}
 	if string(msg[len(msg)-4:]) != "7777" {
 		if u24(msg[4:])&0x800000 != 0 {
-			return unsup(4, "GRIB1 large-message length convention")
+			return unsup(4, "", "GRIB1 large-message length convention")
 		}
 		return ferr(len(msg)-4, "missing end section \"7777\"")
 	}
@@ -72,7 +72,7 @@ func decodeGRIB1(msg []byte, src string, index int, base int64, values bool, scr
 	}
 	if !ok {
 		if m.Param != ParamOther {
-			return unsup(17, "GRIB1 time unit %d with time range indicator %d (tables 4 and 5)", pds[17], pds[20])
+			return unsup(17, "", "GRIB1 time unit %d with time range indicator %d (tables 4 and 5)", pds[17], pds[20])
 		}
 		m.ValidTime = m.RefTime
 	} else {
@@ -87,7 +87,7 @@ func decodeGRIB1(msg []byte, src string, index int, base int64, values bool, scr
 	gridOK := false
 	if flags&0x80 == 0 {
 		if m.Param != ParamOther {
-			return unsup(7, "GRIB1 predefined grid %d (no grid description section)", pds[6])
+			return unsup(7, remedyRegrid, "GRIB1 predefined grid %d (no grid description section)", pds[6])
 		}
 	} else {
 		gds, err := section("section 2 (grid description)", 6)
@@ -114,7 +114,7 @@ func decodeGRIB1(msg []byte, src string, index int, base int64, values bool, scr
 		}
 	}
 	if m.Param != ParamOther && !gridOK {
-		return unsup(8, "GRIB1 grid (data representation type %d, GRIB1 table 6; only 0 regular lat/lon)", m.Grid)
+		return unsup(8, remedyRegrid, "GRIB1 grid (data representation type %d, GRIB1 table 6; only 0 regular lat/lon)", m.Grid)
 	}
 	if m.Param != ParamOther && (m.Ni == 0 || m.Nj == 0 || ((m.Di <= 0 || m.Dj <= 0) && m.Ni*m.Nj > 1)) {
 		return ferr(8, "grid Ni %d, Nj %d, Di %g, Dj %g", m.Ni, m.Nj, m.Di, m.Dj)
@@ -131,7 +131,7 @@ func decodeGRIB1(msg []byte, src string, index int, base int64, values bool, scr
 		m.Bitmap = true
 		if u16(bms[4:]) != 0 {
 			if m.Param != ParamOther {
-				return unsup(pos-len(bms)+4, "GRIB1 predefined bitmap %d", u16(bms[4:]))
+				return unsup(pos-len(bms)+4, remedyRepack1, "GRIB1 predefined bitmap %d", u16(bms[4:]))
 			}
 		} else {
 			bitmap = bms[6:]
@@ -161,13 +161,13 @@ func decodeGRIB1(msg []byte, src string, index int, base int64, values bool, scr
 		return fn(&m)
 	}
 	if bds[3]&0x80 != 0 {
-		return unsup(bdsAt+3, "GRIB1 spherical harmonic coefficients")
+		return unsup(bdsAt+3, remedyRegrid, "GRIB1 spherical harmonic coefficients")
 	}
 	if bds[3]&0x40 != 0 {
-		return unsup(bdsAt+3, "GRIB1 complex (second-order) packing")
+		return unsup(bdsAt+3, remedyRepack1, "GRIB1 complex (second-order) packing")
 	}
 	if m.ScanMode&0x1f != 0 {
-		return unsup(8, "GRIB1 scanning mode %#02x", m.ScanMode)
+		return unsup(8, remedyRegrid, "GRIB1 scanning mode %#02x", m.ScanMode)
 	}
 	n := npoints
 	if bitmap != nil {
@@ -179,7 +179,7 @@ func decodeGRIB1(msg []byte, src string, index int, base int64, values bool, scr
 		return ferr(bdsAt, "%d values of %d bits need %d bytes, section 4 holds %d", n, nbits, (uint64(n)*uint64(nbits)+7)/8, len(bds)-11)
 	}
 	if npoints > maxPoints {
-		return unsup(8, "grid of %d points (limit %d)", npoints, maxPoints)
+		return unsup(8, "", "grid of %d points (limit %d)", npoints, maxPoints)
 	}
 	vals := scratch.floats(n, npoints)
 	unpackSimple(vals, bds[11:], uint(nbits), ibmFloat(u32(bds[6:])), s16(bds[4:]), dec)

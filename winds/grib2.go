@@ -57,8 +57,8 @@ func (d *grib2Decoder) formatErr(at int, format string, args ...any) error {
 	return &FormatError{d.src, d.index, d.base + int64(at), fmt.Sprintf(format, args...)}
 }
 
-func (d *grib2Decoder) unsupported(at int, format string, args ...any) error {
-	return &UnsupportedError{d.src, d.index, d.base + int64(at), fmt.Sprintf(format, args...)}
+func (d *grib2Decoder) unsupported(at int, remedy, format string, args ...any) error {
+	return &UnsupportedError{d.src, d.index, d.base + int64(at), fmt.Sprintf(format, args...), remedy}
 }
 
 // decode runs the section parsers in the order Regulation 92.1.2 allows:
@@ -269,7 +269,7 @@ func (d *grib2Decoder) productDefinition(s []byte) error {
 	}
 	step, ok := timeUnit(int(s[17]))
 	if !ok {
-		return d.unsupported(d.pos+17, "product template 4.%d: unit of time range %d (code table 4.4)", c.Product, s[17])
+		return d.unsupported(d.pos+17, "", "product template 4.%d: unit of time range %d (code table 4.4)", c.Product, s[17])
 	}
 	c.ValidTime = d.ref.Add(time.Duration(s32(s[18:])) * step)
 	if s[22] != 255 {
@@ -395,7 +395,7 @@ func (d *grib2Decoder) bitmapSection(s []byte) error {
 		d.bitmap = nil
 		d.cur.Bitmap = true
 		if d.cur.Param != ParamOther && d.values {
-			return d.unsupported(d.pos+5, "predefined bitmap %d (section 6)", ind)
+			return d.unsupported(d.pos+5, remedyRepack, "predefined bitmap %d (section 6)", ind)
 		}
 		return nil
 	}
@@ -414,18 +414,18 @@ func (d *grib2Decoder) data(s []byte) error {
 	}
 	if !d.gridOK {
 		if d.cur.Grid != 0 {
-			return d.unsupported(d.pos, "grid definition template 3.%d (only 3.0 regular lat/lon)", d.cur.Grid)
+			return d.unsupported(d.pos, remedyRegrid, "grid definition template 3.%d (only 3.0 regular lat/lon)", d.cur.Grid)
 		}
-		return d.unsupported(d.pos, "grid definition with a list of numbers of points (quasi-regular grid)")
+		return d.unsupported(d.pos, remedyRegrid, "grid definition with a list of numbers of points (quasi-regular grid)")
 	}
 	if (m.Di <= 0 || m.Dj <= 0) && (m.Ni > 1 || m.Nj > 1) {
 		return d.formatErr(d.pos, "grid increments Di %g, Dj %g must be positive", m.Di, m.Dj)
 	}
 	if m.ScanMode&0x0f != 0 {
-		return d.unsupported(d.pos, "scanning mode %#02x (offset or staggered rows, code table 3.4 bits 5-8)", m.ScanMode)
+		return d.unsupported(d.pos, remedyRegrid, "scanning mode %#02x (offset or staggered rows, code table 3.4 bits 5-8)", m.ScanMode)
 	}
 	if d.npoints > maxPoints {
-		return d.unsupported(d.pos, "grid of %d points (limit %d)", d.npoints, maxPoints)
+		return d.unsupported(d.pos, "", "grid of %d points (limit %d)", d.npoints, maxPoints)
 	}
 	present := d.npoints
 	if d.bitmap != nil {

@@ -151,7 +151,7 @@ func readMessages(r io.Reader, source string, values bool, scratch *decodeScratc
 			}
 			length = u64(head[8:16])
 		default:
-			return &UnsupportedError{source, index, off, fmt.Sprintf("GRIB edition %d", head[7])}
+			return &UnsupportedError{source, index, off, fmt.Sprintf("GRIB edition %d", head[7]), ""}
 		}
 		if length < 20 || length > 1<<40 {
 			return &FormatError{source, index, off, fmt.Sprintf("total length %d out of range", length)}

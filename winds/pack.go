@@ -30,7 +30,7 @@ func (d *grib2Decoder) unpack(data []byte, at int) ([]float32, error) {
 	case 4:
 		size := map[int]int{1: 4, 2: 8}[r.precision]
 		if size == 0 {
-			return nil, d.unsupported(at, "data representation template 5.4 (IEEE) with precision %d (code table 5.7)", r.precision)
+			return nil, d.unsupported(at, remedyRepack, "data representation template 5.4 (IEEE) with precision %d (code table 5.7)", r.precision)
 		}
 		if uint64(n)*uint64(size) > uint64(len(data)) {
 			return nil, d.formatErr(at, "%d IEEE values of %d bytes need %d bytes, section 7 holds %d", n, size, n*size, len(data))
@@ -49,11 +49,11 @@ func (d *grib2Decoder) unpack(data []byte, at int) ([]float32, error) {
 	case 41:
 		return d.unpackPNG(data, at)
 	case 40:
-		return nil, d.unsupported(at, "data representation template 5.40 (JPEG 2000)")
+		return nil, d.unsupported(at, remedyRepack, "data representation template 5.40 (JPEG 2000)")
 	case 42:
-		return nil, d.unsupported(at, "data representation template 5.42 (CCSDS)")
+		return nil, d.unsupported(at, remedyRepack, "data representation template 5.42 (CCSDS)")
 	}
-	return nil, d.unsupported(at, "data representation template 5.%d", r.template)
+	return nil, d.unsupported(at, remedyRepack, "data representation template 5.%d", r.template)
 }
 
 // scaleFactors returns the constants of Y = (R + X 2^E) / 10^D
@@ -173,7 +173,7 @@ func (d *grib2Decoder) unpackPNG(data []byte, at int) ([]float32, error) {
 			}
 		}
 	default:
-		return nil, d.unsupported(at, "data representation template 5.41 (PNG) with %T pixels", img)
+		return nil, d.unsupported(at, remedyRepack, "data representation template 5.41 (PNG) with %T pixels", img)
 	}
 	return out, nil
 }
