@@ -26,6 +26,13 @@ const (
 	wmmRef   = 6371200.0 // geomagnetic reference radius, m
 )
 
+// WMMValidity returns the dates the World Magnetic Model 2025 covers:
+// from its epoch, 2025.0, up to but not including 2030.0.
+// MagneticVariation refuses dates outside.
+func WMMValidity() (from, until time.Time) {
+	return time.Date(int(wmmEpoch), 1, 1, 0, 0, 0, 0, time.UTC), time.Date(int(wmmEnd), 1, 1, 0, 0, 0, 0, time.UTC)
+}
+
 var wmmRoots struct {
 	nn [wmmN + 1]float64           // sqrt((2n-1)/(2n))
 	a  [wmmN + 1][wmmN + 1]float64 // sqrt((n-1)^2 - m^2)

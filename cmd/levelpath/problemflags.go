@@ -180,14 +180,11 @@ func buildTrack(arg, levels string, maxSegNM float64, date string, depart time.T
 		return nil, badInputf("--max-seg-nm %v: want 1..1000", maxSegNM)
 	}
 	opt := route.Options{MaxSegment: maxSegNM * perf.NMToM}
-	if levels != "" {
+	if levels != "" { // else the zero rule: odd-even-magnetic
 		rule, err := route.ParseLevelRule(levels)
 		if err != nil {
 			return nil, badInputf("--levels: %v", err)
 		}
-		opt.Levels = rule
-	} else {
-		rule, _ := route.ParseLevelRule("odd-even-magnetic")
 		opt.Levels = rule
 	}
 	switch {
@@ -267,23 +264,20 @@ func planErr(err error) error {
 	return fmt.Errorf("internal: %w", err)
 }
 
-// WMM2025 is valid from 2025.0 to 2030.0. Dates outside (a replay of an
-// older reanalysis day, say) take the nearest valid date, with a warning:
+// clampMagDate moves a date outside WMM2025's validity (a replay of an
+// older reanalysis day, say) to the nearest valid date, with a warning:
 // the variation drifts by a fraction of a degree a year, which moves the
 // semicircular level rule only on tracks within that of north or south.
-var (
-	wmmFirst = time.Date(2025, 1, 1, 0, 0, 0, 0, time.UTC)
-	wmmLast  = time.Date(2029, 12, 31, 0, 0, 0, 0, time.UTC)
-)
-
 func clampMagDate(d time.Time, stderr io.Writer) time.Time {
+	from, until := route.WMMValidity()
+	last := until.AddDate(0, 0, -1)
 	switch {
-	case d.Before(wmmFirst):
-		warnf(stderr, "magnetic variation: %s is before WMM2025 (2025.0-2030.0); using %s", d.Format("2006-01-02"), wmmFirst.Format("2006-01-02"))
-		return wmmFirst
-	case d.After(wmmLast):
-		warnf(stderr, "magnetic variation: %s is after WMM2025 (2025.0-2030.0); using %s", d.Format("2006-01-02"), wmmLast.Format("2006-01-02"))
-		return wmmLast
+	case d.Before(from):
+		warnf(stderr, "magnetic variation: %s is before WMM2025 (%s to %s); using %s", d.Format("2006-01-02"), from.Format("2006-01-02"), last.Format("2006-01-02"), from.Format("2006-01-02"))
+		return from
+	case d.After(last):
+		warnf(stderr, "magnetic variation: %s is after WMM2025 (%s to %s); using %s", d.Format("2006-01-02"), from.Format("2006-01-02"), last.Format("2006-01-02"), last.Format("2006-01-02"))
+		return last
 	}
 	return d
 }
