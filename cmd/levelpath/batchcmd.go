@@ -88,17 +88,22 @@ func (p *planner) plan(ctx context.Context, row batch.Row, ci float64) (batch.Re
 		return res, err
 	}
 	pr := &optimizer.Problem{Track: tr, Aircraft: a, Weather: p.wx, Depart: row.Departure, CI: ci, Floor: row.Floor, Steps: p.steps}
-	switch {
-	case row.TOW > 0:
-		pr.TakeoffMass = row.TOW
-	case row.ZFW > 0 && row.Fuel > 0:
+	// ReadSchedule sets TOW (from zfw_kg + fuel_kg where tow_kg is empty);
+	// with zfw_kg and fuel_kg, check them as the plan command does and let
+	// the plan flag a trip that burns more than the fuel on board.
+	if row.ZFW > 0 && row.Fuel > 0 {
+		if row.ZFW > a.MZFW {
+			return res, fmt.Errorf("zfw_kg %.0f is over MZFW %.0f kg of %s", row.ZFW, a.MZFW, a.Name)
+		}
 		if row.Fuel > a.FuelCapacity {
 			return res, fmt.Errorf("fuel_kg %.0f is over the fuel capacity %.0f kg of %s", row.Fuel, a.FuelCapacity, a.Name)
 		}
-		pr.TakeoffMass, pr.ZFW = row.ZFW+row.Fuel, row.ZFW
-	default:
+		pr.ZFW = row.ZFW
+	}
+	if !(row.TOW > 0) {
 		return res, fmt.Errorf("no take-off mass: give tow_kg, or zfw_kg and fuel_kg")
 	}
+	pr.TakeoffMass = row.TOW
 	if row.Speed != "" {
 		sp, err := optimizer.ParseSpeed(row.Speed)
 		if err != nil {

@@ -530,3 +530,22 @@ func TestExitCodeClasses(t *testing.T) {
 		}
 	}
 }
+
+// TestBatchZFWAndFuel: a schedule row with zfw_kg and fuel_kg is checked
+// against the aircraft's fuel capacity as `plan --zfw --fuel` is.
+func TestBatchZFWAndFuel(t *testing.T) {
+	fs := demoFiles(t)
+	sched := filepath.Join(fs.Dir, "sched-zfw.csv")
+	os.WriteFile(sched, []byte("flight,departure,route,aircraft,tow_kg,ci,zfw_kg,fuel_kg\n"+
+		"Z1,2026-12-01T21:00:00Z,route-lakeport.geojson,demo-regional,,10,30000,5000\n"+
+		"Z2,2026-12-01T21:00:00Z,route-lakeport.geojson,demo-regional,,10,28000,12000\n"), 0o644)
+	out := filepath.Join(t.TempDir(), "o")
+	code, _, errs := runCLI(t, "batch", "--schedule", sched, "--weather", fs.Weather, "--out", out)
+	if code != 3 {
+		t.Fatalf("exit %d, want 3: %s", code, errs)
+	}
+	eb, _ := os.ReadFile(filepath.Join(out, "errors.csv"))
+	if !strings.Contains(string(eb), "Z2") || !strings.Contains(string(eb), "fuel capacity") || strings.Contains(string(eb), "Z1") {
+		t.Errorf("errors.csv: %s", eb)
+	}
+}
