@@ -85,6 +85,23 @@ func CASToTAS(cas, p, t float64) float64 { return MachToTAS(CASToMach(cas, p), t
 // static pressure p (Pa) and temperature t (K).
 func TASToCAS(tas, p, t float64) float64 { return MachToCAS(TASToMach(tas, t), p) }
 
+// EASToTAS returns the true airspeed (m/s) of equivalent airspeed eas at
+// static pressure p (Pa) and temperature t (K): TAS = EAS sqrt(rho0/rho).
+func EASToTAS(eas, p, t float64) float64 { return MachToTAS(EASToMach(eas, p), t) }
+
+// TASToEAS returns the equivalent airspeed (m/s) of true airspeed tas at
+// static pressure p (Pa) and temperature t (K).
+func TASToEAS(tas, p, t float64) float64 { return MachToEAS(TASToMach(tas, t), p) }
+
+// CASToEAS returns the equivalent airspeed (m/s) of calibrated airspeed
+// cas at static pressure p (Pa); the two differ by compressibility only,
+// so temperature does not enter.
+func CASToEAS(cas, p float64) float64 { return MachToEAS(CASToMach(cas, p), p) }
+
+// EASToCAS returns the calibrated airspeed (m/s) of equivalent airspeed
+// eas at static pressure p (Pa).
+func EASToCAS(eas, p float64) float64 { return MachToCAS(EASToMach(eas, p), p) }
+
 // LoadFactor returns the load factor n = 1/cos(bank) of a level coordinated
 // turn at bank angle bankRad (radians). It returns NaN for |bank| >= 90°.
 func LoadFactor(bankRad float64) float64 {

@@ -71,3 +71,32 @@ func TestLoadFactorBank(t *testing.T) {
 		t.Error("n < 1 or 90° bank should give NaN")
 	}
 }
+
+// TestEASConversions: EAS = TAS sqrt(rho/rho0) (the definition of
+// equivalent airspeed; NACA Report 1135 notation), EAS <= CAS above sea
+// level (the compressibility correction is negative), and every pair of
+// conversions round-trips.
+func TestEASConversions(t *testing.T) {
+	for _, fl := range []float64{0, 100, 250, 350, 410} {
+		p := FLToPressure(fl)
+		for _, dev := range []float64{-10, 0, 15} {
+			tk := ISATemperature(AltitudeAt(p)) + dev
+			for _, tas := range []float64{120, 200, 250} {
+				eas := TASToEAS(tas, p, tk)
+				if want := tas * math.Sqrt(Density(p, tk)/Rho0); math.Abs(eas-want) > 1e-9*want {
+					t.Errorf("FL%.0f ISA%+.0f TAS %.0f: EAS %.6f, want TAS sqrt(rho/rho0) = %.6f", fl, dev, tas, eas, want)
+				}
+				if back := EASToTAS(eas, p, tk); math.Abs(back-tas) > 1e-9*tas {
+					t.Errorf("EASToTAS(TASToEAS(%.0f)) = %.9f", tas, back)
+				}
+				cas := TASToCAS(tas, p, tk)
+				if e := CASToEAS(cas, p); math.Abs(e-eas) > 1e-9*eas || (fl > 0 && e > cas) {
+					t.Errorf("FL%.0f: CASToEAS(%.4f) = %.6f, want %.6f and at most CAS", fl, cas, e, eas)
+				}
+				if c := EASToCAS(eas, p); math.Abs(c-cas) > 1e-9*cas {
+					t.Errorf("EASToCAS(%.4f) = %.6f, want %.6f", eas, c, cas)
+				}
+			}
+		}
+	}
+}
