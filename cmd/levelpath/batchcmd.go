@@ -173,12 +173,12 @@ func newBatchCmd() *cobra.Command {
 		if schedule == "" || out == "" {
 			return badInputf("--schedule and --out are required")
 		}
+		if workers < 0 {
+			return badInputf("--workers %d: must be positive", workers)
+		}
 		opt := batch.Options{Out: out, Workers: workers, Resume: resume, Progress: cmd.ErrOrStderr()}
 		if f, ok := cmd.ErrOrStderr().(*os.File); ok && term.IsTerminal(int(f.Fd())) {
 			opt.ProgressTTY = true
-		}
-		if workers < 0 {
-			return badInputf("--workers %d: must be positive", workers)
 		}
 		if sweep != "" {
 			s, err := batch.ParseSweep(sweep)
