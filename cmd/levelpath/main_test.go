@@ -348,7 +348,7 @@ func TestBatchCLI(t *testing.T) {
 
 // TestRouteCommand: JSON fields, the GeoJSON form, and a bad route naming
 // its point. The length is checked against GeographicLib (GeodSolve 2.1.2,
-// REFERENCES.md): (40.6, -73.8) -> (51.6, -0.5) is 5551759.400319 m.
+// testdata/REFERENCES.md): (40.6, -73.8) -> (51.6, -0.5) is 5551759.400319 m.
 func TestRouteCommand(t *testing.T) {
 	code, out, errs := runCLI(t, "route", "40.6,-73.8 51.6,-0.5", "--date", "2026-12-01", "--format", "json")
 	if code != 0 {
@@ -510,7 +510,7 @@ func TestBatchStepPolicy(t *testing.T) {
 }
 
 // TestExitCodeClasses: a command's own failure exits 1, its bad-input
-// error 2, and cobra's rejection of the command line 2 (DESIGN.md).
+// error 2, and cobra's rejection of the command line 2 (README, "Commands"; testdata/REFERENCES.md, "Exit codes").
 func TestExitCodeClasses(t *testing.T) {
 	saved := subcommands
 	defer func() { subcommands = saved }()

@@ -12,7 +12,7 @@ import (
 // -ldflags "-X main.version=...".
 var version = "0.1.0-dev"
 
-// Exit codes shared by every command (DESIGN.md).
+// Exit codes shared by every command (README, "Commands"; testdata/REFERENCES.md, "Exit codes").
 const (
 	exitOK       = 0
 	exitInternal = 1
