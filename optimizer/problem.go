@@ -89,10 +89,14 @@ type TurbulenceRule struct {
 	Closed bool
 }
 
-// DefaultTurbulence is the default operator table (common practice; ICAO
-// Annex 3 severity thresholds, from memory): EDR over 0.20 is moderate and
-// raises the floor to 1.5 g, over 0.45 is severe and closes the level.
-var DefaultTurbulence = []TurbulenceRule{{EDR: 0.20, Floor: 1.5}, {EDR: 0.45, Closed: true}}
+// DefaultTurbulence returns the default operator table (common practice;
+// ICAO Annex 3 severity thresholds, from memory): EDR over 0.20 is moderate
+// and raises the floor to 1.5 g, over 0.45 is severe and closes the level.
+// Each call returns a new slice, so a caller's change affects only its own
+// problem.
+func DefaultTurbulence() []TurbulenceRule {
+	return []TurbulenceRule{{EDR: 0.20, Floor: 1.5}, {EDR: 0.45, Closed: true}}
+}
 
 // Block removes levels over a distance range (metres from departure), for
 // example airspace that is not available.
@@ -119,7 +123,7 @@ type Problem struct {
 	MinFL      int // lowest cruise level considered (default FL100)
 	MaxFL      int // highest (default: certified ceiling)
 	Blocked    []Block
-	Turbulence []TurbulenceRule // nil: DefaultTurbulence
+	Turbulence []TurbulenceRule // nil: DefaultTurbulence()
 
 	// MassBucket is the width of the search's mass buckets, kg (default
 	// 0.25 % of MTOW). States at the same boundary and level whose masses
@@ -134,6 +138,9 @@ type Problem struct {
 	// thrust-limited maximum levels at their mass (for charts and
 	// reports; it costs a few milliseconds a plan).
 	LegCeilings bool
+	// Notes are remarks from whoever built the problem (a default it
+	// applied, say); they open the plan's warnings.
+	Notes []string
 }
 
 // InputError reports a Problem that cannot be planned because of its
@@ -166,7 +173,7 @@ const fpm300 = 300 * 0.3048 / 60 // 300 ft/min in m/s (common practice)
 
 // normalise checks the problem and fills defaults, returning warnings.
 func (p *Problem) normalise() ([]string, error) {
-	var warn []string
+	warn := append([]string(nil), p.Notes...)
 	if p.Track == nil || len(p.Track.Segments) == 0 {
 		return nil, inputErrorf("route", "no route segments")
 	}
@@ -224,7 +231,7 @@ func (p *Problem) normalise() ([]string, error) {
 		return nil, inputErrorf("levels", "lowest level FL%d is above the highest FL%d", p.MinFL, p.MaxFL)
 	}
 	if p.Turbulence == nil {
-		p.Turbulence = DefaultTurbulence
+		p.Turbulence = DefaultTurbulence()
 	}
 	if p.MassBucket == 0 {
 		p.MassBucket = 0.0025 * a.MTOW
@@ -241,12 +248,15 @@ func (p *Problem) normalise() ([]string, error) {
 	if p.EndAltitude == 0 {
 		p.EndAltitude = 1500 * 0.3048
 	}
-	if p.Depart.IsZero() {
-		if p.Weather != nil && len(p.Weather.Times()) > 0 {
-			p.Depart = p.Weather.Times()[0]
-		} else {
-			p.Depart = time.Date(2000, 1, 1, 0, 0, 0, 0, time.UTC)
-		}
+	switch {
+	case !p.Depart.IsZero():
+	case p.Weather == nil || len(p.Weather.Times()) == 0:
+		// Still air does not depend on the time: the plan keeps the zero
+		// time, and its times of passage count from it.
+		warn = append(warn, "no departure time given: times count from the zero time")
+	default:
+		p.Depart = p.Weather.Times()[0]
+		warn = append(warn, "no departure time given: the weather's first valid time "+p.Depart.UTC().Format(time.RFC3339)+" assumed")
 	}
 	if p.Weather == nil {
 		warn = append(warn, "no weather given: ISA and still air assumed")

@@ -396,7 +396,7 @@ func TestWeatherCoverage(t *testing.T) {
 	// A regional field over the Pacific: the Lakeport route lies outside.
 	dir := t.TempDir()
 	var msgs []winds.Message
-	ref := demo.Ref
+	ref := demo.Ref()
 	for _, h := range []int{0, 24} {
 		for _, p := range []float64{30000, 25000, 20000} {
 			for _, f := range []struct {

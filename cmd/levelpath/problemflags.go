@@ -132,11 +132,11 @@ func (f *problemFlags) problem(c *cobra.Command, wx *winds.Field, stderr io.Writ
 			return nil, badInputf("--depart %q: want RFC3339 such as 2026-12-01T22:00:00Z", f.depart)
 		}
 		p.Depart = t
-	} else if wx != nil {
-		p.Depart = wx.Times()[0]
-	} else {
+	} else if wx == nil {
+		// Still air: the time only dates the plan and the magnetic variation.
 		p.Depart = time.Now().UTC().Truncate(time.Minute)
-	}
+		p.Notes = append(p.Notes, "no --depart given: the current time "+p.Depart.Format(time.RFC3339)+" assumed")
+	} // else the optimizer takes the weather's first valid time and says so
 	sp, err := optimizer.ParseSpeed(f.speed)
 	if err != nil {
 		return nil, badInputf("--speed: %v", err)
@@ -159,7 +159,11 @@ func (f *problemFlags) problem(c *cobra.Command, wx *winds.Field, stderr io.Writ
 		}
 		p.Turbulence = rules
 	}
-	tr, err := buildTrack(f.route, f.levels, f.maxSegNM, f.date, p.Depart, stderr)
+	magDate := p.Depart
+	if magDate.IsZero() {
+		magDate = wx.Times()[0]
+	}
+	tr, err := buildTrack(f.route, f.levels, f.maxSegNM, f.date, magDate, stderr)
 	if err != nil {
 		return nil, err
 	}
