@@ -145,21 +145,33 @@ type Problem struct {
 
 // InputError reports a Problem that cannot be planned because of its
 // input: a mass out of limits, weather that does not cover the route, no
-// feasible level. Field names the input.
+// feasible level. Field is the path of the Problem field at fault, in Go
+// names ("TakeoffMass", "Steps.MaxChange", "Weather"), or "" when no one
+// field is; Err, when not nil, is the underlying error (a
+// *winds.RangeError, say), reachable with errors.As.
 type InputError struct {
 	Field string
 	Msg   string
+	Err   error
 }
 
 func (e *InputError) Error() string {
-	if e.Field == "" {
-		return e.Msg
+	msg := e.Msg
+	if msg == "" && e.Err != nil {
+		msg = e.Err.Error()
 	}
-	return e.Field + ": " + e.Msg
+	if e.Field == "" {
+		return msg
+	}
+	return e.Field + ": " + msg
 }
 
+// Unwrap returns the underlying error, if any.
+func (e *InputError) Unwrap() error { return e.Err }
+
 func inputErrorf(field, format string, args ...any) error {
-	return &InputError{Field: field, Msg: fmt.Sprintf(format, args...)}
+	err := fmt.Errorf(format, args...)
+	return &InputError{Field: field, Msg: err.Error(), Err: errors.Unwrap(err)}
 }
 
 // IsInputError reports whether err was caused by the problem's input.
@@ -169,48 +181,52 @@ func IsInputError(err error) bool {
 	return errors.As(err, &ie) || errors.As(err, &re)
 }
 
+// MaxStepsLimit is the largest StepRules.MaxSteps accepted; the search's
+// state space grows with it.
+const MaxStepsLimit = 60
+
 const fpm300 = 300 * 0.3048 / 60 // 300 ft/min in m/s (common practice)
 
 // normalise checks the problem and fills defaults, returning warnings.
 func (p *Problem) normalise() ([]string, error) {
 	warn := append([]string(nil), p.Notes...)
 	if p.Track == nil || len(p.Track.Segments) == 0 {
-		return nil, inputErrorf("route", "no route segments")
+		return nil, inputErrorf("Track", "no route segments")
 	}
 	if p.Aircraft == nil {
-		return nil, inputErrorf("aircraft", "no aircraft")
+		return nil, inputErrorf("Aircraft", "no aircraft")
 	}
 	a := p.Aircraft
 	m := p.TakeoffMass
 	if !(m > 0) || math.IsInf(m, 0) {
-		return nil, inputErrorf("mass", "take-off mass %v kg is not a positive number", m)
+		return nil, inputErrorf("TakeoffMass", "take-off mass %v kg is not a positive number", m)
 	}
 	if err := a.CheckMass(m); err != nil {
-		return nil, &InputError{Field: "mass", Msg: err.Error()}
+		return nil, &InputError{Field: "TakeoffMass", Msg: err.Error(), Err: err}
 	}
 	if m > a.MTOW {
-		return nil, inputErrorf("mass", "take-off mass %.0f kg is over MTOW %.0f kg", m, a.MTOW)
+		return nil, inputErrorf("TakeoffMass", "take-off mass %.0f kg is over MTOW %.0f kg", m, a.MTOW)
 	}
 	if math.IsNaN(p.CI) || p.CI < 0 || p.CI > 10000 {
-		return nil, inputErrorf("ci", "cost index %v kg/min must lie in 0..10000", p.CI)
+		return nil, inputErrorf("CI", "cost index %v kg/min must lie in 0..10000", p.CI)
 	}
 	if p.Floor == 0 {
 		p.Floor = 1.3
 	}
 	if !(p.Floor >= 1 && p.Floor <= 2.5) {
-		return nil, inputErrorf("floor", "protection floor %v g must lie in 1.0..2.5", p.Floor)
+		return nil, inputErrorf("Floor", "protection floor %v g must lie in 1.0..2.5", p.Floor)
 	}
 	if p.Speed.Kind == SpeedFixed && !(p.Speed.Mach >= 0.3 && p.Speed.Mach <= a.MMO) {
-		return nil, inputErrorf("speed", "Mach %.3f is outside 0.30..MMO %.3f", p.Speed.Mach, a.MMO)
+		return nil, inputErrorf("Speed.Mach", "Mach %.3f is outside 0.30..MMO %.3f", p.Speed.Mach, a.MMO)
 	}
 	if p.Steps.MaxChange == 0 {
 		p.Steps.MaxChange = 4000
 	}
 	if p.Steps.MaxChange < 1000 || p.Steps.MaxChange > 10000 {
-		return nil, inputErrorf("max-step", "largest step %d ft must lie in 1000..10000", p.Steps.MaxChange)
+		return nil, inputErrorf("Steps.MaxChange", "largest step %d ft must lie in 1000..10000", p.Steps.MaxChange)
 	}
-	if p.Steps.MaxSteps < 0 {
-		return nil, inputErrorf("steps", "the largest number of steps must not be negative")
+	if p.Steps.MaxSteps < 0 || p.Steps.MaxSteps > MaxStepsLimit {
+		return nil, inputErrorf("Steps.MaxSteps", "the largest number of steps %d must lie in 0..%d", p.Steps.MaxSteps, MaxStepsLimit)
 	}
 	switch d := p.Steps.MinDistance; {
 	case d == 0:
@@ -218,7 +234,7 @@ func (p *Problem) normalise() ([]string, error) {
 	case d < 0:
 		p.Steps.MinDistance = 0
 	case math.IsNaN(d) || d > 20000*nmToM:
-		return nil, inputErrorf("min-step-nm", "least distance between steps %v m is not usable", d)
+		return nil, inputErrorf("Steps.MinDistance", "least distance between steps %v m is not usable", d)
 	}
 	if p.MinFL == 0 {
 		p.MinFL = 100
@@ -228,7 +244,7 @@ func (p *Problem) normalise() ([]string, error) {
 		p.MaxFL = cert
 	}
 	if p.MinFL > p.MaxFL {
-		return nil, inputErrorf("levels", "lowest level FL%d is above the highest FL%d", p.MinFL, p.MaxFL)
+		return nil, inputErrorf("MinFL", "lowest level FL%d is above the highest FL%d", p.MinFL, p.MaxFL)
 	}
 	if p.Turbulence == nil {
 		p.Turbulence = DefaultTurbulence()
@@ -237,7 +253,7 @@ func (p *Problem) normalise() ([]string, error) {
 		p.MassBucket = 0.0025 * a.MTOW
 	}
 	if !(p.MassBucket > 0) {
-		return nil, inputErrorf("mass-bucket", "mass bucket %v kg must be positive", p.MassBucket)
+		return nil, inputErrorf("MassBucket", "mass bucket %v kg must be positive", p.MassBucket)
 	}
 	if p.ClimbSchedule == (perf.Schedule{}) {
 		p.ClimbSchedule = bestClimbSchedule(a, p.TakeoffMass, p.CI, p.MaxFL, p.Speed, p.Floor)
@@ -262,7 +278,7 @@ func (p *Problem) normalise() ([]string, error) {
 		warn = append(warn, "no weather given: ISA and still air assumed")
 	} else {
 		if !p.Weather.Has(winds.ParamU) || !p.Weather.Has(winds.ParamV) {
-			return nil, inputErrorf("weather", "the weather has no winds aloft (u and v on isobaric levels)")
+			return nil, inputErrorf("Weather", "the weather has no winds aloft (u and v on isobaric levels)")
 		}
 		if !p.Weather.Has(winds.ParamT) {
 			warn = append(warn, "the weather has no temperature: ISA temperature assumed")

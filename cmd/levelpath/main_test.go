@@ -420,7 +420,7 @@ func TestWeatherCoverage(t *testing.T) {
 	}
 	os.WriteFile(path, buf.Bytes(), 0o644)
 	code, _, errs := runCLI(t, "plan", "--route", fs.Routes[3], "--aircraft", "demo-regional", "--mass", "36000", "--weather", path, "--depart", "2026-12-01T20:00:00Z")
-	if code != 2 || !strings.Contains(errs, "weather") || !strings.Contains(errs, "segment 0") {
+	if code != 2 || !strings.Contains(strings.ToLower(errs), "weather") || !strings.Contains(errs, "segment 0") {
 		t.Errorf("weather off the route: exit %d, %q", code, errs)
 	}
 	// The ecCodes fixture g2_regional.grib2 holds temperature only.

@@ -147,7 +147,7 @@ func FromPlan(p *optimizer.Plan, assessed bool) *Doc {
 	}
 	d.Violations = []Violation{}
 	for _, v := range p.Violations {
-		d.Violations = append(d.Violations, Violation{Leg: v.Leg, Limit: v.Limit, By: v.By, Unit: v.Unit, Detail: v.Detail})
+		d.Violations = append(d.Violations, Violation{Leg: v.Leg, Limit: string(v.Limit), By: v.By, Unit: v.Unit, Detail: v.Detail})
 	}
 	if !assessed {
 		d.SearchCost = Number(p.SearchCost)
