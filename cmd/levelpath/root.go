@@ -6,6 +6,8 @@ import (
 	"io"
 
 	"github.com/spf13/cobra"
+
+	"levelpath/optimizer"
 )
 
 // version is the program version, set at build time with
@@ -62,7 +64,7 @@ fuel plus cost-index-weighted time is least while every leg keeps its margin
 to low- and high-speed buffet and stays under the thrust-limited and
 certified ceilings.
 
-` + cautionText,
+Caution: ` + optimizer.Caution,
 		Version:       version,
 		SilenceUsage:  true,
 		SilenceErrors: true,
