@@ -226,9 +226,9 @@ func parseBlock(s string) (optimizer.Block, error) {
 	}
 	b.FromDist, b.ToDist = x*perf.NMToM, y*perf.NMToM
 	for _, l := range strings.Split(lv, ",") {
-		n, err := strconv.Atoi(strings.TrimPrefix(strings.TrimSpace(strings.ToUpper(l)), "FL"))
-		if err != nil || n < 10 || n > 600 {
-			return b, badInputf("--block %q: level %q is not like FL370", s, l)
+		n, err := route.ParseFL(l)
+		if err != nil {
+			return b, badInputf("--block %q: level %q %v", s, l, err)
 		}
 		b.Levels = append(b.Levels, n)
 	}
