@@ -80,7 +80,6 @@ func ParseProfile(s string) (Profile, error) {
 	return p, nil
 }
 
-
 // String formats the profile in the form ParseProfile reads, distances in
 // whole NM.
 func (p Profile) String() string {
