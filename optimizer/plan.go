@@ -124,6 +124,9 @@ type Plan struct {
 	// Nodes and Edges count the states settled and edges priced by the
 	// search (Solve only).
 	Nodes, Edges int
+	// Alternatives are the next-cheapest distinct profiles, when asked
+	// for (see Alternatives); nil otherwise.
+	Alternatives []Alternative
 }
 
 // MinMargin returns the least buffet margin over the cruise and step legs,

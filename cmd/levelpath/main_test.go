@@ -549,3 +549,42 @@ func TestBatchZFWAndFuel(t *testing.T) {
 		t.Errorf("errors.csv: %s", eb)
 	}
 }
+
+// TestPlanAlternatives: --alternatives K lists K distinct profiles besides
+// the plan's own in the JSON, none cheaper than the plan beyond the
+// search's 0.2 % pricing tolerance (optimizer.TestAlternativesMatchEnumeration
+// checks them against an exhaustive enumeration).
+func TestPlanAlternatives(t *testing.T) {
+	fs := demoFiles(t)
+	code, out, errs := runCLI(t, "plan", "--route", fs.Routes[2], "--aircraft", "demo-narrowbody", "--mass", "70000",
+		"--weather", fs.Weather, "--depart", "2026-12-01T20:00:00Z", "--alternatives", "2", "--format", "json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	var d struct {
+		Profile string `json:"profile"`
+		Totals  struct {
+			Cost float64 `json:"cost"`
+		} `json:"totals"`
+		Alternatives []struct {
+			Profile   string  `json:"profile"`
+			CostDelta float64 `json:"cost_delta"`
+		} `json:"alternatives"`
+	}
+	if err := json.Unmarshal([]byte(out), &d); err != nil {
+		t.Fatal(err)
+	}
+	if len(d.Alternatives) != 2 {
+		t.Fatalf("%d alternatives, want 2", len(d.Alternatives))
+	}
+	seen := map[string]bool{d.Profile: true}
+	for _, a := range d.Alternatives {
+		if seen[a.Profile] || a.CostDelta < -2e-3*d.Totals.Cost {
+			t.Errorf("alternative %s (delta %.2f) repeats a profile or beats the plan %s", a.Profile, a.CostDelta, d.Profile)
+		}
+		seen[a.Profile] = true
+	}
+	if code, _, _ := runCLI(t, "plan", "--route", fs.Routes[2], "--aircraft", "demo-narrowbody", "--mass", "70000", "--alternatives", "-1"); code != 2 {
+		t.Errorf("--alternatives -1: exit %d, want 2", code)
+	}
+}

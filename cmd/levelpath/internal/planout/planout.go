@@ -43,6 +43,22 @@ type Doc struct {
 	SearchNodes   int         `json:"search_nodes,omitempty"`
 	SearchEdges   int         `json:"search_edges,omitempty"`
 	Assessed      bool        `json:"assessed"`
+	// Alternatives are present when they were asked for (plan
+	// --alternatives K).
+	Alternatives []Alternative `json:"alternatives,omitempty"`
+}
+
+// Alternative is one of the next-cheapest distinct profiles.
+type Alternative struct {
+	Profile     string   `json:"profile"`
+	CostDelta   float64  `json:"cost_delta"`
+	FuelKg      float64  `json:"fuel_kg"`
+	TimeMin     float64  `json:"time_min"`
+	Cost        float64  `json:"cost"`
+	MinMarginG  *float64 `json:"min_margin_g"`
+	InitialFL   int      `json:"initial_fl"`
+	StepsCount  int      `json:"steps"`
+	LandingMass float64  `json:"landing_mass_kg"`
 }
 
 // Totals sums the flight.
@@ -148,6 +164,11 @@ func FromPlan(p *optimizer.Plan, assessed bool) *Doc {
 	d.Violations = []Violation{}
 	for _, v := range p.Violations {
 		d.Violations = append(d.Violations, Violation{Leg: v.Leg, Limit: string(v.Limit), By: v.By, Unit: v.Unit, Detail: v.Detail})
+	}
+	for _, a := range p.Alternatives {
+		d.Alternatives = append(d.Alternatives, Alternative{Profile: a.Profile.String(), CostDelta: a.CostDelta,
+			FuelKg: a.Totals.Fuel, TimeMin: a.Totals.Time / 60, Cost: a.Totals.Cost, MinMarginG: Number(a.MinMargin),
+			InitialFL: a.Profile.Initial, StepsCount: len(a.Profile.Changes), LandingMass: a.Totals.LandingMass})
 	}
 	if !assessed {
 		d.SearchCost = Number(p.SearchCost)
