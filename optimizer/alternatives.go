@@ -124,7 +124,6 @@ func massAt(plan *Plan, x float64) float64 {
 	return plan.Totals.LandingMass
 }
 
-
 func (g *levelGraph) out(id int64) map[int64]float64 {
 	if es, ok := g.edges[id]; ok {
 		return es
