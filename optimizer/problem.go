@@ -198,23 +198,20 @@ func (p *Problem) normalise() ([]string, error) {
 	}
 	a := p.Aircraft
 	m := p.TakeoffMass
-	if !(m > 0) || math.IsInf(m, 0) {
+	if !(m > 0) {
 		return nil, inputErrorf("TakeoffMass", "take-off mass %v kg is not a positive number", m)
 	}
-	if err := a.CheckMass(m); err != nil {
-		return nil, &InputError{Field: "TakeoffMass", Msg: err.Error(), Err: err}
+	if _, _, err := (Loading{TakeoffMass: m}).Resolve(a); err != nil {
+		return nil, err
 	}
-	if m > a.MTOW {
-		return nil, inputErrorf("TakeoffMass", "take-off mass %.0f kg is over MTOW %.0f kg", m, a.MTOW)
-	}
-	if math.IsNaN(p.CI) || p.CI < 0 || p.CI > 10000 {
-		return nil, inputErrorf("CI", "cost index %v kg/min must lie in 0..10000", p.CI)
+	if err := CheckCI(p.CI); err != nil {
+		return nil, &InputError{Field: "CI", Msg: err.Error()}
 	}
 	if p.Floor == 0 {
-		p.Floor = 1.3
+		p.Floor = DefaultFloor
 	}
-	if !(p.Floor >= 1 && p.Floor <= 2.5) {
-		return nil, inputErrorf("Floor", "protection floor %v g must lie in 1.0..2.5", p.Floor)
+	if err := CheckFloor(p.Floor); err != nil {
+		return nil, &InputError{Field: "Floor", Msg: err.Error()}
 	}
 	if p.Speed.Kind == SpeedFixed && !(p.Speed.Mach >= 0.3 && p.Speed.Mach <= a.MMO) {
 		return nil, inputErrorf("Speed.Mach", "Mach %.3f is outside 0.30..MMO %.3f", p.Speed.Mach, a.MMO)

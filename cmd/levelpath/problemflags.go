@@ -106,25 +106,18 @@ func (f *problemFlags) problem(c *cobra.Command, wx *winds.Field, stderr io.Writ
 		return nil, badInputf("--route is required")
 	}
 	p := &optimizer.Problem{Aircraft: a, Weather: wx, CI: f.ci, Floor: f.floor, MinFL: f.minFL, MaxFL: f.maxFL, MassBucket: f.bucketKg}
-	massSet := c.Flags().Changed("mass")
-	switch {
-	case massSet && (f.zfw != 0 || f.fuel != 0):
-		return nil, badInputf("give either --mass or --zfw with --fuel, not both")
-	case massSet:
-		p.TakeoffMass = f.mass
-	case f.zfw > 0 && f.fuel > 0:
-		if f.zfw > a.MZFW {
-			return nil, badInputf("--zfw %.0f kg is over MZFW %.0f kg of %s", f.zfw, a.MZFW, a.Name)
-		}
-		if f.fuel > a.FuelCapacity {
-			return nil, badInputf("--fuel %.0f kg is over the fuel capacity %.0f kg of %s", f.fuel, a.FuelCapacity, a.Name)
-		}
-		p.TakeoffMass, p.ZFW = f.zfw+f.fuel, f.zfw
-	default:
+	if c.Flags().Changed("mass") && !(f.mass > 0) {
+		return nil, badInputf("--mass %v: want a take-off mass in kg", f.mass)
+	}
+	if f.mass == 0 && (f.zfw > 0) != (f.fuel > 0) || f.mass == 0 && f.zfw == 0 && f.fuel == 0 {
 		return nil, badInputf("--mass (kg) or both --zfw and --fuel are required")
 	}
-	if p.TakeoffMass > a.MTOW {
-		return nil, badInputf("take-off mass %.0f kg is over MTOW %.0f kg of %s", p.TakeoffMass, a.MTOW, a.Name)
+	if err := checkFloorFlag(f.floor); err != nil {
+		return nil, err
+	}
+
+	if p.TakeoffMass, p.ZFW, err = (optimizer.Loading{TakeoffMass: f.mass, ZFW: f.zfw, Fuel: f.fuel}).Resolve(a); err != nil {
+		return nil, badInput(err)
 	}
 	if f.depart != "" {
 		t, err := time.Parse(time.RFC3339, f.depart)
@@ -247,10 +240,10 @@ func parseTurbulence(s string) ([]optimizer.TurbulenceRule, error) {
 		r := optimizer.TurbulenceRule{EDR: edr}
 		if v == "closed" {
 			r.Closed = true
-		} else if fl, err := strconv.ParseFloat(v, 64); err == nil && fl >= 1 && fl <= 2.5 {
+		} else if fl, err := strconv.ParseFloat(v, 64); err == nil && optimizer.CheckFloor(fl) == nil {
 			r.Floor = fl
 		} else {
-			return nil, badInputf("--turbulence %q: item %q: floor must be 1.0..2.5 g or closed", s, part)
+			return nil, badInputf("--turbulence %q: item %q: floor must be %.1f..%.1f g or closed", s, part, optimizer.MinFloor, optimizer.MaxFloor)
 		}
 		out = append(out, r)
 	}
@@ -302,4 +295,12 @@ func stepRules(maxStepFt int, descents bool, minStepNM float64, maxSteps int, no
 		minStep = -1 // no minimum
 	}
 	return optimizer.StepRules{MaxChange: maxStepFt, AllowDescent: descents, MinDistance: minStep, MaxSteps: maxSteps, NoSteps: none}, nil
+}
+
+// checkFloorFlag checks --floor with the optimizer's one floor range.
+func checkFloorFlag(g float64) error {
+	if err := optimizer.CheckFloor(g); err != nil {
+		return badInputf("--floor: %v", err)
+	}
+	return nil
 }
