@@ -1,6 +1,10 @@
 package optimizer
 
-import "time"
+import (
+	"time"
+
+	"levelpath/perf"
+)
 
 // Phase names a leg's flight phase.
 type Phase string
@@ -102,8 +106,29 @@ type Violation struct {
 	Detail string
 }
 
+// Policy is the resolved planning policy a plan was made under: the
+// problem's inputs after defaults were applied, so that a plan can be
+// reproduced and compared with another.
+type Policy struct {
+	Steps          StepRules
+	MinFL, MaxFL   int
+	MassBucket     float64 // kg
+	Climb, Descent perf.Schedule
+	EndAltitude    float64 // m, pressure altitude where the climb starts and the descent ends
+	Turbulence     []TurbulenceRule
+	Blocked        []Block
+}
+
+func policyOf(q *Problem) Policy {
+	return Policy{Steps: q.Steps, MinFL: q.MinFL, MaxFL: q.MaxFL, MassBucket: q.MassBucket,
+		Climb: q.ClimbSchedule, Descent: q.DescentSchedule, EndAltitude: q.EndAltitude,
+		Turbulence: append([]TurbulenceRule(nil), q.Turbulence...), Blocked: append([]Block(nil), q.Blocked...)}
+}
+
 // Plan is a priced vertical profile.
 type Plan struct {
+	// Policy is the resolved policy the plan was made under.
+	Policy Policy
 	Aircraft    string
 	CI          float64 // kg/min
 	Floor       float64 // g
