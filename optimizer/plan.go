@@ -128,7 +128,7 @@ func policyOf(q *Problem) Policy {
 // Plan is a priced vertical profile.
 type Plan struct {
 	// Policy is the resolved policy the plan was made under.
-	Policy Policy
+	Policy      Policy
 	Aircraft    string
 	CI          float64 // kg/min
 	Floor       float64 // g
