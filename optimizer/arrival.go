@@ -124,3 +124,101 @@ func SolveArriveBy(p *Problem, target ArrivalTarget) (*Plan, ArrivalResult, erro
 	}
 	return best, res, nil
 }
+
+// DelayCost is a piecewise-linear cost of lateness: Points are (minutes
+// late, cost) pairs with minutes increasing and cost non-decreasing, for
+// example (0, 0), (15, 0), (60, 5000), (180, 40000). The cost is the first
+// point's before it, interpolated linearly between points, and continues
+// at the last segment's slope after the last point (a single point is a
+// constant).
+type DelayCost struct {
+	Minutes []float64
+	Cost    []float64
+}
+
+// Check returns an error naming the first point that breaks the rules.
+func (d DelayCost) Check() error {
+	if len(d.Minutes) == 0 || len(d.Minutes) != len(d.Cost) {
+		return inputErrorf("DelayCost", "needs one or more (minutes, cost) points")
+	}
+	for i := range d.Minutes {
+		if !finite(d.Minutes[i]) || !finite(d.Cost[i]) || d.Cost[i] < 0 {
+			return inputErrorf("DelayCost", "point %d (%v min, %v): not a finite, non-negative cost", i+1, d.Minutes[i], d.Cost[i])
+		}
+		if i > 0 && !(d.Minutes[i] > d.Minutes[i-1]) {
+			return inputErrorf("DelayCost", "point %d: minutes %v do not increase", i+1, d.Minutes[i])
+		}
+		if i > 0 && d.Cost[i] < d.Cost[i-1] {
+			return inputErrorf("DelayCost", "point %d: cost %v falls with lateness (the cost of being late is non-decreasing)", i+1, d.Cost[i])
+		}
+	}
+	return nil
+}
+
+// At returns the delay cost of arriving late minutes after schedule
+// (negative: early).
+func (d DelayCost) At(late float64) float64 {
+	n := len(d.Minutes)
+	switch {
+	case n == 0:
+		return 0
+	case n == 1 || late <= d.Minutes[0]:
+		return d.Cost[0]
+	}
+	i := 1
+	for i < n-1 && late > d.Minutes[i] {
+		i++
+	}
+	f := (late - d.Minutes[i-1]) / (d.Minutes[i] - d.Minutes[i-1])
+	return d.Cost[i-1] + f*(d.Cost[i]-d.Cost[i-1])
+}
+
+func finite(x float64) bool { return x == x && x-x == 0 }
+
+// DelayChoice is the plan chosen against a delay cost.
+type DelayChoice struct {
+	CI        float64 // kg/min
+	LateMin   float64 // minutes after the scheduled arrival (negative: early)
+	DelayCost float64
+	Total     float64 // the plan's cost (fuel + CI x time at the problem's CI) plus the delay cost
+}
+
+// SolveDelayCost plans the flight at each cost index in cis and returns
+// the plan whose objective, fuel_kg + p.CI x time_min + delay cost of its
+// arrival against sched, is least (Cook, Tanner, Williams and Meise,
+// "Dynamic cost indexing", J. Air Transport Management 2009: delay costs
+// are non-linear, so the cost index that serves best depends on how late
+// the flight is). The plan's own CI prices time in its search; p.CI, the
+// operator's value of time, prices it in the objective. The objective is
+// not unimodal in CI in general, so every candidate is planned; cis must
+// be non-empty. Ties go to the lower CI.
+//
+// Complexity: len(cis) plans.
+func SolveDelayCost(p *Problem, sched time.Time, cost DelayCost, cis []float64) (*Plan, DelayChoice, error) {
+	var best DelayChoice
+	if err := cost.Check(); err != nil {
+		return nil, best, err
+	}
+	if len(cis) == 0 {
+		return nil, best, inputErrorf("DelayCost", "no cost indices to try")
+	}
+	var bestPlan *Plan
+	for _, ci := range cis {
+		if err := CheckCI(ci); err != nil {
+			return nil, best, &InputError{Field: "CI", Msg: err.Error()}
+		}
+		q := *p
+		q.CI = ci
+		pl, err := Solve(&q)
+		if err != nil {
+			return nil, best, err
+		}
+		late := arrivalOf(pl).Sub(sched).Minutes()
+		dc := cost.At(late)
+		total := pl.Totals.Fuel + p.CI*pl.Totals.Time/60 + dc
+		if bestPlan == nil || total < best.Total {
+			bestPlan, best = pl, DelayChoice{CI: ci, LateMin: late, DelayCost: dc, Total: total}
+		}
+	}
+	return bestPlan, best, nil
+}

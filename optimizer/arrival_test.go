@@ -64,3 +64,42 @@ func TestSolveArriveBy(t *testing.T) {
 		}
 	}
 }
+
+func TestDelayCost(t *testing.T) {
+	d := DelayCost{Minutes: []float64{0, 15, 60}, Cost: []float64{0, 0, 4500}}
+	if err := d.Check(); err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []struct{ late, want float64 }{{-10, 0}, {0, 0}, {10, 0}, {37.5, 2250}, {60, 4500}, {90, 7500}} {
+		if got := d.At(c.late); got != c.want {
+			t.Errorf("At(%v) = %v, want %v", c.late, got, c.want)
+		}
+	}
+	for _, bad := range []DelayCost{
+		{Minutes: []float64{0, 30}, Cost: []float64{100, 50}}, // falls with lateness
+		{Minutes: []float64{10, 5}, Cost: []float64{0, 1}},
+		{},
+	} {
+		if err := bad.Check(); !IsInputError(err) {
+			t.Errorf("%+v: %v, want an input error", bad, err)
+		}
+	}
+	// A steep delay cost makes a late flight fly a higher cost index than
+	// no delay cost does; with none the lowest-cost CI is the problem's own.
+	p := arrivalProblem(t)
+	p.CI = 20
+	slow := solve(t, p)
+	sched := arrivalOf(slow).Add(-15 * time.Minute)
+	cis := []float64{0, 20, 60, 150, 300}
+	_, none, err := SolveDelayCost(p, sched, DelayCost{Minutes: []float64{0}, Cost: []float64{0}}, cis)
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, steep, err := SolveDelayCost(p, sched, DelayCost{Minutes: []float64{0, 1}, Cost: []float64{0, 500}}, cis)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if none.CI != 20 || !(steep.CI > none.CI) || steep.LateMin > none.LateMin {
+		t.Errorf("no delay cost: CI %g (want 20, the value of time itself), steep: CI %g, late %.1f min vs %.1f", none.CI, steep.CI, steep.LateMin, none.LateMin)
+	}
+}
