@@ -250,7 +250,7 @@ func TestUnsupported(t *testing.T) {
 	for file, c := range map[string]struct{ want, remedy string }{
 		"g2_jpeg.grib2":     {"5.40", RepackHint},
 		"g2_ccsds.grib2":    {"5.42", RepackHint},
-		"g2_gaussian.grib2": {"3.40", "regrid to a regular latitude/longitude grid"},
+		"g2_gaussian.grib2": {"3.40", "levelpath reads only regular latitude/longitude grids"},
 	} {
 		want := c.want
 		b, err := os.ReadFile(filepath.Join(fixtures, file))
