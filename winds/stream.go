@@ -4,6 +4,7 @@ import (
 	"bufio"
 	"compress/bzip2"
 	"compress/gzip"
+	"errors"
 	"fmt"
 	"io"
 	"os"
@@ -33,19 +34,35 @@ func readMessages(r io.Reader, source string, values bool, scratch *decodeScratc
 	if err != nil {
 		return &FormatError{source, 0, 0, fmt.Sprintf("%s header: %v", kind, err)}
 	}
+	var streamErr error // the last error of the decompressor
 	readErr := func(index int, off int64, err error) error {
 		if cr.err != nil && cr.err != io.EOF {
 			return fmt.Errorf("winds: %s: read at byte %d: %w", source, cr.n, cr.err)
 		}
 		if kind != "" {
-			return &FormatError{source, index, off, fmt.Sprintf("%s stream corrupt or truncated near compressed byte %d: %v",
+			streamErr = &FormatError{source, index, off, fmt.Sprintf("%s stream corrupt or truncated near compressed byte %d: %v",
 				kind, cr.n-int64(raw.Buffered()), err)}
+			return streamErr
 		}
 		return &FormatError{source, index, off, "read: " + err.Error()}
 	}
 	if values {
 		fn = scratch.checked(fn)
 	}
+	err = scan(br, source, values, scratch, fn, readErr)
+	var fe *FormatError
+	if kind != "" && errors.As(err, &fe) && err != streamErr {
+		// A corrupt compressed stream may decode to garbage before its
+		// checksum fails: read on to the end to tell.
+		if _, derr := io.Copy(io.Discard, br); derr != nil {
+			return readErr(fe.Message, fe.Offset, derr)
+		}
+	}
+	return err
+}
+
+// scan reads the messages of the (decompressed) stream br; see readMessages.
+func scan(br *bufio.Reader, source string, values bool, scratch *decodeScratch, fn func(*Message) error, readErr func(int, int64, error) error) error {
 	buf := &scratch.msg
 	var off int64
 	for index := 1; ; index++ {
