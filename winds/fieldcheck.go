@@ -48,7 +48,7 @@ func checkFieldBudget(heads []Message, budget int64, paths []string) error {
 		n = uint64(need)
 	}
 	return &BudgetError{Source: strings.Join(paths, ", "), Need: n, Budget: uint64(budget),
-		What: fmt.Sprintf("a field of %g variables x %d levels x %d valid times x %g grid points x 4 bytes", nvars, len(levels), len(times), maxPts)}
+		What: fmt.Sprintf("a field of %.0f variables x %d levels x %d valid times x %.0f grid points x 4 bytes", nvars, len(levels), len(times), maxPts)}
 }
 
 // levelSlack is how far, in ln p, a pressure may lie outside the field's

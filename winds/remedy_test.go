@@ -1,0 +1,71 @@
+package winds
+
+import (
+	"bytes"
+	"errors"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+// TestRemediesWork runs the command that each "repack with:" remedy
+// suggests, as given, on the file that caused it (ecCodes' grib_set, when
+// installed), and checks the result decodes to the values ecCodes'
+// grib_get_data prints for the original. A remedy that suggests no
+// command must say what levelpath needs instead.
+func TestRemediesWork(t *testing.T) {
+	exe, err := exec.LookPath("grib_set")
+	dump, err2 := exec.LookPath("grib_get_data")
+	if err != nil || err2 != nil {
+		t.Skip("ecCodes tools not installed")
+	}
+	dir := t.TempDir()
+	tried := 0
+	for _, name := range allFixtures(t) {
+		src := filepath.Join(fixtures, name)
+		_, err := Decode(bytes.NewReader(fixture(t, name)), name)
+		var ue *UnsupportedError
+		if !errors.As(err, &ue) {
+			continue
+		}
+		cmd, ok := strings.CutPrefix(ue.Remedy, "repack with: ")
+		if !ok {
+			if !strings.Contains(ue.Remedy, "levelpath") && ue.Remedy != remedyArea {
+				t.Errorf("%s: remedy %q neither a command nor what levelpath needs", name, ue.Remedy)
+			}
+			continue
+		}
+		args := strings.Fields(cmd)
+		if args[0] != "grib_set" || len(args) != 6 || !strings.HasPrefix(args[4], "in.") || !strings.HasPrefix(args[5], "out.") {
+			t.Fatalf("%s: unexpected command %q", name, cmd)
+		}
+		out := filepath.Join(dir, filepath.Base(name))
+		args[4], args[5] = src, out
+		if b, err := exec.Command(exe, args[1:]...).CombinedOutput(); err != nil {
+			t.Errorf("%s: %s failed: %v\n%s", name, cmd, err, b)
+			continue
+		}
+		b, err := os.ReadFile(out)
+		if err != nil {
+			t.Fatal(err)
+		}
+		ms, err := Decode(bytes.NewReader(b), out)
+		if err != nil {
+			t.Errorf("%s repacked by %q: %v", name, cmd, err)
+			continue
+		}
+		ref, err := exec.Command(dump, "-m", "NaN", "-F", "%.9g", src).Output()
+		if err != nil {
+			t.Fatalf("grib_get_data %s: %v", src, err)
+		}
+		txt := filepath.Join(dir, "ref.txt")
+		os.WriteFile(txt, ref, 0o644)
+		checkAgainstDump(t, name, txt, ms)
+		tried++
+	}
+	if tried < 2 {
+		t.Errorf("tried %d repack remedies, want at least JPEG 2000 and GRIB1 second-order", tried)
+	}
+}
