@@ -96,6 +96,16 @@ func decodeGRIB1(msg []byte, src string, index int, base int64, values bool, scr
 			return err
 		}
 		m.Grid = int(gds[5])
+		if len(gds) >= 10 {
+			// Octets 7-10 are Ni (Nx) and Nj (Ny) in the latitude/longitude,
+			// Gaussian, polar stereographic, Lambert and Mercator layouts
+			// (GRIB1 table D); 0xffff (missing) marks a reduced grid's rows.
+			for k, p := range []*int{&m.Ni, &m.Nj} {
+				if v := u16(gds[6+2*k:]); v != 0xffff {
+					*p = v
+				}
+			}
+		}
 		if m.Grid == 0 && len(gds) >= 28 && u16(gds[6:]) != 0xffff {
 			gridOK = true
 			m.Ni, m.Nj = u16(gds[6:]), u16(gds[8:])

@@ -142,7 +142,11 @@ func TestGRIB1OtherGrids(t *testing.T) {
 		b := fixture(t, filepath.Join(readerFixtures, c.file))
 		heads, err := Scan(bytes.NewReader(b), c.file)
 		if err != nil || len(heads) != 1 || heads[0].Grid != c.grid || heads[0].Edition != 1 {
-			t.Errorf("Scan %s: %+v, %v; want one message on grid type %d", c.file, heads, err, c.grid)
+			t.Fatalf("Scan %s: %+v, %v; want one message on grid type %d", c.file, heads, err, c.grid)
+		}
+		ni, _ := strconv.Atoi(keys[i][1]) // "MISSING" (a reduced grid) reads as 0
+		if nj, _ := strconv.Atoi(keys[i][2]); heads[0].Ni != ni || heads[0].Nj != nj {
+			t.Errorf("Scan %s: %dx%d, ecCodes %sx%s", c.file, heads[0].Ni, heads[0].Nj, keys[i][1], keys[i][2])
 		}
 		_, err = Decode(bytes.NewReader(b), c.file)
 		var ue *UnsupportedError
