@@ -126,7 +126,7 @@ func (o Options) OpenBetween(pLow, pHigh float64, paths ...string) (*Field, erro
 	}
 	// Every message is decoded into the same scratch buffers and copied
 	// into the field, so filling it makes no garbage.
-	scratch := &decodeScratch{reuse: true, warn: func(w Warning) {
+	scratch := &decodeScratch{reuse: true, budget: o.budget(), warn: func(w Warning) {
 		if w.Message == 0 {
 			return // padding: already warned by the header pass
 		}

@@ -3,7 +3,9 @@ package winds
 import (
 	"bufio"
 	"bytes"
+	"encoding/binary"
 	"errors"
+	"io"
 	"math"
 	"os"
 	"path/filepath"
@@ -234,5 +236,19 @@ func TestSanityWarnings(t *testing.T) {
 		if !found {
 			t.Errorf("no warning on message %d with %q in %v", c.msg, c.text, ws)
 		}
+	}
+}
+
+// TestLongMessageBudget declares a 2 MiB message under a 1 MiB budget:
+// it is refused after 1 MiB of it is read (before, the whole message was
+// buffered first, whatever its declared length).
+func TestLongMessageBudget(t *testing.T) {
+	g2 := append([]byte(nil), fixture(t, "g2_simple.grib2")[:16]...)
+	binary.BigEndian.PutUint64(g2[8:], 2<<20)
+	r := io.MultiReader(bytes.NewReader(g2), &zeroReader{2<<20 - 16})
+	_, err := Options{Budget: 1 << 20}.Decode(r, "long")
+	var be *BudgetError
+	if !errors.As(err, &be) || be.Need != 2<<20 || !strings.Contains(err.Error(), "long message 1") {
+		t.Errorf("%v, want BudgetError for a 2 MiB message", err)
 	}
 }

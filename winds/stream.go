@@ -21,7 +21,8 @@ import (
 // offsets in the decompressed stream. Runs of zero bytes before, between
 // and after messages (record padding) are skipped in constant memory with
 // a warning; any other bytes where a message should start are a
-// *FormatError.
+// *FormatError. A message longer than the budget is refused once the
+// budget's worth of it has been read.
 //
 // The indicator section of each message (its first 16 bytes) is copied out
 // of the buffered reader before the message is read, so that the edition
@@ -117,10 +118,20 @@ func scan(br *bufio.Reader, source string, values bool, scratch *decodeScratch, 
 		if length < 20 || length > 1<<40 {
 			return &FormatError{source, index, off, fmt.Sprintf("total length %d out of range", length)}
 		}
+		// A message longer than the budget is read up to the budget only:
+		// to its end if the file is truncated there, else refused.
+		limit := length
+		if b := scratch.budget; b > 0 && length > uint64(b) {
+			limit = uint64(b) + 1
+		}
 		buf.Reset()
-		n, err := buf.ReadFrom(io.LimitReader(br, int64(length)))
+		n, err := buf.ReadFrom(io.LimitReader(br, int64(limit)))
 		if err != nil {
 			return readErr(index, off, err)
+		}
+		if limit < length && uint64(n) == limit {
+			return &BudgetError{Source: fmt.Sprintf("%s message %d at byte %d", source, index, off), What: "reading the message",
+				Need: length, Budget: uint64(scratch.budget)}
 		}
 		if uint64(n) != length {
 			return &FormatError{source, index, off, fmt.Sprintf("truncated: declared length %d, %d bytes present", length, n)}
