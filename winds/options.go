@@ -28,8 +28,10 @@ type Options struct {
 	// for Decode, 4 bytes a grid point of every decoded field plus
 	// headerBytes a field; for Open, the whole Field (4 bytes a grid
 	// point, variable, level and time). It is checked before
-	// allocating; a read over it fails with a *BudgetError. 0 or less
-	// means DefaultBudget.
+	// allocating; a read over it fails with a *BudgetError. It also
+	// bounds the zero padding a read skips, and so the time spent on a
+	// compressed stream that expands to zeros. 0 or less means
+	// DefaultBudget.
 	Budget int64
 	// Warn, when not nil, receives each warning as it is found. Open's
 	// warnings are also kept in Field.Warnings; Scan and Decode keep

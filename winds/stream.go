@@ -20,7 +20,7 @@ import (
 // by the file name, and decompressed on the fly; offsets in errors are then
 // offsets in the decompressed stream. Runs of zero bytes before, between
 // and after messages (record padding) are skipped in constant memory with
-// a warning; any other bytes where a message should start are a
+// a warning, up to the budget's worth in all; any other bytes where a message should start are a
 // *FormatError. A message longer than the budget is refused once the
 // budget's worth of it has been read.
 //
@@ -54,8 +54,8 @@ func readMessages(r io.Reader, source string, values bool, scratch *decodeScratc
 	var fe *FormatError
 	if kind != "" && errors.As(err, &fe) && err != streamErr {
 		// A corrupt compressed stream may decode to garbage before its
-		// checksum fails: read on to the end to tell.
-		if _, derr := io.Copy(io.Discard, br); derr != nil {
+		// checksum fails: read on (up to the budget's worth) to tell.
+		if _, derr := io.CopyN(io.Discard, br, max(scratch.budget, 1<<20)); derr != nil && derr != io.EOF {
 			return readErr(fe.Message, fe.Offset, derr)
 		}
 	}
@@ -65,11 +65,17 @@ func readMessages(r io.Reader, source string, values bool, scratch *decodeScratc
 // scan reads the messages of the (decompressed) stream br; see readMessages.
 func scan(br *bufio.Reader, source string, values bool, scratch *decodeScratch, fn func(*Message) error, readErr func(int, int64, error) error) error {
 	buf := &scratch.msg
-	var off int64
+	var off, zeros int64
 	for index := 1; ; index++ {
 		nz, err := skipZeros(br)
 		if err != nil {
 			return readErr(index, off, err)
+		}
+		if zeros += nz; scratch.budget > 0 && zeros > scratch.budget {
+			// Not memory, but time: a small bzip2 stream can expand to
+			// terabytes of zeros.
+			return &BudgetError{Source: fmt.Sprintf("%s at byte %d", source, off), What: "skipping zero padding",
+				Need: uint64(zeros), Budget: uint64(scratch.budget)}
 		}
 		head, err := br.Peek(16)
 		if err != nil && err != io.EOF {
