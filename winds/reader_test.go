@@ -269,6 +269,13 @@ func TestZeroPadding(t *testing.T) {
 	if _, err = Decode(&zeroReader{1000}, "zeros"); !errors.As(err, &fe) || !strings.Contains(err.Error(), "no GRIB message") {
 		t.Errorf("only zeros: %v", err)
 	}
+	// The budget bounds the padding skipped (the time a bzip2 stream
+	// expanding to zeros could take).
+	_, err = Options{Budget: 1 << 20}.Decode(io.MultiReader(bytes.NewReader(g2), &zeroReader{2 << 20}), "padded")
+	var be *BudgetError
+	if !errors.As(err, &be) || !strings.Contains(err.Error(), "zero padding") {
+		t.Errorf("2 MiB of zeros under a 1 MiB budget: %v", err)
+	}
 }
 
 // TestNonRegularFiles checks that a directory, a device and a FIFO given
