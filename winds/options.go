@@ -162,7 +162,7 @@ const (
 // checked wraps fn with the sanity check of each decoded field.
 func (s *decodeScratch) checked(fn func(*Message) error) func(*Message) error {
 	return func(m *Message) error {
-		if m.Values != nil && s.warn != nil {
+		if m.Values != nil {
 			if w, bad := sanity(m); bad {
 				s.warn(w)
 			}

@@ -47,7 +47,7 @@ func readMessages(r io.Reader, source string, values bool, scratch *decodeScratc
 		}
 		return &FormatError{source, index, off, "read: " + err.Error()}
 	}
-	if values {
+	if values && scratch.warn != nil {
 		fn = scratch.checked(fn)
 	}
 	err = scan(br, source, values, scratch, fn, readErr)
