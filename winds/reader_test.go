@@ -218,7 +218,7 @@ func TestCompressed(t *testing.T) {
 			var fe *FormatError
 			kind := map[bool]string{true: "bzip2", false: "gzip"}[strings.Contains(comp, "bzip2")]
 			if !errors.As(err, &fe) || !strings.Contains(err.Error(), "bad.grib") || !strings.Contains(err.Error(), kind) ||
-				!strings.Contains(err.Error(), "compressed byte") {
+				!strings.Contains(err.Error(), "at compressed byte") {
 				t.Errorf("%s %s: %v, want FormatError naming file, %s and offset", comp, what, err, kind)
 			}
 		}

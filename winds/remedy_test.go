@@ -69,3 +69,32 @@ func TestRemediesWork(t *testing.T) {
 		t.Errorf("tried %d repack remedies, want at least JPEG 2000 and GRIB1 second-order", tried)
 	}
 }
+
+// TestReaderFixturesCurrent re-runs ecCodes' grib_get_data and grib_get on
+// the reader fixtures, when installed, and checks the committed references
+// are what it prints (testdata/winds/reader/dump.sh).
+func TestReaderFixturesCurrent(t *testing.T) {
+	if _, err := exec.LookPath("grib_get_data"); err != nil {
+		t.Skip("ecCodes tools not installed")
+	}
+	dir := filepath.Join(fixtures, readerFixtures)
+	run := func(want string, name string, args ...string) {
+		got, err := exec.Command(name, args...).Output()
+		if err != nil {
+			t.Fatalf("%s %v: %v", name, args, err)
+		}
+		ref, err := os.ReadFile(filepath.Join(dir, want))
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !bytes.Equal(got, ref) {
+			t.Errorf("%s differs from what %s prints now", want, name)
+		}
+	}
+	for _, f := range []string{"g1_area1", "g1_area2", "g1_area3", "g1_area4", "g1_area5", "g1_area6"} {
+		run(f+".txt", "grib_get_data", "-m", "NaN", "-F", "%.9g", filepath.Join(dir, f+".grib1"))
+	}
+	run("g2_area.txt", "grib_get_data", "-m", "NaN", "-F", "%.9g", filepath.Join(dir, "g2_area.grib2"))
+	run("g2_products.keys", "grib_get", "-p", "productDefinitionTemplateNumber,level,validityDate,validityTime", filepath.Join(dir, "g2_products.grib2"))
+	run("g2_longstep.keys", "grib_get", "-p", "level,validityDate,validityTime", filepath.Join(dir, "g2_longstep.grib2"))
+}

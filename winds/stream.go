@@ -41,7 +41,7 @@ func readMessages(r io.Reader, source string, values bool, scratch *decodeScratc
 			return fmt.Errorf("winds: %s: read at byte %d: %w", source, cr.n, cr.err)
 		}
 		if kind != "" {
-			streamErr = &FormatError{source, index, off, fmt.Sprintf("%s stream corrupt or truncated near compressed byte %d: %v",
+			streamErr = &FormatError{source, index, off, fmt.Sprintf("%s stream corrupt or truncated (found at compressed byte %d): %v",
 				kind, cr.n-int64(raw.Buffered()), err)}
 			return streamErr
 		}
