@@ -98,3 +98,50 @@ func TestReaderFixturesCurrent(t *testing.T) {
 	run("g2_products.keys", "grib_get", "-p", "productDefinitionTemplateNumber,level,validityDate,validityTime", filepath.Join(dir, "g2_products.grib2"))
 	run("g2_longstep.keys", "grib_get", "-p", "level,validityDate,validityTime", filepath.Join(dir, "g2_longstep.grib2"))
 }
+
+// TestCompressionHints compresses a fixture with xz, zstd and zip (when
+// installed), checks the error names the format and a command, runs that
+// command as given and decodes the result.
+func TestCompressionHints(t *testing.T) {
+	src, err := filepath.Abs(filepath.Join(fixtures, "g2_multi.grib2"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	dir := t.TempDir()
+	for _, c := range []struct{ tool, compress string }{
+		{"xz", "xz -c SRC > in.xz"},
+		{"zstd", "zstd -q -c SRC > in.zst"},
+		{"unzip", "zip -q -j in.zip SRC"},
+	} {
+		if _, err := exec.LookPath(c.tool); err != nil {
+			t.Logf("%s not installed", c.tool)
+			continue
+		}
+		sh := func(cmd string) {
+			if b, err := exec.Command("sh", "-c", "cd "+dir+" && "+cmd).CombinedOutput(); err != nil {
+				t.Fatalf("%s: %v %s", cmd, err, b)
+			}
+		}
+		os.Remove(filepath.Join(dir, "out.grib"))
+		sh(strings.ReplaceAll(c.compress, "SRC", src))
+		in := filepath.Join(dir, strings.Fields(c.compress)[len(strings.Fields(c.compress))-1])
+		if c.tool == "unzip" {
+			in = filepath.Join(dir, "in.zip")
+		}
+		_, err := ScanFile(in)
+		msg := ""
+		if err != nil {
+			msg = err.Error()
+		}
+		_, cmd, ok := strings.Cut(msg, "decompress it first with: ")
+		if !ok {
+			t.Errorf("%s: %v, want a hint to decompress", c.tool, err)
+			continue
+		}
+		sh(cmd)
+		ms, err := ScanFile(filepath.Join(dir, "out.grib"))
+		if err != nil || len(ms) != 18 {
+			t.Errorf("%s: after %q: %d messages, %v", c.tool, cmd, len(ms), err)
+		}
+	}
+}

@@ -2,6 +2,7 @@ package winds
 
 import (
 	"bufio"
+	"bytes"
 	"compress/bzip2"
 	"compress/gzip"
 	"errors"
@@ -102,6 +103,11 @@ func scan(br *bufio.Reader, source string, values bool, scratch *decodeScratch, 
 			return &FormatError{source, index, off, fmt.Sprintf("truncated indicator section: %d bytes", len(head))}
 		}
 		if string(head[:4]) != "GRIB" {
+			if off == 0 {
+				if name, cmd := otherCompression(head); name != "" {
+					return &FormatError{source, 0, 0, fmt.Sprintf("%s-compressed input, which levelpath does not decompress (it reads gzip and bzip2 itself); decompress it first with: %s", name, cmd)}
+				}
+			}
 			return &FormatError{source, index, off, fmt.Sprintf("wrong magic %q, want \"GRIB\"", head[:4])}
 		}
 		// Copy the indicator section: head aliases the reader's buffer,
@@ -258,4 +264,21 @@ func (o Options) ScanFile(path string) ([]Message, error) {
 	}
 	defer f.Close()
 	return o.Scan(f, path)
+}
+
+// otherCompression names the compression or archive format whose magic
+// bytes head starts with, among those levelpath does not decompress, and
+// the command that decompresses it (tested in TestCompressionHints): xz
+// (FD 37 7A 58 5A 00), Zstandard (28 B5 2F FD, RFC 8878) and zip
+// ("PK" 03 04).
+func otherCompression(head []byte) (name, cmd string) {
+	switch {
+	case bytes.HasPrefix(head, []byte{0xfd, '7', 'z', 'X', 'Z', 0}):
+		return "xz", "xz -dc in.xz > out.grib"
+	case bytes.HasPrefix(head, []byte{0x28, 0xb5, 0x2f, 0xfd}):
+		return "zstd", "zstd -dc in.zst > out.grib"
+	case bytes.HasPrefix(head, []byte{'P', 'K', 3, 4}):
+		return "zip", "unzip -p in.zip > out.grib"
+	}
+	return "", ""
 }
