@@ -117,6 +117,9 @@ func (o Options) OpenBetween(pLow, pHigh float64, paths ...string) (*Field, erro
 			kept = append(kept, m)
 		}
 	}
+	if err := unreadableGrid(kept); err != nil {
+		return nil, err
+	}
 	if err := checkFieldBudget(kept, o.budget(), paths); err != nil {
 		return nil, err
 	}

@@ -132,3 +132,27 @@ func (f *Field) windSanity(heads []Message) []Warning {
 	}
 	return out
 }
+
+// unreadableGrid returns the error Decode would give for the first kept
+// field on a grid the decoders do not read (a grid other than regular
+// latitude/longitude), so that Open names it rather than a grid mismatch
+// with the other fields.
+func unreadableGrid(heads []Message) error {
+	for i := range heads {
+		m := &heads[i]
+		if m.Param == ParamOther || m.Grid == 0 && m.Ni > 0 {
+			continue
+		}
+		what := fmt.Sprintf("grid definition template 3.%d (only 3.0 regular lat/lon)", m.Grid)
+		switch {
+		case m.Edition == 1 && m.Grid < 0:
+			what = "GRIB1 predefined grid (no grid description section)"
+		case m.Edition == 1:
+			what = fmt.Sprintf("GRIB1 grid (data representation type %d, GRIB1 table 6; only 0 regular lat/lon)", m.Grid)
+		case m.Grid == 0:
+			what = "grid definition with a list of numbers of points (quasi-regular grid)"
+		}
+		return &UnsupportedError{m.Source, m.Index, m.Offset, what, remedyRegrid}
+	}
+	return nil
+}

@@ -46,7 +46,7 @@ func decodeGRIB1(msg []byte, src string, index int, base int64, values bool, scr
 	if err != nil {
 		return err
 	}
-	m := Message{Source: src, Index: index, Edition: 1, Discipline: -1, Product: -1, Ensemble: -1,
+	m := Message{Source: src, Index: index, Offset: base, Edition: 1, Discipline: -1, Product: -1, Ensemble: -1,
 		Category: int(pds[3]), Number: int(pds[8]), LevelType: int(pds[9]), Level: math.NaN()}
 	if m.LevelType == LevelIsobaric {
 		m.Level = float64(u16(pds[10:])) * 100 // hPa to Pa

@@ -256,7 +256,7 @@ func (d *grib2Decoder) productDefinition(s []byte) error {
 	d.productOK = false
 	c := &d.cur
 	c.Edition = 2
-	c.Source, c.Index = d.src, d.index
+	c.Source, c.Index, c.Offset = d.src, d.index, d.base
 	c.Discipline = d.discipline
 	c.Product = u16(s[7:])
 	c.Category, c.Number = int(s[9]), int(s[10])

@@ -252,3 +252,22 @@ func TestLongMessageBudget(t *testing.T) {
 		t.Errorf("%v, want BudgetError for a 2 MiB message", err)
 	}
 }
+
+// TestOpenUnreadableGrid opens a regular and a Gaussian (template 3.40)
+// file together: the error names the Gaussian message and says which grid
+// levelpath needs, rather than that the grids differ.
+func TestOpenUnreadableGrid(t *testing.T) {
+	for _, order := range [][]string{{"g2_simple.grib2", "g2_gaussian.grib2"}, {"g2_gaussian.grib2", "g2_simple.grib2"}} {
+		_, err := Open(filepath.Join(fixtures, order[0]), filepath.Join(fixtures, order[1]))
+		var ue *UnsupportedError
+		if !errors.As(err, &ue) || !strings.Contains(err.Error(), "g2_gaussian.grib2: message 1") || !strings.Contains(err.Error(), "3.40") ||
+			ue.Remedy != remedyRegrid {
+			t.Errorf("%v: %v, want UnsupportedError naming the Gaussian grid", order, err)
+		}
+	}
+	_, err := Open(filepath.Join(fixtures, readerFixtures, "g1_gaussian.grib1"))
+	var ue *UnsupportedError
+	if !errors.As(err, &ue) || !strings.Contains(err.Error(), "data representation type 4") {
+		t.Errorf("GRIB1 Gaussian: %v", err)
+	}
+}

@@ -37,6 +37,7 @@ const LevelIsobaric = 100
 type Message struct {
 	Source  string // name given to Scan or Decode
 	Index   int    // 1-based message number in the file
+	Offset  int64  // byte offset of the message in the (decompressed) file
 	Edition int    // 1 or 2
 
 	// GRIB2: discipline, parameter category and number (code tables 0.0,

@@ -163,6 +163,7 @@ func TestConcatenated(t *testing.T) {
 			}
 			for i := range ms {
 				ms[i].Index += countMessages(want)
+				ms[i].Offset += int64(len(stream))
 			}
 			want = append(want, ms...)
 			stream = append(stream, fixture(t, n)...)
