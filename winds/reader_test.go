@@ -241,7 +241,7 @@ func (z *zeroReader) Read(p []byte) (int, error) {
 	return len(p), nil
 }
 
-// TestZeroPadding skips 256 MiB of zero bytes between two messages and
+// TestZeroPadding skips 64 MiB of zero bytes between two messages and
 // after them with a warning each, in bounded memory (before, zero bytes
 // were either buffered whole or rejected as a wrong magic); other bytes
 // between messages are refused.
@@ -250,17 +250,17 @@ func TestZeroPadding(t *testing.T) {
 	var before, after runtimeStats
 	before.read()
 	var warns []Warning
-	ms, err := Options{Warn: func(w Warning) { warns = append(warns, w) }}.Decode(io.MultiReader(bytes.NewReader(g2), &zeroReader{256 << 20},
-		bytes.NewReader(g2), &zeroReader{256 << 20}), "padded")
+	ms, err := Options{Warn: func(w Warning) { warns = append(warns, w) }}.Decode(io.MultiReader(bytes.NewReader(g2), &zeroReader{64 << 20},
+		bytes.NewReader(g2), &zeroReader{64 << 20}), "padded")
 	after.read()
 	if err != nil || len(ms) != 2 || ms[1].Index != 2 {
 		t.Fatalf("%d messages, %v", len(ms), err)
 	}
-	if len(warns) != 2 || !strings.Contains(warns[0].String(), "skipped 268435456 zero bytes") || warns[1].Offset != int64(2*len(g2)+256<<20) {
+	if len(warns) != 2 || !strings.Contains(warns[0].String(), "skipped 67108864 zero bytes") || warns[1].Offset != int64(2*len(g2)+64<<20) {
 		t.Errorf("warnings %v", warns)
 	}
 	if d := after.alloc - before.alloc; d > 16<<20 {
-		t.Errorf("skipping 512 MiB of zeros allocated %d bytes", d)
+		t.Errorf("skipping 128 MiB of zeros allocated %d bytes", d)
 	}
 	_, err = Decode(bytes.NewReader(append(append(append([]byte(nil), g2...), 0, 0, 'x'), g2...)), "junk")
 	var fe *FormatError
