@@ -280,6 +280,9 @@ func (p *Problem) normalise() ([]string, error) {
 		if !p.Weather.Has(winds.ParamT) {
 			warn = append(warn, "the weather has no temperature: ISA temperature assumed")
 		}
+		for _, w := range p.Weather.Warnings() {
+			warn = append(warn, "weather: "+w.String())
+		}
 	}
 	return warn, nil
 }

@@ -134,6 +134,7 @@ func newBatchCmd() *cobra.Command {
 		schedule, out, sweep, shard, chartPath string
 		weather                                []string
 		workers, shardCount                    int
+		budgetMiB                              int64
 		resume                                 bool
 		maxSegNM                               float64
 		maxStepFt, maxSteps                    int
@@ -154,6 +155,7 @@ func newBatchCmd() *cobra.Command {
 	fl.StringVar(&schedule, "schedule", "", "schedule CSV: flight,departure,route,aircraft,tow_kg,ci (+ zfw_kg,fuel_kg,floor_g,levels,speed)")
 	fl.StringArrayVar(&weather, "weather", nil, "GRIB2/GRIB1 weather file (repeatable), decoded once and shared")
 	fl.StringVar(&out, "out", "", "output directory")
+	weatherBudgetFlag(c, &budgetMiB)
 	fl.IntVar(&workers, "workers", 0, "parallel planners (default: one per CPU)")
 	fl.StringVar(&sweep, "ci-sweep", "", "plan every flight at each cost index, e.g. 0,20,50,100")
 	fl.StringVar(&shard, "shard", "", "plan only shard K/N of the flights (0-based K); also read from JOB_COMPLETION_INDEX with --shard-count, or SLURM_ARRAY_TASK_ID/SLURM_ARRAY_TASK_COUNT")
@@ -215,7 +217,7 @@ func newBatchCmd() *cobra.Command {
 		if err != nil {
 			return badInput(err)
 		}
-		wx, err := loadWeather(weather)
+		wx, err := loadWeather(weather, budgetMiB)
 		if err != nil {
 			return err
 		}

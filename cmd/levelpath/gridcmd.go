@@ -128,6 +128,7 @@ type sampleJSON struct {
 func newGridSampleCmd() *cobra.Command {
 	var at, tm string
 	var hpa, fl float64
+	var budgetMiB int64
 	c := &cobra.Command{
 		Use:     "sample FILE...",
 		Short:   "Sample wind, temperature and EDR at a point, pressure (or flight level) and time",
@@ -136,6 +137,7 @@ func newGridSampleCmd() *cobra.Command {
 	}
 	format := formatFlag(c, "table", "json")
 	c.Flags().StringVar(&at, "at", "", "point LAT,LON in degrees")
+	weatherBudgetFlag(c, &budgetMiB)
 	c.Flags().Float64Var(&hpa, "hpa", 0, "pressure level, hPa")
 	c.Flags().Float64Var(&fl, "fl", 0, "flight level (converted with the ICAO standard atmosphere)")
 	c.Flags().StringVar(&tm, "time", "", "valid time, RFC3339 (default: the first valid time)")
@@ -165,9 +167,12 @@ func newGridSampleCmd() *cobra.Command {
 			}
 			p = perf.FLToPressure(fl)
 		}
-		field, err := openWeather(args, 0, math.Inf(1)) // every level, not only the cruise band
+		field, err := openWeather(args, 0, math.Inf(1), budgetMiB) // every level, not only the cruise band
 		if err != nil {
 			return err
+		}
+		for _, w := range field.Warnings() {
+			warnf(cmd.ErrOrStderr(), "%s", w)
 		}
 		t := field.Times()[0]
 		if tm != "" {

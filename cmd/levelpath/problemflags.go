@@ -41,6 +41,7 @@ type problemFlags struct {
 	turb        string
 	bucketKg    float64
 	date        string
+	budgetMiB   int64
 }
 
 func (f *problemFlags) register(c *cobra.Command) {
@@ -68,27 +69,36 @@ func (f *problemFlags) register(c *cobra.Command) {
 	fl.StringVar(&f.turb, "turbulence", "", "EDR rules: EDR:FLOOR or EDR:closed, comma-separated (default 0.20:1.5,0.45:closed)")
 	fl.Float64Var(&f.bucketKg, "mass-bucket-kg", 0, "mass bucket of the search, kg (default 0.25 % of MTOW)")
 	fl.StringVar(&f.date, "date", "", "date for magnetic variation, YYYY-MM-DD (default: departure date)")
+	weatherBudgetFlag(c, &f.budgetMiB)
 }
 
 // loadWeather opens the weather files for planning (nil when none).
 // Cruise levels lie between FL050 and FL600: it keeps those pressure
 // levels (and one beyond each end) and drops the rest of a full forecast.
-func loadWeather(paths []string) (*winds.Field, error) {
+func loadWeather(paths []string, budgetMiB int64) (*winds.Field, error) {
 	if len(paths) == 0 {
 		return nil, nil
 	}
-	return openWeather(paths, perf.FLToPressure(600), perf.FLToPressure(50))
+	return openWeather(paths, perf.FLToPressure(600), perf.FLToPressure(50), budgetMiB)
+}
+
+// weatherBudgetFlag registers --weather-budget-mib on c.
+func weatherBudgetFlag(c *cobra.Command, v *int64) {
+	c.Flags().Int64Var(v, "weather-budget-mib", winds.DefaultBudget>>20, "memory the decoded weather may take, MiB; larger inputs are refused before decoding")
 }
 
 // openWeather opens the weather files keeping the levels from pLow to
-// pHigh (Pa); a missing file is named.
-func openWeather(paths []string, pLow, pHigh float64) (*winds.Field, error) {
+// pHigh (Pa) within a memory budget (MiB); a missing file is named.
+func openWeather(paths []string, pLow, pHigh float64, budgetMiB int64) (*winds.Field, error) {
+	if budgetMiB <= 0 || budgetMiB > 1<<24 {
+		return nil, badInputf("--weather-budget-mib %d: want 1..%d", budgetMiB, 1<<24)
+	}
 	for _, p := range paths {
 		if _, err := os.Stat(p); err != nil {
 			return nil, badInputf("weather file %s: %v", p, err)
 		}
 	}
-	f, err := winds.OpenBetween(pLow, pHigh, paths...)
+	f, err := winds.Options{Budget: budgetMiB << 20}.OpenBetween(pLow, pHigh, paths...)
 	if err != nil {
 		return nil, badInput(err)
 	}
