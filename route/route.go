@@ -104,7 +104,7 @@ const (
 	// MaxPoints bounds the waypoints of one route (checked while parsing,
 	// before the route is built); a flight plan's route has a few hundred.
 	MaxPoints = 5000
-	MaxLeg      = 10_000e3 // m; longer legs must be split by the user
+	MaxLeg    = 10_000e3 // m; longer legs must be split by the user
 	// MaxLegAngle is the largest great-circle angle (degrees) of a leg;
 	// beyond it the shortest path is nearly antipodal and ill-determined.
 	MaxLegAngle = 170.0
