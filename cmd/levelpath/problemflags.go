@@ -5,6 +5,7 @@ import (
 	"io"
 	"math"
 	"os"
+	"slices"
 	"strconv"
 	"strings"
 	"time"
@@ -86,8 +87,12 @@ func loadWeather(paths []string) (*winds.Field, error) {
 // pHigh (Pa); a missing file is named.
 func openWeather(paths []string, pLow, pHigh float64) (*winds.Field, error) {
 	for _, p := range paths {
-		if _, err := os.Stat(p); err != nil {
-			return nil, badInputf("weather file %s: %v", p, err)
+		fi, err := os.Stat(p)
+		if err != nil {
+			return nil, badInputf("weather file %s: %w", p, err)
+		}
+		if err := regularFile("weather file", p, fi); err != nil {
+			return nil, err
 		}
 	}
 	f, err := winds.OpenBetween(pLow, pHigh, paths...)
@@ -97,9 +102,35 @@ func openWeather(paths []string, pLow, pHigh float64) (*winds.Field, error) {
 	return f, nil
 }
 
+// regularFile refuses an input that is not a regular file (a FIFO would
+// block the read, a device never end, a directory hold no data) before
+// anything opens it.
+func regularFile(what, path string, fi os.FileInfo) error {
+	if fi.Mode().IsRegular() {
+		return nil
+	}
+	kind := "not a regular file"
+	switch m := fi.Mode(); {
+	case m.IsDir():
+		kind = "a directory"
+	case m&os.ModeNamedPipe != 0:
+		kind = "a named pipe (FIFO)"
+	case m&os.ModeDevice != 0:
+		kind = "a device"
+	}
+	return badInputf("%s %s is %s; want a regular file", what, path, kind)
+}
+
 // problem builds the optimizer problem from the flags, with weather
 // already decoded (shared by batch runs).
 func (f *problemFlags) problem(c *cobra.Command, wx *winds.Field, stderr io.Writer) (*optimizer.Problem, error) {
+	if !slices.Contains(perf.BuiltinNames(), f.aircraft) {
+		if fi, err := os.Stat(f.aircraft); err == nil {
+			if err := regularFile("aircraft file", f.aircraft, fi); err != nil {
+				return nil, err
+			}
+		}
+	}
 	a, err := loadAircraft(f.aircraft)
 	if err != nil {
 		return nil, err
