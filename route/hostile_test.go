@@ -3,6 +3,7 @@ package route
 import (
 	"errors"
 	"fmt"
+	"math"
 	"os"
 	"path/filepath"
 	"runtime"
@@ -111,5 +112,25 @@ func TestErrorsQuoteLittle(t *testing.T) {
 	}
 	if _, err := ParseInline("1,2 " + secret + ",x"); err == nil || strings.Contains(err.Error(), secret[maxExcerpt/2:]) {
 		t.Errorf("inline: %v", err)
+	}
+}
+
+// TestBuildOptionNumbers: non-finite or out-of-model option numbers are
+// refused with an error, not turned into NaN courses: the magnetic height
+// must lie in the WMM2025's -1 to 850 km (its report, Sec. 1) and the
+// segment length be positive and finite.
+func TestBuildOptionNumbers(t *testing.T) {
+	r, err := ParseInline("50,-30 50,-20")
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, o := range []Options{
+		{MagAltitude: math.NaN()}, {MagAltitude: math.Inf(1)}, {MagAltitude: 851e3}, {MagAltitude: -2e3},
+		{MaxSegment: math.NaN()}, {MaxSegment: math.Inf(1)}, {MaxSegment: -1}, {MaxSegment: 1e-300},
+	} {
+		o.Date = testDate
+		if tr, err := Build(r, o); err == nil {
+			t.Errorf("%+v: accepted, %d segments", o, len(tr.Segments))
+		}
 	}
 }

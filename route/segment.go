@@ -135,6 +135,11 @@ func Build(r *Route, opt Options) (*Track, error) {
 	if !(maxSeg > 0) || math.IsInf(maxSeg, 0) {
 		return nil, fmt.Errorf("route: maximum segment length %v m is not a positive finite number", opt.MaxSegment)
 	}
+	// WMM2025 report, Sec. 1: the model is valid from 1 km below the
+	// surface to 850 km above it.
+	if !(opt.MagAltitude >= -1e3 && opt.MagAltitude <= 850e3) {
+		return nil, &FormatError{Source: "route options", Msg: fmt.Sprintf("magnetic-variation height %v m is outside WMM2025's -1000 to 850000 m", opt.MagAltitude)}
+	}
 	date := opt.Date
 	if date.IsZero() {
 		date = time.Now()
