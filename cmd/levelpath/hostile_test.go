@@ -121,3 +121,27 @@ func TestNumberFlags(t *testing.T) {
 		t.Errorf("--date 0001-01-01: exit %d, %q", code, errs)
 	}
 }
+
+// TestRouteSizeCLI: the 60,000-waypoint CSV route (1.7 MB) that ran plan
+// out of memory, and a route needing more than route.MaxSegments
+// segments, are refused as bad input with the limit named.
+func TestRouteSizeCLI(t *testing.T) {
+	var b strings.Builder
+	b.WriteString("name,lat,lon\n")
+	for i := range 60000 {
+		f := float64(i) / 59999
+		fmt.Fprintf(&b, "W%d,%.6f,%.6f\n", i, 44.6+6.4*f, -74.2+73.2*f)
+	}
+	big := filepath.Join(t.TempDir(), "big.csv")
+	if err := os.WriteFile(big, []byte(b.String()), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	args := []string{"plan", "--aircraft", "demo-widebody", "--mass", "231000"}
+	if code, _, errs := runCLI(t, append(args, "--route", big)...); code != 2 || !strings.Contains(errs, "limit of 5000 points") {
+		t.Errorf("60,000 points: exit %d, %q", code, errs)
+	}
+	// Two legs of 89 degrees of arc on the equator, 10,690 NM, at 1 NM.
+	if code, _, errs := runCLI(t, append(args, "--route", "0,-89 0,0 0,89", "--max-seg-nm", "1")...); code != 2 || !strings.Contains(errs, "10000 segments") {
+		t.Errorf("10,690 segments: exit %d, %q", code, errs)
+	}
+}
