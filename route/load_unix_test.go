@@ -33,3 +33,20 @@ func TestLoadNotRegular(t *testing.T) {
 		}
 	}
 }
+
+// TestLoadProcEnviron: Linux's /proc/self/environ (a regular file of size
+// 0 holding the whole environment, NUL-separated) gives an error quoting
+// at most a short excerpt of it.
+func TestLoadProcEnviron(t *testing.T) {
+	const p = "/proc/self/environ"
+	_, err := Load(p)
+	if err == nil {
+		t.Fatal("environment parsed as a route")
+	}
+	if strings.Contains(err.Error(), "no such file") {
+		t.Skip("no /proc/self/environ")
+	}
+	if msg := err.Error(); len(msg) > 160 {
+		t.Errorf("error of %d bytes echoes the environment: %.300s", len(msg), msg)
+	}
+}
