@@ -72,7 +72,7 @@ type Track struct {
 // Options control Build.
 type Options struct {
 	MaxSegment  float64   // m; 0 means DefaultMaxSegment
-	Date        time.Time // date for magnetic variation; zero means now
+	Date        time.Time // date for magnetic variation (required; no wall-clock default)
 	Levels      LevelRule // zero value means the default rule (see ParseLevelRule)
 	MagAltitude float64   // m above the ellipsoid at which variation is taken; 0 = surface, as charted
 	// Polar is the course the magnetic level rule uses where the compass
@@ -142,7 +142,7 @@ func Build(r *Route, opt Options) (*Track, error) {
 	}
 	date := opt.Date
 	if date.IsZero() {
-		date = time.Now()
+		return nil, fmt.Errorf("route: Options.Date is required: the magnetic variation and so the level rule depend on it")
 	}
 	wmm, err := wmmAt(date)
 	if err != nil {

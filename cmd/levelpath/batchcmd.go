@@ -325,6 +325,6 @@ func printBatchSummary(w io.Writer, format string, s batch.Summary) error {
 		fmt.Fprintf(tw, "%g\t%d\t%d\t%.0f\t%.1f\t%.0f\t%.1f\t\n", b.CI, b.Flights, b.Failed, b.FuelKg, b.TimeMin/60, b.Cost, b.CO2Kg/1000)
 	}
 	tw.Flush()
-	fmt.Fprintf(w, "\n%s\n", cautionText)
+	fmt.Fprintf(w, "\n%s\n", "Caution: "+optimizer.Caution)
 	return nil
 }

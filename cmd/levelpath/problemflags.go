@@ -139,36 +139,21 @@ func (f *problemFlags) problem(c *cobra.Command, wx *winds.Field, stderr io.Writ
 		return nil, badInputf("--route is required")
 	}
 	p := &optimizer.Problem{Aircraft: a, Weather: wx, CI: f.ci, Floor: f.floor, MinFL: f.minFL, MaxFL: f.maxFL, MassBucket: f.bucketKg}
-	massSet := c.Flags().Changed("mass")
-	for _, m := range []struct {
-		flag string
-		v    float64
-	}{{"zfw", f.zfw}, {"fuel", f.fuel}} {
-		if c.Flags().Changed(m.flag) && !(m.v > 0 && m.v < 1e7) {
-			return nil, badInputf("--%s %g: want a positive mass in kg", m.flag, m.v)
-		}
-	}
 	if f.minFL != 0 && (f.minFL < 1 || f.minFL > 600) || f.maxFL != 0 && (f.maxFL < 1 || f.maxFL > 600) {
 		return nil, badInputf("--min-fl %d, --max-fl %d: each must be 0 (the default) or a flight level 1..600", f.minFL, f.maxFL)
 	}
-	switch {
-	case massSet && (f.zfw != 0 || f.fuel != 0):
-		return nil, badInputf("give either --mass or --zfw with --fuel, not both")
-	case massSet:
-		p.TakeoffMass = f.mass
-	case f.zfw > 0 && f.fuel > 0:
-		if f.zfw > a.MZFW {
-			return nil, badInputf("--zfw %.6g kg is over MZFW %.0f kg of %s", f.zfw, a.MZFW, a.Name)
-		}
-		if f.fuel > a.FuelCapacity {
-			return nil, badInputf("--fuel %.6g kg is over the fuel capacity %.0f kg of %s", f.fuel, a.FuelCapacity, a.Name)
-		}
-		p.TakeoffMass, p.ZFW = f.zfw+f.fuel, f.zfw
-	default:
+	if c.Flags().Changed("mass") && !(f.mass > 0) {
+		return nil, badInputf("--mass %v: want a take-off mass in kg", f.mass)
+	}
+	if f.mass == 0 && (f.zfw > 0) != (f.fuel > 0) || f.mass == 0 && f.zfw == 0 && f.fuel == 0 {
 		return nil, badInputf("--mass (kg) or both --zfw and --fuel are required")
 	}
-	if p.TakeoffMass > a.MTOW {
-		return nil, badInputf("take-off mass %.6g kg is over MTOW %.0f kg of %s", p.TakeoffMass, a.MTOW, a.Name)
+	if err := checkFloorFlag(f.floor); err != nil {
+		return nil, err
+	}
+
+	if p.TakeoffMass, p.ZFW, err = (optimizer.Loading{TakeoffMass: f.mass, ZFW: f.zfw, Fuel: f.fuel}).Resolve(a); err != nil {
+		return nil, badInput(err)
 	}
 	if f.depart != "" {
 		t, err := time.Parse(time.RFC3339, f.depart)
@@ -176,11 +161,11 @@ func (f *problemFlags) problem(c *cobra.Command, wx *winds.Field, stderr io.Writ
 			return nil, badInputf("--depart %q: want RFC3339 such as 2026-12-01T22:00:00Z", f.depart)
 		}
 		p.Depart = t
-	} else if wx != nil {
-		p.Depart = wx.Times()[0]
-	} else {
+	} else if wx == nil {
+		// Still air: the time only dates the plan and the magnetic variation.
 		p.Depart = time.Now().UTC().Truncate(time.Minute)
-	}
+		p.Notes = append(p.Notes, "no --depart given: the current time "+p.Depart.Format(time.RFC3339)+" assumed")
+	} // else the optimizer takes the weather's first valid time and says so
 	sp, err := optimizer.ParseSpeed(f.speed)
 	if err != nil {
 		return nil, badInputf("--speed: %v", err)
@@ -203,7 +188,11 @@ func (f *problemFlags) problem(c *cobra.Command, wx *winds.Field, stderr io.Writ
 		}
 		p.Turbulence = rules
 	}
-	tr, err := buildTrackPolar(f.route, f.levels, f.polar, f.maxSegNM, f.date, p.Depart, stderr)
+	magDate := p.Depart
+	if magDate.IsZero() {
+		magDate = wx.Times()[0]
+	}
+	tr, err := buildTrackPolar(f.route, f.levels, f.polar, f.maxSegNM, f.date, magDate, stderr)
 	if err != nil {
 		return nil, err
 	}
@@ -249,7 +238,7 @@ func buildTrackPolar(arg, levels, polar string, maxSegNM float64, date string, d
 		if err != nil {
 			return nil, badInputf("--date %q: want YYYY-MM-DD", date)
 		}
-		// 0001-01-01 is time.Time's zero, which Build reads as "now":
+		// 0001-01-01 is time.Time's zero, which Build refuses as no date:
 		// clamp every given date, that one included.
 		opt.Date = clampMagDate(d, stderr)
 	case !depart.IsZero():
@@ -287,9 +276,9 @@ func parseBlock(s string) (optimizer.Block, error) {
 	}
 	b.FromDist, b.ToDist = x*perf.NMToM, y*perf.NMToM
 	for _, l := range strings.Split(lv, ",") {
-		n, err := strconv.Atoi(strings.TrimPrefix(strings.TrimSpace(strings.ToUpper(l)), "FL"))
-		if err != nil || n < 10 || n > 600 || n%10 != 0 {
-			return b, badInputf("--block %q: level %q is not a flight level like FL370 (FL010 to FL600, steps of 10)", s, l)
+		n, err := route.ParseFL(l)
+		if err != nil {
+			return b, badInputf("--block %q: level %q %v", s, l, err)
 		}
 		b.Levels = append(b.Levels, n)
 	}
@@ -309,10 +298,10 @@ func parseTurbulence(s string) ([]optimizer.TurbulenceRule, error) {
 		v = strings.TrimSpace(v)
 		if v == "closed" {
 			r.Closed = true
-		} else if fl, err := strconv.ParseFloat(v, 64); err == nil && fl >= 1 && fl <= 2.5 {
+		} else if fl, err := strconv.ParseFloat(v, 64); err == nil && optimizer.CheckFloor(fl) == nil {
 			r.Floor = fl
 		} else {
-			return nil, badInputf("--turbulence %q: item %q: floor must be 1.0..2.5 g or closed", s, part)
+			return nil, badInputf("--turbulence %q: item %q: floor must be %.1f..%.1f g or closed", s, part, optimizer.MinFloor, optimizer.MaxFloor)
 		}
 		out = append(out, r)
 	}
@@ -364,4 +353,12 @@ func stepRules(maxStepFt int, descents bool, minStepNM float64, maxSteps int, no
 		minStep = -1 // no minimum
 	}
 	return optimizer.StepRules{MaxChange: maxStepFt, AllowDescent: descents, MinDistance: minStep, MaxSteps: maxSteps, NoSteps: none}, nil
+}
+
+// checkFloorFlag checks --floor with the optimizer's one floor range.
+func checkFloorFlag(g float64) error {
+	if err := optimizer.CheckFloor(g); err != nil {
+		return badInputf("--floor: %v", err)
+	}
+	return nil
 }

@@ -8,13 +8,15 @@ import (
 	"syscall"
 
 	"github.com/spf13/cobra"
+
+	"levelpath/optimizer"
 )
 
 // version is the program version, set at build time with
 // -ldflags "-X main.version=...".
 var version = "0.1.0-dev"
 
-// Exit codes shared by every command (DESIGN.md).
+// Exit codes shared by every command (README, "Commands"; testdata/REFERENCES.md, "Exit codes").
 const (
 	exitOK       = 0
 	exitInternal = 1
@@ -64,7 +66,7 @@ fuel plus cost-index-weighted time is least while every leg keeps its margin
 to low- and high-speed buffet and stays under the thrust-limited and
 certified ceilings.
 
-` + cautionText,
+Caution: ` + optimizer.Caution,
 		Version:       version,
 		SilenceUsage:  true,
 		SilenceErrors: true,

@@ -98,6 +98,9 @@ func newRouteCmd() *cobra.Command {
 			return err
 		}
 		dep := time.Now().UTC()
+		if date == "" {
+			warnf(cmd.ErrOrStderr(), "no --date given: magnetic variation for today, %s", dep.Format("2006-01-02"))
+		}
 		tr, err := buildTrackPolar(args[0], levels, polar, maxSeg, date, dep, cmd.ErrOrStderr())
 		if err != nil {
 			return err
