@@ -58,6 +58,7 @@ func (f *planFlags) run(cmd *cobra.Command, assessed bool, price func(*optimizer
 	if err != nil {
 		return planErr(err)
 	}
+	plan.Warnings = append(plan.Warnings, pr.Track.Warnings...) // e.g. the polar level-rule fallback
 	if err := writeCharts(f.chart, f.report, plan, pr); err != nil {
 		return err
 	}

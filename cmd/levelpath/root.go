@@ -4,6 +4,8 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"io/fs"
+	"syscall"
 
 	"github.com/spf13/cobra"
 
@@ -128,10 +130,29 @@ func run(args []string, stdout, stderr io.Writer) int {
 	var ie *inputError
 	var re *ranError
 	switch {
+	case environmentFailure(err):
+		return exitInternal // even when a command marked it as input
 	case errors.As(err, &ie):
 		return exitBadInput
 	case errors.As(err, &re):
 		return exitInternal
 	}
 	return exitBadInput // cobra rejected the command line itself
+}
+
+// environmentFailure reports whether err comes from the machine rather
+// than from the user's input: a full disk or quota, a read-only file
+// system, an I/O error, missing permissions, exhausted memory or file
+// descriptors. Such a failure exits 1 even if a command wrapped it as bad
+// input (writing a chart to a full disk is not the user's mistake).
+func environmentFailure(err error) bool {
+	if errors.Is(err, fs.ErrPermission) {
+		return true
+	}
+	for _, e := range []syscall.Errno{syscall.ENOSPC, syscall.EDQUOT, syscall.EROFS, syscall.EIO, syscall.ENOMEM, syscall.EMFILE, syscall.ENFILE} {
+		if errors.Is(err, e) {
+			return true
+		}
+	}
+	return false
 }
