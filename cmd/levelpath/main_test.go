@@ -486,7 +486,9 @@ func TestBatchStepPolicy(t *testing.T) {
 	fs := demoFiles(t)
 	out := filepath.Join(t.TempDir(), "o")
 	code, _, errs := runCLI(t, "batch", "--schedule", fs.Schedule, "--weather", fs.Weather, "--out", out, "--no-steps")
-	if code != 0 {
+	// At one constant level a demo flight lands over its MLW: infeasible,
+	// so exit 3 and a line in errors.csv (issue 13: it was status ok).
+	if code != 3 || !strings.Contains(errs, "1 infeasible") {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
 	f, err := os.Open(filepath.Join(out, "results.csv"))

@@ -42,6 +42,8 @@ type Row struct {
 	Floor     float64
 	Levels    string
 	Speed     string
+
+	digests string // of the route and aircraft files, set by Run
 }
 
 // RowError is one invalid schedule row. Bad rows are reported, not fatal:

@@ -201,11 +201,14 @@ const maxExcerpt = 40
 // excerpt returns at most maxExcerpt bytes of s (cut at a rune boundary,
 // "..." appended when cut), so that errors quote the offending field, never
 // a whole file or line.
-func excerpt(s string) string {
-	if len(s) <= maxExcerpt {
+func excerpt(s string) string { return excerptN(s, maxExcerpt) }
+
+// excerptN returns at most n bytes of s, "..." appended when cut.
+func excerptN(s string, n int) string {
+	if len(s) <= n {
 		return s
 	}
-	cut := maxExcerpt
+	cut := n
 	for cut > 0 && !utf8.RuneStart(s[cut]) {
 		cut--
 	}
