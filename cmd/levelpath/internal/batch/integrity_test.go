@@ -94,7 +94,10 @@ func TestResumeRefusesOtherShardOrFingerprint(t *testing.T) {
 	}
 	// The same shard and fingerprint resumes, planning nothing.
 	var calls atomic.Int32
-	counting := func(ctx context.Context, r Row, ci float64) (Result, error) { calls.Add(1); return fakePlan(ctx, r, ci) }
+	counting := func(ctx context.Context, r Row, ci float64) (Result, error) {
+		calls.Add(1)
+		return fakePlan(ctx, r, ci)
+	}
 	s := runOrFatal(t, rows, bad, counting, Options{Out: out, Shard: 2, Shards: 4, Meta: meta, Resume: true})
 	if calls.Load() != 0 || s.Skipped == 0 {
 		t.Errorf("same shard and fingerprint: planned %d, reused %d; want 0 planned", calls.Load(), s.Skipped)
@@ -112,7 +115,10 @@ func TestResumeReplansChangedRouteFile(t *testing.T) {
 		t.Fatal(err)
 	}
 	var calls atomic.Int32
-	counting := func(ctx context.Context, r Row, ci float64) (Result, error) { calls.Add(1); return fakePlan(ctx, r, ci) }
+	counting := func(ctx context.Context, r Row, ci float64) (Result, error) {
+		calls.Add(1)
+		return fakePlan(ctx, r, ci)
+	}
 	runOrFatal(t, rows, bad, counting, Options{Out: out, Resume: true})
 	if calls.Load() != 5 {
 		t.Errorf("after the route file changed, resume planned %d of 5 flights", calls.Load())
@@ -147,7 +153,10 @@ func TestResumeReplansDamagedPlans(t *testing.T) {
 		t.Fatal(err)
 	}
 	var calls atomic.Int32
-	counting := func(ctx context.Context, r Row, ci float64) (Result, error) { calls.Add(1); return fakePlan(ctx, r, ci) }
+	counting := func(ctx context.Context, r Row, ci float64) (Result, error) {
+		calls.Add(1)
+		return fakePlan(ctx, r, ci)
+	}
 	s := runOrFatal(t, rows, bad, counting, Options{Out: out, Resume: true})
 	if calls.Load() != 3 || s.Replanned != 3 {
 		t.Errorf("resume planned %d, Replanned %d; want the 3 damaged plans", calls.Load(), s.Replanned)
