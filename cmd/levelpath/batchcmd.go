@@ -260,11 +260,11 @@ func newBatchCmd() *cobra.Command {
 				opt.Shard, opt.Shards = k, n
 			}
 		}
-		// A second SIGINT or SIGTERM ends the process at once: stop()
-		// restores the default action once the first has cancelled ctx.
-		ctx, stop := signal.NotifyContext(cmd.Context(), os.Interrupt, syscall.SIGTERM)
-		defer stop()
-		go func() { <-ctx.Done(); stop() }()
+		// Until Run starts nothing is worth saving, so SIGINT and SIGTERM
+		// keep their default action (end the process) while the schedule
+		// is read and the weather decoded; non-regular files are refused
+		// before they are opened (batchMeta hashes each weather file
+		// first), so none of these steps blocks on a FIFO.
 		rows, bad, err := batch.ReadSchedule(schedule)
 		if err != nil {
 			return badInput(err)
@@ -273,7 +273,7 @@ func newBatchCmd() *cobra.Command {
 		if err != nil {
 			return err
 		}
-		if opt.Meta, err = batchMeta(ctx, weather, maxSegNM, steps); err != nil {
+		if opt.Meta, err = batchMeta(cmd.Context(), weather, maxSegNM, steps); err != nil {
 			return err
 		}
 		wx, err := loadWeather(weather)
@@ -284,6 +284,13 @@ func newBatchCmd() *cobra.Command {
 			warnf(cmd.ErrOrStderr(), "%s", stillAirWarning)
 		}
 		pl := &planner{wx: wx, maxSegNM: maxSegNM, steps: steps, aircraft: map[string]*perf.Aircraft{}, tracks: map[string]trackEntry{}}
+		// From here a first SIGINT or SIGTERM stops the run cleanly
+		// (records kept, see batch.Run and Options.StopGrace); a second
+		// ends the process at once: stop() restores the default action
+		// once the first has cancelled ctx.
+		ctx, stop := signal.NotifyContext(cmd.Context(), os.Interrupt, syscall.SIGTERM)
+		defer stop()
+		go func() { <-ctx.Done(); stop() }()
 		start := time.Now()
 		sum, err := batch.Run(ctx, rows, bad, pl.plan, opt)
 		if el := time.Since(start); err == nil && sum.Planned > sum.Skipped {

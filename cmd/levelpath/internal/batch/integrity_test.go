@@ -338,3 +338,20 @@ func TestFailureReasonBounded(t *testing.T) {
 		t.Errorf("errors.csv is %d bytes with %d copies of the file's text", len(data), n)
 	}
 }
+
+// Issue 17: a route that is some other file (an environment file) makes
+// the route parser quote its first line; the reason keeps 40 bytes of it.
+func TestShortenQuoted(t *testing.T) {
+	long := "SECRET_TOKEN=" + strings.Repeat("x", 100)
+	for _, c := range []struct{ in, want string }{
+		{`header "` + long + `" lacks a lat column`, `header "` + long[:40] + `..." lacks a lat column`},
+		{`a "short" b "` + long + `"`, `a "short" b "` + long[:40] + `..."`},
+		{`esc "\"` + long + `" end`, `esc "\"` + long[:38] + `..." end`},
+		{`open "` + long, `open "` + long[:40] + `...`},
+		{"no quotes", "no quotes"},
+	} {
+		if got := shortenQuoted(c.in); got != c.want {
+			t.Errorf("shortenQuoted(%q)\n= %q\nwant %q", c.in, got, c.want)
+		}
+	}
+}

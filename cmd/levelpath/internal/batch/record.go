@@ -171,7 +171,7 @@ func resultRecord(row *Row, ci float64, res Result, planErr error) record {
 	}
 	if planErr != nil {
 		rec.Status = statusFailed
-		rec.Reason = planErr.Error()
+		rec.Reason = shortenQuoted(planErr.Error())
 		if len(rec.Reason) > maxReason {
 			rec.Reason = excerptN(rec.Reason, maxReason)
 		}
@@ -286,4 +286,37 @@ func readRecord(path string) (record, error) {
 		return rec, &FormatError{File: path, Msg: fmt.Sprintf("plan %q, want %q", rec.Plan, planPath(filepath.Base(path)))}
 	}
 	return rec, nil
+}
+
+// shortenQuoted cuts every double-quoted part of msg (a field a parser
+// quoted, such as a header line of a file that is not a route) to
+// maxExcerpt bytes, so that a failure reason carries a short excerpt of
+// the input, never a whole line of a file. Backslash escapes inside the
+// quotes are honoured; an unclosed quote runs to the end.
+func shortenQuoted(msg string) string {
+	var b strings.Builder
+	for {
+		i := strings.IndexByte(msg, '"')
+		if i < 0 {
+			b.WriteString(msg)
+			return b.String()
+		}
+		b.WriteString(msg[:i+1])
+		msg = msg[i+1:]
+		end := len(msg)
+		for j := 0; j < len(msg); j++ {
+			if msg[j] == '\\' {
+				j++
+			} else if msg[j] == '"' {
+				end = j
+				break
+			}
+		}
+		b.WriteString(excerpt(msg[:end]))
+		if end == len(msg) {
+			return b.String()
+		}
+		b.WriteByte('"')
+		msg = msg[end+1:]
+	}
 }
