@@ -32,11 +32,11 @@ func parseCount(what, s string) (int, error) {
 	v, err := strconv.ParseInt(strings.TrimSpace(s), 10, 64)
 	switch {
 	case err != nil && errors.Is(err, strconv.ErrRange), err == nil && v > MaxShards:
-		return 0, inputErrorf("%s %q: more than the %d shards a run may have", what, s, MaxShards)
+		return 0, inputErrorf("%s %q: more than the %d shards a run may have", what, excerpt(s), MaxShards)
 	case err != nil:
-		return 0, inputErrorf("%s %q is not a whole number", what, s)
+		return 0, inputErrorf("%s %q is not a whole number", what, excerpt(s))
 	case v < 0:
-		return 0, inputErrorf("%s %q must not be negative", what, s)
+		return 0, inputErrorf("%s %q must not be negative", what, excerpt(s))
 	}
 	return int(v), nil
 }
@@ -46,23 +46,23 @@ func parseCount(what, s string) (int, error) {
 func ParseShard(s string) (k, n int, err error) {
 	ks, ns, ok := strings.Cut(strings.TrimSpace(s), "/")
 	if !ok {
-		return 0, 0, inputErrorf("shard %q: want K/N, e.g. 0/4", s)
+		return 0, 0, inputErrorf("shard %q: want K/N, e.g. 0/4", excerpt(s))
 	}
 	if _, err1 := strconv.Atoi(strings.TrimSpace(ks)); err1 != nil && !errors.Is(err1, strconv.ErrRange) {
-		return 0, 0, inputErrorf("shard %q: K and N must be whole numbers, e.g. 0/4", s)
+		return 0, 0, inputErrorf("shard %q: K and N must be whole numbers, e.g. 0/4", excerpt(s))
 	}
 	if _, err2 := strconv.Atoi(strings.TrimSpace(ns)); err2 != nil && !errors.Is(err2, strconv.ErrRange) {
-		return 0, 0, inputErrorf("shard %q: K and N must be whole numbers, e.g. 0/4", s)
+		return 0, 0, inputErrorf("shard %q: K and N must be whole numbers, e.g. 0/4", excerpt(s))
 	}
-	if n, err = parseCount("shard "+strconv.Quote(s)+": N", ns); err != nil {
+	if n, err = parseCount("shard "+strconv.Quote(excerpt(s))+": N", ns); err != nil {
 		return 0, 0, err
 	}
 	if n < 1 {
-		return 0, 0, inputErrorf("shard %q: N must be at least 1", s)
+		return 0, 0, inputErrorf("shard %q: N must be at least 1", excerpt(s))
 	}
 	k, err = strconv.Atoi(strings.TrimSpace(ks))
 	if err != nil || k < 0 || k >= n {
-		return 0, 0, inputErrorf("shard %q: K must be in 0..%d (shards are numbered from 0)", s, n-1)
+		return 0, 0, inputErrorf("shard %q: K must be in 0..%d (shards are numbered from 0)", excerpt(s), n-1)
 	}
 	return k, n, nil
 }
