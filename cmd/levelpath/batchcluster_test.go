@@ -148,9 +148,13 @@ func TestBatchStillAirAndLevels(t *testing.T) {
 	os.WriteFile(sched, []byte("flight,departure,route,aircraft,tow_kg,ci,levels\n"+
 		"L1,2026-12-01T21:00:00Z,route-lakeport.geojson,demo-regional,36000,10,list:250;270\n"), 0o644)
 	out := filepath.Join(t.TempDir(), "out")
-	code, _, errs := runCLI(t, "batch", "--schedule", sched, "--out", out)
+	code, stdout, errs := runCLI(t, "batch", "--schedule", sched, "--out", out)
 	if code != 0 && code != 3 {
 		t.Fatalf("exit %d: %s", code, errs)
+	}
+	// No per-CI table of one flight without a sweep (issue 13).
+	if strings.Contains(stdout, "fuel kg") || !strings.Contains(stdout, "Planned 1") {
+		t.Errorf("without a sweep stdout has a per-CI table, or no count:\n%s", stdout)
 	}
 	if !strings.Contains(errs, "warning: "+stillAirWarning) {
 		t.Errorf("no still-air warning on stderr: %s", errs)
@@ -190,5 +194,17 @@ func TestBatchWriteFailureExit1(t *testing.T) {
 	code, _, errs := runCLI(t, "batch", "--schedule", fs.Schedule, "--out", out)
 	if code != 1 {
 		t.Errorf("exit %d, want 1: %s", code, errs)
+	}
+}
+
+// hmm: tables show h:mm (issue 13: one time format per medium).
+func TestHMM(t *testing.T) {
+	for _, c := range []struct {
+		min  float64
+		want string
+	}{{0, "0:00"}, {59.4, "0:59"}, {59.5, "1:00"}, {678.3, "11:18"}, {-61, "-1:01"}} {
+		if got := hmm(c.min); got != c.want {
+			t.Errorf("hmm(%v) = %q, want %q", c.min, got, c.want)
+		}
 	}
 }

@@ -105,20 +105,30 @@ var ErrStopped = errors.New("batch stopped before every flight was planned")
 
 // Run plans every (flight, CI) of shard opt.Shard of opt.Shards with a pool
 // of opt.Workers goroutines sharing plan, and writes the outputs to opt.Out
-// (see the package documentation and Merge). Each result is written
-// atomically to Out/parts/ (after its plan JSON to Out/plans/) as soon as it
-// is made; the final results.csv, results.parquet, errors.csv and, with a
+// (see the package documentation and Merge). It holds an exclusive lock on
+// Out for its whole run (a second Run or Merge on Out is refused) and first
+// writes Out/run.json, the shard and the fingerprint of opt.Meta and the
+// sweep. Each result is written atomically to Out/parts/ (after its plan
+// JSON to Out/plans/, whose SHA-256 the record holds) as soon as it is
+// made; the final results.csv, results.parquet, errors.csv and, with a
 // sweep, summary.csv are then assembled from the records, sorted by
 // (flight, ci), each written atomically, and manifest.json last.
 //
 // A planner error or panic fails that flight only. When ctx is cancelled
 // the workers take no new flight, the records written stay, and Run returns
-// an error wrapping ErrStopped and ctx.Err(); a later Run with Resume skips
-// every flight whose record matches its input and ends with the same files
-// as a run never stopped. Without Resume an Out holding records is an error.
-// bad (from ReadSchedule) lands in errors.csv. Rows must have unique flight
-// ids. Orchestration cost is O(F log F) for F plans plus two small file
-// writes and one read per plan.
+// (within opt.StopGrace of the cancellation even if a planner ignores ctx)
+// an error wrapping ErrStopped and ctx.Err(). A later Run with Resume
+// refuses an Out of another shard or fingerprint (*InputError), skips every
+// flight whose record matches its input (row, CI, route and aircraft file
+// digests) and whose plan file matches its digest, plans the rest, and ends
+// with the same files as a run never stopped. Without Resume an Out holding
+// records is an error. bad (from ReadSchedule) lands in errors.csv, as does
+// a row whose CI fails the row rule. Rows must have unique flight ids.
+// Errors caused by the input or the directory's record are *InputError or
+// *FormatError; others (a write failure) are the file system's.
+// Orchestration cost is O(F log F) for F plans plus two small file writes
+// and one read per plan, and one read of each route and aircraft file (and,
+// on resume, of each reused plan file) to hash it.
 func Run(ctx context.Context, rows []Row, bad []RowError, plan Planner, opt Options) (Summary, error) {
 	var sum Summary
 	if plan == nil {

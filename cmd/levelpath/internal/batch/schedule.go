@@ -6,6 +6,11 @@
 // outputs, and assembles results.csv, results.parquet, errors.csv and
 // summary.csv sorted by (flight, ci) so that runs are comparable.
 //
+// An output directory holds run.json (shard, fingerprint of the inputs
+// and options), parts/ (one record per flight and CI, named by a sanitized
+// flight id and a hash), plans/ (the plan documents), the final files and
+// manifest.json; a flock on its .lock file keeps two runs apart.
+//
 // The package knows nothing of the physics: the planner is a function value
 // supplied by the caller (the CLI closes it over one decoded weather field),
 // so the orchestration is tested with a fake planner.
