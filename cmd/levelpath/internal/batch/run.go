@@ -228,9 +228,12 @@ func Run(ctx context.Context, rows []Row, bad []RowError, plan Planner, opt Opti
 	if err := os.MkdirAll(opt.Out, 0o755); err != nil {
 		return sum, fmt.Errorf("batch: output directory: %w", err)
 	}
-	unlock, err := lockDir(opt.Out)
+	unlock, warning, err := lockDir(opt.Out)
 	if err != nil {
 		return sum, err
+	}
+	if warning != "" && opt.Progress != nil {
+		fmt.Fprintln(opt.Progress, warning)
 	}
 	defer unlock()
 	records, err := prepareOut(opt.Out, opt.Resume)
