@@ -132,6 +132,11 @@ func TestBatchSlurmRerunOneTask(t *testing.T) {
 	if code != 2 || !strings.Contains(errs, "holds shard 1/3, this run is shard 1/4") {
 		t.Errorf("resume as 1/4: exit %d, %q", code, errs)
 	}
+	// Resumed with another segment length: refused, naming it.
+	code, _, errs = runCLI(t, "batch", "--schedule", fs.Schedule, "--weather", fs.Weather, "--out", dirs[1], "--resume", "--max-seg-nm", "40")
+	if code != 2 || !strings.Contains(errs, `max_seg_nm "50", now "40"`) {
+		t.Errorf("resume with --max-seg-nm 40: exit %d, %q", code, errs)
+	}
 	// Resumed with other weather (none): refused, naming the change.
 	code, _, errs = runCLI(t, "batch", "--schedule", fs.Schedule, "--out", dirs[1], "--resume")
 	if code != 2 || !strings.Contains(errs, "weather.0.sha256") {
@@ -167,6 +172,12 @@ func TestBatchStillAirAndLevels(t *testing.T) {
 	r := recs[1]
 	if !strings.Contains(r[col["warnings"]], stillAirWarning) || r[col["status"]] == "ok" {
 		t.Errorf("status %s, warnings %q: want the still-air warning", r[col["status"]], r[col["warnings"]])
+	}
+	// The research columns (issue 13): the row's mass, a route length, an
+	// arrival after the departure by time_min.
+	if r[col["takeoff_mass_kg"]] != "36000" || r[col["distance_nm"]] == "" || r[col["departure_utc"]] != "2026-12-01T21:00:00Z" ||
+		r[col["arrival_utc"]] <= r[col["departure_utc"]] || r[col["speed"]] != "econ" || r[col["floor_g"]] == "" {
+		t.Errorf("research columns: %q", r)
 	}
 	if r[col["levels"]] != "list:250,270" || (r[col["profile"]] != "FL250" && r[col["profile"]] != "FL270" && !strings.Contains(r[col["profile"]], "FL2")) {
 		t.Errorf("levels %q, profile %q", r[col["levels"]], r[col["profile"]])

@@ -355,3 +355,69 @@ func TestShortenQuoted(t *testing.T) {
 		}
 	}
 }
+
+// Issue 13: a changed aircraft file (same path) re-plans its flights too.
+func TestResumeReplansChangedAircraftFile(t *testing.T) {
+	dir := t.TempDir()
+	ac := filepath.Join(dir, "jet.yaml")
+	if err := os.WriteFile(ac, []byte("name: a\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	rows, bad := mustRead(t, writeSchedule(t, dir, 4))
+	for i := range rows[:2] {
+		rows[i].Aircraft = ac
+	}
+	out := filepath.Join(dir, "out")
+	runOrFatal(t, rows, bad, fakePlan, Options{Out: out})
+	if err := os.WriteFile(ac, []byte("name: b\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	var calls atomic.Int32
+	counting := func(ctx context.Context, r Row, ci float64) (Result, error) {
+		calls.Add(1)
+		return fakePlan(ctx, r, ci)
+	}
+	runOrFatal(t, rows, bad, counting, Options{Out: out, Resume: true})
+	if calls.Load() != 2 {
+		t.Errorf("after the aircraft file changed, resume planned %d flights, want its 2", calls.Load())
+	}
+}
+
+// Issue 13: a plan breaking a limit (fuel shortfall, landing mass) is
+// "infeasible", in results, errors.csv and the counts; one with warnings
+// only is "warning".
+func TestInfeasibleAndWarningStatus(t *testing.T) {
+	dir := t.TempDir()
+	rows, bad := mustRead(t, writeSchedule(t, dir, 3))
+	planner := func(ctx context.Context, r Row, ci float64) (Result, error) {
+		res, err := fakePlan(ctx, r, ci)
+		switch r.Flight {
+		case "T0000":
+			res.Violations = []string{"fuel on board 5000 kg is 11720 kg short of the trip fuel"}
+		case "T0001":
+			res.Warnings = []string{"3 cruise leg(s) within 0.05 g of the buffet floor"}
+		}
+		return res, err
+	}
+	out := filepath.Join(dir, "out")
+	s := runOrFatal(t, rows, bad, planner, Options{Out: out})
+	if s.Infeasible != 1 || s.Planned != 2 || s.Failed != 0 {
+		t.Errorf("summary %+v: want 1 infeasible, 2 planned", s)
+	}
+	recs := readCSV(t, filepath.Join(out, ResultsCSV))
+	col := map[string]int{}
+	for i, h := range recs[0] {
+		col[h] = i
+	}
+	want := map[string][2]string{"T0000": {"infeasible", "short of the trip fuel"}, "T0001": {"warning", "buffet floor"}, "T0002": {"ok", ""}}
+	for _, r := range recs[1:] {
+		w := want[r[col["flight"]]]
+		if r[col["status"]] != w[0] || !strings.Contains(r[col["warnings"]], w[1]) || (w[1] == "" && r[col["warnings"]] != "") {
+			t.Errorf("%s: status %q warnings %q, want %q with %q", r[col["flight"]], r[col["status"]], r[col["warnings"]], w[0], w[1])
+		}
+	}
+	eb, _ := os.ReadFile(filepath.Join(out, ErrorsCSV))
+	if !strings.Contains(string(eb), "T0000") || !strings.Contains(string(eb), "infeasible: fuel on board") || strings.Contains(string(eb), "T0001") {
+		t.Errorf("errors.csv:\n%s", eb)
+	}
+}
