@@ -348,6 +348,9 @@ func newBatchMergeCmd() *cobra.Command {
 		if err != nil {
 			return batchError(err)
 		}
+		for _, w := range sum.Warnings {
+			fmt.Fprintln(cmd.ErrOrStderr(), w)
+		}
 		return printBatchSummary(cmd.OutOrStdout(), *format, sum)
 	}
 	return c

@@ -114,7 +114,7 @@ func Merge(dirs []string, out string) (Summary, error) {
 	if err := os.MkdirAll(out, 0o755); err != nil {
 		return Summary{}, fmt.Errorf("merge: %w", err)
 	}
-	unlock, _, err := lockDir(out) // an unsupported lock only loses the guard
+	unlock, lockWarning, err := lockDir(out)
 	if err != nil {
 		return Summary{}, fmt.Errorf("merge: %w", err)
 	}
@@ -152,6 +152,9 @@ func Merge(dirs []string, out string) (Summary, error) {
 	}
 	sum, err := writeFinal(out, man, recs)
 	sum.Sweep = man.Sweep != nil
+	if lockWarning != "" {
+		sum.Warnings = append(sum.Warnings, lockWarning)
+	}
 	return sum, err
 }
 

@@ -79,8 +79,9 @@ type Summary struct {
 	Planned, Failed, Skipped int
 	Infeasible               int // planned, but breaking a limit (not in Planned)
 	BadRows, Pending         int
-	Replanned                int  // reused records whose plan file was missing or damaged
-	Sweep                    bool // the run had a CI sweep (ByCI is a per-CI table)
+	Replanned                int      // reused records whose plan file was missing or damaged
+	Sweep                    bool     // the run had a CI sweep (ByCI is a per-CI table)
+	Warnings                 []string // e.g. Merge's output directory could not be locked
 	ByCI                     []CISummary
 }
 
