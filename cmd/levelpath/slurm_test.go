@@ -43,7 +43,7 @@ func freePort(t *testing.T) int {
 // It skips the test when the programs are absent or not root.
 func startSlurm(t *testing.T, dir string) []string {
 	t.Helper()
-	for _, p := range []string{"munged", "slurmctld", "slurmd", "sbatch", "sinfo"} {
+	for _, p := range []string{"munged", "slurmctld", "slurmd", "sbatch", "sinfo", "squeue", "scancel"} {
 		if _, err := exec.LookPath(p); err != nil {
 			t.Skipf("%s not installed (Debian: apt-get install slurm-wlm munge)", p)
 		}
@@ -123,9 +123,10 @@ PartitionName=debug Nodes=localhost Default=YES MaxTime=INFINITE State=UP OverSu
 }
 
 // TestSlurmRecipe runs the README's Slurm recipe on a private one-node
-// cluster, cancels one task's work (its manifest, final files and a record
-// removed, as a task stopped part way leaves them) and re-runs that task
-// alone with "sbatch --array=2 job.sh", as the README says. The task keeps
+// cluster with task 2 cancelled (scancel) and re-run alone with "sbatch
+// --array=2 job.sh", as the README says; then removes that task's manifest,
+// final files and one record (what a task stopped part way leaves) and
+// re-runs it alone again. The task keeps
 // its shard (2/8) although Slurm tells it SLURM_ARRAY_TASK_COUNT=1, and the
 // merged shards equal a whole run (issue 13).
 func TestSlurmRecipe(t *testing.T) {
@@ -188,7 +189,36 @@ func TestSlurmRecipe(t *testing.T) {
 			t.Fatalf("sbatch %v did not finish in 5 minutes", args)
 		}
 	}
-	sbatch("job.sh")
+	// The whole array, with task 2 cancelled by scancel as soon as it is
+	// submitted (pending on a small node, or already running: either way
+	// its directory is incomplete or absent).
+	submit := exec.Command("sbatch", "--parsable", "--cpus-per-task=1", "-o", filepath.Join(work, "slurm-%A_%a.out"), "job.sh")
+	submit.Dir, submit.Env = work, env
+	idb, err := submit.Output()
+	if err != nil {
+		t.Fatalf("sbatch: %v", err)
+	}
+	jobID := strings.TrimSpace(strings.Split(string(idb), ";")[0])
+	cancel := exec.Command("scancel", jobID+"_2")
+	cancel.Env = env
+	if out, err := cancel.CombinedOutput(); err != nil {
+		t.Fatalf("scancel %s_2: %v %s", jobID, err, out)
+	}
+	for deadline := time.Now().Add(5 * time.Minute); ; time.Sleep(250 * time.Millisecond) {
+		q := exec.Command("squeue", "-h", "-j", jobID)
+		q.Env = env
+		out, err := q.Output()
+		if err == nil && strings.TrimSpace(string(out)) == "" {
+			break
+		}
+		if time.Now().After(deadline) { // a liveness guard, not a speed check
+			t.Fatalf("job %s still queued after 5 minutes: %s", jobID, out)
+		}
+	}
+	if _, err := os.Stat(filepath.Join(work, "out", "shard-2", "manifest.json")); err == nil {
+		t.Log("task 2 finished before scancel reached it")
+	}
+	sbatch("--array=2", "job.sh") // re-run the cancelled task alone
 	shard2 := filepath.Join(work, "out", "shard-2")
 	for _, f := range []string{"manifest.json", "results.csv", "results.parquet", "errors.csv"} {
 		os.Remove(filepath.Join(shard2, f))
