@@ -5,9 +5,13 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"io/fs"
 	"math"
 	"os"
 	"os/signal"
+	"path/filepath"
+	"slices"
+	"strconv"
 	"strings"
 	"sync"
 	"syscall"
@@ -38,7 +42,13 @@ type planner struct {
 	steps    optimizer.StepRules
 	mu       sync.Mutex
 	aircraft map[string]*perf.Aircraft
-	tracks   map[string]*route.Track
+	tracks   map[string]trackEntry
+}
+
+// trackEntry is a segmented route and the warnings made building it.
+type trackEntry struct {
+	track    *route.Track
+	warnings []string
 }
 
 func (p *planner) aircraftFor(name string) (*perf.Aircraft, error) {
@@ -55,7 +65,7 @@ func (p *planner) aircraftFor(name string) (*perf.Aircraft, error) {
 	return a, nil
 }
 
-func (p *planner) trackFor(path, levels string, dep time.Time) (*route.Track, error) {
+func (p *planner) trackFor(path, levels string, dep time.Time) (trackEntry, error) {
 	key := path + "\x00" + levels + "\x00" + dep.UTC().Format("2006-01-02")
 	p.mu.Lock()
 	if t, ok := p.tracks[key]; ok {
@@ -63,14 +73,21 @@ func (p *planner) trackFor(path, levels string, dep time.Time) (*route.Track, er
 		return t, nil
 	}
 	p.mu.Unlock()
-	t, err := buildTrack(path, levels, p.maxSegNM, "", dep, io.Discard)
+	var warn strings.Builder
+	t, err := buildTrack(path, levels, p.maxSegNM, "", dep, &warn)
 	if err != nil {
-		return nil, err
+		return trackEntry{}, err
+	}
+	e := trackEntry{track: t}
+	for _, l := range strings.Split(strings.TrimSpace(warn.String()), "\n") {
+		if l = strings.TrimSpace(strings.TrimPrefix(l, "levelpath: warning:")); l != "" {
+			e.warnings = append(e.warnings, l)
+		}
 	}
 	p.mu.Lock()
-	p.tracks[key] = t
+	p.tracks[key] = e
 	p.mu.Unlock()
-	return t, nil
+	return e, nil
 }
 
 // plan is the batch.Planner.
@@ -83,11 +100,11 @@ func (p *planner) plan(ctx context.Context, row batch.Row, ci float64) (batch.Re
 	if err != nil {
 		return res, err
 	}
-	tr, err := p.trackFor(row.Route, row.Levels, row.Departure)
+	te, err := p.trackFor(row.Route, row.Levels, row.Departure)
 	if err != nil {
 		return res, err
 	}
-	pr := &optimizer.Problem{Track: tr, Aircraft: a, Weather: p.wx, Depart: row.Departure, CI: ci, Floor: row.Floor, Steps: p.steps}
+	pr := &optimizer.Problem{Track: te.track, Aircraft: a, Weather: p.wx, Depart: row.Departure, CI: ci, Floor: row.Floor, Steps: p.steps}
 	// ReadSchedule sets TOW (from zfw_kg + fuel_kg where tow_kg is empty);
 	// with zfw_kg and fuel_kg, check them as the plan command does and let
 	// the plan flag a trip that burns more than the fuel on board.
@@ -120,11 +137,29 @@ func (p *planner) plan(ctx context.Context, row batch.Row, ci float64) (batch.Re
 		return res, err
 	}
 	res = batch.Result{Fuel: plan.Totals.Fuel, Time: plan.Totals.Time / 60, Cost: plan.Totals.Cost, CO2: plan.Totals.CO2,
-		InitialFL: plan.Profile.Initial, Steps: len(plan.Steps), MinMargin: plan.MinMargin(), BaselineSavingPct: math.NaN(),
-		LandingMass: plan.Totals.LandingMass, Profile: plan.Profile.String(),
+		InitialFL: plan.Profile.Initial, Steps: len(plan.Steps), MinMargin: plan.MinMargin(), CostSavingPct: math.NaN(),
+		LandingMass: plan.Totals.LandingMass, TakeoffMass: plan.TakeoffMass, ZFW: pr.ZFW, Distance: plan.Distance,
+		Floor: plan.Floor, Speed: row.Speed, Levels: row.Levels, Profile: plan.Profile.String(),
 		PlanJSON: []byte(buf.String())}
+	if res.Speed == "" {
+		res.Speed = "econ" // optimizer.Problem's zero Speed
+	}
+	if res.Levels == "" {
+		res.Levels = "odd-even-magnetic" // route.Options' zero rule
+	}
 	if plan.Baseline != nil {
-		res.BaselineSavingPct = plan.Baseline.SavingPct
+		res.CostSavingPct = plan.Baseline.SavingPct
+	}
+	if p.wx == nil {
+		res.Warnings = append(res.Warnings, stillAirWarning)
+	}
+	res.Warnings = append(res.Warnings, te.warnings...)
+	res.Warnings = append(res.Warnings, plan.Warnings...)
+	// Solve copies landing-mass and fuel violations into Warnings too:
+	// keep each once, as a violation.
+	for _, v := range plan.Violations {
+		res.Violations = append(res.Violations, v.Detail)
+		res.Warnings = slices.DeleteFunc(res.Warnings, func(w string) bool { return w == v.Detail })
 	}
 	return res, nil
 }
@@ -158,8 +193,8 @@ func newBatchCmd() *cobra.Command {
 	weatherBudgetFlag(c, &budgetMiB)
 	fl.IntVar(&workers, "workers", 0, "parallel planners (default: one per CPU)")
 	fl.StringVar(&sweep, "ci-sweep", "", "plan every flight at each cost index, e.g. 0,20,50,100")
-	fl.StringVar(&shard, "shard", "", "plan only shard K/N of the flights (0-based K); also read from JOB_COMPLETION_INDEX with --shard-count, or SLURM_ARRAY_TASK_ID/SLURM_ARRAY_TASK_COUNT")
-	fl.IntVar(&shardCount, "shard-count", 0, "number of shards for a Kubernetes Indexed Job (with JOB_COMPLETION_INDEX)")
+	fl.StringVar(&shard, "shard", "", "plan only shard K/N of the flights (0-based K, N at most 1048576); or give --shard-count inside a cluster job")
+	fl.IntVar(&shardCount, "shard-count", 0, "number of shards of a Kubernetes Indexed Job (index JOB_COMPLETION_INDEX) or Slurm job array (index SLURM_ARRAY_TASK_ID, --array=0-(N-1)); default: the count recorded in --out")
 	fl.BoolVar(&resume, "resume", false, "continue a stopped run in --out, planning only what is missing")
 	fl.Float64Var(&maxSegNM, "max-seg-nm", 50, "longest route segment, NM")
 	fl.StringVar(&chartPath, "chart", "", "with --ci-sweep: draw total fuel against total time per CI to FILE (.svg, .png, .pdf)")
@@ -203,9 +238,23 @@ func newBatchCmd() *cobra.Command {
 			if err != nil {
 				return badInputf("--shard: %v", err)
 			}
+			if shardCount != 0 && shardCount != n {
+				return badInputf("--shard %s and --shard-count %d disagree", shard, shardCount)
+			}
 			opt.Shard, opt.Shards = k, n
 		default:
-			k, n, ok, err := batch.ShardFromEnv(os.Getenv, shardCount)
+			// A Slurm array task re-run alone sees a one-task array, so
+			// the count is never taken from the array: it is --shard-count,
+			// or the count an earlier run recorded in --out.
+			count := shardCount
+			if count == 0 && (os.Getenv("SLURM_ARRAY_TASK_ID") != "" || os.Getenv("JOB_COMPLETION_INDEX") != "") {
+				if _, n, ok, err := batch.RecordedShard(out); err != nil {
+					return batchError(err)
+				} else if ok {
+					count = n
+				}
+			}
+			k, n, ok, err := batch.ShardFromEnv(os.Getenv, count)
 			if err != nil {
 				return badInput(err)
 			}
@@ -213,21 +262,37 @@ func newBatchCmd() *cobra.Command {
 				opt.Shard, opt.Shards = k, n
 			}
 		}
+		// Until Run starts nothing is worth saving, so SIGINT and SIGTERM
+		// keep their default action (end the process) while the schedule
+		// is read and the weather decoded; non-regular files are refused
+		// before they are opened (batchMeta hashes each weather file
+		// first), so none of these steps blocks on a FIFO.
 		rows, bad, err := batch.ReadSchedule(schedule)
 		if err != nil {
 			return badInput(err)
-		}
-		wx, err := loadWeather(weather, budgetMiB)
-		if err != nil {
-			return err
 		}
 		steps, err := stepRules(maxStepFt, stepDescents, minStepNM, maxSteps, noSteps)
 		if err != nil {
 			return err
 		}
-		pl := &planner{wx: wx, maxSegNM: maxSegNM, steps: steps, aircraft: map[string]*perf.Aircraft{}, tracks: map[string]*route.Track{}}
+		if opt.Meta, err = batchMeta(cmd.Context(), weather, maxSegNM, steps); err != nil {
+			return err
+		}
+		wx, err := loadWeather(weather, budgetMiB)
+		if err != nil {
+			return err
+		}
+		if wx == nil {
+			warnf(cmd.ErrOrStderr(), "%s", stillAirWarning)
+		}
+		pl := &planner{wx: wx, maxSegNM: maxSegNM, steps: steps, aircraft: map[string]*perf.Aircraft{}, tracks: map[string]trackEntry{}}
+		// From here a first SIGINT or SIGTERM stops the run cleanly
+		// (records kept, see batch.Run and Options.StopGrace); a second
+		// ends the process at once: stop() restores the default action
+		// once the first has cancelled ctx.
 		ctx, stop := signal.NotifyContext(cmd.Context(), os.Interrupt, syscall.SIGTERM)
 		defer stop()
+		go func() { <-ctx.Done(); stop() }()
 		start := time.Now()
 		sum, err := batch.Run(ctx, rows, bad, pl.plan, opt)
 		if el := time.Since(start); err == nil && sum.Planned > sum.Skipped {
@@ -239,7 +304,10 @@ func newBatchCmd() *cobra.Command {
 			if errors.Is(err, batch.ErrStopped) {
 				return &exitError{code: exitInternal, msg: err.Error() + "; rerun with --resume to finish"}
 			}
-			return badInput(err)
+			return batchError(err)
+		}
+		if sum.Replanned > 0 {
+			warnf(cmd.ErrOrStderr(), "%d reused record(s) had a missing or damaged plan file and were planned again", sum.Replanned)
 		}
 		if err := printBatchSummary(cmd.OutOrStdout(), *format, sum); err != nil {
 			return err
@@ -253,8 +321,8 @@ func newBatchCmd() *cobra.Command {
 				return err
 			}
 		}
-		if sum.Failed > 0 || sum.BadRows > 0 {
-			return &exitError{code: exitSomeFailed, msg: fmt.Sprintf("%d plan(s) failed and %d schedule row(s) were bad: see %s/errors.csv", sum.Failed, sum.BadRows, out)}
+		if sum.Failed > 0 || sum.BadRows > 0 || sum.Infeasible > 0 {
+			return &exitError{code: exitSomeFailed, msg: fmt.Sprintf("%d plan(s) failed, %d infeasible and %d schedule row(s) were bad: see %s/errors.csv", sum.Failed, sum.Infeasible, sum.BadRows, out)}
 		}
 		return nil
 	}
@@ -280,53 +348,119 @@ func newBatchMergeCmd() *cobra.Command {
 		}
 		sum, err := batch.Merge(args, out)
 		if err != nil {
-			return badInput(err)
+			return batchError(err)
+		}
+		for _, w := range sum.Warnings {
+			fmt.Fprintln(cmd.ErrOrStderr(), w)
 		}
 		return printBatchSummary(cmd.OutOrStdout(), *format, sum)
 	}
 	return c
 }
 
+// stillAirWarning is printed, and put in every result's warnings, when a
+// batch runs without weather.
+const stillAirWarning = "no --weather given: every flight is planned in still air at ISA temperatures"
+
+// batchError maps an error of batch.Run or batch.Merge to an exit code:
+// bad input (a schedule, shard, sweep, resume or lock problem, a corrupt
+// record or manifest, a missing file) is 2; anything else, such as a write
+// failure on a full disk, is an environment failure, 1.
+func batchError(err error) error {
+	var ie *batch.InputError
+	var fe *batch.FormatError
+	if errors.As(err, &ie) || errors.As(err, &fe) || errors.Is(err, fs.ErrNotExist) {
+		return badInput(err)
+	}
+	return err
+}
+
+// batchMeta names what every plan of a batch depends on beyond its row:
+// the program version, each weather file and its SHA-256, the segment
+// length and step rules. batch.Run records its fingerprint and writes it
+// to results.parquet's metadata.
+func batchMeta(ctx context.Context, weather []string, maxSegNM float64, steps optimizer.StepRules) (map[string]string, error) {
+	m := map[string]string{
+		"version":    version,
+		"max_seg_nm": strconv.FormatFloat(maxSegNM, 'g', -1, 64),
+		"step_rules": fmt.Sprintf("%+v", steps),
+		"caution":    optimizer.Caution,
+		"weather":    "none: still air, ISA",
+	}
+	if len(weather) > 0 {
+		m["weather"] = strconv.Itoa(len(weather)) + " file(s)"
+	}
+	for i, w := range weather {
+		d, err := batch.FileDigest(ctx, w)
+		if err != nil {
+			return nil, batchError(fmt.Errorf("weather file %s: %w", w, err))
+		}
+		m[fmt.Sprintf("weather.%d.file", i)] = filepath.Base(w)
+		m[fmt.Sprintf("weather.%d.sha256", i)] = d
+	}
+	return m, nil
+}
+
 type batchSummaryJSON struct {
-	Planned int          `json:"planned"`
-	Failed  int          `json:"failed"`
-	Skipped int          `json:"skipped"`
-	BadRows int          `json:"bad_rows"`
-	ByCI    []ciLineJSON `json:"by_ci"`
+	Planned    int          `json:"planned"`
+	Failed     int          `json:"failed"`
+	Infeasible int          `json:"infeasible"`
+	Skipped    int          `json:"skipped"`
+	BadRows    int          `json:"bad_rows"`
+	ByCI       []ciLineJSON `json:"by_ci"`
 }
 
 type ciLineJSON struct {
-	CI      float64 `json:"ci"`
-	Flights int     `json:"flights"`
-	Failed  int     `json:"failed"`
-	FuelKg  float64 `json:"fuel_kg"`
-	TimeMin float64 `json:"time_min"`
-	Cost    float64 `json:"cost"`
-	CO2Kg   float64 `json:"co2_kg"`
+	CI         float64 `json:"ci"`
+	Flights    int     `json:"flights"`
+	Failed     int     `json:"failed"`
+	Infeasible int     `json:"infeasible"`
+	FuelKg     float64 `json:"fuel_kg"`
+	TimeMin    float64 `json:"time_min"`
+	Cost       float64 `json:"cost"`
+	CO2Kg      float64 `json:"co2_kg"`
 }
 
 func printBatchSummary(w io.Writer, format string, s batch.Summary) error {
-	d := batchSummaryJSON{Planned: s.Planned, Failed: s.Failed, Skipped: s.Skipped, BadRows: s.BadRows, ByCI: []ciLineJSON{}}
+	d := batchSummaryJSON{Planned: s.Planned, Failed: s.Failed, Infeasible: s.Infeasible, Skipped: s.Skipped, BadRows: s.BadRows, ByCI: []ciLineJSON{}}
+	r := func(v float64, dec int) float64 { p := math.Pow10(dec); return math.Round(v*p) / p }
 	for _, b := range s.ByCI {
-		d.ByCI = append(d.ByCI, ciLineJSON{CI: b.CI, Flights: b.Flights, Failed: b.Failed, FuelKg: b.Fuel, TimeMin: b.Time, Cost: b.Cost, CO2Kg: b.CO2})
+		d.ByCI = append(d.ByCI, ciLineJSON{CI: b.CI, Flights: b.Flights, Failed: b.Failed, Infeasible: b.Infeasible,
+			FuelKg: r(b.Fuel, 1), TimeMin: r(b.Time, 2), Cost: r(b.Cost, 1), CO2Kg: r(b.CO2, 1)})
 	}
 	switch format {
 	case "json":
 		return writeJSON(w, d)
 	case "csv":
-		fmt.Fprintln(w, "ci,flights,failed,fuel_kg,time_min,cost,co2_kg")
+		fmt.Fprintln(w, "ci,flights,failed,infeasible,fuel_kg,time_min,cost,co2_kg")
 		for _, b := range d.ByCI {
-			fmt.Fprintf(w, "%g,%d,%d,%g,%g,%g,%g\n", b.CI, b.Flights, b.Failed, b.FuelKg, b.TimeMin, b.Cost, b.CO2Kg)
+			fmt.Fprintf(w, "%g,%d,%d,%d,%g,%g,%g,%g\n", b.CI, b.Flights, b.Failed, b.Infeasible, b.FuelKg, b.TimeMin, b.Cost, b.CO2Kg)
 		}
 		return nil
 	}
-	fmt.Fprintf(w, "Planned %d, failed %d, reused %d, bad schedule rows %d\n", d.Planned, d.Failed, d.Skipped, d.BadRows)
-	tw := tabwriter.NewWriter(w, 0, 0, 1, ' ', tabwriter.AlignRight)
-	fmt.Fprintln(tw, "CI\tflights\tfailed\tfuel kg\ttime h\tcost\tCO2 t\t")
-	for _, b := range d.ByCI {
-		fmt.Fprintf(tw, "%g\t%d\t%d\t%.0f\t%.1f\t%.0f\t%.1f\t\n", b.CI, b.Flights, b.Failed, b.FuelKg, b.TimeMin/60, b.Cost, b.CO2Kg/1000)
+	fmt.Fprintf(w, "Planned %d, infeasible %d, failed %d, reused %d, bad schedule rows %d\n", d.Planned, d.Infeasible, d.Failed, d.Skipped, d.BadRows)
+	if s.Sweep { // without a sweep a per-CI table says nothing the files do not
+		tw := tabwriter.NewWriter(w, 0, 0, 1, ' ', tabwriter.AlignRight)
+		fmt.Fprintln(tw, "CI\tflights\tinfeasible\tfailed\tfuel kg\ttime h:mm\tcost\tCO2 t\t")
+		for _, b := range d.ByCI {
+			fmt.Fprintf(tw, "%g\t%d\t%d\t%d\t%.0f\t%s\t%.0f\t%.1f\t\n", b.CI, b.Flights, b.Infeasible, b.Failed, b.FuelKg, hmm(b.TimeMin), b.Cost, b.CO2Kg/1000)
+		}
+		tw.Flush()
 	}
-	tw.Flush()
 	fmt.Fprintf(w, "\n%s\n", "Caution: "+optimizer.Caution)
 	return nil
+}
+
+// hmm formats minutes as h:mm (rounded to the minute), the one time format
+// of tables; data files keep minutes.
+func hmm(min float64) string {
+	if !(math.Abs(min) < 1e9) {
+		return "-"
+	}
+	m := int64(math.Round(min))
+	sign := ""
+	if m < 0 {
+		sign, m = "-", -m
+	}
+	return fmt.Sprintf("%s%d:%02d", sign, m/60, m%60)
 }

@@ -79,3 +79,74 @@ func TestBatchKilledAndResumed(t *testing.T) {
 		}
 	}
 }
+
+// Issue 17: a FIFO as the schedule or as a weather file used to hang the
+// batch (opening a FIFO for reading waits for a writer), ignoring SIGTERM.
+// Now it is refused before it is opened, exit 2 naming it; and a batch
+// stopped by SIGTERM exits 1 telling how to resume.
+func TestBatchFIFOInputsAndSIGTERM(t *testing.T) {
+	if testing.Short() {
+		t.Skip("starts processes")
+	}
+	fs := demoFiles(t)
+	dir := t.TempDir()
+	fifo := filepath.Join(dir, "fifo")
+	if err := syscall.Mkfifo(fifo, 0o644); err != nil {
+		t.Skip("no FIFO here:", err)
+	}
+	start := func(args ...string) (*exec.Cmd, *bytes.Buffer) {
+		cmd := exec.Command(os.Args[0], args...)
+		cmd.Env = append(os.Environ(), "LEVELPATH_MAIN=1", "SLURM_ARRAY_TASK_ID=", "JOB_COMPLETION_INDEX=")
+		var stderr bytes.Buffer
+		cmd.Stderr = &stderr
+		if err := cmd.Start(); err != nil {
+			t.Fatal(err)
+		}
+		return cmd, &stderr
+	}
+	wait := func(cmd *exec.Cmd) int {
+		done := make(chan error, 1)
+		go func() { done <- cmd.Wait() }()
+		select {
+		case <-done:
+		case <-time.After(60 * time.Second): // a liveness guard, not a speed check
+			cmd.Process.Kill()
+			<-done
+			t.Fatalf("%v did not end in 60 s", cmd.Args)
+		}
+		return cmd.ProcessState.ExitCode()
+	}
+	for _, args := range [][]string{
+		{"batch", "--schedule", fifo, "--out", filepath.Join(dir, "o1")},
+		{"batch", "--schedule", fs.Schedule, "--weather", fifo, "--out", filepath.Join(dir, "o2")},
+	} {
+		cmd, stderr := start(args...)
+		if code := wait(cmd); code != 2 || !strings.Contains(stderr.String(), fifo) || !strings.Contains(stderr.String(), "FIFO") {
+			t.Errorf("%v: exit %d, %s; want 2 naming the FIFO", args[1:], code, stderr)
+		}
+	}
+
+	var sb strings.Builder
+	sb.WriteString("flight,departure,route,aircraft,tow_kg,ci\n")
+	for i := 0; i < 400; i++ {
+		fmt.Fprintf(&sb, "S%03d,2026-12-01T20:%02d:00Z,route-lakeport.geojson,demo-regional,%d,10\n", i, i%60, 34000+10*i)
+	}
+	sched := filepath.Join(dir, "sched.csv")
+	os.WriteFile(sched, []byte(sb.String()), 0o644)
+	rel, _ := filepath.Rel(dir, filepath.Join(fs.Dir, "route-lakeport.geojson"))
+	os.WriteFile(sched, []byte(strings.ReplaceAll(sb.String(), "route-lakeport.geojson", rel)), 0o644)
+	out := filepath.Join(dir, "o3")
+	cmd, stderr := start("batch", "--schedule", sched, "--weather", fs.Weather, "--out", out, "--workers", "1")
+	deadline := time.Now().Add(60 * time.Second)
+	for {
+		parts, _ := filepath.Glob(filepath.Join(out, "parts", "*.json"))
+		if len(parts) >= 3 || time.Now().After(deadline) {
+			break
+		}
+		time.Sleep(5 * time.Millisecond)
+	}
+	cmd.Process.Signal(syscall.SIGTERM)
+	if code := wait(cmd); code != 1 || !strings.Contains(stderr.String(), "--resume") {
+		t.Errorf("SIGTERM: exit %d, %s; want 1 and a --resume hint", code, stderr)
+	}
+}

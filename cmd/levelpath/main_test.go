@@ -341,8 +341,8 @@ func TestBatchCLI(t *testing.T) {
 			}
 		}
 	}
-	if !strings.Contains(stdout, "CI") {
-		t.Errorf("no sweep table on stdout: %s", stdout)
+	if !strings.Contains(stdout, "CI") || !strings.Contains(stdout, "time h:mm") {
+		t.Errorf("no sweep table (with h:mm times) on stdout: %s", stdout)
 	}
 }
 

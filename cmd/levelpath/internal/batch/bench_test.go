@@ -17,7 +17,7 @@ func BenchmarkRun1000(b *testing.B) {
 	plan := []byte(`{"profile":"FL350"}`)
 	trivial := func(_ context.Context, row Row, ci float64) (Result, error) {
 		return Result{Fuel: row.TOW / 20, Time: 95, Cost: row.TOW/20 + 95*ci, CO2: 3.16 * row.TOW / 20,
-			InitialFL: 350, MinMargin: 1.4, BaselineSavingPct: 1, PlanJSON: plan}, nil
+			InitialFL: 350, MinMargin: 1.4, CostSavingPct: 1, PlanJSON: plan}, nil
 	}
 	b.ReportAllocs()
 	i := 0

@@ -55,11 +55,11 @@ func fakePlan(_ context.Context, row Row, ci float64) (Result, error) {
 	res := Result{
 		Fuel: fuel, Time: tmin, Cost: fuel + ci*tmin, CO2: 3.16 * fuel,
 		InitialFL: 300 + int(row.TOW)%5*20, Steps: int(row.TOW) % 3,
-		MinMargin: 1.3 + math.Mod(row.TOW, 7)/100, BaselineSavingPct: math.Mod(row.TOW, 13) / 10,
+		MinMargin: 1.3 + math.Mod(row.TOW, 7)/100, CostSavingPct: math.Mod(row.TOW, 13) / 10,
 		LandingMass: row.TOW - fuel, Profile: fmt.Sprintf("FL%03d", 300+int(row.TOW)%5*20),
 	}
 	if int(row.TOW)%4 == 0 {
-		res.MinMargin, res.BaselineSavingPct = math.NaN(), math.NaN()
+		res.MinMargin, res.CostSavingPct = math.NaN(), math.NaN()
 	}
 	res.PlanJSON, _ = json.Marshal(map[string]any{"flight": row.Flight, "ci": ci, "fuel_kg": fuel})
 	return res, nil

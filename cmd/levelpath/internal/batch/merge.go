@@ -2,6 +2,7 @@ package batch
 
 import (
 	"bytes"
+	"context"
 	"errors"
 	"fmt"
 	"io"
@@ -61,6 +62,9 @@ func Merge(dirs []string, out string) (Summary, error) {
 		if !slices.Equal(mans[i].Sweep, m0.Sweep) || (mans[i].Sweep == nil) != (m0.Sweep == nil) {
 			return Summary{}, fmt.Errorf("merge: %s (sweep %v) and %s (sweep %v) used different sweeps", dirs[0], m0.Sweep, d, mans[i].Sweep)
 		}
+		if mans[i].Fingerprint != m0.Fingerprint {
+			return Summary{}, fmt.Errorf("merge: %s and %s were planned with other inputs or options (fingerprints %.12s and %.12s)", dirs[0], d, m0.Fingerprint, mans[i].Fingerprint)
+		}
 		if mans[i].Shards != m0.Shards {
 			return Summary{}, fmt.Errorf("merge: %s is shard %d/%d but %s is shard %d/%d", dirs[0], m0.Shard, m0.Shards, d, mans[i].Shard, mans[i].Shards)
 		}
@@ -107,7 +111,15 @@ func Merge(dirs []string, out string) (Summary, error) {
 		return Summary{}, &MergeError{Problems: problems}
 	}
 
-	if err := prepareOut(out, false); err != nil {
+	if err := os.MkdirAll(out, 0o755); err != nil {
+		return Summary{}, fmt.Errorf("merge: %w", err)
+	}
+	unlock, lockWarning, err := lockDir(out)
+	if err != nil {
+		return Summary{}, fmt.Errorf("merge: %w", err)
+	}
+	defer unlock()
+	if _, err := prepareOut(out, false); err != nil {
 		return Summary{}, fmt.Errorf("merge: %w", err)
 	}
 	slices.Sort(names)
@@ -119,6 +131,10 @@ func Merge(dirs []string, out string) (Summary, error) {
 			return Summary{}, fmt.Errorf("merge: %w", err)
 		}
 		if rec.Plan != "" {
+			src := filepath.Join(dir, filepath.FromSlash(rec.Plan))
+			if d, err := fileDigest(context.Background(), src); err != nil || d != rec.PlanSHA256 {
+				return Summary{}, &FormatError{File: src, Msg: "plan file missing, unreadable or not matching the digest in its record: run that shard again with --resume"}
+			}
 			if err := linkOrCopy(filepath.Join(dir, filepath.FromSlash(rec.Plan)), filepath.Join(out, filepath.FromSlash(rec.Plan))); err != nil {
 				return Summary{}, fmt.Errorf("merge: %w", err)
 			}
@@ -128,8 +144,18 @@ func Merge(dirs []string, out string) (Summary, error) {
 		}
 		recs = append(recs, rec)
 	}
-	man := manifest{Version: 1, Shard: 0, Shards: 1, Sweep: mans[0].Sweep, Schedule: mans[0].Schedule, Records: names}
-	return writeFinal(out, man, recs)
+	man := manifest{Version: manifestVersion, Shard: 0, Shards: 1, Sweep: mans[0].Sweep, Schedule: mans[0].Schedule,
+		Fingerprint: mans[0].Fingerprint, Meta: mans[0].Meta, Records: names}
+	rr := runRecord{Version: manifestVersion, Shard: 0, Shards: 1, Sweep: man.Sweep, Fingerprint: man.Fingerprint, Meta: man.Meta}
+	if err := writeRunRecord(out, rr); err != nil {
+		return Summary{}, err
+	}
+	sum, err := writeFinal(out, man, recs)
+	sum.Sweep = man.Sweep != nil
+	if lockWarning != "" {
+		sum.Warnings = append(sum.Warnings, lockWarning)
+	}
+	return sum, err
 }
 
 // linkOrCopy hard-links src to dst, or copies it (atomically) when links

@@ -7,10 +7,12 @@ import (
 	"encoding/json"
 	"fmt"
 	"hash/fnv"
+	"maps"
 	"os"
 	"path/filepath"
 	"slices"
 	"strconv"
+	"strings"
 	"time"
 
 	"github.com/parquet-go/parquet-go"
@@ -32,7 +34,23 @@ type manifest struct {
 	Shards   int       `json:"shards"`
 	Sweep    []float64 `json:"sweep"`    // nil: each row's own CI
 	Schedule string    `json:"schedule"` // fingerprint of all rows and bad rows
-	Records  []string  `json:"records"`  // file names in parts/
+	// Fingerprint identifies the run's inputs and options (see
+	// runFingerprint); Meta lists them, and becomes results.parquet's
+	// key-value metadata.
+	Fingerprint string            `json:"fingerprint"`
+	Meta        map[string]string `json:"meta,omitempty"`
+	Records     []string          `json:"records"` // file names in parts/
+}
+
+// parquetMeta is the key-value metadata of results.parquet: the run's
+// Meta (program version, weather digests, options, as the caller gave
+// them) and the fingerprint, keys prefixed "levelpath.".
+func (m *manifest) parquetMeta() map[string]string {
+	out := map[string]string{"levelpath.fingerprint": m.Fingerprint}
+	for k, v := range m.Meta {
+		out["levelpath."+k] = v
+	}
+	return out
 }
 
 // scheduleFingerprint identifies the whole schedule (all shards see the
@@ -48,32 +66,42 @@ func scheduleFingerprint(rows []Row, bad []RowError) string {
 	return strconv.FormatUint(h.Sum64(), 16)
 }
 
-// resultColumns are the columns of results.csv, in order.
-var resultColumns = []string{"flight", "ci", "status", "departure", "aircraft", "row",
-	"fuel_kg", "time_min", "cost", "co2_kg", "initial_fl", "steps", "min_margin_g",
-	"baseline_saving_pct", "landing_mass_kg", "profile", "error"}
+// resultColumns are the columns of results.csv, in order (results.parquet
+// has the same names; see the README's table of columns).
+var resultColumns = []string{"flight", "ci", "status", "warnings", "departure_utc", "arrival_utc",
+	"aircraft", "row", "distance_nm", "takeoff_mass_kg", "zfw_kg", "landing_mass_kg",
+	"fuel_kg", "time_min", "cost", "co2_kg", "floor_g", "speed", "levels",
+	"initial_fl", "steps", "min_margin_g", "cost_saving_pct", "profile", "error"}
 
 // parquetRow is one row of results.parquet: the same columns as
-// results.csv, departure as a UTC timestamp in milliseconds, absent values
-// (failed flights, no margin, no baseline) as nulls.
+// results.csv at full precision, times as UTC timestamps in milliseconds,
+// absent values (failed flights, no margin, no baseline) as nulls.
 type parquetRow struct {
-	Flight            string   `parquet:"flight,dict"`
-	CI                float64  `parquet:"ci"`
-	Status            string   `parquet:"status,dict"`
-	Departure         int64    `parquet:"departure,timestamp(millisecond)"`
-	Aircraft          string   `parquet:"aircraft,dict"`
-	Row               int64    `parquet:"row"`
-	FuelKg            *float64 `parquet:"fuel_kg,optional"`
-	TimeMin           *float64 `parquet:"time_min,optional"`
-	Cost              *float64 `parquet:"cost,optional"`
-	CO2Kg             *float64 `parquet:"co2_kg,optional"`
-	InitialFL         *int64   `parquet:"initial_fl,optional"`
-	Steps             *int64   `parquet:"steps,optional"`
-	MinMarginG        *float64 `parquet:"min_margin_g,optional"`
-	BaselineSavingPct *float64 `parquet:"baseline_saving_pct,optional"`
-	LandingMassKg     *float64 `parquet:"landing_mass_kg,optional"`
-	Profile           string   `parquet:"profile"`
-	Error             string   `parquet:"error"`
+	Flight        string   `parquet:"flight,dict"`
+	CI            float64  `parquet:"ci"`
+	Status        string   `parquet:"status,dict"`
+	Warnings      string   `parquet:"warnings"`
+	Departure     int64    `parquet:"departure_utc,timestamp(millisecond)"`
+	Arrival       *int64   `parquet:"arrival_utc,optional,timestamp(millisecond)"`
+	Aircraft      string   `parquet:"aircraft,dict"`
+	Row           int64    `parquet:"row"`
+	DistanceNM    *float64 `parquet:"distance_nm,optional"`
+	TakeoffMassKg *float64 `parquet:"takeoff_mass_kg,optional"`
+	ZFWKg         *float64 `parquet:"zfw_kg,optional"`
+	LandingMassKg *float64 `parquet:"landing_mass_kg,optional"`
+	FuelKg        *float64 `parquet:"fuel_kg,optional"`
+	TimeMin       *float64 `parquet:"time_min,optional"`
+	Cost          *float64 `parquet:"cost,optional"`
+	CO2Kg         *float64 `parquet:"co2_kg,optional"`
+	FloorG        *float64 `parquet:"floor_g,optional"`
+	Speed         string   `parquet:"speed"`
+	Levels        string   `parquet:"levels"`
+	InitialFL     *int64   `parquet:"initial_fl,optional"`
+	Steps         *int64   `parquet:"steps,optional"`
+	MinMarginG    *float64 `parquet:"min_margin_g,optional"`
+	CostSavingPct *float64 `parquet:"cost_saving_pct,optional"`
+	Profile       string   `parquet:"profile"`
+	Error         string   `parquet:"error"`
 }
 
 // assemble reads the records named by man from out/parts and writes the
@@ -117,7 +145,7 @@ func writeFinal(out string, man manifest, recs []record) (Summary, error) {
 	}
 	files := []outFile{
 		{ResultsCSV, func() ([]byte, error) { return resultsCSV(results) }},
-		{ResultsParquet, func() ([]byte, error) { return resultsParquet(results) }},
+		{ResultsParquet, func() ([]byte, error) { return resultsParquet(results, man.parquetMeta()) }},
 		{ErrorsCSV, func() ([]byte, error) { return errorsCSV(results, bads) }},
 	}
 	if man.Sweep != nil {
@@ -143,7 +171,8 @@ func writeFinal(out string, man manifest, recs []record) (Summary, error) {
 }
 
 // summarize counts results sorted by (flight, ci) and totals them per CI in
-// that order, so that sums are reproducible to the last bit.
+// that order, so that sums are reproducible to the last bit. Totals cover
+// the ok and warning plans; infeasible plans are counted apart.
 func summarize(results []record) Summary {
 	var sum Summary
 	by := map[float64]*CISummary{}
@@ -153,9 +182,14 @@ func summarize(results []record) Summary {
 			c = &CISummary{CI: r.CI}
 			by[r.CI] = c
 		}
-		if r.Status != statusOK {
+		switch r.Status {
+		case statusFailed:
 			sum.Failed++
 			c.Failed++
+			continue
+		case statusInfeasible:
+			sum.Infeasible++
+			c.Infeasible++
 			continue
 		}
 		sum.Planned++
@@ -166,21 +200,28 @@ func summarize(results []record) Summary {
 		c.CO2 += *r.CO2Kg
 	}
 	for _, c := range by {
-		c.Fuel, c.Time, c.Cost, c.CO2 = round(c.Fuel, 1), round(c.Time, 2), round(c.Cost, 1), round(c.CO2, 1)
 		sum.ByCI = append(sum.ByCI, *c)
 	}
 	slices.SortFunc(sum.ByCI, func(a, b CISummary) int { return cmp.Compare(a.CI, b.CI) })
 	return sum
 }
 
+// csvDecimals are the decimals results.csv and summary.csv keep (the
+// records and results.parquet keep full precision): 0.1 kg, 0.01 min,
+// 0.001 g, 0.01 %, 0.1 NM.
+const (
+	decKg, decMin, decG, decPct, decNM = 1, 2, 3, 2, 1
+)
+
 // fmtNum formats a number for the CSV files: shortest exact form.
 func fmtNum(v float64) string { return strconv.FormatFloat(v, 'f', -1, 64) }
 
-func fmtF(p *float64) string {
+// fmtR formats p rounded to dec decimals; nil is an empty cell.
+func fmtR(p *float64, dec int) string {
 	if p == nil {
 		return ""
 	}
-	return fmtNum(*p)
+	return fmtNum(round(*p, dec))
 }
 
 func fmtI(p *int) string {
@@ -188,6 +229,21 @@ func fmtI(p *int) string {
 		return ""
 	}
 	return strconv.Itoa(*p)
+}
+
+// safeCell defuses a text cell that a spreadsheet would run as a formula:
+// one starting with '=', '+', '-', '@', a tab or a carriage return gets a
+// leading single quote (OWASP, "CSV Injection": prepend a single quote to
+// cells beginning with those characters, and keep the cell quoted). It is
+// applied to the text cells that come from input or from error messages
+// (flight, aircraft, warnings, speed, levels, profile, error, reason);
+// numbers written by the program are left alone, a negative number being
+// data, not a formula.
+func safeCell(s string) string {
+	if s != "" && strings.ContainsRune("=+-@\t\r", rune(s[0])) {
+		return "'" + s
+	}
+	return s
 }
 
 func writeCSV(records [][]string) ([]byte, error) {
@@ -199,17 +255,27 @@ func writeCSV(records [][]string) ([]byte, error) {
 	return buf.Bytes(), nil
 }
 
+// warningSep joins a plan's warnings in one cell.
+const warningSep = "; "
+
 func resultsCSV(results []record) ([]byte, error) {
 	recs := [][]string{resultColumns}
 	for _, r := range results {
-		recs = append(recs, []string{r.Flight, ciText(r.CI), r.Status, r.Departure, r.Aircraft,
-			strconv.Itoa(r.Row), fmtF(r.FuelKg), fmtF(r.TimeMin), fmtF(r.Cost), fmtF(r.CO2Kg),
-			fmtI(r.InitialFL), fmtI(r.Steps), fmtF(r.MinMarginG), fmtF(r.BaselineSavingPct), fmtF(r.LandingMassKg), r.Profile, r.Reason})
+		recs = append(recs, []string{safeCell(r.Flight), ciText(r.CI), r.Status,
+			safeCell(strings.Join(r.Warnings, warningSep)), r.Departure, r.Arrival, safeCell(r.Aircraft),
+			strconv.Itoa(r.Row), fmtR(r.DistanceNM, decNM), fmtR(r.TakeoffMassKg, decKg), fmtR(r.ZFWKg, decKg),
+			fmtR(r.LandingMassKg, decKg), fmtR(r.FuelKg, decKg), fmtR(r.TimeMin, decMin), fmtR(r.Cost, decKg),
+			fmtR(r.CO2Kg, decKg), fmtR(r.FloorG, decG), safeCell(r.Speed), safeCell(r.Levels),
+			fmtI(r.InitialFL), fmtI(r.Steps), fmtR(r.MinMarginG, decG), fmtR(r.CostSavingPct, decPct),
+			safeCell(r.Profile), safeCell(r.Reason)})
 	}
 	return writeCSV(recs)
 }
 
-func resultsParquet(results []record) ([]byte, error) {
+// resultsParquet writes results at full precision with meta as the
+// file's key-value metadata (Apache Parquet format, FileMetaData
+// key_value_metadata).
+func resultsParquet(results []record, meta map[string]string) ([]byte, error) {
 	i64 := func(p *int) *int64 {
 		if p == nil {
 			return nil
@@ -222,19 +288,35 @@ func resultsParquet(results []record) ([]byte, error) {
 		if err != nil {
 			return nil, fmt.Errorf("record of flight %s: departure %q: %w", r.Flight, r.Departure, err)
 		}
-		rows[i] = parquetRow{Flight: r.Flight, CI: r.CI, Status: r.Status, Departure: dep.UnixMilli(),
-			Aircraft: r.Aircraft, Row: int64(r.Row), FuelKg: r.FuelKg, TimeMin: r.TimeMin, Cost: r.Cost,
-			CO2Kg: r.CO2Kg, InitialFL: i64(r.InitialFL), Steps: i64(r.Steps), MinMarginG: r.MinMarginG,
-			BaselineSavingPct: r.BaselineSavingPct, LandingMassKg: r.LandingMassKg, Profile: r.Profile, Error: r.Reason}
+		var arr *int64
+		if r.Arrival != "" {
+			a, err := time.Parse(time.RFC3339, r.Arrival)
+			if err != nil {
+				return nil, fmt.Errorf("record of flight %s: arrival %q: %w", r.Flight, r.Arrival, err)
+			}
+			arr = ptr(a.UnixMilli())
+		}
+		rows[i] = parquetRow{Flight: r.Flight, CI: r.CI, Status: r.Status, Warnings: strings.Join(r.Warnings, warningSep),
+			Departure: dep.UnixMilli(), Arrival: arr, Aircraft: r.Aircraft, Row: int64(r.Row),
+			DistanceNM: r.DistanceNM, TakeoffMassKg: r.TakeoffMassKg, ZFWKg: r.ZFWKg, LandingMassKg: r.LandingMassKg,
+			FuelKg: r.FuelKg, TimeMin: r.TimeMin, Cost: r.Cost, CO2Kg: r.CO2Kg, FloorG: r.FloorG,
+			Speed: r.Speed, Levels: r.Levels, InitialFL: i64(r.InitialFL), Steps: i64(r.Steps),
+			MinMarginG: r.MinMarginG, CostSavingPct: r.CostSavingPct, Profile: r.Profile, Error: r.Reason}
+	}
+	keys := slices.Sorted(maps.Keys(meta))
+	var opts []parquet.WriterOption
+	for _, k := range keys {
+		opts = append(opts, parquet.KeyValueMetadata(k, meta[k]))
 	}
 	var buf bytes.Buffer
-	if err := parquet.Write(&buf, rows); err != nil {
+	if err := parquet.Write(&buf, rows, opts...); err != nil {
 		return nil, err
 	}
 	return buf.Bytes(), nil
 }
 
-// errorsCSV lists bad schedule rows (empty ci) and failed plans, sorted by
+// errorsCSV lists bad schedule rows (empty ci), failed plans and
+// infeasible plans (with the limits they break), sorted by
 // flight, then bad rows before plans, then ci and row.
 func errorsCSV(results, bads []record) ([]byte, error) {
 	type line struct {
@@ -251,8 +333,12 @@ func errorsCSV(results, bads []record) ([]byte, error) {
 		}
 	}
 	for _, r := range results {
-		if r.Status != statusOK {
+		switch r.Status {
+		case statusFailed:
 			lines = append(lines, line{flight: r.Flight, hasCI: true, ci: r.CI, row: r.Row, reason: r.Reason})
+		case statusInfeasible:
+			lines = append(lines, line{flight: r.Flight, hasCI: true, ci: r.CI, row: r.Row,
+				reason: "infeasible: " + strings.Join(r.Warnings, warningSep)})
 		}
 	}
 	slices.SortStableFunc(lines, func(a, b line) int {
@@ -271,18 +357,33 @@ func errorsCSV(results, bads []record) ([]byte, error) {
 		if l.hasCI {
 			ci = ciText(l.ci)
 		}
-		recs = append(recs, []string{l.flight, strconv.Itoa(l.row), l.reason, ci})
+		recs = append(recs, []string{safeCell(l.flight), strconv.Itoa(l.row), safeCell(l.reason), ci})
 	}
 	return writeCSV(recs)
 }
 
 func summaryCSV(by []CISummary) ([]byte, error) {
-	recs := [][]string{{"ci", "flights", "fuel_kg", "time_min", "cost", "co2_kg", "failed"}}
+	recs := [][]string{{"ci", "flights", "fuel_kg", "time_min", "cost", "co2_kg", "failed", "infeasible"}}
 	for _, c := range by {
-		recs = append(recs, []string{ciText(c.CI), strconv.Itoa(c.Flights), fmtNum(c.Fuel), fmtNum(c.Time),
-			fmtNum(c.Cost), fmtNum(c.CO2), strconv.Itoa(c.Failed)})
+		recs = append(recs, []string{ciText(c.CI), strconv.Itoa(c.Flights), fmtNum(round(c.Fuel, decKg)),
+			fmtNum(round(c.Time, decMin)), fmtNum(round(c.Cost, decKg)), fmtNum(round(c.CO2, decKg)),
+			strconv.Itoa(c.Failed), strconv.Itoa(c.Infeasible)})
 	}
 	return writeCSV(recs)
+}
+
+// manifestVersion is the layout version of manifest.json and run.json;
+// 2 added the fingerprint, the digests of plans and hashed file names.
+const manifestVersion = 2
+
+// checkRecordName returns an error unless name is a plain record file name:
+// no directory part, no "..", no leading '.', ending in ".json".
+func checkRecordName(name string) error {
+	if name == "" || name != filepath.Base(name) || strings.ContainsAny(name, `/\`) ||
+		strings.HasPrefix(name, ".") || !strings.HasSuffix(name, ".json") || len(name) > 255 {
+		return fmt.Errorf("record name %q leaves the parts directory or is not a record file name", excerpt(name))
+	}
+	return nil
 }
 
 // readManifest reads dir/manifest.json.
@@ -298,8 +399,18 @@ func readManifest(dir string) (manifest, error) {
 	if err := json.Unmarshal(data, &m); err != nil {
 		return m, &FormatError{File: filepath.Join(dir, manifestName), Msg: "corrupt manifest: " + err.Error()}
 	}
-	if m.Version != 1 {
-		return m, &FormatError{File: filepath.Join(dir, manifestName), Msg: fmt.Sprintf("unsupported manifest version %d", m.Version)}
+	if m.Version != manifestVersion {
+		return m, &FormatError{File: filepath.Join(dir, manifestName), Msg: fmt.Sprintf("unsupported manifest version %d (this program writes %d)", m.Version, manifestVersion)}
+	}
+	// Merge reads dir/parts/NAME for each name: a name must stay inside
+	// parts/, so it must be a plain file name of a record.
+	for _, name := range m.Records {
+		if err := checkRecordName(name); err != nil {
+			return m, &FormatError{File: filepath.Join(dir, manifestName), Msg: err.Error()}
+		}
+	}
+	if m.Shards < 1 || m.Shards > MaxShards || m.Shard < 0 || m.Shard >= m.Shards {
+		return m, &FormatError{File: filepath.Join(dir, manifestName), Msg: fmt.Sprintf("shard %d/%d is not a shard", m.Shard, m.Shards)}
 	}
 	return m, nil
 }

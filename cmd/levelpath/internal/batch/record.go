@@ -1,12 +1,15 @@
 package batch
 
 import (
+	"crypto/sha256"
+	"encoding/hex"
 	"encoding/json"
 	"fmt"
 	"hash/fnv"
 	"math"
 	"os"
 	"path/filepath"
+	"slices"
 	"strconv"
 	"strings"
 	"time"
@@ -14,77 +17,103 @@ import (
 
 // Layout of an output directory.
 const (
-	partsDir     = "parts"
-	plansDir     = "plans"
-	manifestName = "manifest.json"
-	tmpPrefix    = ".tmp-"
-	recordKind   = "result"
-	badKind      = "bad_row"
-	statusOK     = "ok"
-	statusFailed = "failed"
+	partsDir         = "parts"
+	plansDir         = "plans"
+	manifestName     = "manifest.json"
+	tmpPrefix        = ".tmp-"
+	recordKind       = "result"
+	badKind          = "bad_row"
+	statusOK         = "ok"         // planned, no warning
+	statusWarning    = "warning"    // planned, with warnings
+	statusInfeasible = "infeasible" // planned, but a limit is broken (fuel shortfall, landing mass, ...)
+	statusFailed     = "failed"     // no plan
 )
 
 // record is the per-flight (and per-CI) file in Out/parts/. It is the unit
 // of "nothing lost": a record exists on disk only once its plan is written,
-// and the final files are assembled from records alone. Numbers are rounded
-// when the record is made (see roundResult) so that results.csv and
-// results.parquet hold exactly the same values.
+// and the final files are assembled from records alone. Numbers are kept
+// at full precision (results.parquet holds them so; results.csv rounds them
+// for reading, see csvDecimals).
 type record struct {
-	Kind              string     `json:"kind"` // recordKind or badKind
-	Flight            string     `json:"flight"`
-	CI                float64    `json:"ci"`
-	Status            string     `json:"status,omitempty"` // statusOK or statusFailed
-	Row               int        `json:"row"`
-	Departure         string     `json:"departure,omitempty"`
-	Aircraft          string     `json:"aircraft,omitempty"`
-	FuelKg            *float64   `json:"fuel_kg,omitempty"`
-	TimeMin           *float64   `json:"time_min,omitempty"`
-	Cost              *float64   `json:"cost,omitempty"`
-	CO2Kg             *float64   `json:"co2_kg,omitempty"`
-	InitialFL         *int       `json:"initial_fl,omitempty"`
-	Steps             *int       `json:"steps,omitempty"`
-	MinMarginG        *float64   `json:"min_margin_g,omitempty"`
-	BaselineSavingPct *float64   `json:"baseline_saving_pct,omitempty"`
-	LandingMassKg     *float64   `json:"landing_mass_kg,omitempty"`
-	Profile           string     `json:"profile,omitempty"`
-	Reason            string     `json:"reason,omitempty"`
-	Errors            []RowError `json:"errors,omitempty"` // bad rows only
-	Plan              string     `json:"plan,omitempty"`   // path relative to Out
-	Input             string     `json:"input"`            // fingerprint of what was planned
+	Kind          string     `json:"kind"` // recordKind or badKind
+	Flight        string     `json:"flight"`
+	CI            float64    `json:"ci"`
+	Status        string     `json:"status,omitempty"` // statusOK, statusWarning, statusInfeasible or statusFailed
+	Warnings      []string   `json:"warnings,omitempty"`
+	Row           int        `json:"row"`
+	Departure     string     `json:"departure,omitempty"` // RFC 3339, UTC
+	Arrival       string     `json:"arrival,omitempty"`   // departure + time_min, RFC 3339, UTC
+	Aircraft      string     `json:"aircraft,omitempty"`
+	DistanceNM    *float64   `json:"distance_nm,omitempty"`
+	TakeoffMassKg *float64   `json:"takeoff_mass_kg,omitempty"`
+	ZFWKg         *float64   `json:"zfw_kg,omitempty"`
+	LandingMassKg *float64   `json:"landing_mass_kg,omitempty"`
+	FuelKg        *float64   `json:"fuel_kg,omitempty"`
+	TimeMin       *float64   `json:"time_min,omitempty"`
+	Cost          *float64   `json:"cost,omitempty"`
+	CO2Kg         *float64   `json:"co2_kg,omitempty"`
+	FloorG        *float64   `json:"floor_g,omitempty"`
+	Speed         string     `json:"speed,omitempty"`
+	Levels        string     `json:"levels,omitempty"`
+	InitialFL     *int       `json:"initial_fl,omitempty"`
+	Steps         *int       `json:"steps,omitempty"`
+	MinMarginG    *float64   `json:"min_margin_g,omitempty"`
+	CostSavingPct *float64   `json:"cost_saving_pct,omitempty"`
+	Profile       string     `json:"profile,omitempty"`
+	Reason        string     `json:"reason,omitempty"`
+	Errors        []RowError `json:"errors,omitempty"`      // bad rows only
+	Plan          string     `json:"plan,omitempty"`        // path relative to Out
+	PlanSHA256    string     `json:"plan_sha256,omitempty"` // digest of the plan file, checked on resume
+	Input         string     `json:"input"`                 // fingerprint of what was planned
 }
 
 // ciText formats a cost index for file names and CSV: shortest exact form.
 func ciText(ci float64) string { return strconv.FormatFloat(ci, 'f', -1, 64) }
 
-// fileStem maps a flight id to a file-name-safe stem: ASCII letters,
-// digits, '-', '_' and inner '.' are kept, every other byte becomes %XX, so
-// the mapping is one-to-one.
+// maxStem bounds the readable part of a file name.
+const maxStem = 32
+
+// fileStem maps a flight id to a short readable file-name stem: ASCII
+// letters and digits are kept, '-' too except first, every other byte
+// becomes '_', and at most maxStem bytes are kept. It is not one-to-one;
+// resultName adds a hash for that.
 func fileStem(flight string) string {
 	var b strings.Builder
-	for i := 0; i < len(flight); i++ {
+	for i := 0; i < len(flight) && b.Len() < maxStem; i++ {
 		c := flight[i]
-		ok := c >= 'a' && c <= 'z' || c >= 'A' && c <= 'Z' || c >= '0' && c <= '9' ||
-			c == '-' || c == '_' || (c == '.' && i > 0)
-		if ok {
+		if c >= 'a' && c <= 'z' || c >= 'A' && c <= 'Z' || c >= '0' && c <= '9' || c == '-' && i > 0 {
 			b.WriteByte(c)
 		} else {
-			fmt.Fprintf(&b, "%%%02X", c)
+			b.WriteByte('_')
 		}
 	}
 	return b.String()
 }
 
-// resultName is the record (and plan) file name of one flight at one CI.
-// The "_ci<number>" suffix cannot occur inside a number, so names are unique.
+// resultName is the record (and plan) file name of one flight at one CI:
+// the sanitized flight id, '_' and the first 16 hex digits (64 bits) of
+// the SHA-256 of the flight id and the CI's bits. No number of the input
+// appears in it, so its length is bounded (at most 54 bytes) whatever the
+// row holds; two (flight, CI) pairs share a name only on a 64-bit hash
+// collision, which Run and Merge detect (the record names its flight and
+// CI) rather than overwrite.
 func resultName(flight string, ci float64) string {
-	return fileStem(flight) + "_ci" + ciText(ci) + ".json"
+	h := sha256.New()
+	fmt.Fprintf(h, "%d:%s|%016x", len(flight), flight, math.Float64bits(ci))
+	return fileStem(flight) + "_" + hex.EncodeToString(h.Sum(nil)[:8]) + ".json"
 }
 
 // badName is the record file name of a bad schedule line.
 func badName(line int) string { return "line" + strconv.Itoa(line) + ".bad.json" }
 
-// fingerprint identifies the input of one plan: every field of the row and
-// the CI. A resumed run re-plans a flight whose fingerprint changed.
+// inputKey identifies the input of one plan: every field of the row, the
+// CI and the digests of the row's route and aircraft files (set by Run, see
+// Row.digests). A resumed run re-plans a flight whose key changed.
+func (r *Row) inputKey(ci float64) string {
+	return fingerprint(r, ci) + "-" + r.digests
+}
+
+// fingerprint identifies a row and CI: every field of the row and the CI.
 func fingerprint(r *Row, ci float64) string {
 	h := fnv.New64a()
 	f := func(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
@@ -108,15 +137,26 @@ func ptr[T any](v T) *T { return &v }
 // finite reports whether v is neither NaN nor an infinity.
 func finite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
 
-// resultRecord makes the record of a planned flight. Fuel, cost and CO2
-// are rounded to 0.1, time to 0.01 min, the margin to 0.001 g and the
-// saving to 0.01 %; NaN margin or saving means "none" and is left out.
-// A non-finite total makes the flight failed: it would poison every sum.
+// nmToM is the international nautical mile, exactly 1852 m (ICAO Annex 5,
+// table 3-3).
+const nmToM = 1852
+
+// maxReason bounds the failure reason kept in a record: a planner error
+// may quote the input it could not parse, and results.csv and errors.csv
+// must not carry a file's contents.
+const maxReason = 300
+
+// resultRecord makes the record of a planned flight, at full precision.
+// NaN margin or saving means "none" and is left out. A non-finite total
+// makes the flight failed: it would poison every sum. The status is
+// statusInfeasible when the plan breaks a limit (res.Violations: fuel
+// shortfall, landing mass, any other), statusWarning when it has warnings,
+// else statusOK.
 func resultRecord(row *Row, ci float64, res Result, planErr error) record {
 	rec := record{
 		Kind: recordKind, Flight: row.Flight, CI: ci, Row: row.Line,
-		Departure: row.Departure.Format(time.RFC3339), Aircraft: row.Aircraft,
-		Input: fingerprint(row, ci),
+		Departure: row.Departure.UTC().Format(time.RFC3339), Aircraft: row.Aircraft,
+		Input: row.inputKey(ci),
 	}
 	if planErr == nil {
 		for _, c := range []struct {
@@ -131,25 +171,47 @@ func resultRecord(row *Row, ci float64, res Result, planErr error) record {
 	}
 	if planErr != nil {
 		rec.Status = statusFailed
-		rec.Reason = planErr.Error()
+		rec.Reason = shortenQuoted(planErr.Error())
+		if len(rec.Reason) > maxReason {
+			rec.Reason = excerptN(rec.Reason, maxReason)
+		}
 		return rec
 	}
+	opt := func(v float64) *float64 {
+		if !finite(v) || v == 0 {
+			return nil
+		}
+		return ptr(v)
+	}
 	rec.Status = statusOK
-	rec.FuelKg = ptr(round(res.Fuel, 1))
-	rec.TimeMin = ptr(round(res.Time, 2))
-	rec.Cost = ptr(round(res.Cost, 1))
-	rec.CO2Kg = ptr(round(res.CO2, 1))
+	switch {
+	case len(res.Violations) > 0:
+		rec.Status = statusInfeasible
+	case len(res.Warnings) > 0:
+		rec.Status = statusWarning
+	}
+	rec.Warnings = append(slices.Clone(res.Violations), res.Warnings...)
+	rec.FuelKg = ptr(res.Fuel)
+	rec.TimeMin = ptr(res.Time)
+	rec.Cost = ptr(res.Cost)
+	rec.CO2Kg = ptr(res.CO2)
+	if d := time.Duration(math.Round(res.Time * 60e9)); finite(res.Time) && math.Abs(res.Time) < 1e6 {
+		rec.Arrival = row.Departure.UTC().Add(d).Format(time.RFC3339)
+	}
+	rec.DistanceNM = opt(res.Distance / nmToM)
+	rec.TakeoffMassKg = opt(res.TakeoffMass)
+	rec.ZFWKg = opt(res.ZFW)
+	rec.LandingMassKg = opt(res.LandingMass)
+	rec.FloorG = opt(res.Floor)
+	rec.Speed, rec.Levels = res.Speed, res.Levels
 	rec.InitialFL = ptr(res.InitialFL)
 	rec.Profile = res.Profile
-	if finite(res.LandingMass) && res.LandingMass > 0 {
-		rec.LandingMassKg = ptr(round(res.LandingMass, 1))
-	}
 	rec.Steps = ptr(res.Steps)
 	if finite(res.MinMargin) {
-		rec.MinMarginG = ptr(round(res.MinMargin, 3))
+		rec.MinMarginG = ptr(res.MinMargin)
 	}
-	if finite(res.BaselineSavingPct) {
-		rec.BaselineSavingPct = ptr(round(res.BaselineSavingPct, 2))
+	if finite(res.CostSavingPct) {
+		rec.CostSavingPct = ptr(res.CostSavingPct)
 	}
 	return rec
 }
@@ -224,4 +286,37 @@ func readRecord(path string) (record, error) {
 		return rec, &FormatError{File: path, Msg: fmt.Sprintf("plan %q, want %q", rec.Plan, planPath(filepath.Base(path)))}
 	}
 	return rec, nil
+}
+
+// shortenQuoted cuts every double-quoted part of msg (a field a parser
+// quoted, such as a header line of a file that is not a route) to
+// maxExcerpt bytes, so that a failure reason carries a short excerpt of
+// the input, never a whole line of a file. Backslash escapes inside the
+// quotes are honoured; an unclosed quote runs to the end.
+func shortenQuoted(msg string) string {
+	var b strings.Builder
+	for {
+		i := strings.IndexByte(msg, '"')
+		if i < 0 {
+			b.WriteString(msg)
+			return b.String()
+		}
+		b.WriteString(msg[:i+1])
+		msg = msg[i+1:]
+		end := len(msg)
+		for j := 0; j < len(msg); j++ {
+			if msg[j] == '\\' {
+				j++
+			} else if msg[j] == '"' {
+				end = j
+				break
+			}
+		}
+		b.WriteString(excerpt(msg[:end]))
+		if end == len(msg) {
+			return b.String()
+		}
+		b.WriteByte('"')
+		msg = msg[end+1:]
+	}
 }

@@ -6,6 +6,11 @@
 // outputs, and assembles results.csv, results.parquet, errors.csv and
 // summary.csv sorted by (flight, ci) so that runs are comparable.
 //
+// An output directory holds run.json (shard, fingerprint of the inputs
+// and options), parts/ (one record per flight and CI, named by a sanitized
+// flight id and a hash), plans/ (the plan documents), the final files and
+// manifest.json; a flock on its .lock file keeps two runs apart.
+//
 // The package knows nothing of the physics: the planner is a function value
 // supplied by the caller (the CLI closes it over one decoded weather field),
 // so the orchestration is tested with a fake planner.
@@ -16,6 +21,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"math"
 	"os"
 	"path/filepath"
 	"strconv"
@@ -41,6 +47,8 @@ type Row struct {
 	Floor     float64
 	Levels    string
 	Speed     string
+
+	digests string // of the route and aircraft files, set by Run
 }
 
 // RowError is one invalid schedule row. Bad rows are reported, not fatal:
@@ -98,6 +106,12 @@ const (
 	// maxMassKg is a sanity bound on any mass cell (no aircraft weighs a
 	// thousand tonnes); it catches values typed in grams or pounds ×1000.
 	maxMassKg = 1e6
+	// maxFloorG bounds floor_g: a 2.5 g floor already excludes every cruise
+	// level of a transport aircraft (common practice: 1.3 g is the usual
+	// floor); 10 g is a typing error.
+	maxFloorG = 10.0
+	// maxTextCell bounds the levels and speed cells.
+	maxTextCell = 256
 	// maxScheduleBytes bounds the schedule file read into memory.
 	maxScheduleBytes = 256 << 20
 )
@@ -113,7 +127,7 @@ const (
 // Route files are resolved against the schedule's directory and must exist.
 // Cost is linear in the file size.
 func ReadSchedule(path string) (rows []Row, bad []RowError, err error) {
-	f, err := os.Open(path)
+	f, err := openRegular(path)
 	if err != nil {
 		return nil, nil, fmt.Errorf("schedule: %w", err)
 	}
@@ -158,8 +172,11 @@ func ReadSchedule(path string) (rows []Row, bad []RowError, err error) {
 		}
 		line, _ := r.FieldPos(0)
 		if len(rec) != len(header) {
-			bad = append(bad, RowError{File: base, Line: line, Flight: cell(rec, col["flight"]),
-				Msg: fmt.Sprintf("%d fields, the header has %d", len(rec), len(header))})
+			msg := fmt.Sprintf("%d fields, the header has %d", len(rec), len(header))
+			if _, hasLevels := col["levels"]; hasLevels && len(rec) > len(header) {
+				msg += ` (a levels value such as list:330,370 must be quoted, or written list:330;370)`
+			}
+			bad = append(bad, RowError{File: base, Line: line, Flight: excerpt(cell(rec, col["flight"])), Msg: msg})
 			continue
 		}
 		row, errs := parseRow(rec, col, line, base, dir, routeOK)
@@ -178,6 +195,49 @@ func ReadSchedule(path string) (rows []Row, bad []RowError, err error) {
 		rows = append(rows, row)
 	}
 	return rows, bad, nil
+}
+
+// openRegular opens path for reading only when it is a regular file (or a
+// symbolic link to one): a FIFO would block the open until a writer came,
+// a device may never end, and a directory is not a schedule. The file is
+// checked before the open and again on the open descriptor, so a swap in
+// between is caught too. The error is an *InputError naming the file.
+func openRegular(path string) (*os.File, error) {
+	if err := checkRegular(path); err != nil {
+		return nil, err
+	}
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, err
+	}
+	if st, err := f.Stat(); err != nil || !st.Mode().IsRegular() {
+		f.Close()
+		return nil, inputErrorf("%s is not a regular file", path)
+	}
+	return f, nil
+}
+
+// checkRegular returns an *InputError unless path is a regular file.
+func checkRegular(path string) error {
+	st, err := os.Stat(path)
+	if err != nil {
+		return err
+	}
+	if !st.Mode().IsRegular() {
+		kind := "not a regular file"
+		switch m := st.Mode(); {
+		case m.IsDir():
+			kind = "a directory"
+		case m&os.ModeNamedPipe != 0:
+			kind = "a FIFO (named pipe)"
+		case m&os.ModeDevice != 0:
+			kind = "a device"
+		case m&os.ModeSocket != 0:
+			kind = "a socket"
+		}
+		return inputErrorf("%s is %s, not a regular file", path, kind)
+	}
+	return nil
 }
 
 // capReader reads r and fails with a *FormatError naming file once more
@@ -270,11 +330,14 @@ func parseRow(rec []string, col map[string]int, line int, file, dir string, rout
 	case strings.IndexFunc(row.Flight, func(r rune) bool { return unicode.IsControl(r) || r == unicode.ReplacementChar }) >= 0:
 		fail("flight", "flight id %q holds control or invalid characters", row.Flight)
 	}
+	if len(row.Flight) > maxFlightLen {
+		row.Flight = excerpt(row.Flight) // errors name a short excerpt
+	}
 
 	if s := get("departure"); s == "" {
 		fail("departure", "empty departure time")
 	} else if t, err := time.Parse(time.RFC3339, s); err != nil {
-		fail("departure", "%q is not an RFC 3339 time such as 2026-06-12T08:30:00Z", s)
+		fail("departure", "%q is not an RFC 3339 time such as 2026-06-12T08:30:00Z", excerpt(s))
 	} else {
 		row.Departure = t
 	}
@@ -290,17 +353,11 @@ func parseRow(rec []string, col map[string]int, line int, file, dir string, rout
 		row.Route = filepath.Clean(p)
 		err, done := routeOK[row.Route]
 		if !done {
-			st, serr := os.Stat(row.Route)
-			switch {
-			case serr != nil:
-				err = serr
-			case st.IsDir():
-				err = fmt.Errorf("%s is a directory", row.Route)
-			}
+			err = checkRegular(row.Route)
 			routeOK[row.Route] = err
 		}
 		if err != nil {
-			fail("route", "route file %s: %v", row.RouteRaw, err)
+			fail("route", "route file %q: %v", excerpt(row.RouteRaw), err)
 		}
 	}
 
@@ -315,12 +372,14 @@ func parseRow(rec []string, col map[string]int, line int, file, dir string, rout
 		}
 		v, err := strconv.ParseFloat(s, 64)
 		switch {
-		case err != nil || !finite(v):
-			fail(name, "%q is not a number", s)
+		case err != nil && !errors.Is(err, strconv.ErrRange) || math.IsNaN(v):
+			fail(name, "%q is not a number", excerpt(s))
 		case v <= 0:
-			fail(name, "%s kg: a mass must be positive", s)
+			fail(name, "%s kg: a mass must be positive", excerpt(s))
 		case v >= maxMassKg:
-			fail(name, "%s kg is not an aircraft mass (want less than %.0f kg)", s, maxMassKg)
+			fail(name, "%s kg is not an aircraft mass (want less than %.0f kg)", excerpt(s), maxMassKg)
+		case v < 1:
+			fail(name, "%s kg is not an aircraft mass (want at least 1 kg)", excerpt(s))
 		default:
 			return v, true
 		}
@@ -341,10 +400,10 @@ func parseRow(rec []string, col map[string]int, line int, file, dir string, rout
 	if s := get("ci"); s != "" {
 		v, err := strconv.ParseFloat(s, 64)
 		switch {
-		case err != nil || !finite(v):
-			fail("ci", "%q is not a number", s)
-		case v < 0:
-			fail("ci", "%s: a cost index must not be negative", s)
+		case err != nil && !errors.Is(err, strconv.ErrRange) || math.IsNaN(v):
+			fail("ci", "%q is not a number", excerpt(s))
+		case checkCI(v) != "":
+			fail("ci", "%s: %s", excerpt(s), checkCI(v))
 		default:
 			if v == 0 {
 				v = 0 // -0 and 0 are one cost index
@@ -356,15 +415,24 @@ func parseRow(rec []string, col map[string]int, line int, file, dir string, rout
 	if s := get("floor_g"); s != "" {
 		v, err := strconv.ParseFloat(s, 64)
 		switch {
-		case err != nil || !finite(v):
-			fail("floor_g", "%q is not a number", s)
+		case err != nil && !errors.Is(err, strconv.ErrRange) || math.IsNaN(v):
+			fail("floor_g", "%q is not a number", excerpt(s))
 		case v <= 1:
-			fail("floor_g", "%s g: a buffet floor of 1 g or less gives no protection", s)
+			fail("floor_g", "%s g: a buffet floor of 1 g or less gives no protection", excerpt(s))
+		case v > maxFloorG:
+			fail("floor_g", "%s g is above the largest buffet floor %g g", excerpt(s), maxFloorG)
 		default:
 			row.Floor = v
 		}
 	}
-	row.Levels = get("levels")
+	// ';' separates a list of levels without CSV quoting: list:330;370
+	// is list:330,370.
+	row.Levels = strings.ReplaceAll(get("levels"), ";", ",")
 	row.Speed = get("speed")
+	for _, c := range []struct{ name, v string }{{"levels", row.Levels}, {"speed", row.Speed}} {
+		if len(c.v) > maxTextCell {
+			fail(c.name, "%d bytes, more than %d", len(c.v), maxTextCell)
+		}
+	}
 	return row, errs
 }

@@ -77,11 +77,27 @@ func TestReadScheduleBadRows(t *testing.T) {
 		{"missing route file", "XY1,2026-06-12T08:30:00Z,nope.csv,TESTJET,61000,20", "route", "nope.csv"},
 		{"empty aircraft", "XY1,2026-06-12T08:30:00Z,r.csv,,61000,20", "aircraft", "empty aircraft"},
 		{"too few fields", "XY1,2026-06-12T08:30:00Z,r.csv", "", "3 fields, the header has 6"},
+		// Issue 17: one bad number is a bad row, never a run-stopping error.
+		{"ci 1e300", "XY1,2026-06-12T08:30:00Z,r.csv,TESTJET,61000,1e300", "ci", "above the largest cost index 10000"},
+		{"ci subnormal", "XY1,2026-06-12T08:30:00Z,r.csv,TESTJET,61000,5e-324", "ci", "subnormal"},
+		{"ci overflows float64", "XY1,2026-06-12T08:30:00Z,r.csv,TESTJET,61000,1e400", "ci", "not a finite number"},
+		{"ci Inf", "XY1,2026-06-12T08:30:00Z,r.csv,TESTJET,61000,Inf", "ci", "not a finite number"},
+		{"ci NaN", "XY1,2026-06-12T08:30:00Z,r.csv,TESTJET,61000,NaN", "ci", "not a number"},
+		{"tow subnormal", "XY1,2026-06-12T08:30:00Z,r.csv,TESTJET,5e-324,20", "tow_kg", "at least 1 kg"},
+		{"tow 1e300", "XY1,2026-06-12T08:30:00Z,r.csv,TESTJET,1e300,20", "tow_kg", "not an aircraft mass"},
+		{"route is a directory", "XY1,2026-06-12T08:30:00Z,sub,TESTJET,61000,20", "route", "is a directory, not a regular file"},
+		{"route is a FIFO", "XY1,2026-06-12T08:30:00Z,fifo,TESTJET,61000,20", "route", "is a FIFO (named pipe), not a regular file"},
+		{"route is a device", "XY1,2026-06-12T08:30:00Z,/dev/zero,TESTJET,61000,20", "route", "is a device, not a regular file"},
+		{"long value quoted short", "XY1,2026-06-12T08:30:00Z,r.csv,TESTJET,61000," + strings.Repeat("9", 500) + "x", "ci", `"` + strings.Repeat("9", 40) + `..."`},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
 			dir := t.TempDir()
 			writeFile(t, dir, "r.csv", "x\n")
+			if err := os.Mkdir(filepath.Join(dir, "sub"), 0o755); err != nil {
+				t.Fatal(err)
+			}
+			mkfifo(t, filepath.Join(dir, "fifo"))
 			path := writeFile(t, dir, "schedule.csv", header+"\n"+good+"\n"+tc.line+"\n")
 			rows, bad, err := ReadSchedule(path)
 			if err != nil {
@@ -162,6 +178,21 @@ func TestCapReader(t *testing.T) {
 			t.Errorf("max %d: err = %v, want a FormatError for s.csv naming the limit", tc.max, err)
 		case !tc.wantErr && (err != nil || len(recs) != 2 || recs[1][4] != "61000"):
 			t.Errorf("max %d: records %q, err %v, want both lines whole", tc.max, recs, err)
+		}
+	}
+}
+
+// Issue 17: a schedule that is a FIFO, a device or a directory is refused
+// before it is opened (opening a FIFO for reading blocks until a writer
+// comes, which would hang the batch).
+func TestReadScheduleRefusesNonRegular(t *testing.T) {
+	dir := t.TempDir()
+	mkfifo(t, filepath.Join(dir, "fifo"))
+	for _, p := range []string{filepath.Join(dir, "fifo"), "/dev/zero", dir} {
+		_, _, err := ReadSchedule(p)
+		var ie *InputError
+		if !errors.As(err, &ie) || !strings.Contains(err.Error(), p) || !strings.Contains(err.Error(), "not a regular file") {
+			t.Errorf("ReadSchedule(%s) err = %v, want an *InputError naming it, not a regular file", p, err)
 		}
 	}
 }

@@ -25,6 +25,12 @@ func TestParseShard(t *testing.T) {
 		{"1", 0, 0, `shard "1": want K/N`},
 		{"a/3", 0, 0, `shard "a/3": K and N must be whole numbers`},
 		{"", 0, 0, `shard "": want K/N`},
+		// Issue 17: 2^32 made InShard divide by zero, 2^32+1 wrapped to 1.
+		{"0/4294967296", 0, 0, "more than the 1048576 shards"},
+		{"0/4294967297", 0, 0, "more than the 1048576 shards"},
+		{"0/99999999999999999999", 0, 0, "more than the 1048576 shards"},
+		{"99999999999999999999/4", 0, 0, "K must be in 0..3"},
+		{"0/1048576", 0, 1048576, ""},
 	}
 	for _, tc := range tests {
 		k, n, err := ParseShard(tc.in)
@@ -42,7 +48,9 @@ func TestParseShard(t *testing.T) {
 
 // Variable names and meanings: Kubernetes documentation (Indexed Job sets
 // JOB_COMPLETION_INDEX); sbatch manual (SLURM_ARRAY_TASK_ID, _COUNT, _MIN,
-// _STEP; e.g. --array=1-7:2 gives IDs 1,3,5,7, MIN 1, STEP 2, COUNT 4).
+// _STEP; "sbatch --array=2 job.sh" re-runs task 2 alone, which then sees
+// SLURM_ARRAY_TASK_COUNT=1 and MIN=MAX=2). The shard is the task ID and the
+// explicit count, whatever the array variables say.
 func TestShardFromEnv(t *testing.T) {
 	tests := []struct {
 		name    string
@@ -55,16 +63,20 @@ func TestShardFromEnv(t *testing.T) {
 		{"nothing", nil, 0, 0, 0, false, ""},
 		{"kubernetes", map[string]string{"JOB_COMPLETION_INDEX": "3"}, 5, 3, 5, true, ""},
 		{"kubernetes without count", map[string]string{"JOB_COMPLETION_INDEX": "3"}, 0, 0, 0, false, "JOB_COMPLETION_INDEX=3 is set but the shard count is not"},
-		{"kubernetes index too big", map[string]string{"JOB_COMPLETION_INDEX": "5"}, 5, 0, 0, false, "not below the shard count 5"},
+		{"kubernetes index too big", map[string]string{"JOB_COMPLETION_INDEX": "5"}, 5, 0, 0, false, "JOB_COMPLETION_INDEX=5 is not below the shard count 5"},
 		{"kubernetes over slurm", map[string]string{"JOB_COMPLETION_INDEX": "1", "SLURM_ARRAY_TASK_ID": "0", "SLURM_ARRAY_TASK_COUNT": "2"}, 4, 1, 4, true, ""},
-		{"slurm 0-based", map[string]string{"SLURM_ARRAY_TASK_ID": "2", "SLURM_ARRAY_TASK_COUNT": "4"}, 0, 2, 4, true, ""},
-		{"slurm 1-based", map[string]string{"SLURM_ARRAY_TASK_ID": "4", "SLURM_ARRAY_TASK_COUNT": "4", "SLURM_ARRAY_TASK_MIN": "1"}, 0, 3, 4, true, ""},
-		{"slurm step", map[string]string{"SLURM_ARRAY_TASK_ID": "5", "SLURM_ARRAY_TASK_COUNT": "4", "SLURM_ARRAY_TASK_MIN": "1", "SLURM_ARRAY_TASK_STEP": "2"}, 0, 2, 4, true, ""},
-		{"slurm count from flag", map[string]string{"SLURM_ARRAY_TASK_ID": "1"}, 3, 1, 3, true, ""},
-		{"slurm no count", map[string]string{"SLURM_ARRAY_TASK_ID": "1"}, 0, 0, 0, false, "neither SLURM_ARRAY_TASK_COUNT nor a shard count"},
-		{"slurm count disagrees", map[string]string{"SLURM_ARRAY_TASK_ID": "1", "SLURM_ARRAY_TASK_COUNT": "4"}, 3, 0, 0, false, "SLURM_ARRAY_TASK_COUNT=4 disagrees with the shard count 3"},
-		{"slurm gap", map[string]string{"SLURM_ARRAY_TASK_ID": "9", "SLURM_ARRAY_TASK_COUNT": "3", "SLURM_ARRAY_TASK_MIN": "1"}, 0, 0, 0, false, "SLURM_ARRAY_TASK_ID=9 does not map onto shard 0..2"},
-		{"slurm bad id", map[string]string{"SLURM_ARRAY_TASK_ID": "x"}, 0, 0, 0, false, `SLURM_ARRAY_TASK_ID="x" is not a whole number`},
+		{"slurm whole array", map[string]string{"SLURM_ARRAY_TASK_ID": "2", "SLURM_ARRAY_TASK_COUNT": "4", "SLURM_ARRAY_TASK_MIN": "0"}, 4, 2, 4, true, ""},
+		// The case of issue 13: one task re-run alone must stay shard 2/4.
+		{"slurm task re-run alone", map[string]string{"SLURM_ARRAY_TASK_ID": "2", "SLURM_ARRAY_TASK_COUNT": "1", "SLURM_ARRAY_TASK_MIN": "2", "SLURM_ARRAY_TASK_MAX": "2"}, 4, 2, 4, true, ""},
+		{"slurm without count", map[string]string{"SLURM_ARRAY_TASK_ID": "1", "SLURM_ARRAY_TASK_COUNT": "4"}, 0, 0, 0, false, "SLURM_ARRAY_TASK_ID=1 is set but the shard count is not"},
+		{"slurm 1-based array", map[string]string{"SLURM_ARRAY_TASK_ID": "4", "SLURM_ARRAY_TASK_MIN": "1"}, 4, 0, 0, false, "SLURM_ARRAY_TASK_ID=4 is not below the shard count 4"},
+		{"slurm bad id", map[string]string{"SLURM_ARRAY_TASK_ID": "x"}, 2, 0, 0, false, `SLURM_ARRAY_TASK_ID "x" is not a whole number`},
+		{"slurm huge id", map[string]string{"SLURM_ARRAY_TASK_ID": "4294967296"}, 2, 0, 0, false, `SLURM_ARRAY_TASK_ID "4294967296": more than the 1048576 shards`},
+		{"slurm id overflows int64", map[string]string{"SLURM_ARRAY_TASK_ID": "99999999999999999999"}, 2, 0, 0, false, "more than the 1048576 shards"},
+		{"count without index", nil, 4, 0, 0, false, "shard count 4 given but neither JOB_COMPLETION_INDEX nor SLURM_ARRAY_TASK_ID is set"},
+		{"count 2^32", map[string]string{"JOB_COMPLETION_INDEX": "0"}, 1 << 32, 0, 0, false, "shard count 4294967296: more than the 1048576 shards"},
+		{"count 2^32+1", map[string]string{"SLURM_ARRAY_TASK_ID": "0"}, 1<<32 + 1, 0, 0, false, "shard count 4294967297: more than"},
+		{"negative count", nil, -1, 0, 0, false, "must not be negative"},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
@@ -94,8 +106,14 @@ func TestParseSweep(t *testing.T) {
 		{"", nil, "want a comma-separated list"},
 		{"0,,5", nil, "item 2 is empty"},
 		{"0,x,5", nil, `item "x" is not a number`},
-		{"0,Inf", nil, `item "Inf" is not a number`},
+		{"0,Inf", nil, `item "Inf": is not a finite number`},
+		{"0,NaN", nil, `item "NaN" is not a number`},
 		{"0,-5", nil, `item "-5": a cost index must not be negative`},
+		// Issue 17: 1e300 and 5e-324 made file names too long.
+		{"0,1e300", nil, `item "1e300": is above the largest cost index 10000 kg/min`},
+		{"1e999", nil, `item "1e999": is not a finite number`},
+		{"5e-324", nil, `item "5e-324": is subnormal`},
+		{"10000", []float64{10000}, ""},
 		{"10,20,10", nil, `item "10" appears twice`},
 	}
 	for _, tc := range tests {

@@ -76,7 +76,7 @@ func Schedule() []Flight {
 		{"DEMO203", d(6, 15), "route-corvale.geojson", "demo-widebody", 198000, 60},
 		{"DEMO301", d(3, 0), "route-sunhaven.geojson", "demo-narrowbody", 72000, 20},
 		{"DEMO303", d(5, 0), "route-sunhaven.geojson", "demo-narrowbody", 69500, 35},
-		{"DEMO305", d(9, 40), "route-sunhaven.geojson", "demo-narrowbody", 74000, 10},
+		{"DEMO305", d(9, 40), "route-sunhaven.geojson", "demo-narrowbody", 71000, 10},
 		{"DEMO401", d(2, 20), "route-lakeport.geojson", "demo-regional", 36500, 15},
 		{"DEMO403", d(7, 10), "route-lakeport.geojson", "demo-regional", 35000, 25},
 		{"DEMO405", d(11, 0), "route-lakeport.geojson", "demo-regional", 38000, 0},
