@@ -36,12 +36,20 @@ type sim struct {
 	m    float64 // mass
 	t    float64 // seconds since departure
 	x    float64 // distance flown
-	fl   int
-	segs []route.Segment
+	fl   int     // level flown
+	// target is the level the profile asks for; it differs from fl
+	// while the aircraft cannot reach it (levelled off below).
+	target int
+	segs   []route.Segment
 }
 
 func (s *sim) violate(limit string, by float64, unit, detail string) {
-	s.plan.Violations = append(s.plan.Violations, Violation{Leg: len(s.plan.Legs) - 1, Limit: limit, By: by, Unit: unit, Detail: detail})
+	s.violateLeg(len(s.plan.Legs)-1, limit, by, unit, detail)
+}
+
+// violateLeg records a violation on leg i (which may be the next leg).
+func (s *sim) violateLeg(i int, limit string, by float64, unit, detail string) {
+	s.plan.Violations = append(s.plan.Violations, Violation{Leg: i, Limit: limit, By: by, Unit: unit, Detail: detail})
 }
 
 // segAt returns the segment holding distance d.
@@ -80,7 +88,7 @@ func assess(q *Problem, prof Profile, warn []string, detail bool) (*Plan, error)
 	}
 	plan := &Plan{Aircraft: q.Aircraft.Name, CI: q.CI, Floor: q.Floor, Speed: q.Speed.String(), Depart: q.Depart,
 		TakeoffMass: q.TakeoffMass, Distance: total, Profile: pr, Warnings: append([]string(nil), warn...)}
-	s := &sim{q: q, a: q.Aircraft, plan: plan, m: q.TakeoffMass, fl: pr.Initial, segs: segs}
+	s := &sim{q: q, a: q.Aircraft, plan: plan, m: q.TakeoffMass, fl: pr.Initial, target: pr.Initial, segs: segs}
 	if err := s.run(pr, total, detail); err != nil {
 		return nil, err
 	}
@@ -111,7 +119,21 @@ func (s *sim) run(pr Profile, total float64, detail bool) error {
 	}
 	cl := transition(a, s.m, endP, perf.FLToPressure(float64(s.fl)), c0.isaDev, q.ClimbSchedule, true)
 	if !cl.ok {
-		return inputErrorf("profile", "initial climb to FL%03d at %.0f kg: %s", s.fl, s.m, cl.why)
+		// Climb as high as the aircraft can and level off there; the
+		// profile's level is taken when the aircraft can reach it.
+		startFL := int(math.Ceil(q.EndAltitude / (100 * perf.FtToM)))
+		lf, ok := reachableFL(startFL, s.fl, func(fl int) bool {
+			return transition(a, s.m, endP, perf.FLToPressure(float64(fl)), c0.isaDev, q.ClimbSchedule, true).ok
+		})
+		if !ok || lf <= startFL {
+			return inputErrorf("profile", "initial climb to FL%03d at %.0f kg: %s", s.fl, s.m, cl.why)
+		}
+		s.violateLeg(0, "climb", float64(s.fl-lf)*100, "ft", fmt.Sprintf("initial climb to FL%03d cannot be completed at %.0f kg (%s): the aircraft levels off at FL%03d and climbs to FL%03d when it can", s.fl, s.m, cl.why, lf, s.fl))
+		s.fl = lf
+		cl = transition(a, s.m, endP, perf.FLToPressure(float64(s.fl)), c0.isaDev, q.ClimbSchedule, true)
+	}
+	if s.target > q.MaxFL {
+		s.violateLeg(0, "certified", float64(s.target-q.MaxFL)*100, "ft", fmt.Sprintf("initial level FL%03d is above the highest usable level FL%03d", s.target, q.MaxFL))
 	}
 	g := cl.dist + 0.5*c0.wind*cl.time
 	s.addTransLeg(PhaseClimb, 0, q.EndAltitude/(100*perf.FtToM), float64(s.fl), g, cl, c0)
@@ -131,6 +153,12 @@ func (s *sim) run(pr Profile, total float64, detail bool) error {
 			return nil
 		}
 		k := s.segAt(s.x)
+		if s.fl < s.target {
+			if err := s.resumeClimb(k, descGround, total); err != nil {
+				return err
+			}
+			k = s.segAt(s.x)
+		}
 		c, err := s.condAt(k, s.fl)
 		if err != nil {
 			return err
@@ -174,6 +202,14 @@ func (s *sim) run(pr Profile, total float64, detail bool) error {
 		if ci < len(pr.Changes) && s.x >= xc-1e-6 {
 			ch := pr.Changes[ci]
 			ci++
+			// A change that begins on a boundary is judged with the
+			// segment that begins there, as the search does.
+			if k+1 < len(s.segs) && s.x >= s.segs[k].ToDist-1e-6 {
+				k++
+				if c, err = s.condAt(k, s.fl); err != nil {
+					return err
+				}
+			}
 			if err := s.step(k, ch, c, &steps, &lastStep); err != nil {
 				return err
 			}
@@ -237,22 +273,25 @@ func (s *sim) cruise(k int, end float64, c cond, detail bool) {
 		leg.MaxFLBuffet, leg.MaxFLThrust = nan, nan
 	}
 	s.plan.Legs = append(s.plan.Legs, leg)
-	s.checkLimits(seg, c, v)
+	s.checkLimits(seg, end, c, v)
 	s.m -= leg.Fuel
 	s.t += dt
 	s.x = end
 }
 
 // checkLimits records the limits a cruise leg breaks.
-func (s *sim) checkLimits(seg *route.Segment, c cond, v cruiseVal) {
+func (s *sim) checkLimits(seg *route.Segment, end float64, c cond, v cruiseVal) {
 	q, a := s.q, s.a
 	if c.closed {
 		s.violate("turbulence", c.edr, "m^(2/3)/s", fmt.Sprintf("FL%03d on segment %d: %s", s.fl, seg.Index, c.closedWhy))
 	}
-	if !containsInt(seg.Levels, s.fl) {
+	if s.fl != s.target {
+		// Levelled off below the profile's level: the climb violation
+		// says so; the rule and blocks are judged at the level asked for.
+	} else if !containsInt(seg.Levels, s.fl) {
 		s.violate("level-rule", 0, "", fmt.Sprintf("FL%03d is not an allowed level on segment %d (course %.0f° magnetic)", s.fl, seg.Index, seg.MagCourse))
 	}
-	if blocked(q.Blocked, s.x, s.x+1, s.fl) {
+	if s.fl == s.target && blocked(q.Blocked, s.x, end, s.fl) {
 		s.violate("blocked", 0, "", fmt.Sprintf("FL%03d is blocked at %.0f NM", s.fl, s.x/nmToM))
 	}
 	if s.fl > q.MaxFL {
