@@ -17,15 +17,32 @@ import (
 // change that begins within 0.5 NM of a segment boundary is taken at the
 // boundary, so a profile printed in whole NM prices as the plan it came
 // from. Pricing the profile of a Solve result gives that plan's totals.
+// The baseline (best constant level, as in Solve) is computed too, or
+// Plan.BaselineNote says why not.
 //
 // Complexity: O(segments + changes) point evaluations.
 func Assess(p *Problem, prof Profile) (*Plan, error) {
+	return assessProblem(p, prof, true)
+}
+
+// assessProblem is Assess, with the baseline only when asked (a search:
+// tests that price thousands of profiles skip it).
+func assessProblem(p *Problem, prof Profile, baseline bool) (*Plan, error) {
 	q := *p
 	warn, err := q.normalise()
 	if err != nil {
 		return nil, err
 	}
-	return assess(&q, prof, warn, q.LegCeilings)
+	plan, err := assess(&q, prof, warn, q.LegCeilings)
+	if err != nil {
+		return nil, err
+	}
+	if baseline {
+		assessBaseline(&q, plan)
+	} else {
+		plan.BaselineNote = "not computed"
+	}
+	return plan, nil
 }
 
 // sim is the state of the forward simulation of a profile.
@@ -97,12 +114,7 @@ func assess(q *Problem, prof Profile, warn []string, detail bool) (*Plan, error)
 	plan.Totals.Time = s.t
 	plan.Totals.Cost = plan.Totals.Fuel + q.CI*s.t/60
 	plan.Totals.CO2 = 3.16 * plan.Totals.Fuel
-	if s.m > q.Aircraft.MLW {
-		s.violate("landing-mass", s.m-q.Aircraft.MLW, "kg", fmt.Sprintf("landing mass %.0f kg over MLW %.0f kg", s.m, q.Aircraft.MLW))
-	}
-	if q.ZFW > 0 && s.m < q.ZFW {
-		s.violate("fuel", q.ZFW-s.m, "kg", fmt.Sprintf("trip fuel exceeds the fuel on board by %.0f kg", q.ZFW-s.m))
-	}
+	s.checkLoading()
 	addWarnings(plan)
 	return plan, nil
 }

@@ -94,9 +94,12 @@ type Plan struct {
 	Totals      Totals
 	Legs        []Leg
 	Steps       []Step
-	Baseline    *Baseline // nil when no constant level is feasible
-	Warnings    []string
-	Violations  []Violation // filled by Assess; empty for a Solve result
+	Baseline    *Baseline // nil when no constant level is feasible, or not computed
+	// BaselineNote says why Baseline is nil ("no constant level is
+	// feasible ...", or "not computed: ...").
+	BaselineNote string
+	Warnings     []string
+	Violations   []Violation // filled by Assess; empty for a Solve result
 	// SearchCost is the cost the graph search found (Solve only), before
 	// the exact re-pricing that fills Totals.
 	SearchCost float64

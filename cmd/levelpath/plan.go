@@ -59,7 +59,18 @@ func (f *planFlags) run(cmd *cobra.Command, assessed bool, price func(*optimizer
 	if err := writeCharts(f.chart, f.report, plan, pr); err != nil {
 		return err
 	}
-	return writePlan(cmd.OutOrStdout(), *f.format, plan, assessed)
+	if err := writePlan(cmd.OutOrStdout(), *f.format, plan, assessed); err != nil {
+		return err
+	}
+	// A plan whose loading makes the flight impossible (trip fuel over the
+	// tanks or the fuel on board, landing under OEW or over MLW) fails
+	// with exit code 2 after its output is written; assess only lists.
+	if !assessed {
+		if err := plan.LoadingFailure(); err != nil {
+			return badInput(err)
+		}
+	}
+	return nil
 }
 
 func newPlanCmd() *cobra.Command {

@@ -23,6 +23,7 @@ const (
 // Doc is the JSON form of a plan.
 type Doc struct {
 	Caution       string      `json:"caution"`
+	Status        string      `json:"status"`
 	Aircraft      string      `json:"aircraft"`
 	CI            float64     `json:"ci"`
 	FloorG        float64     `json:"floor_g"`
@@ -35,6 +36,7 @@ type Doc struct {
 	MinMarginG    *float64    `json:"min_margin_g"`
 	Totals        Totals      `json:"totals"`
 	Baseline      *Baseline   `json:"baseline"`
+	BaselineNote  string      `json:"baseline_note,omitempty"`
 	Steps         []Step      `json:"steps"`
 	Legs          []Leg       `json:"legs"`
 	Warnings      []string    `json:"warnings"`
@@ -116,7 +118,7 @@ func Number(x float64) *float64 {
 // result (violations are always listed then, even when empty).
 func FromPlan(p *optimizer.Plan, assessed bool) *Doc {
 	d := &Doc{
-		Caution: optimizer.Caution, Aircraft: p.Aircraft, CI: p.CI, FloorG: p.Floor, Speed: p.Speed,
+		Caution: optimizer.Caution, Status: p.Status(), BaselineNote: p.BaselineNote, Aircraft: p.Aircraft, CI: p.CI, FloorG: p.Floor, Speed: p.Speed,
 		Depart: p.Depart.UTC().Format(time.RFC3339), TakeoffMassKg: p.TakeoffMass, DistanceNM: p.Distance / mPerNM,
 		Profile: p.Profile.String(), InitialFL: p.Profile.Initial, MinMarginG: Number(p.MinMargin()),
 		Totals:   totals(p.Totals),

@@ -11,8 +11,9 @@ import (
 	"levelpath/optimizer"
 )
 
-// WriteTable writes the dispatcher's view: summary, steps, legs, warnings,
-// violations and the caution.
+// WriteTable writes the dispatcher's view: summary, status, violations and
+// warnings first, then the fuel block (when a fuel plan was made), steps,
+// the numbered legs (the numbers violations refer to) and the caution.
 func WriteTable(w io.Writer, p *optimizer.Plan, assessed bool) error {
 	d := FromPlan(p, assessed)
 	bw := &errWriter{w: w}
@@ -31,8 +32,18 @@ func WriteTable(w io.Writer, p *optimizer.Plan, assessed bool) error {
 	}
 	if b := d.Baseline; b != nil {
 		bw.printf("Baseline constant FL%03d: fuel %.0f kg, time %s, cost %.0f; this profile saves %.2f %%\n", b.FL, b.FuelKg, hhmm(b.TimeMin), b.Cost, b.SavingPct)
+	} else if d.BaselineNote != "" {
+		bw.printf("Baseline: %s\n", d.BaselineNote)
 	} else {
 		bw.printf("Baseline: no constant level is feasible along the whole route\n")
+	}
+	bw.printf("Status   %s\n", statusText(d))
+	writeViolations(bw, d, assessed)
+	if len(d.Warnings) > 0 {
+		bw.printf("\nWarnings\n")
+		for _, s := range d.Warnings {
+			bw.printf("  - %s\n", s)
+		}
 	}
 	bw.printf("\nSteps\n")
 	if len(d.Steps) == 0 {
@@ -43,41 +54,52 @@ func WriteTable(w io.Writer, p *optimizer.Plan, assessed bool) error {
 	}
 	bw.printf("\nLegs\n")
 	tw := tabwriter.NewWriter(bw, 0, 0, 1, ' ', tabwriter.AlignRight)
-	fmt.Fprintln(tw, "from NM\tto NM\tphase\tFL\tMach\tTAS kt\twind kt\tGS kt\tISA C\tfuel kg\tmin\tmass kg\tmargin g\tfloor g\t")
-	for _, l := range d.Legs {
+	fmt.Fprintln(tw, "leg\tfrom NM\tto NM\tphase\tFL\tMach\tTAS kt\twind kt\tGS kt\tISA dev C\tfuel kg\ttime min\tstart mass kg\tmargin g\tfloor g\t")
+	for i, l := range d.Legs {
 		margin := "-"
 		if l.BuffetMarginG != nil {
 			margin = fmt.Sprintf("%.3f", *l.BuffetMarginG)
 		}
-		fmt.Fprintf(tw, "%.0f\t%.0f\t%s\t%.0f\t%.3f\t%.0f\t%+.0f\t%.0f\t%+.1f\t%.0f\t%.1f\t%.0f\t%s\t%.2f\t\n",
-			l.FromNM, l.ToNM, l.Phase, l.FL, l.Mach, l.TASKt, l.WindKt, l.GSKt, l.ISADevC, l.FuelKg, l.TimeMin, l.MassStartKg, margin, l.FloorG)
+		fmt.Fprintf(tw, "%d\t%.0f\t%.0f\t%s\t%.0f\t%.3f\t%.0f\t%+.0f\t%.0f\t%+.1f\t%.0f\t%.1f\t%.0f\t%s\t%.2f\t\n",
+			i, l.FromNM, l.ToNM, l.Phase, l.FL, l.Mach, l.TASKt, l.WindKt, l.GSKt, l.ISADevC, l.FuelKg, l.TimeMin, l.MassStartKg, margin, l.FloorG)
 	}
 	tw.Flush()
-	if len(d.Warnings) > 0 {
-		bw.printf("\nWarnings\n")
-		for _, s := range d.Warnings {
-			bw.printf("  - %s\n", s)
-		}
-	}
-	if assessed {
-		bw.printf("\nViolations: %d\n", len(d.Violations))
-		for _, g := range groupViolations(d) {
-			where := fmt.Sprintf("leg %d", g.first)
-			if g.last != g.first {
-				where = fmt.Sprintf("legs %d-%d (%d legs)", g.first, g.last, g.count)
-			}
-			if g.unit != "" {
-				bw.printf("  - %s: %s, worst by %s %s: %s\n", where, g.limit, strconv.FormatFloat(g.worst, 'f', 3, 64), g.unit, g.detail)
-			} else {
-				bw.printf("  - %s: %s: %s\n", where, g.limit, g.detail)
-			}
-		}
-		if len(d.Violations) > 0 {
-			bw.printf("  (every violation, leg by leg: --format json)\n")
-		}
-	}
 	bw.printf("\n%s\n", optimizer.Caution)
 	return bw.err
+}
+
+// statusText explains the plan's status in a line.
+func statusText(d *Doc) string {
+	switch d.Status {
+	case optimizer.StatusImpossible:
+		return "IMPOSSIBLE: the flight cannot be flown as loaded (see violations)"
+	case optimizer.StatusViolations:
+		return fmt.Sprintf("VIOLATIONS: the profile breaks %d limit(s) (see violations)", len(d.Violations))
+	}
+	return "ok: no limit broken"
+}
+
+// writeViolations lists the violations grouped by stretch of route, first
+// in the table; an assessed plan lists them even when there is none.
+func writeViolations(bw *errWriter, d *Doc, assessed bool) {
+	if !assessed && len(d.Violations) == 0 {
+		return
+	}
+	bw.printf("\nViolations: %d\n", len(d.Violations))
+	for _, g := range groupViolations(d) {
+		where := fmt.Sprintf("leg %d", g.first)
+		if g.last != g.first {
+			where = fmt.Sprintf("legs %d-%d (%d legs)", g.first, g.last, g.count)
+		}
+		if g.unit != "" {
+			bw.printf("  - %s: %s, worst by %s %s: %s\n", where, g.limit, strconv.FormatFloat(g.worst, 'f', 3, 64), g.unit, g.detail)
+		} else {
+			bw.printf("  - %s: %s: %s\n", where, g.limit, g.detail)
+		}
+	}
+	if len(d.Violations) > 0 {
+		bw.printf("  (every violation, leg by leg: --format json)\n")
+	}
 }
 
 // WriteCSV writes one row per leg, with the caution as a leading comment
