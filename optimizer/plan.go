@@ -100,6 +100,8 @@ type Plan struct {
 	BaselineNote string
 	Warnings     []string
 	Violations   []Violation // filled by Assess; empty for a Solve result
+	// Fuel is the dispatch fuel plan (PlanFuel only; nil otherwise).
+	Fuel *FuelPlan
 	// SearchCost is the cost the graph search found (Solve only), before
 	// the exact re-pricing that fills Totals.
 	SearchCost float64
