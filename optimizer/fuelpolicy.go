@@ -93,6 +93,7 @@ func DefaultFuelPolicy() FuelPolicy {
 	p := FuelPolicy{Source: "default policy"}
 	for _, k := range policyKeys {
 		*k.field(&p) = k.def
+		p.Defaulted = append(p.Defaulted, k.name)
 	}
 	return p
 }
@@ -131,7 +132,7 @@ const maxPolicySize = 64 << 10
 // naming the line and key.
 func ParseFuelPolicy(data []byte, source string) (FuelPolicy, error) {
 	p := DefaultFuelPolicy()
-	p.Source = source
+	p.Source, p.Defaulted = source, nil
 	fail := func(line int, key, format string, args ...any) (FuelPolicy, error) {
 		return FuelPolicy{}, &PolicyError{Source: source, Line: line, Key: key, Msg: fmt.Sprintf(format, args...)}
 	}

@@ -1,6 +1,9 @@
 package main
 
 import (
+	"os"
+	"path/filepath"
+	"strconv"
 	"strings"
 	"testing"
 )
@@ -33,5 +36,71 @@ func TestPlanImpossibleWithMass(t *testing.T) {
 	code, out, errs := runCLI(t, "plan", "--route", fs.Route, "--aircraft", "demo-regional", "--mass", "40000", "--weather", fs.Weather, "--depart", "2026-12-01T20:00:00Z")
 	if code != 2 || !strings.Contains(errs, "fuel-capacity") || !strings.Contains(out, "IMPOSSIBLE") {
 		t.Errorf("exit %d, stderr %q, table status missing: %v", code, errs, !strings.Contains(out, "IMPOSSIBLE"))
+	}
+}
+
+// TestPlanFuelFromZFW: plan --zfw alone makes the fuel plan; its JSON
+// carries the fuel section, block is the sum of the ICAO Annex 6 Part I
+// 4.3.6.3 components, and re-planning with --mass at the reported
+// take-off mass gives the same trip fuel within 0.05 % (the fixed point).
+func TestPlanFuelFromZFW(t *testing.T) {
+	fs := demoFiles(t)
+	base := []string{"plan", "--route", fs.Route, "--aircraft", "demo-widebody", "--weather", fs.Weather,
+		"--depart", "2026-12-01T20:00:00Z", "--ci", "40"}
+	d := planJSON(t, append(base, "--zfw", "170000", "--alternate", "25.3,55.8 24.4,54.6", "--extra-kg", "300")...)
+	f, ok := d["fuel"].(map[string]any)
+	if !ok {
+		t.Fatalf("no fuel section: %v", d["fuel"])
+	}
+	num := func(k string) float64 {
+		v, ok := f[k].(float64)
+		if !ok {
+			t.Fatalf("fuel.%s = %v", k, f[k])
+		}
+		return v
+	}
+	sum := 0.0
+	for _, k := range []string{"taxi_kg", "trip_kg", "contingency_kg", "alternate_kg", "final_reserve_kg", "additional_kg", "extra_kg"} {
+		sum += num(k)
+	}
+	if b := num("block_kg"); abs(b-sum) > 1e-6*b {
+		t.Errorf("block %.3f, sum %.3f", b, sum)
+	}
+	if num("extra_kg") != 300 || f["limited_by"] != "none" || d["status"] != "ok" {
+		t.Errorf("extra %v, limited by %v, status %v", f["extra_kg"], f["limited_by"], d["status"])
+	}
+	num("max_payload_zfw_kg")
+	num("landing_mass_kg")
+	tow := num("takeoff_mass_kg")
+	re := planJSON(t, append(base, "--mass", strconv.FormatFloat(tow, 'f', 3, 64))...)
+	trip := re["totals"].(map[string]any)["fuel_kg"].(float64)
+	if dd := abs(trip-num("trip_kg")) / trip; dd > 5e-4 {
+		t.Errorf("re-planned at %.0f kg: trip %.1f kg, fuel plan %.1f kg", tow, trip, num("trip_kg"))
+	}
+}
+
+// TestPlanFuelBadInput: a bad policy, an alternate that does not start at
+// the destination and fuel-plan flags with --mass exit 2 naming the input.
+func TestPlanFuelBadInput(t *testing.T) {
+	fs := demoFiles(t)
+	dir := t.TempDir()
+	bad := filepath.Join(dir, "policy.yaml")
+	if err := os.WriteFile(bad, []byte("contingency_percent: 150\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	base := []string{"plan", "--route", fs.Route, "--aircraft", "demo-widebody"}
+	for _, c := range []struct {
+		args []string
+		want string
+	}{
+		{[]string{"--zfw", "170000", "--policy", bad}, "contingency_percent"},
+		{[]string{"--zfw", "170000", "--alternate", "20,50 21,51"}, "alternate"},
+		{[]string{"--mass", "240000", "--policy", bad}, "--zfw alone"},
+		{[]string{"--zfw", "170000", "--extra-kg", "-5"}, "--extra-kg"},
+	} {
+		code, _, errs := runCLI(t, append(base, c.args...)...)
+		if code != 2 || !strings.Contains(errs, c.want) {
+			t.Errorf("%v: exit %d, %q; want 2 naming %s", c.args, code, errs, c.want)
+		}
 	}
 }

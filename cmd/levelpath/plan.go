@@ -26,6 +26,7 @@ type planFlags struct {
 	problemFlags
 	chart, report, profile string
 	format                 *string
+	fuelPlan               fuelPlanFlags
 }
 
 func (f *planFlags) register(c *cobra.Command) {
@@ -52,6 +53,13 @@ func (f *planFlags) run(cmd *cobra.Command, assessed bool, price func(*optimizer
 		return err
 	}
 	pr.LegCeilings = assessed || f.chart != "" || f.report != "" || *f.format != "table"
+	if fp := &f.fuelPlan; fp.active(cmd) {
+		req, err := fp.request(cmd, &f.problemFlags, pr)
+		if err != nil {
+			return err
+		}
+		price = func(*optimizer.Problem) (*optimizer.Plan, error) { return optimizer.PlanFuel(req) }
+	}
 	plan, err := price(pr)
 	if err != nil {
 		return planErr(err)
@@ -80,10 +88,13 @@ func newPlanCmd() *cobra.Command {
 		Short: "Plan the cheapest vertical profile of one flight",
 		Example: `  levelpath plan --route levelpath-demo/route.geojson --aircraft demo-widebody --mass 245000 \
       --weather levelpath-demo/weather.grib2 --depart 2026-12-01T20:00:00Z --ci 40
-  levelpath plan --route levelpath-demo/route-sunhaven.geojson --aircraft demo-narrowbody --zfw 58000 --fuel 12000 --format json`,
+  levelpath plan --route levelpath-demo/route-sunhaven.geojson --aircraft demo-narrowbody --zfw 58000 --fuel 12000 --format json
+  levelpath plan --route levelpath-demo/route.geojson --aircraft demo-widebody --zfw 170000 \
+      --weather levelpath-demo/weather.grib2 --depart 2026-12-01T20:00:00Z --ci 40 --alternate "25.3,55.8 24.4,54.6"`,
 		Args: cobra.NoArgs,
 	}
 	f.register(c)
+	f.fuelPlan.register(c, &f.problemFlags)
 	c.RunE = func(cmd *cobra.Command, _ []string) error { return f.run(cmd, false, optimizer.Solve) }
 	return c
 }

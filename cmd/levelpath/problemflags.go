@@ -23,6 +23,7 @@ type problemFlags struct {
 	aircraft    string
 	mass        float64
 	zfw, fuel   float64
+	zfwOnly     bool // --zfw without --fuel is allowed (plan's fuel plan)
 	weather     []string
 	depart      string
 	ci          float64
@@ -120,6 +121,9 @@ func (f *problemFlags) problem(c *cobra.Command, wx *winds.Field, stderr io.Writ
 			return nil, badInputf("--fuel %.0f kg is over the fuel capacity %.0f kg of %s", f.fuel, a.FuelCapacity, a.Name)
 		}
 		p.TakeoffMass, p.ZFW = f.zfw+f.fuel, f.zfw
+	case f.zfwOnly && f.zfw > 0 && !c.Flags().Changed("fuel"):
+		// The fuel plan solves for the take-off mass; ZFW stands in.
+		p.TakeoffMass, p.ZFW = f.zfw, f.zfw
 	default:
 		return nil, badInputf("--mass (kg) or both --zfw and --fuel are required")
 	}

@@ -41,6 +41,7 @@ type Doc struct {
 	Legs          []Leg       `json:"legs"`
 	Warnings      []string    `json:"warnings"`
 	Violations    []Violation `json:"violations"`
+	Fuel          *Fuel       `json:"fuel,omitempty"`
 	SearchCost    *float64    `json:"search_cost,omitempty"`
 	SearchNodes   int         `json:"search_nodes,omitempty"`
 	SearchEdges   int         `json:"search_edges,omitempty"`
@@ -147,6 +148,7 @@ func FromPlan(p *optimizer.Plan, assessed bool) *Doc {
 			ResidualClimbFPM: resid, MaxFLBuffet: Number(l.MaxFLBuffet), MaxFLThrust: Number(l.MaxFLThrust),
 		})
 	}
+	d.Fuel = fuelDoc(p.Fuel)
 	d.Violations = []Violation{}
 	for _, v := range p.Violations {
 		d.Violations = append(d.Violations, Violation{Leg: v.Leg, Limit: v.Limit, By: v.By, Unit: v.Unit, Detail: v.Detail})

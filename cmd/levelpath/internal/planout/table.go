@@ -26,7 +26,11 @@ func WriteTable(w io.Writer, p *optimizer.Plan, assessed bool) error {
 	bw.printf("Profile  %s\n", d.Profile)
 	t := d.Totals
 	bw.printf("Totals   fuel %.0f kg, time %s, cost %.0f, CO2 %.0f kg, landing mass %.0f kg\n", t.FuelKg, hhmm(t.TimeMin), t.Cost, t.CO2Kg, t.LandingMassKg)
-	bw.printf("         (trip from 1,500 ft after take-off to 1,500 ft on approach; taxi, take-off, approach and reserve fuel not included)\n")
+	if d.Fuel == nil {
+		bw.printf("         (trip from 1,500 ft after take-off to 1,500 ft on approach; taxi, take-off, approach and reserve fuel not included)\n")
+	} else {
+		bw.printf("         (the trip fuel of the fuel plan below: 1,500 ft after take-off to 1,500 ft on approach; take-off and approach are not modelled)\n")
+	}
 	if d.MinMarginG != nil {
 		bw.printf("Least buffet margin %.3f g (floor %.2f g)\n", *d.MinMarginG, d.FloorG)
 	}
@@ -38,6 +42,7 @@ func WriteTable(w io.Writer, p *optimizer.Plan, assessed bool) error {
 		bw.printf("Baseline: no constant level is feasible along the whole route\n")
 	}
 	bw.printf("Status   %s\n", statusText(d))
+	writeFuel(bw, d)
 	writeViolations(bw, d, assessed)
 	if len(d.Warnings) > 0 {
 		bw.printf("\nWarnings\n")
