@@ -115,6 +115,14 @@ func assess(q *Problem, prof Profile, warn []string, detail bool) (*Plan, error)
 	plan.Totals.Cost = plan.Totals.Fuel + q.CI*s.t/60
 	plan.Totals.CO2 = 3.16 * plan.Totals.Fuel
 	s.checkLoading()
+	fob := nan
+	if q.ZFW > 0 {
+		fob = q.TakeoffMass - q.ZFW
+	}
+	plan.Waypoints = waypoints(plan, q.Track, fob)
+	if w := lowFuelWarning(plan.Waypoints); w != "" {
+		plan.Warnings = append(plan.Warnings, w)
+	}
 	addWarnings(plan)
 	return plan, nil
 }

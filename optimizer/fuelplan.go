@@ -30,8 +30,10 @@ type FuelPlan struct {
 	// Block = Taxi + Trip + Contingency + Alternate + FinalReserve +
 	// Additional + Extra.
 	Block float64
-	// ContingencyBasis says which term of the contingency governed.
-	ContingencyBasis string
+	// ContingencyBasis says which term of the contingency governed;
+	// ContingencyHoldFuel is its holding term.
+	ContingencyBasis    string
+	ContingencyHoldFuel float64
 
 	ZFW, TakeoffMass, LandingMass float64
 	// AlternateMass is the expected mass on arrival over the alternate
@@ -208,7 +210,28 @@ func PlanFuel(req FuelRequest) (*Plan, error) {
 	fp.Warnings = append(fp.Warnings, "holding fuel is priced in straight level flight at ISA (turns and temperature not included)")
 	plan.Warnings = append(plan.Warnings, fp.Warnings...)
 	plan.Fuel = &fp
+	fp.requiredAt(plan.Waypoints)
+	if w := lowFuelWarning(plan.Waypoints); w != "" {
+		plan.Warnings = append(plan.Warnings, w)
+	}
 	return plan, nil
+}
+
+// requiredAt sets each waypoint's fuel remaining (block - taxi - used)
+// and the least fuel required there: the remaining trip, contingency on
+// the remaining trip (ICAO Annex 6 re-planning; the holding minimum
+// still applies), alternate, final reserve and additional fuel.
+func (fp *FuelPlan) requiredAt(ws []Waypoint) {
+	for i := range ws {
+		w := &ws[i]
+		rem := math.Max(0, fp.Trip-w.FuelUsed)
+		cont := math.Max(fp.Policy.ContingencyPct/100*rem, fp.ContingencyHoldFuel)
+		if rem == 0 {
+			cont = 0
+		}
+		w.FuelRemaining = fp.Block - fp.Taxi - w.FuelUsed
+		w.MinRequired = rem + cont + fp.Alternate + fp.FinalReserve + fp.Additional
+	}
 }
 
 // reserves works out the fuel components other than taxi for the plan
@@ -223,7 +246,7 @@ func reserves(req FuelRequest, taxi, tow float64, plan *Plan) (FuelPlan, error) 
 	if err != nil {
 		return fp, inputErrorf("contingency", "holding above the destination at %.0f kg: %v", lm, err)
 	}
-	fp.ContingencyHold = h
+	fp.ContingencyHold, fp.ContingencyHoldFuel = h, cHold
 	fp.Contingency = pol.ContingencyPct / 100 * fp.Trip
 	fp.ContingencyBasis = fmt.Sprintf("%g %% of trip fuel", pol.ContingencyPct)
 	if cHold > fp.Contingency {

@@ -77,6 +77,17 @@ func TestFuelPlanFixedPoint(t *testing.T) {
 	if math.Abs(f.AlternatePlan.TakeoffMass-f.LandingMass) > 2*fuelTolerance || math.Abs(f.AlternatePlan.Totals.Fuel-f.Alternate) > 1e-9 {
 		t.Errorf("alternate from %.1f kg, landing mass %.1f kg", f.AlternatePlan.TakeoffMass, f.LandingMass)
 	}
+	// Over the destination the fuel remaining exceeds the least required
+	// by the contingency and extra fuel, which are not needed there.
+	end := plan.Waypoints[len(plan.Waypoints)-1]
+	if d := end.FuelRemaining - end.MinRequired - (f.Contingency + f.Extra); math.Abs(d) > 1e-6 {
+		t.Errorf("destination: remaining %.1f, required %.1f, contingency %.1f", end.FuelRemaining, end.MinRequired, f.Contingency)
+	}
+	for _, w := range plan.Waypoints {
+		if w.FuelRemaining < w.MinRequired-1e-6 {
+			t.Errorf("%s: remaining %.1f under required %.1f", w.Name, w.FuelRemaining, w.MinRequired)
+		}
+	}
 	if plan.Status() != StatusOK || len(f.LimitedBy) != 0 {
 		t.Errorf("status %s, limited by %v: %v", plan.Status(), f.LimitedBy, plan.Violations)
 	}

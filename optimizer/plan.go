@@ -102,6 +102,9 @@ type Plan struct {
 	Violations   []Violation // filled by Assess; empty for a Solve result
 	// Fuel is the dispatch fuel plan (PlanFuel only; nil otherwise).
 	Fuel *FuelPlan
+	// Waypoints are the route's points, top of climb, steps and top of
+	// descent with time, level and fuel.
+	Waypoints []Waypoint
 	// SearchCost is the cost the graph search found (Solve only), before
 	// the exact re-pricing that fills Totals.
 	SearchCost float64

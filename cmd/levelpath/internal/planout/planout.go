@@ -42,6 +42,7 @@ type Doc struct {
 	Warnings      []string    `json:"warnings"`
 	Violations    []Violation `json:"violations"`
 	Fuel          *Fuel       `json:"fuel,omitempty"`
+	Waypoints     []Waypoint  `json:"waypoints"`
 	SearchCost    *float64    `json:"search_cost,omitempty"`
 	SearchNodes   int         `json:"search_nodes,omitempty"`
 	SearchEdges   int         `json:"search_edges,omitempty"`
@@ -149,6 +150,7 @@ func FromPlan(p *optimizer.Plan, assessed bool) *Doc {
 		})
 	}
 	d.Fuel = fuelDoc(p.Fuel)
+	d.Waypoints = waypointDocs(p)
 	d.Violations = []Violation{}
 	for _, v := range p.Violations {
 		d.Violations = append(d.Violations, Violation{Leg: v.Leg, Limit: v.Limit, By: v.By, Unit: v.Unit, Detail: v.Detail})

@@ -55,8 +55,15 @@ func WriteTable(w io.Writer, p *optimizer.Plan, assessed bool) error {
 		bw.printf("  none\n")
 	}
 	for _, s := range d.Steps {
-		bw.printf("  at %6.0f NM  FL%03d -> FL%03d\n", s.AtNM, s.FromFL, s.ToFL)
+		where := ""
+		for _, w := range d.Waypoints {
+			if w.Kind == optimizer.WaypointStep && math.Abs(w.DistanceNM-s.AtNM) < 1e-9 {
+				where = "  (" + w.Name + ")"
+			}
+		}
+		bw.printf("  at %6.0f NM  FL%03d -> FL%03d%s\n", s.AtNM, s.FromFL, s.ToFL, where)
 	}
+	writeWaypoints(bw, d)
 	bw.printf("\nLegs\n")
 	tw := tabwriter.NewWriter(bw, 0, 0, 1, ' ', tabwriter.AlignRight)
 	fmt.Fprintln(tw, "leg\tfrom NM\tto NM\tphase\tFL\tMach\tTAS kt\twind kt\tGS kt\tISA dev C\tfuel kg\ttime min\tstart mass kg\tmargin g\tfloor g\t")
