@@ -58,6 +58,7 @@ type sim struct {
 	// while the aircraft cannot reach it (levelled off below).
 	target int
 	segs   []route.Segment
+	start  *InFlight // nil: from brake release; else in cruise from this state
 }
 
 func (s *sim) violate(limit string, by float64, unit, detail string) {
@@ -86,6 +87,13 @@ func (s *sim) condAt(k, fl int) (cond, error) {
 }
 
 func assess(q *Problem, prof Profile, warn []string, detail bool) (*Plan, error) {
+	return assessFrom(q, prof, warn, detail, nil)
+}
+
+// assessFrom is assess from an in-flight state when start is not nil:
+// the profile's initial level is the level flown at start.Dist, and the
+// plan's take-off mass and departure are the state's mass and time.
+func assessFrom(q *Problem, prof Profile, warn []string, detail bool, start *InFlight) (*Plan, error) {
 	if prof.Initial < 10 || !prof.sorted() {
 		return nil, inputErrorf("profile", "profile %s: needs an initial level and changes in increasing distance", prof)
 	}
@@ -105,7 +113,10 @@ func assess(q *Problem, prof Profile, warn []string, detail bool) (*Plan, error)
 	}
 	plan := &Plan{Aircraft: q.Aircraft.Name, CI: q.CI, Floor: q.Floor, Speed: q.Speed.String(), Depart: q.Depart,
 		TakeoffMass: q.TakeoffMass, Distance: total, Profile: pr, Warnings: append([]string(nil), warn...)}
-	s := &sim{q: q, a: q.Aircraft, plan: plan, m: q.TakeoffMass, fl: pr.Initial, target: pr.Initial, segs: segs}
+	s := &sim{q: q, a: q.Aircraft, plan: plan, m: q.TakeoffMass, fl: pr.Initial, target: pr.Initial, segs: segs, start: start}
+	if start != nil {
+		s.x = start.Dist
+	}
 	if err := s.run(pr, total, detail); err != nil {
 		return nil, err
 	}
@@ -130,33 +141,13 @@ func assess(q *Problem, prof Profile, warn []string, detail bool) (*Plan, error)
 // run flies the profile: climb, cruise pieces split at segment boundaries
 // and changes, steps, and the final descent.
 func (s *sim) run(pr Profile, total float64, detail bool) error {
-	q, a := s.q, s.a
+	q := s.q
 	endP := perf.PressureAt(q.EndAltitude)
-	// Initial climb.
-	c0, err := s.condAt(0, s.fl)
-	if err != nil {
-		return err
-	}
-	cl := transition(a, s.m, endP, perf.FLToPressure(float64(s.fl)), c0.isaDev, q.ClimbSchedule, true)
-	if !cl.ok {
-		// Climb as high as the aircraft can and level off there; the
-		// profile's level is taken when the aircraft can reach it.
-		startFL := int(math.Ceil(q.EndAltitude / (100 * perf.FtToM)))
-		lf, ok := reachableFL(startFL, s.fl, func(fl int) bool {
-			return transition(a, s.m, endP, perf.FLToPressure(float64(fl)), c0.isaDev, q.ClimbSchedule, true).ok
-		})
-		if !ok || lf <= startFL {
-			return inputErrorf("profile", "initial climb to FL%03d at %.0f kg: %s", s.fl, s.m, cl.why)
+	if s.start == nil {
+		if err := s.initialClimb(endP); err != nil {
+			return err
 		}
-		s.violateLeg(0, "climb", float64(s.fl-lf)*100, "ft", fmt.Sprintf("initial climb to FL%03d cannot be completed at %.0f kg (%s): the aircraft levels off at FL%03d and climbs to FL%03d when it can", s.fl, s.m, cl.why, lf, s.fl))
-		s.fl = lf
-		cl = transition(a, s.m, endP, perf.FLToPressure(float64(s.fl)), c0.isaDev, q.ClimbSchedule, true)
 	}
-	if s.target > q.MaxFL {
-		s.violateLeg(0, "certified", float64(s.target-q.MaxFL)*100, "ft", fmt.Sprintf("initial level FL%03d is above the highest usable level FL%03d", s.target, q.MaxFL))
-	}
-	g := cl.dist + 0.5*c0.wind*cl.time
-	s.addTransLeg(PhaseClimb, 0, q.EndAltitude/(100*perf.FtToM), float64(s.fl), g, cl, c0)
 	ci := 0
 	if ci < len(pr.Changes) && pr.Changes[ci].AtDist < s.x-1e-6 {
 		s.violate("profile", (s.x-pr.Changes[ci].AtDist)/nmToM, "NM", fmt.Sprintf("change to FL%03d at %.0f NM begins before the top of climb (%.0f NM); taken there", pr.Changes[ci].FL, pr.Changes[ci].AtDist/nmToM, s.x/nmToM))
@@ -167,6 +158,9 @@ func (s *sim) run(pr Profile, total float64, detail bool) error {
 	// The minimum step distance counts from the start of the segment that
 	// holds the top of climb, as the search does.
 	lastStep := s.segs[s.segAt(s.x)].FromDist
+	if s.start != nil {
+		lastStep = math.Inf(-1) // in flight: the next step may come at once
+	}
 	for guard := 0; guard < 10*len(s.segs)+10*len(pr.Changes)+10; guard++ {
 		if s.x >= total-1e-6 {
 			s.violate("profile", 0, "", "the profile reaches the destination without a final descent")
@@ -236,6 +230,37 @@ func (s *sim) run(pr Profile, total float64, detail bool) error {
 		}
 	}
 	return fmt.Errorf("optimizer: profile simulation did not converge")
+}
+
+// initialClimb flies the climb from the end altitude (pressure endP) to
+// the profile's initial level, or as high as the aircraft can.
+func (s *sim) initialClimb(endP float64) error {
+	q, a := s.q, s.a
+	c0, err := s.condAt(0, s.fl)
+	if err != nil {
+		return err
+	}
+	cl := transition(a, s.m, endP, perf.FLToPressure(float64(s.fl)), c0.isaDev, q.ClimbSchedule, true)
+	if !cl.ok {
+		// Climb as high as the aircraft can and level off there; the
+		// profile's level is taken when the aircraft can reach it.
+		startFL := int(math.Ceil(q.EndAltitude / (100 * perf.FtToM)))
+		lf, ok := reachableFL(startFL, s.fl, func(fl int) bool {
+			return transition(a, s.m, endP, perf.FLToPressure(float64(fl)), c0.isaDev, q.ClimbSchedule, true).ok
+		})
+		if !ok || lf <= startFL {
+			return inputErrorf("profile", "initial climb to FL%03d at %.0f kg: %s", s.fl, s.m, cl.why)
+		}
+		s.violateLeg(0, "climb", float64(s.fl-lf)*100, "ft", fmt.Sprintf("initial climb to FL%03d cannot be completed at %.0f kg (%s): the aircraft levels off at FL%03d and climbs to FL%03d when it can", s.fl, s.m, cl.why, lf, s.fl))
+		s.fl = lf
+		cl = transition(a, s.m, endP, perf.FLToPressure(float64(s.fl)), c0.isaDev, q.ClimbSchedule, true)
+	}
+	if s.target > q.MaxFL {
+		s.violateLeg(0, "certified", float64(s.target-q.MaxFL)*100, "ft", fmt.Sprintf("initial level FL%03d is above the highest usable level FL%03d", s.target, q.MaxFL))
+	}
+	g := cl.dist + 0.5*c0.wind*cl.time
+	s.addTransLeg(PhaseClimb, 0, q.EndAltitude/(100*perf.FtToM), float64(s.fl), g, cl, c0)
+	return nil
 }
 
 // finalDescent prices the idle descent from the current level and mass

@@ -65,6 +65,13 @@ type FuelPlan struct {
 	MaxPayloadZFW float64
 
 	Warnings []string
+
+	// InFlight marks the reserves of a re-plan (InFlightFuel): Trip is
+	// the remaining trip, the contingency is on it, Block is the fuel
+	// required now and FuelOnBoard the fuel on board.
+	InFlight              bool
+	FuelOnBoard           float64
+	ExpectedAtDestination float64 // FuelOnBoard - Trip
 }
 
 // Fuel-plan iteration bounds.
@@ -217,11 +224,60 @@ func PlanFuel(req FuelRequest) (*Plan, error) {
 	return plan, nil
 }
 
+// InFlightFuel adds to a re-plan (Replan's result for req.Problem) the
+// fuel required from its start under req.Policy: the remaining trip, the
+// contingency on the remaining trip (ICAO Annex 6 Part I 4.3.6.3 applied
+// at the re-planning point), alternate (planned from the expected landing
+// mass), final reserve and additional fuel; the fuel on board is the
+// plan's mass minus req.ZFW. It warns when the fuel on board is under the
+// fuel required, and when the fuel expected at the destination is under
+// the alternate and final reserve fuel.
+func InFlightFuel(req FuelRequest, plan *Plan) error {
+	if req.ZFW <= 0 || plan.TakeoffMass < req.ZFW {
+		return inputErrorf("zfw", "the zero-fuel mass %.0f kg must be positive and at most the mass %.0f kg", req.ZFW, plan.TakeoffMass)
+	}
+	if err := req.Policy.check(); err != nil {
+		return err
+	}
+	if req.Alternate != nil {
+		if err := checkAlternate(req.Problem.Track, req.Alternate); err != nil {
+			return err
+		}
+	}
+	fp, err := reserves(req, 0, plan.TakeoffMass, plan)
+	if err != nil {
+		return err
+	}
+	fp.InFlight = true
+	fp.Iterations = 0
+	fp.ZFW = req.ZFW
+	fp.FuelOnBoard = plan.TakeoffMass - req.ZFW
+	fp.Block = fp.Trip + fp.Contingency + fp.Alternate + fp.FinalReserve + fp.Additional + fp.Extra
+	fp.TakeoffMass = plan.TakeoffMass
+	fp.LandingMass = plan.TakeoffMass - fp.Trip
+	fp.ExpectedAtDestination = fp.FuelOnBoard - fp.Trip
+	fp.Binding, fp.MaxPayloadZFW = "", nan
+	if d := fp.FuelOnBoard - fp.Block; d < 0 {
+		fp.Warnings = append(fp.Warnings, fmt.Sprintf("fuel on board %.0f kg is %.0f kg under the %.0f kg required from here (trip %.0f, contingency %.0f, alternate %.0f, final reserve %.0f, additional %.0f, extra %.0f)", fp.FuelOnBoard, -d, fp.Block, fp.Trip, fp.Contingency, fp.Alternate, fp.FinalReserve, fp.Additional, fp.Extra))
+	}
+	if need := fp.Alternate + fp.FinalReserve; fp.ExpectedAtDestination < need {
+		fp.Warnings = append(fp.Warnings, fmt.Sprintf("fuel expected at the destination %.0f kg is under the alternate plus final reserve fuel %.0f kg", fp.ExpectedAtDestination, need))
+	}
+	plan.Warnings = append(plan.Warnings, fp.Warnings...)
+	plan.Fuel = &fp
+	fp.requiredAt(plan.Waypoints)
+	return nil
+}
+
 // requiredAt sets each waypoint's fuel remaining (block - taxi - used)
 // and the least fuel required there: the remaining trip, contingency on
 // the remaining trip (ICAO Annex 6 re-planning; the holding minimum
 // still applies), alternate, final reserve and additional fuel.
 func (fp *FuelPlan) requiredAt(ws []Waypoint) {
+	fob := fp.Block - fp.Taxi
+	if fp.InFlight {
+		fob = fp.FuelOnBoard
+	}
 	for i := range ws {
 		w := &ws[i]
 		rem := math.Max(0, fp.Trip-w.FuelUsed)
@@ -229,7 +285,7 @@ func (fp *FuelPlan) requiredAt(ws []Waypoint) {
 		if rem == 0 {
 			cont = 0
 		}
-		w.FuelRemaining = fp.Block - fp.Taxi - w.FuelUsed
+		w.FuelRemaining = fob - w.FuelUsed
 		w.MinRequired = rem + cont + fp.Alternate + fp.FinalReserve + fp.Additional
 	}
 }

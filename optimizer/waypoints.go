@@ -14,6 +14,7 @@ const (
 	WaypointTOC   = "toc"      // top of climb
 	WaypointStep  = "step"     // start of a level change
 	WaypointTOD   = "tod"      // top of descent
+	WaypointStart = "start"    // the in-flight state a re-plan starts from
 )
 
 // Waypoint is the flight's state over one point: distance m from
@@ -49,13 +50,21 @@ func waypoints(p *Plan, tr *route.Track, fob float64) []Waypoint {
 	add := func(name, kind string, d float64) {
 		out = append(out, Waypoint{Name: name, Kind: kind, Dist: d})
 	}
+	start := p.Legs[0].FromDist // > 0 for a re-plan from a state in flight
+	if start > 0 {
+		add("present position", WaypointStart, start)
+	}
 	for i, l := range tr.Legs {
-		add(pointName(l.From, i), WaypointRoute, l.StartDist)
+		if l.StartDist >= start+1 || start == 0 {
+			add(pointName(l.From, i), WaypointRoute, l.StartDist)
+		}
 	}
 	if n := len(tr.Legs); n > 0 {
 		add(pointName(tr.Legs[n-1].To, n), WaypointRoute, p.Distance)
 	}
-	add("TOC", WaypointTOC, p.Legs[0].ToDist)
+	if p.Legs[0].Phase == PhaseClimb {
+		add("TOC", WaypointTOC, p.Legs[0].ToDist)
+	}
 	for _, s := range p.Steps {
 		add(fmt.Sprintf("FL%03d -> FL%03d", s.FromFL, s.ToFL), WaypointStep, s.AtDist)
 	}
