@@ -78,7 +78,7 @@ func TestReplanBadInput(t *testing.T) {
 		st    InFlight
 		field string
 	}{
-		"beyond the route": {InFlight{Dist: 1e7, FL: 350, Mass: 65000, Time: now}, "from-nm"},
+		"beyond the route":  {InFlight{Dist: 1e7, FL: 350, Mass: 65000, Time: now}, "from-nm"},
 		"level not allowed": {InFlight{Dist: 500 * nmToM, FL: 340, Mass: 65000, Time: now}, "fl"},
 		"mass under ZFW":    {InFlight{Dist: 500 * nmToM, FL: 350, Mass: 54000, Time: now}, "mass"},
 		"no time":           {InFlight{Dist: 500 * nmToM, FL: 350, Mass: 65000}, "time"},
