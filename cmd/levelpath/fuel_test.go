@@ -104,3 +104,36 @@ func TestPlanFuelBadInput(t *testing.T) {
 		}
 	}
 }
+
+// TestPlanInFlight: plan --from-waypoint with --fl, --mass, --time and
+// --zfw re-plans the remainder with the reserves from there; a distance
+// beyond the route, a level not allowed there and a mass under the ZFW
+// exit 2 naming the field.
+func TestPlanInFlight(t *testing.T) {
+	fs := demoFiles(t)
+	base := []string{"plan", "--route", fs.Route, "--aircraft", "demo-widebody", "--weather", fs.Weather,
+		"--depart", "2026-12-01T20:00:00Z", "--ci", "40", "--time", "2026-12-02T00:17:00Z"}
+	d := planJSON(t, append(base, "--from-waypoint", "WPT03", "--fl", "350", "--mass", "215000", "--zfw", "170000")...)
+	f := d["fuel"].(map[string]any)
+	w := d["waypoints"].([]any)[0].(map[string]any)
+	if f["in_flight"] != true || w["kind"] != "start" || d["status"] != "ok" {
+		t.Errorf("in flight %v, first waypoint %v, status %v", f["in_flight"], w, d["status"])
+	}
+	if fob := f["fuel_on_board_kg"].(float64); fob != 45000 {
+		t.Errorf("fuel on board %v, want 215000 - 170000", fob)
+	}
+	for _, c := range []struct {
+		args []string
+		want string
+	}{
+		{[]string{"--from-nm", "9000", "--fl", "350", "--mass", "215000"}, "from-nm"},
+		{[]string{"--from-nm", "2000", "--fl", "340", "--mass", "215000"}, "FL340"},
+		{[]string{"--from-nm", "2000", "--fl", "350", "--mass", "165000", "--zfw", "170000"}, "zero-fuel mass"},
+		{[]string{"--from-waypoint", "NOWHERE", "--fl", "350", "--mass", "215000"}, "NOWHERE"},
+	} {
+		code, _, errs := runCLI(t, append(base, c.args...)...)
+		if code != 2 || !strings.Contains(errs, c.want) {
+			t.Errorf("%v: exit %d, %q; want 2 naming %s", c.args, code, errs, c.want)
+		}
+	}
+}

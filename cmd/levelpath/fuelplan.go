@@ -37,6 +37,9 @@ func defaultPolicyText() string {
 // or --mass. Its flags without --zfw alone are an error in request.
 func (f *fuelPlanFlags) active(c *cobra.Command) bool {
 	fs := c.Flags()
+	if inFlightAsked(c) {
+		return false
+	}
 	if fs.Changed("zfw") && !fs.Changed("fuel") && !fs.Changed("mass") {
 		return true
 	}
@@ -50,6 +53,13 @@ func (f *fuelPlanFlags) request(c *cobra.Command, pf *problemFlags, p *optimizer
 	if !fs.Changed("zfw") || fs.Changed("fuel") || fs.Changed("mass") {
 		return req, badInputf("--policy, --alternate and --extra-kg make a fuel plan: give --zfw alone (not --mass or --fuel)")
 	}
+	return f.build(c, pf, p)
+}
+
+// build loads the policy and alternate into a fuel request.
+func (f *fuelPlanFlags) build(c *cobra.Command, pf *problemFlags, p *optimizer.Problem) (optimizer.FuelRequest, error) {
+	var req optimizer.FuelRequest
+	fs := c.Flags()
 	pol := optimizer.DefaultFuelPolicy()
 	if f.policy != "" {
 		fi, err := os.Stat(f.policy)

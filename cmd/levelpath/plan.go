@@ -27,6 +27,7 @@ type planFlags struct {
 	chart, report, profile string
 	format                 *string
 	fuelPlan               fuelPlanFlags
+	inFlight               inFlightFlags
 }
 
 func (f *planFlags) register(c *cobra.Command) {
@@ -48,6 +49,7 @@ func (f *planFlags) run(cmd *cobra.Command, assessed bool, price func(*optimizer
 	if err != nil {
 		return err
 	}
+	f.massAndZFW = !assessed && inFlightAsked(cmd)
 	pr, err := f.problem(cmd, wx, cmd.ErrOrStderr())
 	if err != nil {
 		return err
@@ -59,6 +61,11 @@ func (f *planFlags) run(cmd *cobra.Command, assessed bool, price func(*optimizer
 			return err
 		}
 		price = func(*optimizer.Problem) (*optimizer.Plan, error) { return optimizer.PlanFuel(req) }
+	}
+	if !assessed && inFlightAsked(cmd) {
+		if price, err = f.inFlight.pricer(cmd, &f.problemFlags, &f.fuelPlan, pr); err != nil {
+			return err
+		}
 	}
 	plan, err := price(pr)
 	if err != nil {
@@ -95,6 +102,7 @@ func newPlanCmd() *cobra.Command {
 	}
 	f.register(c)
 	f.fuelPlan.register(c, &f.problemFlags)
+	f.inFlight.register(c)
 	c.RunE = func(cmd *cobra.Command, _ []string) error { return f.run(cmd, false, optimizer.Solve) }
 	return c
 }

@@ -24,6 +24,7 @@ type problemFlags struct {
 	mass        float64
 	zfw, fuel   float64
 	zfwOnly     bool // --zfw without --fuel is allowed (plan's fuel plan)
+	massAndZFW  bool // --mass with --zfw is allowed (plan's in-flight re-plan)
 	weather     []string
 	depart      string
 	ci          float64
@@ -109,6 +110,8 @@ func (f *problemFlags) problem(c *cobra.Command, wx *winds.Field, stderr io.Writ
 	p := &optimizer.Problem{Aircraft: a, Weather: wx, CI: f.ci, Floor: f.floor, MinFL: f.minFL, MaxFL: f.maxFL, MassBucket: f.bucketKg}
 	massSet := c.Flags().Changed("mass")
 	switch {
+	case massSet && f.massAndZFW && f.zfw > 0 && f.fuel == 0:
+		p.TakeoffMass, p.ZFW = f.mass, f.zfw // the mass in flight, and the ZFW
 	case massSet && (f.zfw != 0 || f.fuel != 0):
 		return nil, badInputf("give either --mass or --zfw with --fuel, not both")
 	case massSet:

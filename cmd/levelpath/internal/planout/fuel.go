@@ -34,6 +34,11 @@ type Fuel struct {
 	FinalHold       Hold        `json:"final_reserve_hold"`
 	Alternate       *Alternate  `json:"alternate"`
 	PolicyValues    PolicyValue `json:"policy_values"`
+	// In-flight re-plan only: block_kg is then the fuel required from
+	// the re-planning point.
+	InFlight              bool     `json:"in_flight"`
+	FuelOnBoardKg         *float64 `json:"fuel_on_board_kg,omitempty"`
+	ExpectedAtDestination *float64 `json:"expected_at_destination_kg,omitempty"`
 }
 
 // Hold is a holding speed and fuel flow.
@@ -80,6 +85,10 @@ func fuelDoc(f *optimizer.FuelPlan) *Fuel {
 		PolicyValues: PolicyValue{ContingencyPct: pol.ContingencyPct, ContingencyMinMinutes: pol.ContingencyMinMinutes,
 			FinalReserveMinutes: pol.FinalReserveMinutes, HoldingSpeedKt: pol.HoldingSpeedKt, HoldingHeightFt: pol.HoldingHeightFt,
 			DestinationElevationFt: pol.DestinationElevationFt, AlternateElevationFt: pol.AlternateElevationFt}}
+	if f.InFlight {
+		d.InFlight = true
+		d.FuelOnBoardKg, d.ExpectedAtDestination = Number(f.FuelOnBoard), Number(f.ExpectedAtDestination)
+	}
 	if ap := f.AlternatePlan; ap != nil {
 		d.Alternate = &Alternate{Profile: ap.Profile.String(), DistanceNM: ap.Distance / mPerNM, TimeMin: ap.Totals.Time / 60, FuelKg: ap.Totals.Fuel}
 	}
@@ -99,7 +108,11 @@ func writeFuel(bw *errWriter, d *Doc) {
 	}
 	bw.printf("\nFuel plan (%s; ICAO Annex 6 Part I 4.3.6.3 components)\n", f.Policy)
 	bw.printf("  Taxi           %8.0f kg\n", f.TaxiKg)
-	bw.printf("  Trip           %8.0f kg  %s, 1,500 ft after take-off to 1,500 ft on approach\n", f.TripKg, hhmm(d.Totals.TimeMin))
+	if f.InFlight {
+		bw.printf("  Trip           %8.0f kg  %s, the present position to 1,500 ft on approach\n", f.TripKg, hhmm(d.Totals.TimeMin))
+	} else {
+		bw.printf("  Trip           %8.0f kg  %s, 1,500 ft after take-off to 1,500 ft on approach\n", f.TripKg, hhmm(d.Totals.TimeMin))
+	}
 	bw.printf("  Contingency    %8.0f kg  %s\n", f.ContingencyKg, f.ContingencyRule)
 	if a := f.Alternate; a != nil {
 		bw.printf("  Alternate      %8.0f kg  %.0f NM, %s, %s\n", f.AlternateKg, a.DistanceNM, a.Profile, hhmm(a.TimeMin))
@@ -113,6 +126,12 @@ func writeFuel(bw *errWriter, d *Doc) {
 	bw.printf("  Final reserve  %8.0f kg  %g min holding at %.0f ft above the %s, %.0f kt CAS, %.0f kg/h\n", f.FinalReserveKg, f.PolicyValues.FinalReserveMinutes, f.PolicyValues.HoldingHeightFt, where, f.FinalHold.CASKt, f.FinalHold.FuelFlowKgH)
 	bw.printf("  Additional     %8.0f kg\n", f.AdditionalKg)
 	bw.printf("  Extra          %8.0f kg\n", f.ExtraKg)
+	if f.InFlight {
+		bw.printf("  REQUIRED NOW   %8.0f kg  from the present position\n", f.BlockKg)
+		bw.printf("  On board %.0f kg (mass %.0f - ZFW %.0f): %+.0f kg against the required; expected at the destination %.0f kg (alternate + final reserve %.0f kg)\n",
+			*f.FuelOnBoardKg, f.TakeoffMassKg, f.ZFWKg, *f.FuelOnBoardKg-f.BlockKg, *f.ExpectedAtDestination, f.AlternateKg+f.FinalReserveKg)
+		return
+	}
 	bw.printf("  BLOCK          %8.0f kg\n", f.BlockKg)
 	bw.printf("  ZFW %.0f kg, take-off mass %.0f kg, landing mass %.0f kg (fixed point in %d iterations)\n", f.ZFWKg, f.TakeoffMassKg, f.LandingMassKg, f.Iterations)
 	maxZ := "-"

@@ -21,7 +21,12 @@ func WriteTable(w io.Writer, p *optimizer.Plan, assessed bool) error {
 	if assessed {
 		title = "Assessed vertical profile"
 	}
-	bw.printf("%s: %s, take-off mass %.0f kg, departure %s\n", title, d.Aircraft, d.TakeoffMassKg, d.Depart)
+	if d.Fuel != nil && d.Fuel.InFlight || len(d.Waypoints) > 0 && d.Waypoints[0].Kind == optimizer.WaypointStart {
+		w := d.Waypoints[0]
+		bw.printf("In-flight re-plan: %s, from %.0f NM at FL%03.0f, mass %.0f kg, at %s\n", d.Aircraft, w.DistanceNM, w.FL, d.TakeoffMassKg, d.Depart)
+	} else {
+		bw.printf("%s: %s, take-off mass %.0f kg, departure %s\n", title, d.Aircraft, d.TakeoffMassKg, d.Depart)
+	}
 	bw.printf("Route %.0f NM, cost index %g kg/min, speed %s, buffet floor %.2f g\n", d.DistanceNM, d.CI, d.Speed, d.FloorG)
 	bw.printf("Profile  %s\n", d.Profile)
 	t := d.Totals
