@@ -102,7 +102,7 @@ func waypoints(p *Plan, tr *route.Track, fob float64) []Waypoint {
 			last, lastDist = w.Name, w.Dist
 		}
 		w.FuelRemaining = fob - w.FuelUsed
-		w.MinRequired = p.Totals.Fuel - w.FuelUsed
+		w.MinRequired = math.Max(0, p.Totals.Fuel-w.FuelUsed)
 		if math.IsNaN(fob) {
 			w.MinRequired = nan
 		}

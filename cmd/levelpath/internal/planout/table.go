@@ -37,7 +37,15 @@ func WriteTable(w io.Writer, p *optimizer.Plan, assessed bool) error {
 		bw.printf("         (the trip fuel of the fuel plan below: 1,500 ft after take-off to 1,500 ft on approach; take-off and approach are not modelled)\n")
 	}
 	if d.MinMarginG != nil {
-		bw.printf("Least buffet margin %.3f g (floor %.2f g)\n", *d.MinMarginG, d.FloorG)
+		// Judged against each leg's own floor (turbulence raises it).
+		least, at := math.Inf(1), -1
+		for i, l := range d.Legs {
+			if l.BuffetMarginG != nil && *l.BuffetMarginG-l.FloorG < least {
+				least, at = *l.BuffetMarginG-l.FloorG, i
+			}
+		}
+		l := d.Legs[at]
+		bw.printf("Least buffet margin above its floor: %.3f g on leg %d (margin %.3f g, floor %.2f g there); least margin anywhere %.3f g\n", least, at, *l.BuffetMarginG, l.FloorG, *d.MinMarginG)
 	}
 	if b := d.Baseline; b != nil {
 		bw.printf("Baseline constant FL%03d: fuel %.0f kg, time %s, cost %.0f; this profile saves %.2f %%\n", b.FL, b.FuelKg, hhmm(b.TimeMin), b.Cost, b.SavingPct)

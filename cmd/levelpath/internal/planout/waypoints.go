@@ -40,6 +40,9 @@ func writeWaypoints(bw *errWriter, d *Doc) {
 		return
 	}
 	bw.printf("\nWaypoints\n")
+	if d.Fuel == nil && d.Waypoints[0].MinRequiredKg != nil {
+		bw.printf("  (min required is the remaining trip only: no fuel policy applied; give --zfw alone for a fuel plan)\n")
+	}
 	tw := tabwriter.NewWriter(bw, 0, 0, 1, ' ', 0)
 	fmt.Fprintln(tw, "  point\tNM\tETO\tFL\tfuel used kg\tfuel remaining kg\tmin required kg\t")
 	for _, w := range d.Waypoints {
