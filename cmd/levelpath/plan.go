@@ -11,14 +11,14 @@ import (
 
 func init() { subcommands = append(subcommands, newPlanCmd, newAssessCmd) }
 
-func writePlan(w io.Writer, format string, p *optimizer.Plan, assessed bool) error {
+func writePlan(w io.Writer, format string, p *optimizer.Plan, assessed, brief bool) error {
 	switch format {
 	case "json":
 		return planout.WriteJSON(w, p, assessed)
 	case "csv":
 		return planout.WriteCSV(w, p, assessed)
 	}
-	return planout.WriteTable(w, p, assessed)
+	return planout.WriteTableBrief(w, p, assessed, brief)
 }
 
 // planFlags are the flags of plan and assess beyond the problem's.
@@ -26,6 +26,7 @@ type planFlags struct {
 	problemFlags
 	chart, report, profile string
 	format                 *string
+	brief                  bool
 	fuelPlan               fuelPlanFlags
 	inFlight               inFlightFlags
 }
@@ -35,6 +36,7 @@ func (f *planFlags) register(c *cobra.Command) {
 	f.problemFlags.register(c)
 	c.Flags().StringVar(&f.chart, "chart", "", "also draw the profile chart to FILE (.svg, .png or .pdf)")
 	c.Flags().StringVar(&f.report, "report", "", "also write a self-contained HTML flight report to FILE (.html)")
+	c.Flags().BoolVar(&f.brief, "brief", false, "table: one screen, without the waypoint and leg tables")
 }
 
 // run builds the problem, prices it with price and writes the outputs.
@@ -74,7 +76,7 @@ func (f *planFlags) run(cmd *cobra.Command, assessed bool, price func(*optimizer
 	if err := writeCharts(f.chart, f.report, plan, pr); err != nil {
 		return err
 	}
-	if err := writePlan(cmd.OutOrStdout(), *f.format, plan, assessed); err != nil {
+	if err := writePlan(cmd.OutOrStdout(), *f.format, plan, assessed, f.brief); err != nil {
 		return err
 	}
 	// A plan whose loading makes the flight impossible (trip fuel over the

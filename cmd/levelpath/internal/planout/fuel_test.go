@@ -59,3 +59,21 @@ func TestFuelSection(t *testing.T) {
 		t.Errorf("the fuel block must come before the legs")
 	}
 }
+
+// TestTableBrief: --brief keeps the summary, status, steps and caution and
+// leaves out the waypoint and leg tables.
+func TestTableBrief(t *testing.T) {
+	var buf bytes.Buffer
+	if err := WriteTableBrief(&buf, testPlan(), false, true); err != nil {
+		t.Fatal(err)
+	}
+	out := buf.String()
+	for _, s := range []string{"Status", "Steps", optimizer.Caution} {
+		if !strings.Contains(out, s) {
+			t.Errorf("brief table lacks %q", s)
+		}
+	}
+	if strings.Contains(out, "\nLegs") {
+		t.Errorf("brief table has the legs")
+	}
+}

@@ -15,6 +15,13 @@ import (
 // warnings first, then the fuel block (when a fuel plan was made), steps,
 // the numbered legs (the numbers violations refer to) and the caution.
 func WriteTable(w io.Writer, p *optimizer.Plan, assessed bool) error {
+	return WriteTableBrief(w, p, assessed, false)
+}
+
+// WriteTableBrief is WriteTable; brief leaves out the waypoint and leg
+// tables (one screen: summary, status, fuel block, violations, warnings,
+// steps and the caution).
+func WriteTableBrief(w io.Writer, p *optimizer.Plan, assessed, brief bool) error {
 	d := FromPlan(p, assessed)
 	bw := &errWriter{w: w}
 	title := "Vertical profile plan"
@@ -75,6 +82,10 @@ func WriteTable(w io.Writer, p *optimizer.Plan, assessed bool) error {
 			}
 		}
 		bw.printf("  at %6.0f NM  FL%03d -> FL%03d%s\n", s.AtNM, s.FromFL, s.ToFL, where)
+	}
+	if brief {
+		bw.printf("\n(waypoints and legs: without --brief)\n\n%s\n", optimizer.Caution)
+		return bw.err
 	}
 	writeWaypoints(bw, d)
 	bw.printf("\nLegs\n")
