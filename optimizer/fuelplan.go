@@ -153,37 +153,23 @@ func PlanFuel(req FuelRequest) (*Plan, error) {
 		return &fuelEval{tow: tow, plan: plan, fp: fp, need: need, trip: fp.Trip}, nil
 	}
 	var hist []*fuelEval
-	tow := math.Min(a.MTOW, z+0.25*math.Min(a.FuelCapacity, a.MTOW-z))
-	var last *fuelEval
-	clamped := false
-	for it := 1; ; it++ {
-		if it > fuelMaxIter {
-			return nil, fuelIterError(hist)
-		}
+	need := func(tow float64) (float64, error) {
 		e, err := eval(tow)
 		if err != nil {
-			return nil, fuelEvalError(tow, err)
+			return 0, fuelEvalError(tow, err)
 		}
 		hist = append(hist, e)
-		last = e
-		g := z + e.need
-		if math.Abs(g-tow) < fuelTolerance {
-			break
-		}
-		if tow >= a.MTOW && g > a.MTOW {
-			clamped = true // the fixed point lies over MTOW
-			break
-		}
-		next := g
-		if n := len(hist); n >= 2 {
-			p := hist[n-2]
-			if d := e.tow - p.tow; math.Abs(d) > 1 {
-				s := math.Max(0, math.Min(0.9, (e.need-p.need)/d))
-				next = tow + (g-tow)/(1-s)
-			}
-		}
-		tow = math.Max(z, math.Min(a.MTOW, next))
+		return e.need, nil
 	}
+	start := math.Min(a.MTOW, z+0.25*math.Min(a.FuelCapacity, a.MTOW-z))
+	clamped, err := fixedTOW(z, a.MTOW, start, need)
+	if err != nil {
+		if errors.Is(err, errNoConvergence) {
+			return nil, fuelIterError(hist)
+		}
+		return nil, err
+	}
+	last := hist[len(hist)-1]
 	fp := last.fp
 	fp.Iterations = len(hist)
 	for _, e := range hist {
@@ -288,6 +274,42 @@ func (fp *FuelPlan) requiredAt(ws []Waypoint) {
 		w.FuelRemaining = fob - w.FuelUsed
 		w.MinRequired = rem + cont + fp.Alternate + fp.FinalReserve + fp.Additional
 	}
+}
+
+// errNoConvergence: the take-off mass did not settle in fuelMaxIter tries.
+var errNoConvergence = errors.New("optimizer: the take-off mass did not converge")
+
+// fixedTOW solves TOW = z + need(TOW) for TOW in [z, mtow], starting at
+// start: secant steps on TOW - z - need(TOW) with the slope of the last two
+// evaluations clamped to [0, 0.9] (the plain step where there is none),
+// until the take-off mass moves less than fuelTolerance. It reports
+// clamped when the fixed point lies over mtow (need evaluated at mtow
+// asks for more), and errNoConvergence after fuelMaxIter evaluations. The
+// last call of need is at the answer.
+func fixedTOW(z, mtow, start float64, need func(float64) (float64, error)) (clamped bool, err error) {
+	tow := start
+	var pTow, pNeed float64
+	for it := 1; it <= fuelMaxIter; it++ {
+		n, err := need(tow)
+		if err != nil {
+			return false, err
+		}
+		g := z + n
+		if math.Abs(g-tow) < fuelTolerance {
+			return false, nil
+		}
+		if tow >= mtow && g > mtow {
+			return true, nil // the fixed point lies over MTOW
+		}
+		next := g
+		if d := tow - pTow; it > 1 && math.Abs(d) > 1 {
+			s := math.Max(0, math.Min(0.9, (n-pNeed)/d))
+			next = tow + (g-tow)/(1-s)
+		}
+		pTow, pNeed = tow, n
+		tow = math.Max(z, math.Min(mtow, next))
+	}
+	return false, errNoConvergence
 }
 
 // reserves works out the fuel components other than taxi for the plan
