@@ -334,10 +334,10 @@ func (s *sim) checkLimits(seg *route.Segment, end float64, c cond, v cruiseVal) 
 		// Levelled off below the profile's level: the climb violation
 		// says so; the rule and blocks are judged at the level asked for.
 	} else if !containsInt(seg.Levels, s.fl) {
-		s.violate("level-rule", 0, "", fmt.Sprintf("FL%03d is not an allowed level on segment %d (course %.0f° magnetic)", s.fl, seg.Index, seg.MagCourse))
+		s.violate("level-rule", 0, "", fmt.Sprintf("FL%03d is not an allowed level on segment %d (course %.0f° magnetic)%s", s.fl, seg.Index, seg.MagCourse, s.nearestOpen(seg, end)))
 	}
 	if s.fl == s.target && blocked(q.Blocked, s.x, end, s.fl) {
-		s.violate("blocked", 0, "", fmt.Sprintf("FL%03d is blocked at %.0f NM", s.fl, s.x/nmToM))
+		s.violate("blocked", 0, "", fmt.Sprintf("FL%03d is blocked on %.0f-%.0f NM%s", s.fl, s.x/nmToM, end/nmToM, s.nearestOpen(seg, end)))
 	}
 	if s.fl > q.MaxFL {
 		s.violate("certified", float64(s.fl-q.MaxFL)*100, "ft", fmt.Sprintf("FL%03d is above the highest usable level FL%03d", s.fl, q.MaxFL))
@@ -353,6 +353,31 @@ func (s *sim) checkLimits(seg *route.Segment, end float64, c cond, v cruiseVal) 
 	} else if q.Speed.Kind == SpeedFixed && (q.Speed.Mach < lo-1e-9 || q.Speed.Mach > hi+1e-9) {
 		s.violate("mach-band", math.Max(lo-q.Speed.Mach, q.Speed.Mach-hi), "Mach", fmt.Sprintf("Mach %.3f outside the band %.3f-%.3f at FL%03d", q.Speed.Mach, lo, hi, s.fl))
 	}
+}
+
+// nearestOpen names the allowed, unblocked levels of seg nearest to the
+// level flown (what the aircraft would fly instead), or "".
+func (s *sim) nearestOpen(seg *route.Segment, end float64) string {
+	below, above := -1, -1
+	for _, fl := range seg.Levels {
+		if fl < s.q.MinFL || fl > s.q.MaxFL || blocked(s.q.Blocked, s.x, end, fl) {
+			continue
+		}
+		if fl < s.fl {
+			below = fl
+		} else if fl > s.fl && above < 0 {
+			above = fl
+		}
+	}
+	switch {
+	case below > 0 && above > 0:
+		return fmt.Sprintf("; nearest open levels FL%03d and FL%03d", below, above)
+	case below > 0:
+		return fmt.Sprintf("; nearest open level FL%03d", below)
+	case above > 0:
+		return fmt.Sprintf("; nearest open level FL%03d", above)
+	}
+	return ""
 }
 
 func containsInt(xs []int, x int) bool {
