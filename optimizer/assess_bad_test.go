@@ -127,3 +127,21 @@ func TestAssessAboveCeiling(t *testing.T) {
 		t.Errorf("FL590: violations %s, want certified and climb", s)
 	}
 }
+
+// TestAssessNamesOpenLevels: a level the semicircular rule (ICAO Annex 2,
+// Appendix 3: eastbound odd thousands) does not allow is listed with the
+// nearest allowed levels, what the aircraft would fly instead.
+func TestAssessNamesOpenLevels(t *testing.T) {
+	tr := track(t, "45.0,-73.0 47.0,-40.0", "odd-even-magnetic", 50) // eastbound
+	plan, err := Assess(&Problem{Track: tr, Aircraft: aircraft(t, "demo-narrowbody"), TakeoffMass: 64000}, Profile{Initial: 340})
+	if err != nil {
+		t.Fatal(err)
+	}
+	found := false
+	for _, v := range plan.Violations {
+		found = found || v.Limit == "level-rule" && strings.Contains(v.Detail, "nearest open levels FL330 and FL350")
+	}
+	if !found {
+		t.Errorf("no level-rule violation naming FL330 and FL350: %v", plan.Violations)
+	}
+}
