@@ -2,6 +2,7 @@ package optimizer
 
 import (
 	"errors"
+	"reflect"
 	"strings"
 	"testing"
 )
@@ -44,5 +45,19 @@ func TestFuelPolicyBadInput(t *testing.T) {
 		if !errors.As(err, &pe) || !strings.Contains(err.Error(), c.want) {
 			t.Errorf("%q: %v, want a PolicyError containing %q", c.in, err, c.want)
 		}
+	}
+}
+
+// TestPolicyKeysRoundTrip: the documented keys with their defaults (the
+// help text) form a policy file that reads back as the default policy.
+func TestPolicyKeysRoundTrip(t *testing.T) {
+	p, err := ParseFuelPolicy([]byte(strings.Join(PolicyKeys(), "\n")), "help")
+	if err != nil {
+		t.Fatal(err)
+	}
+	d := DefaultFuelPolicy()
+	p.Source, p.Defaulted, d.Source, d.Defaulted = "", nil, "", nil
+	if !reflect.DeepEqual(p, d) {
+		t.Errorf("read back %+v, default %+v", p, d)
 	}
 }

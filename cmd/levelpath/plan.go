@@ -2,6 +2,7 @@ package main
 
 import (
 	"io"
+	"strings"
 
 	"github.com/spf13/cobra"
 
@@ -95,6 +96,12 @@ func newPlanCmd() *cobra.Command {
 	c := &cobra.Command{
 		Use:   "plan",
 		Short: "Plan the cheapest vertical profile of one flight",
+		Long: "Plan the cheapest vertical profile of one flight.\n\n" +
+			"With --zfw alone (no --mass, no --fuel) plan makes the dispatch fuel plan: block fuel = taxi + trip +\n" +
+			"contingency + alternate + final reserve + additional + extra (ICAO Annex 6 Part I 4.3.6.3), and the\n" +
+			"take-off mass solved to a fixed point. --policy FILE is YAML with these keys (defaults shown):\n\n  " +
+			strings.Join(optimizer.PolicyKeys(), "\n  ") + "\n\n" +
+			"With --from-nm or --from-waypoint, --fl, --mass and --time it re-plans the rest of the route in flight.",
 		Example: `  levelpath plan --route levelpath-demo/route.geojson --aircraft demo-widebody --mass 245000 \
       --weather levelpath-demo/weather.grib2 --depart 2026-12-01T20:00:00Z --ci 40
   levelpath plan --route levelpath-demo/route-sunhaven.geojson --aircraft demo-narrowbody --zfw 58000 --fuel 12000 --format json
