@@ -90,14 +90,23 @@ func WriteTableBrief(w io.Writer, p *optimizer.Plan, assessed, brief bool) error
 	writeWaypoints(bw, d)
 	bw.printf("\nLegs\n")
 	tw := tabwriter.NewWriter(bw, 0, 0, 1, ' ', tabwriter.AlignRight)
-	fmt.Fprintln(tw, "leg\tfrom NM\tto NM\tphase\tFL\tMach\tTAS kt\twind kt\tGS kt\tISA dev C\tfuel kg\ttime min\tstart mass kg\tmargin g\tfloor g\t")
+	fmt.Fprintln(tw, "leg\tfrom NM\tto NM\tphase\tFL\tMach\tTAS kt\twind kt\tGS kt\tISA dev C\tfuel kg\ttime min\tstart mass kg\tmargin g\tfloor g\tstarts at\t")
 	for i, l := range d.Legs {
+		at := ""
+		for _, w := range d.Waypoints {
+			if (w.Kind == optimizer.WaypointRoute || w.Kind == optimizer.WaypointStart) && math.Abs(w.DistanceNM-l.FromNM) < 0.5 {
+				at = w.Name
+			}
+		}
+		if at == "" {
+			at = "-"
+		}
 		margin := "-"
 		if l.BuffetMarginG != nil {
 			margin = fmt.Sprintf("%.3f", *l.BuffetMarginG)
 		}
-		fmt.Fprintf(tw, "%d\t%.0f\t%.0f\t%s\t%.0f\t%.3f\t%.0f\t%+.0f\t%.0f\t%+.1f\t%.0f\t%.1f\t%.0f\t%s\t%.2f\t\n",
-			i, l.FromNM, l.ToNM, l.Phase, l.FL, l.Mach, l.TASKt, l.WindKt, l.GSKt, l.ISADevC, l.FuelKg, l.TimeMin, l.MassStartKg, margin, l.FloorG)
+		fmt.Fprintf(tw, "%d\t%.0f\t%.0f\t%s\t%.0f\t%.3f\t%.0f\t%+.0f\t%.0f\t%+.1f\t%.0f\t%.1f\t%.0f\t%s\t%.2f\t%s\t\n",
+			i, l.FromNM, l.ToNM, l.Phase, l.FL, l.Mach, l.TASKt, l.WindKt, l.GSKt, l.ISADevC, l.FuelKg, l.TimeMin, l.MassStartKg, margin, l.FloorG, at)
 	}
 	tw.Flush()
 	bw.printf("\n%s\n", optimizer.Caution)
