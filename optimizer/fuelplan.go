@@ -72,7 +72,12 @@ type FuelPlan struct {
 	InFlight              bool
 	FuelOnBoard           float64
 	ExpectedAtDestination float64 // FuelOnBoard - Trip
+
+	cands map[string]float64 // the largest ZFW each limit allows
 }
+
+// limitNames are the loading limits in the order they are reported.
+var limitNames = []string{"MZFW", "MTOW", "MLW", "fuel capacity"}
 
 // Fuel-plan iteration bounds.
 const (
@@ -184,8 +189,13 @@ func PlanFuel(req FuelRequest) (*Plan, error) {
 		// Exact: the fixed point TOW = ZFW + F(TOW) is MTOW exactly
 		// when ZFW = MTOW - F(MTOW).
 		if e, err := eval(a.MTOW); err == nil {
-			fp.MaxPayloadZFW = a.MTOW - e.need
-			fp.History = append(fp.History, a.MTOW)
+			fp.cands["MTOW"] = a.MTOW - e.need
+			fp.MaxPayloadZFW, fp.Binding = math.Inf(1), ""
+			for _, name := range limitNames {
+				if z, ok := fp.cands[name]; ok && z < fp.MaxPayloadZFW {
+					fp.MaxPayloadZFW, fp.Binding = z, name
+				}
+			}
 		}
 	}
 	if clamped {
@@ -199,6 +209,9 @@ func PlanFuel(req FuelRequest) (*Plan, error) {
 		if k == "destination_elevation_ft" || k == "alternate_elevation_ft" {
 			fp.Warnings = append(fp.Warnings, fmt.Sprintf("fuel policy: %s not given: 0 ft assumed", k))
 		}
+	}
+	if pol.Source != DefaultFuelPolicy().Source && len(pol.Defaulted) > 0 {
+		fp.Warnings = append(fp.Warnings, fmt.Sprintf("fuel policy %s: defaults used for %s", pol.Source, strings.Join(pol.Defaulted, ", ")))
 	}
 	fp.Warnings = append(fp.Warnings, "holding fuel is priced in straight level flight at ISA (turns and temperature not included)")
 	plan.Warnings = append(plan.Warnings, fp.Warnings...)
@@ -434,7 +447,9 @@ func limits(req FuelRequest, fp *FuelPlan, hist []*fuelEval, clamped bool) {
 		cand[3].zfw = z + (a.FuelCapacity-fp.Block)*(1-s)/s
 	}
 	fp.MaxPayloadZFW = math.Inf(1)
+	fp.cands = map[string]float64{}
 	for _, c := range cand {
+		fp.cands[c.name] = c.zfw
 		if c.over {
 			fp.LimitedBy = append(fp.LimitedBy, c.name)
 		}
