@@ -148,3 +148,30 @@ func TestFuelPlanBadInput(t *testing.T) {
 		t.Errorf("contingency 101 %%: %v", err)
 	}
 }
+
+// TestFuelPlanMLW: extra fuel that would land the aircraft over MLW is
+// named, with the largest ZFW that fits; planning that ZFW lands within
+// 0.1 % of MLW (the estimate is first order: landing mass = ZFW plus the
+// reserves, which change little with the mass).
+func TestFuelPlanMLW(t *testing.T) {
+	a := aircraft(t, "demo-narrowbody")
+	p := &Problem{Track: track(t, "45.0,-73.0 47.0,-60.0", "odd-even-magnetic", 50), Aircraft: a, Depart: time.Date(2026, 12, 1, 20, 0, 0, 0, time.UTC)}
+	pol := DefaultFuelPolicy()
+	pol.ExtraKg = 3000
+	plan, err := PlanFuel(FuelRequest{Problem: p, ZFW: 62000, Policy: pol})
+	if err != nil {
+		t.Fatal(err)
+	}
+	f := plan.Fuel
+	if f.LandingMass <= a.MLW || len(f.LimitedBy) == 0 || f.LimitedBy[0] != "MLW" || f.Binding != "MLW" || plan.Status() != StatusImpossible {
+		t.Fatalf("landing %.0f kg (MLW %.0f): limited by %v, binding %s, status %s", f.LandingMass, a.MLW, f.LimitedBy, f.Binding, plan.Status())
+	}
+	p2, err := PlanFuel(FuelRequest{Problem: p, ZFW: f.MaxPayloadZFW, Policy: pol})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if d := p2.Fuel.LandingMass - a.MLW; math.Abs(d) > 1e-3*a.MLW {
+		t.Errorf("at the largest ZFW %.0f kg the landing mass is %.0f kg, MLW %.0f kg", f.MaxPayloadZFW, p2.Fuel.LandingMass, a.MLW)
+	}
+	t.Logf("largest ZFW %.0f kg lands at %.1f kg (MLW %.0f)", f.MaxPayloadZFW, p2.Fuel.LandingMass, a.MLW)
+}
