@@ -166,8 +166,14 @@ func PlanFuel(req FuelRequest) (*Plan, error) {
 		hist = append(hist, e)
 		return e.need, nil
 	}
+	// Start at a quarter of the fuel that fits; when that cannot be
+	// planned (the trip would burn the aircraft below its empty mass),
+	// start again from the most fuel that fits.
 	start := math.Min(a.MTOW, z+0.25*math.Min(a.FuelCapacity, a.MTOW-z))
 	clamped, err := fixedTOW(z, a.MTOW, start, need)
+	if full := math.Min(a.MTOW, z+a.FuelCapacity); err != nil && len(hist) == 0 && IsInputError(err) && full > start {
+		clamped, err = fixedTOW(z, a.MTOW, full, need)
+	}
 	if err != nil {
 		if errors.Is(err, errNoConvergence) {
 			return nil, fuelIterError(hist)

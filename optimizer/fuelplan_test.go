@@ -175,3 +175,25 @@ func TestFuelPlanMLW(t *testing.T) {
 	}
 	t.Logf("largest ZFW %.0f kg lands at %.1f kg (MLW %.0f)", f.MaxPayloadZFW, p2.Fuel.LandingMass, a.MLW)
 }
+
+// TestFuelPlanCapacity: a block fuel over the tanks is named with the fuel
+// that cannot be carried.
+func TestFuelPlanCapacity(t *testing.T) {
+	a := aircraft(t, "demo-narrowbody")
+	p := &Problem{Track: track(t, "45.0,-73.0 42.0,28.0", "odd-even-magnetic", 50), Aircraft: a, Depart: time.Date(2026, 12, 1, 20, 0, 0, 0, time.UTC)}
+	plan, err := PlanFuel(FuelRequest{Problem: p, ZFW: 48000, Policy: DefaultFuelPolicy()})
+	if err != nil {
+		t.Fatal(err)
+	}
+	f := plan.Fuel
+	if f.Block <= a.FuelCapacity {
+		t.Skipf("block %.0f kg fits the %.0f kg tanks on this route", f.Block, a.FuelCapacity)
+	}
+	found := false
+	for _, v := range plan.Violations {
+		found = found || v.Limit == "fuel-capacity" && math.Abs(v.By-(f.Block-a.FuelCapacity)) < 1e-6
+	}
+	if !found || plan.Status() != StatusImpossible {
+		t.Errorf("block %.0f kg over %.0f kg: violations %v, status %s", f.Block, a.FuelCapacity, plan.Violations, plan.Status())
+	}
+}
