@@ -17,15 +17,32 @@ import (
 // change that begins within 0.5 NM of a segment boundary is taken at the
 // boundary, so a profile printed in whole NM prices as the plan it came
 // from. Pricing the profile of a Solve result gives that plan's totals.
+// The baseline (best constant level, as in Solve) is computed too, or
+// Plan.BaselineNote says why not.
 //
 // Complexity: O(segments + changes) point evaluations.
 func Assess(p *Problem, prof Profile) (*Plan, error) {
+	return assessProblem(p, prof, true)
+}
+
+// assessProblem is Assess, with the baseline only when asked (a search:
+// tests that price thousands of profiles skip it).
+func assessProblem(p *Problem, prof Profile, baseline bool) (*Plan, error) {
 	q := *p
 	warn, err := q.normalise()
 	if err != nil {
 		return nil, err
 	}
-	return assess(&q, prof, warn, q.LegCeilings)
+	plan, err := assess(&q, prof, warn, q.LegCeilings)
+	if err != nil {
+		return nil, err
+	}
+	if baseline {
+		assessBaseline(&q, plan)
+	} else {
+		plan.BaselineNote = "not computed"
+	}
+	return plan, nil
 }
 
 // sim is the state of the forward simulation of a profile.
@@ -36,12 +53,21 @@ type sim struct {
 	m    float64 // mass
 	t    float64 // seconds since departure
 	x    float64 // distance flown
-	fl   int
-	segs []route.Segment
+	fl   int     // level flown
+	// target is the level the profile asks for; it differs from fl
+	// while the aircraft cannot reach it (levelled off below).
+	target int
+	segs   []route.Segment
+	start  *InFlight // nil: from brake release; else in cruise from this state
 }
 
 func (s *sim) violate(limit Limit, by float64, unit, detail string) {
-	s.plan.Violations = append(s.plan.Violations, Violation{Leg: len(s.plan.Legs) - 1, Limit: limit, By: by, Unit: unit, Detail: detail})
+	s.violateLeg(len(s.plan.Legs)-1, limit, by, unit, detail)
+}
+
+// violateLeg records a violation on leg i (which may be the next leg).
+func (s *sim) violateLeg(i int, limit Limit, by float64, unit, detail string) {
+	s.plan.Violations = append(s.plan.Violations, Violation{Leg: i, Limit: limit, By: by, Unit: unit, Detail: detail})
 }
 
 // segAt returns the segment holding distance d.
@@ -61,6 +87,13 @@ func (s *sim) condAt(k, fl int) (cond, error) {
 }
 
 func assess(q *Problem, prof Profile, warn []string, detail bool) (*Plan, error) {
+	return assessFrom(q, prof, warn, detail, nil)
+}
+
+// assessFrom is assess from an in-flight state when start is not nil:
+// the profile's initial level is the level flown at start.Dist, and the
+// plan's take-off mass and departure are the state's mass and time.
+func assessFrom(q *Problem, prof Profile, warn []string, detail bool, start *InFlight) (*Plan, error) {
 	if prof.Initial < 10 || !prof.sorted() {
 		return nil, inputErrorf("profile", "profile %s: needs an initial level and changes in increasing distance", prof)
 	}
@@ -80,7 +113,10 @@ func assess(q *Problem, prof Profile, warn []string, detail bool) (*Plan, error)
 	}
 	plan := &Plan{Policy: policyOf(q), Aircraft: q.Aircraft.Name, CI: q.CI, Floor: q.Floor, Speed: q.Speed.String(), Depart: q.Depart,
 		TakeoffMass: q.TakeoffMass, Distance: total, Profile: pr, Warnings: append([]string(nil), warn...)}
-	s := &sim{q: q, a: q.Aircraft, plan: plan, m: q.TakeoffMass, fl: pr.Initial, segs: segs}
+	s := &sim{q: q, a: q.Aircraft, plan: plan, m: q.TakeoffMass, fl: pr.Initial, target: pr.Initial, segs: segs, start: start}
+	if start != nil {
+		s.x = start.Dist
+	}
 	if err := s.run(pr, total, detail); err != nil {
 		return nil, err
 	}
@@ -89,11 +125,14 @@ func assess(q *Problem, prof Profile, warn []string, detail bool) (*Plan, error)
 	plan.Totals.Time = s.t
 	plan.Totals.Cost = plan.Totals.Fuel + q.CI*s.t/60
 	plan.Totals.CO2 = 3.16 * plan.Totals.Fuel
-	if s.m > q.Aircraft.MLW {
-		s.violate("landing-mass", s.m-q.Aircraft.MLW, "kg", fmt.Sprintf("landing mass %.0f kg over MLW %.0f kg", s.m, q.Aircraft.MLW))
+	s.checkLoading()
+	fob := nan
+	if q.ZFW > 0 {
+		fob = q.TakeoffMass - q.ZFW
 	}
-	if q.ZFW > 0 && s.m < q.ZFW {
-		s.violate("fuel", q.ZFW-s.m, "kg", fmt.Sprintf("trip fuel exceeds the fuel on board by %.0f kg", q.ZFW-s.m))
+	plan.Waypoints = waypoints(plan, q.Track, fob)
+	if w := lowFuelWarning(plan.Waypoints); w != "" {
+		plan.Warnings = append(plan.Warnings, w)
 	}
 	addWarnings(plan)
 	return plan, nil
@@ -102,19 +141,13 @@ func assess(q *Problem, prof Profile, warn []string, detail bool) (*Plan, error)
 // run flies the profile: climb, cruise pieces split at segment boundaries
 // and changes, steps, and the final descent.
 func (s *sim) run(pr Profile, total float64, detail bool) error {
-	q, a := s.q, s.a
+	q := s.q
 	endP := perf.PressureAt(q.EndAltitude)
-	// Initial climb.
-	c0, err := s.condAt(0, s.fl)
-	if err != nil {
-		return err
+	if s.start == nil {
+		if err := s.initialClimb(endP); err != nil {
+			return err
+		}
 	}
-	cl := transition(a, s.m, endP, perf.FLToPressure(float64(s.fl)), c0.isaDev, q.ClimbSchedule, true)
-	if !cl.ok {
-		return inputErrorf("profile", "initial climb to FL%03d at %.0f kg: %s", s.fl, s.m, cl.why)
-	}
-	g := cl.dist + 0.5*c0.wind*cl.time
-	s.addTransLeg(PhaseClimb, 0, q.EndAltitude/(100*perf.FtToM), float64(s.fl), g, cl, c0)
 	ci := 0
 	if ci < len(pr.Changes) && pr.Changes[ci].AtDist < s.x-1e-6 {
 		s.violate("profile", (s.x-pr.Changes[ci].AtDist)/nmToM, "NM", fmt.Sprintf("change to FL%03d at %.0f NM begins before the top of climb (%.0f NM); taken there", pr.Changes[ci].FL, pr.Changes[ci].AtDist/nmToM, s.x/nmToM))
@@ -125,12 +158,21 @@ func (s *sim) run(pr Profile, total float64, detail bool) error {
 	// The minimum step distance counts from the start of the segment that
 	// holds the top of climb, as the search does.
 	lastStep := s.segs[s.segAt(s.x)].FromDist
+	if s.start != nil {
+		lastStep = math.Inf(-1) // in flight: the next step may come at once
+	}
 	for guard := 0; guard < 10*len(s.segs)+10*len(pr.Changes)+10; guard++ {
 		if s.x >= total-1e-6 {
 			s.violate("profile", 0, "", "the profile reaches the destination without a final descent")
 			return nil
 		}
 		k := s.segAt(s.x)
+		if s.fl < s.target {
+			if err := s.resumeClimb(k, descGround, total); err != nil {
+				return err
+			}
+			k = s.segAt(s.x)
+		}
 		c, err := s.condAt(k, s.fl)
 		if err != nil {
 			return err
@@ -174,12 +216,51 @@ func (s *sim) run(pr Profile, total float64, detail bool) error {
 		if ci < len(pr.Changes) && s.x >= xc-1e-6 {
 			ch := pr.Changes[ci]
 			ci++
+			// A change that begins on a boundary is judged with the
+			// segment that begins there, as the search does.
+			if k+1 < len(s.segs) && s.x >= s.segs[k].ToDist-1e-6 {
+				k++
+				if c, err = s.condAt(k, s.fl); err != nil {
+					return err
+				}
+			}
 			if err := s.step(k, ch, c, &steps, &lastStep); err != nil {
 				return err
 			}
 		}
 	}
 	return fmt.Errorf("optimizer: profile simulation did not converge")
+}
+
+// initialClimb flies the climb from the end altitude (pressure endP) to
+// the profile's initial level, or as high as the aircraft can.
+func (s *sim) initialClimb(endP float64) error {
+	q, a := s.q, s.a
+	c0, err := s.condAt(0, s.fl)
+	if err != nil {
+		return err
+	}
+	cl := transition(a, s.m, endP, perf.FLToPressure(float64(s.fl)), c0.isaDev, q.ClimbSchedule, true)
+	if !cl.ok {
+		// Climb as high as the aircraft can and level off there; the
+		// profile's level is taken when the aircraft can reach it.
+		startFL := int(math.Ceil(q.EndAltitude / (100 * perf.FtToM)))
+		lf, ok := reachableFL(startFL, s.fl, func(fl int) bool {
+			return transition(a, s.m, endP, perf.FLToPressure(float64(fl)), c0.isaDev, q.ClimbSchedule, true).ok
+		})
+		if !ok || lf <= startFL {
+			return inputErrorf("profile", "initial climb to FL%03d at %.0f kg: %s", s.fl, s.m, cl.why)
+		}
+		s.violateLeg(0, "climb", float64(s.fl-lf)*100, "ft", fmt.Sprintf("initial climb to FL%03d cannot be completed at %.0f kg (%s): the aircraft levels off at FL%03d and climbs to FL%03d when it can", s.fl, s.m, cl.why, lf, s.fl))
+		s.fl = lf
+		cl = transition(a, s.m, endP, perf.FLToPressure(float64(s.fl)), c0.isaDev, q.ClimbSchedule, true)
+	}
+	if s.target > q.MaxFL {
+		s.violateLeg(0, "certified", float64(s.target-q.MaxFL)*100, "ft", fmt.Sprintf("initial level FL%03d is above the highest usable level FL%03d", s.target, q.MaxFL))
+	}
+	g := cl.dist + 0.5*c0.wind*cl.time
+	s.addTransLeg(PhaseClimb, 0, q.EndAltitude/(100*perf.FtToM), float64(s.fl), g, cl, c0)
+	return nil
 }
 
 // finalDescent prices the idle descent from the current level and mass
@@ -237,23 +318,26 @@ func (s *sim) cruise(k int, end float64, c cond, detail bool) {
 		leg.MaxFLBuffet, leg.MaxFLThrust = nan, nan
 	}
 	s.plan.Legs = append(s.plan.Legs, leg)
-	s.checkLimits(seg, c, v)
+	s.checkLimits(seg, end, c, v)
 	s.m -= leg.Fuel
 	s.t += dt
 	s.x = end
 }
 
 // checkLimits records the limits a cruise leg breaks.
-func (s *sim) checkLimits(seg *route.Segment, c cond, v cruiseVal) {
+func (s *sim) checkLimits(seg *route.Segment, end float64, c cond, v cruiseVal) {
 	q, a := s.q, s.a
 	if c.closed {
 		s.violate("turbulence", c.edr, "m^(2/3)/s", fmt.Sprintf("FL%03d on segment %d: %s", s.fl, seg.Index, c.closedWhy))
 	}
-	if !containsInt(seg.Levels, s.fl) {
-		s.violate("level-rule", 0, "", fmt.Sprintf("FL%03d is not an allowed level on segment %d (course %.0f° magnetic)", s.fl, seg.Index, seg.MagCourse))
+	if s.fl != s.target {
+		// Levelled off below the profile's level: the climb violation
+		// says so; the rule and blocks are judged at the level asked for.
+	} else if !containsInt(seg.Levels, s.fl) {
+		s.violate("level-rule", 0, "", fmt.Sprintf("FL%03d is not an allowed level on segment %d (course %.0f° magnetic)%s", s.fl, seg.Index, seg.MagCourse, s.nearestOpen(seg, end)))
 	}
-	if blocked(q.Blocked, s.x, s.x+1, s.fl) {
-		s.violate("blocked", 0, "", fmt.Sprintf("FL%03d is blocked at %.0f NM", s.fl, s.x/nmToM))
+	if s.fl == s.target && blocked(q.Blocked, s.x, end, s.fl) {
+		s.violate("blocked", 0, "", fmt.Sprintf("FL%03d is blocked on %.0f-%.0f NM%s", s.fl, s.x/nmToM, end/nmToM, s.nearestOpen(seg, end)))
 	}
 	if s.fl > q.MaxFL {
 		s.violate("certified", float64(s.fl-q.MaxFL)*100, "ft", fmt.Sprintf("FL%03d is above the highest usable level FL%03d", s.fl, q.MaxFL))
@@ -269,6 +353,31 @@ func (s *sim) checkLimits(seg *route.Segment, c cond, v cruiseVal) {
 	} else if q.Speed.Kind == SpeedFixed && (q.Speed.Mach < lo-1e-9 || q.Speed.Mach > hi+1e-9) {
 		s.violate("mach-band", math.Max(lo-q.Speed.Mach, q.Speed.Mach-hi), "Mach", fmt.Sprintf("Mach %.3f outside the band %.3f-%.3f at FL%03d", q.Speed.Mach, lo, hi, s.fl))
 	}
+}
+
+// nearestOpen names the allowed, unblocked levels of seg nearest to the
+// level flown (what the aircraft would fly instead), or "".
+func (s *sim) nearestOpen(seg *route.Segment, end float64) string {
+	below, above := -1, -1
+	for _, fl := range seg.Levels {
+		if fl < s.q.MinFL || fl > s.q.MaxFL || blocked(s.q.Blocked, s.x, end, fl) {
+			continue
+		}
+		if fl < s.fl {
+			below = fl
+		} else if fl > s.fl && above < 0 {
+			above = fl
+		}
+	}
+	switch {
+	case below > 0 && above > 0:
+		return fmt.Sprintf("; nearest open levels FL%03d and FL%03d", below, above)
+	case below > 0:
+		return fmt.Sprintf("; nearest open level FL%03d", below)
+	case above > 0:
+		return fmt.Sprintf("; nearest open level FL%03d", above)
+	}
+	return ""
 }
 
 func containsInt(xs []int, x int) bool {

@@ -83,18 +83,22 @@ type Limit string
 
 // The limits a Violation can name.
 const (
-	LimitBuffet      Limit = "buffet"       // buffet margin under the leg's protection floor
-	LimitThrust      Limit = "thrust"       // residual climb under 300 ft/min, or drag over maximum cruise thrust
-	LimitMachBand    Limit = "mach-band"    // no Mach band at the floor, or the Mach flown outside it
-	LimitCertified   Limit = "certified"    // above the highest usable level (certified ceiling or the problem's MaxFL)
-	LimitLevelRule   Limit = "level-rule"   // a level the direction-of-flight rule does not allow on the segment
-	LimitBlocked     Limit = "blocked"      // a level blocked over that stretch of route
-	LimitTurbulence  Limit = "turbulence"   // a level closed by the turbulence rule
-	LimitWeather     Limit = "weather"      // a level outside the weather's pressure levels
-	LimitStepRule    Limit = "step-rule"    // a step the step rules do not allow
-	LimitProfile     Limit = "profile"      // a profile change that could not be flown as written
-	LimitLandingMass Limit = "landing-mass" // landing mass over MLW
-	LimitFuel        Limit = "fuel"         // trip fuel over the fuel on board
+	LimitBuffet      Limit = "buffet"        // buffet margin under the leg's protection floor
+	LimitThrust      Limit = "thrust"        // residual climb under 300 ft/min, or drag over maximum cruise thrust
+	LimitMachBand    Limit = "mach-band"     // no Mach band at the floor, or the Mach flown outside it
+	LimitCertified   Limit = "certified"     // above the highest usable level (certified ceiling or the problem's MaxFL)
+	LimitLevelRule   Limit = "level-rule"    // a level the direction-of-flight rule does not allow on the segment
+	LimitBlocked     Limit = "blocked"       // a level blocked over that stretch of route
+	LimitTurbulence  Limit = "turbulence"    // a level closed by the turbulence rule
+	LimitWeather     Limit = "weather"       // a level outside the weather's pressure levels
+	LimitStepRule    Limit = "step-rule"     // a step the step rules do not allow
+	LimitProfile     Limit = "profile"       // a profile change that could not be flown as written
+	LimitClimb       Limit = "climb"         // a climb that cannot be completed to the level asked for
+	LimitLandingMass Limit = "landing-mass"  // landing mass over MLW or under OEW
+	LimitFuel        Limit = "fuel"          // trip fuel over the fuel on board
+	LimitFuelCap     Limit = "fuel-capacity" // fuel over the tanks' capacity
+	LimitMTOW        Limit = "mtow"          // take-off mass over MTOW
+	LimitMZFW        Limit = "mzfw"          // zero-fuel mass over MZFW
 )
 
 // Violation is a limit that a priced profile breaks.
@@ -140,9 +144,17 @@ type Plan struct {
 	Totals      Totals
 	Legs        []Leg
 	Steps       []Step
-	Baseline    *Baseline // nil when no constant level is feasible
-	Warnings    []string
-	Violations  []Violation // filled by Assess; empty for a Solve result
+	Baseline    *Baseline // nil when no constant level is feasible, or not computed
+	// BaselineNote says why Baseline is nil ("no constant level is
+	// feasible ...", or "not computed: ...").
+	BaselineNote string
+	Warnings     []string
+	Violations   []Violation // filled by Assess; empty for a Solve result
+	// Fuel is the dispatch fuel plan (PlanFuel only; nil otherwise).
+	Fuel *FuelPlan
+	// Waypoints are the route's points, top of climb, steps and top of
+	// descent with time, level and fuel.
+	Waypoints []Waypoint
 	// SearchCost is the cost the graph search found (Solve only), before
 	// the exact re-pricing that fills Totals.
 	SearchCost float64

@@ -43,15 +43,13 @@ func Solve(p *Problem) (*Plan, error) {
 	}
 	plan.SearchCost = res.cost
 	plan.Nodes, plan.Edges = res.nodes, s.edges
-	// Mass limits at landing are the loading's, not the profile's: warn.
-	// Anything else means the exact pricing disagrees with the search at
-	// a limit (a value interpolated at the edge of feasibility); say so.
+	// Loading limits (fuel, landing mass) stay in Violations and make the
+	// plan's status impossible. Any other violation means the exact
+	// pricing disagrees with the search at a limit (a value interpolated
+	// at the edge of feasibility); it stays listed and is named here.
 	var other []Violation
 	for _, v := range plan.Violations {
-		switch v.Limit {
-		case "landing-mass", "fuel":
-			plan.Warnings = append(plan.Warnings, v.Detail)
-		default:
+		if !IsLoadingLimit(v.Limit) {
 			other = append(other, v)
 		}
 	}
@@ -59,19 +57,7 @@ func Solve(p *Problem) (*Plan, error) {
 		plan.Warnings = append(plan.Warnings, fmt.Sprintf("exact pricing found %d limit(s) broken that the search did not see; first: %s", len(other), other[0].Detail))
 	}
 	// Baseline: the same problem with steps forbidden.
-	bs := s.withoutSteps()
-	if br, ok := bs.search(); ok {
-		bp := bs.profileOf(br.path)
-		if bplan, err := assess(bs.p, bp, nil, false); err == nil && !breaksProfileLimits(bplan.Violations) {
-			plan.Baseline = &Baseline{FL: bp.Initial, Totals: bplan.Totals}
-			if bplan.Totals.Cost > 0 {
-				plan.Baseline.SavingPct = (bplan.Totals.Cost - plan.Totals.Cost) / bplan.Totals.Cost * 100
-			}
-		}
-	}
-	if plan.Baseline == nil {
-		plan.Warnings = append(plan.Warnings, "no constant level is feasible along the whole route: no baseline")
-	}
+	s.addBaseline(plan)
 	return plan, nil
 }
 
@@ -161,7 +147,7 @@ func flRange(fls []int) string {
 // itself; landing mass and fuel on board are the loading's.
 func breaksProfileLimits(vs []Violation) bool {
 	for _, v := range vs {
-		if v.Limit != "landing-mass" && v.Limit != "fuel" {
+		if !IsLoadingLimit(v.Limit) {
 			return true
 		}
 	}

@@ -34,7 +34,7 @@ func TestPolarCLI(t *testing.T) {
 	if len(d.Warnings) == 0 || !strings.Contains(errs, "blackout zone") {
 		t.Errorf("warnings %q, stderr %q", d.Warnings, errs)
 	}
-	p := planJSON(t, "plan", "--route", "80,100 88,170", "--aircraft", "demo-widebody", "--mass", "231000", "--date", "2026-06-01")
+	p := planJSON(t, "plan", "--route", "80,100 88,170", "--aircraft", "demo-widebody", "--mass", "190000", "--date", "2026-06-01")
 	fl, _ := p["initial_fl"].(float64)
 	// ICAO Annex 2 Appendix 3: eastbound levels are the odd thousands
 	// below FL290 and FL290 + 40k... up to FL410.

@@ -3,6 +3,7 @@ package main
 import (
 	"fmt"
 	"io"
+	"strings"
 
 	"github.com/spf13/cobra"
 
@@ -12,14 +13,14 @@ import (
 
 func init() { subcommands = append(subcommands, newPlanCmd, newAssessCmd) }
 
-func writePlan(w io.Writer, format string, p *optimizer.Plan, assessed bool) error {
+func writePlan(w io.Writer, format string, p *optimizer.Plan, assessed, brief bool) error {
 	switch format {
 	case "json":
 		return planout.WriteJSON(w, p, assessed)
 	case "csv":
 		return planout.WriteCSV(w, p, assessed)
 	}
-	return planout.WriteTable(w, p, assessed)
+	return planout.WriteTableBrief(w, p, assessed, brief)
 }
 
 // planFlags are the flags of plan and assess beyond the problem's.
@@ -28,6 +29,9 @@ type planFlags struct {
 	chart, report, profile string
 	format                 *string
 	alternatives           int
+	brief                  bool
+	fuelPlan               fuelPlanFlags
+	inFlight               inFlightFlags
 }
 
 func (f *planFlags) register(c *cobra.Command) {
@@ -35,6 +39,7 @@ func (f *planFlags) register(c *cobra.Command) {
 	f.problemFlags.register(c)
 	c.Flags().StringVar(&f.chart, "chart", "", "also draw the profile chart to FILE (.svg, .png or .pdf)")
 	c.Flags().StringVar(&f.report, "report", "", "also write a self-contained HTML flight report to FILE (.html)")
+	c.Flags().BoolVar(&f.brief, "brief", false, "table: one screen, without the waypoint and leg tables")
 }
 
 // run builds the problem, prices it with price and writes the outputs.
@@ -49,11 +54,24 @@ func (f *planFlags) run(cmd *cobra.Command, assessed bool, price func(*optimizer
 	if err != nil {
 		return err
 	}
+	f.massAndZFW = !assessed && inFlightAsked(cmd)
 	pr, err := f.problem(cmd, wx, cmd.ErrOrStderr())
 	if err != nil {
 		return err
 	}
 	pr.LegCeilings = assessed || f.chart != "" || f.report != "" || *f.format != "table"
+	if fp := &f.fuelPlan; fp.active(cmd) {
+		req, err := fp.request(cmd, &f.problemFlags, pr)
+		if err != nil {
+			return err
+		}
+		price = func(*optimizer.Problem) (*optimizer.Plan, error) { return optimizer.PlanFuel(req) }
+	}
+	if !assessed && inFlightAsked(cmd) {
+		if price, err = f.inFlight.pricer(cmd, &f.problemFlags, &f.fuelPlan, pr); err != nil {
+			return err
+		}
+	}
 	plan, err := price(pr)
 	if err != nil {
 		return planErr(err)
@@ -62,7 +80,18 @@ func (f *planFlags) run(cmd *cobra.Command, assessed bool, price func(*optimizer
 	if err := writeCharts(f.chart, f.report, plan, pr); err != nil {
 		return err
 	}
-	return writePlan(cmd.OutOrStdout(), *f.format, plan, assessed)
+	if err := writePlan(cmd.OutOrStdout(), *f.format, plan, assessed, f.brief); err != nil {
+		return err
+	}
+	// A plan whose loading makes the flight impossible (trip fuel over the
+	// tanks or the fuel on board, landing under OEW or over MLW) fails
+	// with exit code 2 after its output is written; assess only lists.
+	if !assessed {
+		if err := plan.LoadingFailure(); err != nil {
+			return badInput(err)
+		}
+	}
+	return nil
 }
 
 func newPlanCmd() *cobra.Command {
@@ -70,12 +99,22 @@ func newPlanCmd() *cobra.Command {
 	c := &cobra.Command{
 		Use:   "plan",
 		Short: "Plan the cheapest vertical profile of one flight",
+		Long: "Plan the cheapest vertical profile of one flight.\n\n" +
+			"With --zfw alone (no --mass, no --fuel) plan makes the dispatch fuel plan: block fuel = taxi + trip +\n" +
+			"contingency + alternate + final reserve + additional + extra (ICAO Annex 6 Part I 4.3.6.3), and the\n" +
+			"take-off mass solved to a fixed point. --policy FILE is YAML with these keys (defaults shown):\n\n  " +
+			strings.Join(optimizer.PolicyKeys(), "\n  ") + "\n\n" +
+			"With --from-nm or --from-waypoint, --fl, --mass and --time it re-plans the rest of the route in flight.",
 		Example: `  levelpath plan --route levelpath-demo/route.geojson --aircraft demo-widebody --mass 245000 \
       --weather levelpath-demo/weather.grib2 --depart 2026-12-01T20:00:00Z --ci 40
-  levelpath plan --route levelpath-demo/route-sunhaven.geojson --aircraft demo-narrowbody --zfw 58000 --fuel 12000 --format json`,
+  levelpath plan --route levelpath-demo/route-sunhaven.geojson --aircraft demo-narrowbody --zfw 58000 --fuel 12000 --format json
+  levelpath plan --route levelpath-demo/route.geojson --aircraft demo-widebody --zfw 170000 \
+      --weather levelpath-demo/weather.grib2 --depart 2026-12-01T20:00:00Z --ci 40 --alternate "25.3,55.8 24.4,54.6"`,
 		Args: cobra.NoArgs,
 	}
 	f.register(c)
+	f.fuelPlan.register(c, &f.problemFlags)
+	f.inFlight.register(c)
 	c.Flags().IntVar(&f.alternatives, "alternatives", 0, "also list the K next-cheapest distinct profiles (levels or step points differ), each priced exactly")
 	c.RunE = func(cmd *cobra.Command, _ []string) error {
 		if f.alternatives < 0 || f.alternatives > 20 {

@@ -24,6 +24,8 @@ type problemFlags struct {
 	aircraft    string
 	mass        float64
 	zfw, fuel   float64
+	zfwOnly     bool // --zfw without --fuel is allowed (plan's fuel plan)
+	massAndZFW  bool // --mass with --zfw is allowed (plan's in-flight re-plan)
 	weather     []string
 	depart      string
 	ci          float64
@@ -152,18 +154,41 @@ func (f *problemFlags) problem(c *cobra.Command, wx *winds.Field, stderr io.Writ
 	if f.minFL != 0 && (f.minFL < 1 || f.minFL > 600) || f.maxFL != 0 && (f.maxFL < 1 || f.maxFL > 600) {
 		return nil, badInputf("--min-fl %d, --max-fl %d: each must be 0 (the default) or a flight level 1..600", f.minFL, f.maxFL)
 	}
-	if c.Flags().Changed("mass") && !(f.mass > 0) {
+	massSet := c.Flags().Changed("mass")
+	if massSet && !(f.mass > 0) {
 		return nil, badInputf("--mass %v: want a take-off mass in kg", f.mass)
-	}
-	if f.mass == 0 && (f.zfw > 0) != (f.fuel > 0) || f.mass == 0 && f.zfw == 0 && f.fuel == 0 {
-		return nil, badInputf("--mass (kg) or both --zfw and --fuel are required")
 	}
 	if err := checkFloorFlag(f.floor); err != nil {
 		return nil, err
 	}
-
-	if p.TakeoffMass, p.ZFW, err = (optimizer.Loading{TakeoffMass: f.mass, ZFW: f.zfw, Fuel: f.fuel}).Resolve(a); err != nil {
-		return nil, badInput(err)
+	switch {
+	case massSet && f.massAndZFW && f.zfw > 0 && f.fuel == 0:
+		// In flight: the mass now, and the ZFW.
+		if p.TakeoffMass, _, err = (optimizer.Loading{TakeoffMass: f.mass}).Resolve(a); err != nil {
+			return nil, badInput(err)
+		}
+		if f.zfw > a.MZFW {
+			return nil, badInputf("--zfw %.0f kg: the zero-fuel mass is over MZFW %.0f kg of %s", f.zfw, a.MZFW, a.Name)
+		}
+		if f.zfw > f.mass {
+			return nil, badInputf("--mass %.0f kg is below the zero-fuel mass %.0f kg: no fuel would be left", f.mass, f.zfw)
+		}
+		p.ZFW = f.zfw
+	case f.zfwOnly && f.zfw > 0 && !c.Flags().Changed("fuel") && !massSet:
+		// The fuel plan solves for the take-off mass; ZFW stands in.
+		if f.zfw > a.MZFW {
+			return nil, badInputf("--zfw %.0f kg is over MZFW %.0f kg of %s", f.zfw, a.MZFW, a.Name)
+		}
+		if p.TakeoffMass, _, err = (optimizer.Loading{TakeoffMass: f.zfw}).Resolve(a); err != nil {
+			return nil, badInput(err)
+		}
+		p.ZFW = f.zfw
+	case f.mass == 0 && (f.zfw > 0) != (f.fuel > 0) || f.mass == 0 && f.zfw == 0 && f.fuel == 0:
+		return nil, badInputf("--mass (kg) or both --zfw and --fuel are required")
+	default:
+		if p.TakeoffMass, p.ZFW, err = (optimizer.Loading{TakeoffMass: f.mass, ZFW: f.zfw, Fuel: f.fuel}).Resolve(a); err != nil {
+			return nil, badInput(err)
+		}
 	}
 	if f.depart != "" {
 		t, err := time.Parse(time.RFC3339, f.depart)

@@ -23,6 +23,7 @@ const (
 // Doc is the JSON form of a plan.
 type Doc struct {
 	Caution       string      `json:"caution"`
+	Status        string      `json:"status"`
 	Aircraft      string      `json:"aircraft"`
 	CI            float64     `json:"ci"`
 	FloorG        float64     `json:"floor_g"`
@@ -35,10 +36,13 @@ type Doc struct {
 	MinMarginG    *float64    `json:"min_margin_g"`
 	Totals        Totals      `json:"totals"`
 	Baseline      *Baseline   `json:"baseline"`
+	BaselineNote  string      `json:"baseline_note,omitempty"`
 	Steps         []Step      `json:"steps"`
 	Legs          []Leg       `json:"legs"`
 	Warnings      []string    `json:"warnings"`
 	Violations    []Violation `json:"violations"`
+	Fuel          *Fuel       `json:"fuel,omitempty"`
+	Waypoints     []Waypoint  `json:"waypoints"`
 	SearchCost    *float64    `json:"search_cost,omitempty"`
 	SearchNodes   int         `json:"search_nodes,omitempty"`
 	SearchEdges   int         `json:"search_edges,omitempty"`
@@ -188,7 +192,7 @@ func Number(x float64) *float64 {
 // result (violations are always listed then, even when empty).
 func FromPlan(p *optimizer.Plan, assessed bool) *Doc {
 	d := &Doc{
-		Caution: optimizer.Caution, Aircraft: p.Aircraft, CI: p.CI, FloorG: p.Floor, Speed: p.Speed,
+		Caution: optimizer.Caution, Status: p.Status(), BaselineNote: p.BaselineNote, Aircraft: p.Aircraft, CI: p.CI, FloorG: p.Floor, Speed: p.Speed,
 		Depart: p.Depart.UTC().Format(time.RFC3339), TakeoffMassKg: p.TakeoffMass, DistanceNM: p.Distance / mPerNM,
 		Profile: p.Profile.String(), InitialFL: p.Profile.Initial, MinMarginG: Number(p.MinMargin()),
 		Totals:   totals(p.Totals),
@@ -217,6 +221,8 @@ func FromPlan(p *optimizer.Plan, assessed bool) *Doc {
 			ResidualClimbFPM: resid, MaxFLBuffet: Number(l.MaxFLBuffet), MaxFLThrust: Number(l.MaxFLThrust),
 		})
 	}
+	d.Fuel = fuelDoc(p.Fuel)
+	d.Waypoints = waypointDocs(p)
 	d.Violations = []Violation{}
 	for _, v := range p.Violations {
 		d.Violations = append(d.Violations, Violation{Leg: v.Leg, Limit: string(v.Limit), By: v.By, Unit: v.Unit, Detail: v.Detail})

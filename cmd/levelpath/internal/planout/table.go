@@ -11,35 +11,77 @@ import (
 	"levelpath/optimizer"
 )
 
-// WriteTable writes the dispatcher's view: summary, steps, legs, warnings,
-// violations and the caution.
+// WriteTable writes the dispatcher's view: summary, status, violations and
+// warnings first, then the fuel block (when a fuel plan was made), steps,
+// the numbered legs (the numbers violations refer to) and the caution.
 func WriteTable(w io.Writer, p *optimizer.Plan, assessed bool) error {
+	return WriteTableBrief(w, p, assessed, false)
+}
+
+// WriteTableBrief is WriteTable; brief leaves out the waypoint and leg
+// tables (one screen: summary, status, fuel block, violations, warnings,
+// steps and the caution).
+func WriteTableBrief(w io.Writer, p *optimizer.Plan, assessed, brief bool) error {
 	d := FromPlan(p, assessed)
 	bw := &errWriter{w: w}
 	title := "Vertical profile plan"
 	if assessed {
 		title = "Assessed vertical profile"
 	}
-	bw.printf("%s: %s, take-off mass %.0f kg, departure %s\n", title, d.Aircraft, d.TakeoffMassKg, d.Depart)
+	if d.Fuel != nil && d.Fuel.InFlight || len(d.Waypoints) > 0 && d.Waypoints[0].Kind == optimizer.WaypointStart {
+		w := d.Waypoints[0]
+		bw.printf("In-flight re-plan: %s, from %.0f NM at FL%03.0f, mass %.0f kg, at %s\n", d.Aircraft, w.DistanceNM, w.FL, d.TakeoffMassKg, d.Depart)
+	} else {
+		bw.printf("%s: %s, take-off mass %.0f kg, departure %s\n", title, d.Aircraft, d.TakeoffMassKg, d.Depart)
+	}
 	bw.printf("Route %.0f NM, cost index %g kg/min, speed %s, buffet floor %.2f g\n", d.DistanceNM, d.CI, d.Speed, d.FloorG)
 	bw.printf("Profile  %s\n", d.Profile)
 	t := d.Totals
 	bw.printf("Totals   fuel %.0f kg, time %s, cost %.0f, CO2 %.0f kg, landing mass %.0f kg\n", t.FuelKg, hhmm(t.TimeMin), t.Cost, t.CO2Kg, t.LandingMassKg)
-	bw.printf("         (trip from 1,500 ft after take-off to 1,500 ft on approach; taxi, take-off, approach and reserve fuel not included)\n")
+	if d.Fuel == nil {
+		bw.printf("         (trip from 1,500 ft after take-off to 1,500 ft on approach; taxi, take-off, approach and reserve fuel not included)\n")
+	} else {
+		bw.printf("         (the trip fuel of the fuel plan below: 1,500 ft after take-off to 1,500 ft on approach; take-off and approach are not modelled)\n")
+	}
 	if d.MinMarginG != nil {
-		bw.printf("Least buffet margin %.3f g (floor %.2f g)\n", *d.MinMarginG, d.FloorG)
+		// Judged against each leg's own floor (turbulence raises it).
+		least, at := math.Inf(1), -1
+		for i, l := range d.Legs {
+			if l.BuffetMarginG != nil && *l.BuffetMarginG-l.FloorG < least {
+				least, at = *l.BuffetMarginG-l.FloorG, i
+			}
+		}
+		l := d.Legs[at]
+		bw.printf("Least buffet margin above its floor: %.3f g on leg %d (margin %.3f g, floor %.2f g there); least margin anywhere %.3f g\n", least, at, *l.BuffetMarginG, l.FloorG, *d.MinMarginG)
 	}
 	if b := d.Baseline; b != nil {
 		bw.printf("Baseline constant FL%03d: fuel %.0f kg, time %s, cost %.0f; this profile saves %.2f %%\n", b.FL, b.FuelKg, hhmm(b.TimeMin), b.Cost, b.SavingPct)
+	} else if d.BaselineNote != "" {
+		bw.printf("Baseline: %s\n", d.BaselineNote)
 	} else {
 		bw.printf("Baseline: no constant level is feasible along the whole route\n")
+	}
+	bw.printf("Status   %s\n", statusText(d))
+	writeFuel(bw, d)
+	writeViolations(bw, d, assessed)
+	if len(d.Warnings) > 0 {
+		bw.printf("\nWarnings\n")
+		for _, s := range d.Warnings {
+			bw.printf("  - %s\n", s)
+		}
 	}
 	bw.printf("\nSteps\n")
 	if len(d.Steps) == 0 {
 		bw.printf("  none\n")
 	}
 	for _, s := range d.Steps {
-		bw.printf("  at %6.0f NM  FL%03d -> FL%03d\n", s.AtNM, s.FromFL, s.ToFL)
+		where := ""
+		for _, w := range d.Waypoints {
+			if w.Kind == optimizer.WaypointStep && math.Abs(w.DistanceNM-s.AtNM) < 1e-9 {
+				where = "  (" + w.Name + ")"
+			}
+		}
+		bw.printf("  at %6.0f NM  FL%03d -> FL%03d%s\n", s.AtNM, s.FromFL, s.ToFL, where)
 	}
 	if len(d.Alternatives) > 0 {
 		bw.printf("\nAlternatives (next-cheapest profiles, priced exactly)\n")
@@ -51,43 +93,68 @@ func WriteTable(w io.Writer, p *optimizer.Plan, assessed bool) error {
 			bw.printf("  %d. %s: cost %+.1f, fuel %.0f kg, time %s, least margin %s\n", i+1, a.Profile, a.CostDelta, a.FuelKg, hhmm(a.TimeMin), margin)
 		}
 	}
+	if brief {
+		bw.printf("\n(waypoints and legs: without --brief)\n\n%s\n", optimizer.Caution)
+		return bw.err
+	}
+	writeWaypoints(bw, d)
 	bw.printf("\nLegs\n")
 	tw := tabwriter.NewWriter(bw, 0, 0, 1, ' ', tabwriter.AlignRight)
-	fmt.Fprintln(tw, "from NM\tto NM\tphase\tFL\tMach\tTAS kt\twind kt\tGS kt\tISA C\tfuel kg\tmin\tmass kg\tmargin g\tfloor g\t")
-	for _, l := range d.Legs {
+	fmt.Fprintln(tw, "leg\tfrom NM\tto NM\tphase\tFL\tMach\tTAS kt\twind kt\tGS kt\tISA dev C\tfuel kg\ttime min\tstart mass kg\tmargin g\tfloor g\tstarts at\t")
+	for i, l := range d.Legs {
+		at := ""
+		for _, w := range d.Waypoints {
+			if (w.Kind == optimizer.WaypointRoute || w.Kind == optimizer.WaypointStart) && math.Abs(w.DistanceNM-l.FromNM) < 0.5 {
+				at = w.Name
+			}
+		}
+		if at == "" {
+			at = "-"
+		}
 		margin := "-"
 		if l.BuffetMarginG != nil {
 			margin = fmt.Sprintf("%.3f", *l.BuffetMarginG)
 		}
-		fmt.Fprintf(tw, "%.0f\t%.0f\t%s\t%.0f\t%.3f\t%.0f\t%+.0f\t%.0f\t%+.1f\t%.0f\t%.1f\t%.0f\t%s\t%.2f\t\n",
-			l.FromNM, l.ToNM, l.Phase, l.FL, l.Mach, l.TASKt, l.WindKt, l.GSKt, l.ISADevC, l.FuelKg, l.TimeMin, l.MassStartKg, margin, l.FloorG)
+		fmt.Fprintf(tw, "%d\t%.0f\t%.0f\t%s\t%.0f\t%.3f\t%.0f\t%+.0f\t%.0f\t%+.1f\t%.0f\t%.1f\t%.0f\t%s\t%.2f\t%s\t\n",
+			i, l.FromNM, l.ToNM, l.Phase, l.FL, l.Mach, l.TASKt, l.WindKt, l.GSKt, l.ISADevC, l.FuelKg, l.TimeMin, l.MassStartKg, margin, l.FloorG, at)
 	}
 	tw.Flush()
-	if len(d.Warnings) > 0 {
-		bw.printf("\nWarnings\n")
-		for _, s := range d.Warnings {
-			bw.printf("  - %s\n", s)
-		}
-	}
-	if assessed {
-		bw.printf("\nViolations: %d\n", len(d.Violations))
-		for _, g := range groupViolations(d) {
-			where := fmt.Sprintf("leg %d", g.first)
-			if g.last != g.first {
-				where = fmt.Sprintf("legs %d-%d (%d legs)", g.first, g.last, g.count)
-			}
-			if g.unit != "" {
-				bw.printf("  - %s: %s, worst by %s %s: %s\n", where, g.limit, strconv.FormatFloat(g.worst, 'f', 3, 64), g.unit, g.detail)
-			} else {
-				bw.printf("  - %s: %s: %s\n", where, g.limit, g.detail)
-			}
-		}
-		if len(d.Violations) > 0 {
-			bw.printf("  (every violation, leg by leg: --format json)\n")
-		}
-	}
 	bw.printf("\n%s\n", optimizer.Caution)
 	return bw.err
+}
+
+// statusText explains the plan's status in a line.
+func statusText(d *Doc) string {
+	switch d.Status {
+	case optimizer.StatusImpossible:
+		return "IMPOSSIBLE: the flight cannot be flown as loaded (see violations)"
+	case optimizer.StatusViolations:
+		return fmt.Sprintf("VIOLATIONS: the profile breaks %d limit(s) (see violations)", len(d.Violations))
+	}
+	return "ok: no limit broken"
+}
+
+// writeViolations lists the violations grouped by stretch of route, first
+// in the table; an assessed plan lists them even when there is none.
+func writeViolations(bw *errWriter, d *Doc, assessed bool) {
+	if !assessed && len(d.Violations) == 0 {
+		return
+	}
+	bw.printf("\nViolations: %d\n", len(d.Violations))
+	for _, g := range groupViolations(d) {
+		where := fmt.Sprintf("leg %d", g.first)
+		if g.last != g.first {
+			where = fmt.Sprintf("legs %d-%d (%d legs)", g.first, g.last, g.count)
+		}
+		if g.unit != "" {
+			bw.printf("  - %s: %s, worst by %s %s: %s\n", where, g.limit, strconv.FormatFloat(g.worst, 'f', 3, 64), g.unit, g.detail)
+		} else {
+			bw.printf("  - %s: %s: %s\n", where, g.limit, g.detail)
+		}
+	}
+	if len(d.Violations) > 0 {
+		bw.printf("  (every violation, leg by leg: --format json)\n")
+	}
 }
 
 // WriteCSV writes one row per leg, with the caution as a leading comment

@@ -1,0 +1,36 @@
+package optimizer
+
+import "fmt"
+
+// addBaseline fills plan.Baseline with the best constant-level profile of
+// s's problem (the same search with steps forbidden, priced by assess)
+// and plan.BaselineNote with what was found. It skips a constant level
+// that breaks a limit of the profile when priced exactly.
+func (s *solver) addBaseline(plan *Plan) {
+	bs := s.withoutSteps()
+	if br, ok := bs.search(); ok {
+		bp := bs.profileOf(br.path)
+		if bplan, err := assess(bs.p, bp, nil, false); err == nil && !breaksProfileLimits(bplan.Violations) {
+			plan.Baseline = &Baseline{FL: bp.Initial, Totals: bplan.Totals}
+			if bplan.Totals.Cost > 0 {
+				plan.Baseline.SavingPct = (bplan.Totals.Cost - plan.Totals.Cost) / bplan.Totals.Cost * 100
+			}
+		}
+	}
+	if plan.Baseline == nil {
+		plan.BaselineNote = "no constant level is feasible along the whole route"
+		plan.Warnings = append(plan.Warnings, "no constant level is feasible along the whole route: no baseline")
+	}
+}
+
+// assessBaseline adds the baseline to an assessed plan of problem q
+// (normalised). When it cannot be computed the plan says so and why.
+func assessBaseline(q *Problem, plan *Plan) {
+	s, err := newSolver(q)
+	if err != nil {
+		plan.BaselineNote = fmt.Sprintf("not computed: %v", err)
+		plan.Warnings = append(plan.Warnings, "baseline "+plan.BaselineNote)
+		return
+	}
+	s.addBaseline(plan)
+}
