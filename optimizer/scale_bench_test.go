@@ -21,7 +21,7 @@ func BenchmarkPlanLongHaulDefault(b *testing.B) {
 // scaleTrack is a great-circle route of nm nautical miles (waypoints every 2,000 NM) from 35N 140E
 // heading 60 degrees true (across the Pacific in the invented weather),
 // cut into 10 NM segments, every 1,000 ft allowed from FL100.
-func scaleTrack(b *testing.B, nm float64) *route.Track {
+func scaleTrack(b testing.TB, nm float64) *route.Track {
 	pts := "35,140"
 	for d := 2000.0; ; d += 2000 {
 		lat, lon, _ := route.Direct(35, 140, 60, math.Min(d, nm)*nmToM)

@@ -33,6 +33,9 @@ func Solve(p *Problem) (*Plan, error) {
 		return nil, err
 	}
 	res, ok := s.search()
+	if res.err != nil {
+		return nil, res.err
+	}
 	if !ok {
 		return nil, s.infeasible()
 	}
@@ -60,6 +63,10 @@ func Solve(p *Problem) (*Plan, error) {
 	}
 	// Baseline: the same problem with steps forbidden.
 	bs := s.withoutSteps()
+	bs.costGuess = 1.02 * res.cost // a constant level costs a little more
+	if s.boundCost < bs.costGuess {
+		bs.reuse = nil // the main search's bound assumed too little
+	}
 	if br, ok := bs.search(); ok {
 		bp := bs.profileOf(br.path)
 		if bplan, err := assess(bs.p, bp, nil, false); err == nil && !breaksProfileLimits(bplan.Violations) {
