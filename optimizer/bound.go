@@ -79,7 +79,7 @@ const guessMargin = 1.13
 // assumption (OEW). A wrong guess costs a second search, never a wrong
 // result.
 func (s *solver) guessCost() float64 {
-	stride := len(s.conds)/32 + 1
+	stride := len(s.conds)/8 + 1
 	u := math.Inf(1)
 	for i := 0; i < 3; i++ {
 		_, H := s.bound(u, stride)
@@ -98,9 +98,11 @@ func (s *solver) bound(u float64, stride int) (h, H []float64) {
 	K := len(s.conds)
 	H = make([]float64, K+1)
 	h = make([]float64, K+1)
-	kT, dgMax := s.tailStart()
-	desc := s.descentStarts()
-	tau := s.timeCostBound()
+	if s.fixed == nil {
+		kT, dgMax := s.tailStart()
+		s.fixed = &boundParts{kT: kT, dgMax: dgMax, desc: s.descentStarts(), tau: s.timeCostBound()}
+	}
+	kT, dgMax, desc, tau := s.fixed.kT, s.fixed.dgMax, s.fixed.desc, s.fixed.tau
 	qTail := 0.0
 	for k := K - 1; k >= 0; k-- {
 		h2, t2 := 0.0, tau[K]
@@ -130,6 +132,15 @@ func (s *solver) bound(u float64, stride int) (h, H []float64) {
 		}
 	}
 	return h, H
+}
+
+// boundParts are the parts of the bound that do not depend on the
+// assumed cost, worked out once per problem.
+type boundParts struct {
+	kT    int
+	dgMax float64
+	desc  []bool
+	tau   []float64
 }
 
 // leastCostPerMetre is Q(k) of searchBound at mass mu: the grid mass at or

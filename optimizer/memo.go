@@ -87,5 +87,5 @@ func (s *solver) transGrid(li, lj, g, mi, di int) (transVal, transVal) {
 }
 
 func (s *solver) transAtGrid(li, lj, g, mi, di int) transVal {
-	return s.transExact(li, lj, float64(g)*s.grid, float64(mi)*machStep, float64(di-200)*devStep)
+	return s.transExact(li, lj, float64(g)*s.grid, float64(mi)*s.machStep, float64(di-200)*s.devStep)
 }

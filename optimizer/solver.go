@@ -36,6 +36,9 @@ type solver struct {
 	// since the last step, keeping the cheapest (an approximation:
 	// Problem.Exact turns it off).
 	mergeSince bool
+	// machStep and devStep round a step's Mach and temperature deviation
+	// for the step memo.
+	machStep, devStep float64
 	// dijkstra turns the A* bound off (plain Dijkstra, for tests).
 	dijkstra bool
 	// boundCost is the total cost the current A* bound assumes at most;
@@ -44,6 +47,7 @@ type solver struct {
 	// reuse is the last A* bound (valid for boundCost), which the
 	// baseline's solver, a subgraph, reuses.
 	reuse []float64
+	fixed *boundParts // see bound.go
 	// overflowed is set when an arrival's mass bucket exceeds the node ID.
 	overflowed bool
 }
@@ -108,6 +112,10 @@ func newSolver(p *Problem) (*solver, error) {
 		}
 	}
 	s.mergeSince = !p.Exact
+	s.machStep, s.devStep = machStep, devStep
+	if !p.Exact {
+		s.machStep, s.devStep = 2*machStep, 2*devStep
+	}
 	s.stepCap = p.Steps.MaxSteps
 	if s.stepCap > 60 {
 		s.stepCap = 60
@@ -246,22 +254,24 @@ func (s *solver) transAt(k, li, lj int, m float64) transVal {
 	if !c.ok {
 		return transVal{why: "no feasible cruise Mach at either level"}
 	}
-	mi := int(math.Round(c.mach / machStep))
-	di := int(math.Round((s.conds[k][li].isaDev+s.conds[k][lj].isaDev)/2/devStep)) + 200
+	mi := int(math.Round(c.mach / s.machStep))
+	di := int(math.Round((s.conds[k][li].isaDev+s.conds[k][lj].isaDev)/2/s.devStep)) + 200
 	if di < 0 || di > 400 {
 		return s.transExact(li, lj, m, c.mach, (s.conds[k][li].isaDev+s.conds[k][lj].isaDev)/2)
 	}
 	g := int(math.Floor(m / s.grid))
 	v0, v1 := s.transGrid(li, lj, g, mi, di)
 	if !v0.ok || !v1.ok {
-		return s.transExact(li, lj, m, float64(mi)*machStep, float64(di-200)*devStep)
+		return s.transExact(li, lj, m, float64(mi)*s.machStep, float64(di-200)*s.devStep)
 	}
 	t := (m - float64(g)*s.grid) / s.grid
 	l := func(a, b float64) float64 { return a + (b-a)*t }
 	return transVal{ok: true, fuel: l(v0.fuel, v1.fuel), time: l(v0.time, v1.time), dist: l(v0.dist, v1.dist), mach: v0.mach}
 }
 
-// Rounding of a step's Mach and temperature deviation for its memo.
+// Rounding of a step's Mach and temperature deviation for its memo with
+// Problem.Exact; by default both are twice as coarse (an approximation
+// that halves the step climbs integrated).
 const (
 	machStep = 0.005
 	devStep  = 1.0
