@@ -92,8 +92,8 @@ func (s *solver) guessCost() float64 {
 }
 
 // bound is searchBound's pass; with stride > 1 it evaluates Q(k) only on
-// every stride-th segment and uses it for the following ones (a guess, not
-// a bound). It returns h and H, h without the final descent's credit.
+// every stride-th segment, over the ten highest levels only, and uses it
+// for the following segments (a guess, not a bound). It returns h and H, h without the final descent's credit.
 func (s *solver) bound(u float64, stride int) (h, H []float64) {
 	K := len(s.conds)
 	H = make([]float64, K+1)
@@ -115,7 +115,11 @@ func (s *solver) bound(u float64, stride int) (h, H []float64) {
 		case stride > 1 && k%stride != 0 && k+1 < K:
 			q = (H[k+1] - H[k+2]) / (s.bounds[k+2] - s.bounds[k+1]) // the sampled neighbour's
 		case !desc[k]:
-			q = s.leastCostPerMetre(k, mu)
+			from := 0
+			if stride > 1 {
+				from = max(0, len(s.levels)-10) // a guess: the ten highest levels
+			}
+			q = s.leastCostPerMetre(k, mu, from)
 		}
 		H[k] = H[k+1] + (s.bounds[k+1]-s.bounds[k])*q
 		if k >= kT {
@@ -144,15 +148,16 @@ type boundParts struct {
 }
 
 // leastCostPerMetre is Q(k) of searchBound at mass mu: the grid mass at or
-// below mu (OEW itself when that is lighter than OEW), econ Mach.
-func (s *solver) leastCostPerMetre(k int, mu float64) float64 {
+// below mu (OEW itself when that is lighter than OEW), econ Mach, over the
+// levels from index from up (0 for the bound).
+func (s *solver) leastCostPerMetre(k int, mu float64, from int) float64 {
 	m := math.Floor(mu/s.grid) * s.grid
 	if m < s.a.OEW {
 		m = s.a.OEW
 	}
 	econ := Speed{Kind: SpeedEcon}
 	best := math.Inf(1)
-	for li := range s.levels {
+	for li := from; li < len(s.levels); li++ {
 		c := s.conds[k][li]
 		if !s.allow[k][li] || c.closed {
 			continue

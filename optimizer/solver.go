@@ -55,6 +55,9 @@ type solver struct {
 // newSolver prepares p (already normalised).
 func newSolver(p *Problem) (*solver, error) {
 	s := &solver{p: p, a: p.Aircraft, grid: 0.01 * p.Aircraft.MTOW}
+	if !p.Exact {
+		s.grid *= 2 // an approximation: prices interpolated over 2 % of MTOW
+	}
 	s.gLo = int(math.Floor(p.Aircraft.OEW/s.grid)) - 1
 	s.gHi = int(math.Ceil(p.TakeoffMass/s.grid)) + 1
 	segs := p.Track.Segments
@@ -280,7 +283,7 @@ const (
 func (s *solver) transExact(li, lj int, m, mach, dev float64) transVal {
 	pLow := math.Max(s.press[li], s.press[lj])
 	sch := machSchedule(s.a, s.p.ClimbSchedule, mach, pLow)
-	return transition(s.a, m, s.press[li], s.press[lj], dev, sch, lj > li)
+	return quietTransition(s.a, m, s.press[li], s.press[lj], dev, sch, lj > li)
 }
 
 // descent prices the final descent from level li at mass m, memoised on
@@ -317,7 +320,7 @@ func (s *solver) descent(li int, m float64) transVal {
 
 func (s *solver) descentExact(li int, m float64) transVal {
 	last := len(s.conds) - 1
-	return transition(s.a, m, s.press[li], perf.PressureAt(s.p.EndAltitude), s.conds[last][li].isaDev, s.p.DescentSchedule, false)
+	return quietTransition(s.a, m, s.press[li], perf.PressureAt(s.p.EndAltitude), s.conds[last][li].isaDev, s.p.DescentSchedule, false)
 }
 
 // descentGround returns the ground distance of the final descent from
