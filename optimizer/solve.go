@@ -45,6 +45,9 @@ func Solve(p *Problem) (*Plan, error) {
 		return nil, err
 	}
 	plan.SearchCost = res.cost
+	if res.violations > 0 {
+		plan.Warnings = append(plan.Warnings, fmt.Sprintf("the search's lower bound failed on %d edges; the profile was found again by plain Dijkstra", res.violations))
+	}
 	plan.Nodes, plan.Edges = res.nodes, s.edges
 	// Mass limits at landing are the loading's, not the profile's: warn.
 	// Anything else means the exact pricing disagrees with the search at
