@@ -16,8 +16,12 @@ import (
 // descents where the rules allow them, and the final descent (idle, top of
 // descent inside the route). Deviations from a plain shortest path: weather
 // is sampled at a nominal time of passage, and cruise and step prices are
-// interpolated between mass grid points 1 % of MTOW apart where both are
-// feasible. The profile found is then priced by Assess with the weather at
+// interpolated between mass grid points where both are feasible (1 % of
+// MTOW apart with Problem.Exact; by default 2 %, with states that differ
+// only in the segments since the last step merged and a coarser step
+// memo, within 0.02 % of Exact on the test instances). The search is A*
+// with a lower bound that leaves its result equal to Dijkstra's (see
+// solver.search and searchBound). The profile found is then priced by Assess with the weather at
 // the true times, which fills the plan's legs and totals.
 //
 // The baseline is the best constant-level profile (the same search with
