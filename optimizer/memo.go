@@ -14,6 +14,8 @@ type memo struct {
 	trans      map[uint64]int32 // (li, lj, Mach, deviation) -> row of transRows
 	transRows  [][]transEntry   // [row][g-gLo]
 	desc       [][]gridTrans    // [level][coarse grid]
+	climb      []transVal       // initial climb per level
+	climbDone  []bool
 }
 
 // transEntry is a memoised step price at a grid mass.

@@ -337,10 +337,19 @@ func (s *solver) descentGround(li int, m float64) (transVal, float64) {
 }
 
 // initialClimb prices the climb from the end altitude to level li at the
-// take-off mass; ground distance uses half the first segment's wind at
-// that level.
+// take-off mass (memoised: the baseline asks again); ground distance uses
+// half the first segment's wind at that level.
 func (s *solver) initialClimb(li int) (transVal, float64) {
-	c := transition(s.a, s.p.TakeoffMass, perf.PressureAt(s.p.EndAltitude), s.press[li], s.conds[0][li].isaDev, s.p.ClimbSchedule, true)
+	m := s.memo
+	if m.climb == nil {
+		m.climb = make([]transVal, len(s.levels))
+		m.climbDone = make([]bool, len(s.levels))
+	}
+	if !m.climbDone[li] {
+		m.climb[li] = transition(s.a, s.p.TakeoffMass, perf.PressureAt(s.p.EndAltitude), s.press[li], s.conds[0][li].isaDev, s.p.ClimbSchedule, true)
+		m.climbDone[li] = true
+	}
+	c := m.climb[li]
 	if !c.ok {
 		return c, 0
 	}
