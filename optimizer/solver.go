@@ -39,6 +39,7 @@ type solver struct {
 	// machStep and devStep round a step's Mach and temperature deviation
 	// for the step memo.
 	machStep, devStep float64
+	bisect            int // bisection steps for a feasibility boundary
 	// dijkstra turns the A* bound off (plain Dijkstra, for tests).
 	dijkstra bool
 	// boundCost is the total cost the current A* bound assumes at most;
@@ -115,8 +116,9 @@ func newSolver(p *Problem) (*solver, error) {
 		}
 	}
 	s.mergeSince = !p.Exact
-	s.machStep, s.devStep = machStep, devStep
+	s.machStep, s.devStep, s.bisect = machStep, devStep, 12
 	if !p.Exact {
+		s.bisect = 8
 		s.machStep, s.devStep = 2*machStep, 2*devStep
 	}
 	s.stepCap = p.Steps.MaxSteps
@@ -168,8 +170,9 @@ type gridTrans struct {
 //
 // Feasibility falls as mass rises (the buffet margin and the residual
 // climb both shrink), so where the lighter grid mass is feasible and the
-// heavier is not, the boundary between them is found once by bisection to
-// 1/4096 of the grid spacing and kept: masses up to it interpolate towards
+// heavier is not, the boundary between them is found once by bisection
+// (to 1/256 of the grid spacing by default, 1/4096 with Problem.Exact)
+// and kept: masses up to it interpolate towards
 // the boundary's price, heavier ones are infeasible. The boundary kept is
 // the feasible side, so the search never accepts an infeasible mass.
 func (s *solver) cruiseAt(k, li int, m float64) cruiseVal {
@@ -206,7 +209,7 @@ func (s *solver) cruiseAt(k, li int, m float64) cruiseVal {
 // for the heaviest feasible mass.
 func (s *solver) boundary(k, li int, lo float64, vlo cruiseVal) (float64, cruiseVal) {
 	hi := lo + s.grid
-	for i := 0; i < 12; i++ {
+	for i := 0; i < s.bisect; i++ {
 		mid := (lo + hi) / 2
 		if v := cruisePoint(s.a, s.p.Speed, s.p.CI, mid, s.press[li], s.conds[k][li]); v.ok {
 			lo, vlo = mid, v
