@@ -8,7 +8,10 @@ import (
 
 // searchBound returns the A* lower bound h[k] on the cost from any node at
 // boundary k to the sink, assuming the least total cost C* is at most u
-// (u = +Inf assumes nothing), and records u in s.boundCost.
+// (u = +Inf assumes nothing), and records u in s.boundCost. Hart, Nilsson
+// and Raphael (1968) show that A* with a consistent bound (h(u) <= c(u,v)
+// + h(v) on every edge, h = 0 at the goal) settles each node at its least
+// cost, so the search returns what Dijkstra's algorithm returns.
 //
 // The bound is a backward pass over the segments:
 //
@@ -20,7 +23,7 @@ import (
 // heavier than any mass at which a cheapest path prices segment k:
 //
 //	mu(k) = max(OEW, TOW - u + h[k+2] + tau[k+2])  (on the memo's grid)
-
+//
 // and tau[k] = CI/60 x (bounds[k] - the longest segment) / the fastest
 // ground speed (MMO at the warmest level plus the strongest tailwind),
 // the least time cost of reaching boundary k.
@@ -51,15 +54,25 @@ import (
 // below both levels' values); the cruise that follows it or is credited
 // for its overshoot is priced at the new level. Hence every edge from k to
 // k+1 costs at least H[k] - H[k+1] >= h[k] - h[k+1] (consistency; max(0, .)
-// keeps it), and edges to the sink cost at least h[k] (above). (2) Masses: every edge's cost is at least its fuel,
-// so a node reached at cost g weighs at least TOW - g. On a cheapest path
-// to a node popped with key at most C* <= u, backward induction along the
-// path gives g(n) + h(n) <= C* at each node n, so the masses at boundary
-// k+1 (and, for a step that overshoots into the next segment, k+2) are at
-// least TOW - u + h[k+2] >= mu(k): the bound holds on every edge A* relies
-// on. (3) When u is only a guess, a result costing more than u proves the
+// keeps it), and edges to the sink cost at least h[k] (above).
+//
+// (2) Masses: every edge costs its fuel plus CI/60 times its time, and a
+// path reaching boundary k has covered bounds[k] of ground, each edge at
+// most at the fastest ground speed (a step's overshoot credit moves at
+// most one segment's ground to the next edge, hence "less the longest
+// segment"); so a node at boundary k reached at cost g weighs at least
+// TOW - g + tau[k]. On a cheapest path to a node popped with key at most
+// C* <= u, backward induction along the path gives g(n) + h(n) <= C* at
+// each node n, so the masses at boundary k+1 (and, for a step that
+// overshoots into the next segment, k+2) are at least TOW - u + h[k+2] +
+// tau[k+2] >= mu(k): the bound holds on every edge A* relies on (masses
+// under OEW, which no flight reaches, are not covered).
+//
+// (3) When u is only a guess, a result costing more than u proves the
 // guess wrong and search rebuilds the bound from that cost, which is an
 // upper bound of C*; a result costing at most u proves the guess right.
+// TestAStarMatchesDijkstra and TestBoundAdmissibleOnOptimalPath check all
+// of this against plain Dijkstra.
 //
 // A relative slack of 1e-6 covers the golden-section tolerance of the
 // econ Mach. Cost: one cruise evaluation per segment and level.
@@ -74,10 +87,10 @@ func (s *solver) searchBound(u float64) []float64 {
 const guessMargin = 1.13
 
 // guessCost guesses the least total cost for searchBound: three rounds of
-// guess = guessMargin x H[0] (the bound without the descent's credit) with the bound evaluated on about 32 sampled
-// segments (each standing for its neighbours), starting from no
-// assumption (OEW). A wrong guess costs a second search, never a wrong
-// result.
+// guess = guessMargin x H[0] (H is the bound without the final descent's
+// credit), each evaluating the ten highest levels on about 8 sampled
+// segments that stand for their neighbours, starting from no assumption
+// (OEW). A wrong guess costs a second search, never a wrong result.
 func (s *solver) guessCost() float64 {
 	stride := len(s.conds)/8 + 1
 	u := math.Inf(1)
