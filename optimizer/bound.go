@@ -24,9 +24,10 @@ import (
 //
 //	mu(k) = max(OEW, TOW - u + h[k+2] + tau[k+2])  (on the memo's grid)
 //
-// and tau[k] = CI/60 x (bounds[k] - the longest segment) / the fastest
-// ground speed (MMO at the warmest level plus the strongest tailwind),
-// the least time cost of reaching boundary k.
+// and tau[k] = CI/60 x (the least time to reach boundary k, each segment at
+// its fastest ground speed: MMO at its warmest level plus its strongest
+// tailwind, less the longest segment's time), the least time cost of
+// reaching boundary k.
 //
 // Q(k) is 0 where a step descent can start at boundary k (an idle descent
 // costs less per metre than cruise). The final descent is credited: with
@@ -57,10 +58,10 @@ import (
 // keeps it), and edges to the sink cost at least h[k] (above).
 //
 // (2) Masses: every edge costs its fuel plus CI/60 times its time, and a
-// path reaching boundary k has covered bounds[k] of ground, each edge at
-// most at the fastest ground speed (a step's overshoot credit moves at
+// path reaching boundary k has covered each segment before it at most at
+// that segment's fastest ground speed (a step's overshoot credit moves at
 // most one segment's ground to the next edge, hence "less the longest
-// segment"); so a node at boundary k reached at cost g weighs at least
+// segment's time"); so a node at boundary k reached at cost g weighs at least
 // TOW - g + tau[k]. On a cheapest path to a node popped with key at most
 // C* <= u, backward induction along the path gives g(n) + h(n) <= C* at
 // each node n, so the masses at boundary k+1 (and, for a step that
@@ -84,11 +85,12 @@ func (s *solver) searchBound(u float64) []float64 {
 
 // guessMargin is the ratio of the guessed total cost to the bound it
 // gives; guessCost iterates guess = guessMargin x bound(guess).
-const guessMargin = 1.13
+const guessMargin = 1.11
 
 // guessCost guesses the least total cost for searchBound: three rounds of
-// guess = guessMargin x H[0] (H is the bound without the final descent's
-// credit), each evaluating the ten highest levels on about 8 sampled
+// guess = guessMargin x (H[0] + the cheapest initial climb's extra cost
+// over cruise; H is the bound without the final descent's credit), each
+// evaluating the ten highest levels on about 8 sampled
 // segments that stand for their neighbours, starting from no assumption
 // (OEW). A wrong guess costs a second search, never a wrong result.
 func (s *solver) guessCost() float64 {
@@ -99,7 +101,7 @@ func (s *solver) guessCost() float64 {
 		if !(H[0] > 0) {
 			return math.Inf(1)
 		}
-		u = guessMargin * H[0]
+		u = guessMargin * (H[0] + s.climbExtra(H[0]/s.total))
 	}
 	return u
 }
@@ -151,6 +153,21 @@ func (s *solver) bound(u float64, stride int) (h, H []float64) {
 	return h, H
 }
 
+// climbExtra is what the cheapest initial climb costs beyond cruising its
+// ground at q per metre (0 when no climb is feasible), for guessCost.
+func (s *solver) climbExtra(q float64) float64 {
+	best := math.Inf(1)
+	for li := range s.levels {
+		if c, ground := s.initialClimb(li); c.ok && ground < s.total {
+			best = math.Min(best, s.costOf(c.fuel, c.time)-q*ground)
+		}
+	}
+	if math.IsInf(best, 1) || best < 0 {
+		return 0
+	}
+	return best
+}
+
 // boundParts are the parts of the bound that do not depend on the
 // assumed cost, worked out once per problem.
 type boundParts struct {
@@ -196,19 +213,26 @@ func (s *solver) leastCostPerMetre(k int, mu float64, from int) float64 {
 	return best * (1 - 1e-6)
 }
 
-// timeCostBound returns tau[k] of searchBound for every boundary.
+// timeCostBound returns tau[k] of searchBound for every boundary: CI/60
+// times the least time to cover the ground to boundary k, segment by
+// segment at that segment's fastest ground speed (MMO at its warmest level
+// plus its strongest tailwind), less the longest of those segment times.
 func (s *solver) timeCostBound() []float64 {
-	gsMax, maxSeg := 0.0, 0.0
-	for k, row := range s.conds {
-		maxSeg = math.Max(maxSeg, s.bounds[k+1]-s.bounds[k])
-		for li, c := range row {
-			t := perf.ISATemperature(perf.AltitudeAt(s.press[li])) + c.isaDev
-			gsMax = math.Max(gsMax, s.a.MMO*perf.SpeedOfSound(t)+math.Max(c.wind, 0))
-		}
-	}
 	tau := make([]float64, len(s.bounds))
-	for k, b := range s.bounds {
-		tau[k] = s.p.CI / 60 * math.Max(0, b-maxSeg) / gsMax
+	t, longest := 0.0, 0.0
+	for k, row := range s.conds {
+		gsMax := 0.0
+		for li, c := range row {
+			temp := perf.ISATemperature(perf.AltitudeAt(s.press[li])) + c.isaDev
+			gsMax = math.Max(gsMax, s.a.MMO*perf.SpeedOfSound(temp)+math.Max(c.wind, 0))
+		}
+		dt := (s.bounds[k+1] - s.bounds[k]) / gsMax
+		t += dt
+		longest = math.Max(longest, dt)
+		tau[k+1] = t
+	}
+	for k := range tau {
+		tau[k] = s.p.CI / 60 * math.Max(0, tau[k]-longest)
 	}
 	return tau
 }
