@@ -5,9 +5,17 @@ import "fmt"
 // addBaseline fills plan.Baseline with the best constant-level profile of
 // s's problem (the same search with steps forbidden, priced by assess)
 // and plan.BaselineNote with what was found. It skips a constant level
-// that breaks a limit of the profile when priced exactly.
-func (s *solver) addBaseline(plan *Plan) {
+// that breaks a limit of the profile when priced exactly. planCost, when
+// positive, is the cost the main search found: the baseline's A* starts
+// from a guess a little above it.
+func (s *solver) addBaseline(plan *Plan, planCost float64) {
 	bs := s.withoutSteps()
+	if planCost > 0 {
+		bs.costGuess = 1.02 * planCost // a constant level costs a little more
+		if s.boundCost < bs.costGuess {
+			bs.reuse = nil // the main search's bound assumed too little
+		}
+	}
 	if br, ok := bs.search(); ok {
 		bp := bs.profileOf(br.path)
 		if bplan, err := assess(bs.p, bp, nil, false); err == nil && !breaksProfileLimits(bplan.Violations) {
@@ -32,5 +40,5 @@ func assessBaseline(q *Problem, plan *Plan) {
 		plan.Warnings = append(plan.Warnings, "baseline "+plan.BaselineNote)
 		return
 	}
-	s.addBaseline(plan)
+	s.addBaseline(plan, 0)
 }

@@ -17,9 +17,11 @@
 //
 // The method is label-setting dynamic programming over discretised mass in
 // the spirit of Yuan and Taillard, "Dynamic Programming for Vertical Flight
-// Planning" (IRIDIA TR/IRIDIA/2016-006), searched with Dijkstra's algorithm
-// (E. W. Dijkstra, "A note on two problems in connexion with graphs",
-// Numerische Mathematik 1, 1959). See Solve for the deviations.
+// Planning" (IRIDIA TR/IRIDIA/2016-006), searched with A* (Hart, Nilsson
+// and Raphael, IEEE Trans. SSC 4(2), 1968) under a consistent lower bound,
+// which returns what Dijkstra's algorithm (E. W. Dijkstra, "A note on two
+// problems in connexion with graphs", Numerische Mathematik 1, 1959)
+// returns. See Solve for the deviations.
 //
 // Caution: this is a planning aid, not certified for operational use; the
 // approved flight manual and operator data, the operator's procedures, ATC

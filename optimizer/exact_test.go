@@ -65,7 +65,7 @@ func prepared(t testing.TB, p *Problem) *solver {
 // of every profile (Dijkstra's algorithm is exact on non-negative weights:
 // Dijkstra 1959; gonum is the reference implementation).
 func TestSearchMatchesGonumAndBruteForce(t *testing.T) {
-	for _, bucket := range []float64{0.001, 0} { // 0.001 kg: no merging; 0: default
+	for _, bucket := range []float64{0.01, 0} { // 0.01 kg: no merging; 0: default
 		p := smallProblem(t, bucket)
 		s := prepared(t, p)
 		res, ok := s.search()

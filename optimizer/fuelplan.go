@@ -286,6 +286,9 @@ func (fp *FuelPlan) requiredAt(ws []Waypoint) {
 	for i := range ws {
 		w := &ws[i]
 		rem := math.Max(0, fp.Trip-w.FuelUsed)
+		if rem < 0.5 {
+			rem = 0 // at the destination: the sums of leg fuel and the trip differ only by rounding
+		}
 		cont := math.Max(fp.Policy.ContingencyPct/100*rem, fp.ContingencyHoldFuel)
 		if rem == 0 {
 			cont = 0

@@ -43,6 +43,7 @@ func (s *solver) bucket(m float64) (int, bool) {
 		b = 0
 	}
 	if b >= 1<<23 {
+		s.overflowed = true
 		return 0, false
 	}
 	return int(b), true

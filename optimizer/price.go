@@ -112,8 +112,24 @@ func lerpCruise(v0, v1 cruiseVal, t float64) cruiseVal {
 		resid: l(v0.resid, v1.resid), margin: l(v0.margin, v1.margin), cruise: v0.cruise || v1.cruise}
 }
 
-// transition prices a climb (to > from) or descent between two pressures.
+// transition prices a climb (to > from) or descent between two pressures,
+// with the reason of a failure in why.
 func transition(a *perf.Aircraft, m, pFrom, pTo, isaDev float64, s perf.Schedule, climb bool) transVal {
+	v, err := transitionErr(a, m, pFrom, pTo, isaDev, s, climb)
+	if err != nil {
+		v.why = err.Error()
+	}
+	return v
+}
+
+// quietTransition is transition for the search: a failure's reason is
+// not formatted (explanations ask transition again).
+func quietTransition(a *perf.Aircraft, m, pFrom, pTo, isaDev float64, s perf.Schedule, climb bool) transVal {
+	v, _ := transitionErr(a, m, pFrom, pTo, isaDev, s, climb)
+	return v
+}
+
+func transitionErr(a *perf.Aircraft, m, pFrom, pTo, isaDev float64, s perf.Schedule, climb bool) (transVal, error) {
 	var tr perf.Transition
 	var err error
 	if climb {
@@ -122,9 +138,9 @@ func transition(a *perf.Aircraft, m, pFrom, pTo, isaDev float64, s perf.Schedule
 		tr, err = a.Descent(m, pFrom, pTo, isaDev, s)
 	}
 	if err != nil {
-		return transVal{why: err.Error()}
+		return transVal{}, err
 	}
-	return transVal{ok: true, fuel: tr.Fuel, time: tr.Time, dist: tr.Distance, mach: s.Mach}
+	return transVal{ok: true, fuel: tr.Fuel, time: tr.Time, dist: tr.Distance, mach: s.Mach}, nil
 }
 
 // machSchedule returns the schedule of a step: Mach mach, but never above

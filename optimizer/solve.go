@@ -16,8 +16,12 @@ import (
 // descents where the rules allow them, and the final descent (idle, top of
 // descent inside the route). Deviations from a plain shortest path: weather
 // is sampled at a nominal time of passage, and cruise and step prices are
-// interpolated between mass grid points 1 % of MTOW apart where both are
-// feasible. The profile found is then priced by Assess with the weather at
+// interpolated between mass grid points where both are feasible (1 % of
+// MTOW apart with Problem.Exact; by default 2 %, with states that differ
+// only in the segments since the last step merged and a coarser step
+// memo, within 0.02 % of Exact on the test instances). The search is A*
+// with a lower bound that leaves its result equal to Dijkstra's (see
+// solver.search and searchBound). The profile found is then priced by Assess with the weather at
 // the true times, which fills the plan's legs and totals.
 //
 // The baseline is the best constant-level profile (the same search with
@@ -33,6 +37,9 @@ func Solve(p *Problem) (*Plan, error) {
 		return nil, err
 	}
 	res, ok := s.search()
+	if res.err != nil {
+		return nil, res.err
+	}
 	if !ok {
 		return nil, s.infeasible()
 	}
@@ -42,6 +49,9 @@ func Solve(p *Problem) (*Plan, error) {
 		return nil, err
 	}
 	plan.SearchCost = res.cost
+	if res.violations > 0 {
+		plan.Warnings = append(plan.Warnings, fmt.Sprintf("the search's lower bound failed on %d edges; the profile was found again by plain Dijkstra", res.violations))
+	}
 	plan.Nodes, plan.Edges = res.nodes, s.edges
 	// Loading limits (fuel, landing mass) stay in Violations and make the
 	// plan's status impossible. Any other violation means the exact
@@ -57,7 +67,7 @@ func Solve(p *Problem) (*Plan, error) {
 		plan.Warnings = append(plan.Warnings, fmt.Sprintf("exact pricing found %d limit(s) broken that the search did not see; first: %s", len(other), other[0].Detail))
 	}
 	// Baseline: the same problem with steps forbidden.
-	s.addBaseline(plan)
+	s.addBaseline(plan, res.cost)
 	return plan, nil
 }
 

@@ -21,23 +21,44 @@ type solver struct {
 	total  float64
 	grid   float64 // mass spacing of the interpolation memo, kg
 
-	// Memos. Cruise and descent prices at grid masses gLo..gHi are held
-	// in dense rows allocated when first touched; steps in a map.
-	gLo, gHi   int
-	cruiseMemo [][]gridVal // [segment*levels+level][g-gLo]
-	descMemo   [][]gridTrans
-	transMemo  map[uint64]transVal
+	// Memos of prices at grid masses gLo..gHi (memo.go), shared with the
+	// baseline's solver.
+	gLo, gHi int
+	memo     *memo
 
 	// limits for step-state bookkeeping
 	sinceCap int // segments after which MinDistance is surely met
 	stepCap  int // MaxSteps, or 0 when unlimited
 
 	edges int // edges priced
+
+	// mergeSince merges states that differ only in the segments flown
+	// since the last step, keeping the cheapest (an approximation:
+	// Problem.Exact turns it off).
+	mergeSince bool
+	// machStep and devStep round a step's Mach and temperature deviation
+	// for the step memo.
+	machStep, devStep float64
+	bisect            int // bisection steps for a feasibility boundary
+	// dijkstra turns the A* bound off (plain Dijkstra, for tests).
+	dijkstra bool
+	// boundCost is the total cost the current A* bound assumes at most;
+	// costGuess, when positive, is the guess to start from.
+	boundCost, costGuess float64
+	// reuse is the last A* bound (valid for boundCost), which the
+	// baseline's solver, a subgraph, reuses.
+	reuse []float64
+	fixed *boundParts // see bound.go
+	// overflowed is set when an arrival's mass bucket exceeds the node ID.
+	overflowed bool
 }
 
 // newSolver prepares p (already normalised).
 func newSolver(p *Problem) (*solver, error) {
-	s := &solver{p: p, a: p.Aircraft, grid: 0.01 * p.Aircraft.MTOW, transMemo: make(map[uint64]transVal)}
+	s := &solver{p: p, a: p.Aircraft, grid: 0.01 * p.Aircraft.MTOW}
+	if !p.Exact {
+		s.grid *= 2 // an approximation: prices interpolated over 2 % of MTOW
+	}
 	s.gLo = int(math.Floor(p.Aircraft.OEW/s.grid)) - 1
 	s.gHi = int(math.Ceil(p.TakeoffMass/s.grid)) + 1
 	segs := p.Track.Segments
@@ -58,6 +79,10 @@ func newSolver(p *Problem) (*solver, error) {
 	}
 	if len(s.levels) > 255 {
 		return nil, inputErrorf("levels", "%d candidate levels; at most 255", len(s.levels))
+	}
+	if n := (p.TakeoffMass - p.Aircraft.OEW) / p.MassBucket; n >= 1<<23 {
+		return nil, inputErrorf("mass-bucket", "mass bucket %.4g kg is too fine: the %.0f kg between the take-off mass and OEW would need %.3g buckets, at most %d (the default is %.0f kg)",
+			p.MassBucket, p.TakeoffMass-p.Aircraft.OEW, n, 1<<23-1, 0.0025*p.Aircraft.MTOW)
 	}
 	if len(segs) >= 1<<16-1 {
 		return nil, inputErrorf("route", "%d segments; at most 65534", len(segs))
@@ -90,6 +115,12 @@ func newSolver(p *Problem) (*solver, error) {
 			s.sinceCap = 1000
 		}
 	}
+	s.mergeSince = !p.Exact
+	s.machStep, s.devStep, s.bisect = machStep, devStep, 12
+	if !p.Exact {
+		s.bisect = 8
+		s.machStep, s.devStep = 2*machStep, 2*devStep
+	}
 	s.stepCap = p.Steps.MaxSteps
 	if s.stepCap > 60 {
 		s.stepCap = 60
@@ -99,8 +130,7 @@ func newSolver(p *Problem) (*solver, error) {
 		return nil, err
 	}
 	s.conds = conds
-	s.cruiseMemo = make([][]gridVal, len(segs)*len(s.levels))
-	s.descMemo = make([][]gridTrans, len(s.levels))
+	s.memo = newMemo(len(segs), len(s.levels))
 	return s, nil
 }
 
@@ -134,31 +164,15 @@ type gridTrans struct {
 	done bool
 }
 
-// cruiseGrid is cruise on segment k at level li at grid mass g*grid.
-func (s *solver) cruiseGrid(k, li, g int) cruiseVal {
-	if g < s.gLo || g > s.gHi {
-		return cruisePoint(s.a, s.p.Speed, s.p.CI, float64(g)*s.grid, s.press[li], s.conds[k][li])
-	}
-	row := s.cruiseMemo[k*len(s.levels)+li]
-	if row == nil {
-		row = make([]gridVal, s.gHi-s.gLo+1)
-		s.cruiseMemo[k*len(s.levels)+li] = row
-	}
-	e := &row[g-s.gLo]
-	if !e.done {
-		e.v, e.done = cruisePoint(s.a, s.p.Speed, s.p.CI, float64(g)*s.grid, s.press[li], s.conds[k][li]), true
-	}
-	return e.v
-}
-
 // cruiseAt is cruise at mass m, interpolated between grid masses where
 // both neighbours are feasible, and evaluated exactly otherwise, so that
 // feasibility is always decided at the true mass.
 //
 // Feasibility falls as mass rises (the buffet margin and the residual
 // climb both shrink), so where the lighter grid mass is feasible and the
-// heavier is not, the boundary between them is found once by bisection to
-// 1/4096 of the grid spacing and kept: masses up to it interpolate towards
+// heavier is not, the boundary between them is found once by bisection
+// (to 1/256 of the grid spacing by default, 1/4096 with Problem.Exact)
+// and kept: masses up to it interpolate towards
 // the boundary's price, heavier ones are infeasible. The boundary kept is
 // the feasible side, so the search never accepts an infeasible mass.
 func (s *solver) cruiseAt(k, li int, m float64) cruiseVal {
@@ -175,8 +189,9 @@ func (s *solver) cruiseAt(k, li int, m float64) cruiseVal {
 			break
 		}
 		if !e.bDone {
-			e.bm, e.bv = s.boundary(k, li, float64(g)*s.grid, v0)
-			e.bDone = true
+			bm, bv := s.boundary(k, li, float64(g)*s.grid, v0)
+			e = s.gridEntry(k, li, g) // boundary does not grow the pool; re-read for safety
+			e.bm, e.bv, e.bDone = bm, bv, true
 		}
 		if m > e.bm {
 			return v1
@@ -194,7 +209,7 @@ func (s *solver) cruiseAt(k, li int, m float64) cruiseVal {
 // for the heaviest feasible mass.
 func (s *solver) boundary(k, li int, lo float64, vlo cruiseVal) (float64, cruiseVal) {
 	hi := lo + s.grid
-	for i := 0; i < 12; i++ {
+	for i := 0; i < s.bisect; i++ {
 		mid := (lo + hi) / 2
 		if v := cruisePoint(s.a, s.p.Speed, s.p.CI, mid, s.press[li], s.conds[k][li]); v.ok {
 			lo, vlo = mid, v
@@ -203,14 +218,6 @@ func (s *solver) boundary(k, li int, lo float64, vlo cruiseVal) (float64, cruise
 		}
 	}
 	return lo, vlo
-}
-
-// gridEntry returns the memo entry of grid mass g (nil outside the memo).
-func (s *solver) gridEntry(k, li, g int) *gridVal {
-	if g < s.gLo || g > s.gHi {
-		return nil
-	}
-	return &s.cruiseMemo[k*len(s.levels)+li][g-s.gLo]
 }
 
 // cruiseLeg prices level flight over ground distance d on segment k at
@@ -253,41 +260,33 @@ func (s *solver) transAt(k, li, lj int, m float64) transVal {
 	if !c.ok {
 		return transVal{why: "no feasible cruise Mach at either level"}
 	}
-	mi := int(math.Round(c.mach / machStep))
-	di := int(math.Round((s.conds[k][li].isaDev+s.conds[k][lj].isaDev)/2/devStep)) + 200
+	mi := int(math.Round(c.mach / s.machStep))
+	di := int(math.Round((s.conds[k][li].isaDev+s.conds[k][lj].isaDev)/2/s.devStep)) + 200
 	if di < 0 || di > 400 {
 		return s.transExact(li, lj, m, c.mach, (s.conds[k][li].isaDev+s.conds[k][lj].isaDev)/2)
 	}
 	g := int(math.Floor(m / s.grid))
-	v0, v1 := s.transGrid(li, lj, g, mi, di), s.transGrid(li, lj, g+1, mi, di)
+	v0, v1 := s.transGrid(li, lj, g, mi, di)
 	if !v0.ok || !v1.ok {
-		return s.transExact(li, lj, m, float64(mi)*machStep, float64(di-200)*devStep)
+		return s.transExact(li, lj, m, float64(mi)*s.machStep, float64(di-200)*s.devStep)
 	}
 	t := (m - float64(g)*s.grid) / s.grid
 	l := func(a, b float64) float64 { return a + (b-a)*t }
 	return transVal{ok: true, fuel: l(v0.fuel, v1.fuel), time: l(v0.time, v1.time), dist: l(v0.dist, v1.dist), mach: v0.mach}
 }
 
-// Rounding of a step's Mach and temperature deviation for its memo.
+// Rounding of a step's Mach and temperature deviation for its memo with
+// Problem.Exact; by default both are twice as coarse (an approximation
+// that halves the step climbs integrated).
 const (
 	machStep = 0.005
 	devStep  = 1.0
 )
 
-func (s *solver) transGrid(li, lj, g, mi, di int) transVal {
-	key := uint64(li)<<56 | uint64(lj)<<48 | uint64(mi)<<36 | uint64(di)<<24 | uint64(uint32(g))&0xffffff
-	if v, ok := s.transMemo[key]; ok {
-		return v
-	}
-	v := s.transExact(li, lj, float64(g)*s.grid, float64(mi)*machStep, float64(di-200)*devStep)
-	s.transMemo[key] = v
-	return v
-}
-
 func (s *solver) transExact(li, lj int, m, mach, dev float64) transVal {
 	pLow := math.Max(s.press[li], s.press[lj])
 	sch := machSchedule(s.a, s.p.ClimbSchedule, mach, pLow)
-	return transition(s.a, m, s.press[li], s.press[lj], dev, sch, lj > li)
+	return quietTransition(s.a, m, s.press[li], s.press[lj], dev, sch, lj > li)
 }
 
 // descent prices the final descent from level li at mass m, memoised on
@@ -302,10 +301,10 @@ func (s *solver) descent(li int, m float64) transVal {
 		if i < 0 || i > (s.gHi-s.gLo)/coarse+2 {
 			return s.descentExact(li, float64(g)*dg)
 		}
-		row := s.descMemo[li]
+		row := s.memo.desc[li]
 		if row == nil {
 			row = make([]gridTrans, (s.gHi-s.gLo)/coarse+3)
-			s.descMemo[li] = row
+			s.memo.desc[li] = row
 		}
 		e := &row[i]
 		if !e.done {
@@ -324,7 +323,7 @@ func (s *solver) descent(li int, m float64) transVal {
 
 func (s *solver) descentExact(li int, m float64) transVal {
 	last := len(s.conds) - 1
-	return transition(s.a, m, s.press[li], perf.PressureAt(s.p.EndAltitude), s.conds[last][li].isaDev, s.p.DescentSchedule, false)
+	return quietTransition(s.a, m, s.press[li], perf.PressureAt(s.p.EndAltitude), s.conds[last][li].isaDev, s.p.DescentSchedule, false)
 }
 
 // descentGround returns the ground distance of the final descent from
@@ -341,10 +340,19 @@ func (s *solver) descentGround(li int, m float64) (transVal, float64) {
 }
 
 // initialClimb prices the climb from the end altitude to level li at the
-// take-off mass; ground distance uses half the first segment's wind at
-// that level.
+// take-off mass (memoised: the baseline asks again); ground distance uses
+// half the first segment's wind at that level.
 func (s *solver) initialClimb(li int) (transVal, float64) {
-	c := transition(s.a, s.p.TakeoffMass, perf.PressureAt(s.p.EndAltitude), s.press[li], s.conds[0][li].isaDev, s.p.ClimbSchedule, true)
+	m := s.memo
+	if m.climb == nil {
+		m.climb = make([]transVal, len(s.levels))
+		m.climbDone = make([]bool, len(s.levels))
+	}
+	if !m.climbDone[li] {
+		m.climb[li] = transition(s.a, s.p.TakeoffMass, perf.PressureAt(s.p.EndAltitude), s.press[li], s.conds[0][li].isaDev, s.p.ClimbSchedule, true)
+		m.climbDone[li] = true
+	}
+	c := m.climb[li]
 	if !c.ok {
 		return c, 0
 	}
@@ -371,4 +379,23 @@ func (s *solver) withoutSteps() *solver {
 	c := *s
 	c.p, c.edges = &q, 0
 	return &c
+}
+
+// stateBudget is the most states one search may create, from the
+// problem's size: 64 mass buckets for every (boundary, level, step
+// counters) combination, within 2^16 and 2^23 (about 500 MB of labels and
+// queue). A search that needs more is working with an absurdly fine mass
+// bucket.
+func (s *solver) stateBudget() int {
+	n := float64(len(s.conds)+1) * float64(len(s.levels)) * float64(s.stepCap+1) * float64(s.sinceCap+1) * 64
+	return int(math.Min(math.Max(n, 1<<16), 1<<23))
+}
+
+func (s *solver) budgetError(budget int) error {
+	return inputErrorf("mass-bucket", "the search reached %d states, the most this problem (%d boundaries, %d levels) is allowed: the mass bucket %.4g kg is too fine (the default is %.0f kg, 0.25 %% of MTOW)",
+		budget, len(s.conds)+1, len(s.levels), s.p.MassBucket, 0.0025*s.a.MTOW)
+}
+
+func (s *solver) bucketError() error {
+	return inputErrorf("mass-bucket", "mass bucket %.4g kg: a mass reached in the search lies more than 2^23 buckets below the take-off mass %.0f kg", s.p.MassBucket, s.p.TakeoffMass)
 }

@@ -44,6 +44,7 @@ type problemFlags struct {
 	blocks      []string
 	turb        string
 	bucketKg    float64
+	exact       bool
 	date        string
 	budgetMiB   int64
 }
@@ -73,6 +74,7 @@ func (f *problemFlags) register(c *cobra.Command) {
 	fl.StringArrayVar(&f.blocks, "block", nil, "levels unavailable over a distance range: FL370,FL390@1200-1800 (NM, repeatable)")
 	fl.StringVar(&f.turb, "turbulence", "", "EDR rules: EDR:FLOOR or EDR:closed, comma-separated (default 0.20:1.5,0.45:closed)")
 	fl.Float64Var(&f.bucketKg, "mass-bucket-kg", 0, "mass bucket of the search, kg (default 0.25 % of MTOW)")
+	fl.BoolVar(&f.exact, "exact", false, "turn off the search's approximations (merged step counters)")
 	fl.StringVar(&f.date, "date", "", "date for magnetic variation, YYYY-MM-DD (default: departure date)")
 	weatherBudgetFlag(c, &f.budgetMiB)
 }
@@ -150,7 +152,7 @@ func (f *problemFlags) problem(c *cobra.Command, wx *winds.Field, stderr io.Writ
 	if f.route == "" {
 		return nil, badInputf("--route is required")
 	}
-	p := &optimizer.Problem{Aircraft: a, Weather: wx, CI: f.ci, Floor: f.floor, MinFL: f.minFL, MaxFL: f.maxFL, MassBucket: f.bucketKg}
+	p := &optimizer.Problem{Aircraft: a, Weather: wx, CI: f.ci, Floor: f.floor, MinFL: f.minFL, MaxFL: f.maxFL, MassBucket: f.bucketKg, Exact: f.exact}
 	if f.minFL != 0 && (f.minFL < 1 || f.minFL > 600) || f.maxFL != 0 && (f.maxFL < 1 || f.maxFL > 600) {
 		return nil, badInputf("--min-fl %d, --max-fl %d: each must be 0 (the default) or a flight level 1..600", f.minFL, f.maxFL)
 	}
