@@ -45,6 +45,11 @@ type Aircraft struct {
 	// Schedule is the climb and descent speed schedule from the file; the
 	// zero value means none was given (see DefaultSchedule).
 	Schedule Schedule
+
+	// PerfFactorPct is the per-tail performance factor: every fuel flow
+	// (cruise, climb, idle) is multiplied by 1 + PerfFactorPct/100. Files
+	// never set it; see WithPerfFactor.
+	PerfFactorPct float64
 }
 
 // BuffetPoint is one row of the buffet-onset boundary.
@@ -52,28 +57,54 @@ type BuffetPoint struct {
 	Mach, CL float64
 }
 
-// Engines describes the engines with the high-bypass turbofan thrust-lapse
-// and TSFC correlations of Mattingly, Heiser and Pratt (Aircraft Engine
+// Engines describes the engines. Thrust at the max climb rating follows the
+// high-bypass turbofan lapse of Mattingly, Heiser and Pratt (Aircraft Engine
 // Design, 2nd ed., AIAA 2002, ch. 2; equation numbers not checked here),
-// with per-aircraft coefficients in place of the generic 0.49, 3.0, 0.4 and
-// 0.45 (TSFC in 1/h) given there:
+// with per-aircraft coefficients in place of the generic 0.49, 3.0 and TR:
 //
 //	δ0 = (p/P0)(1+0.2M²)^3.5, θ0 = (T/T0)(1+0.2M²)
-//	α  = δ0 (1 - LapseMach √M)                                 θ0 <= ThrottleRatio
-//	α  = δ0 (1 - LapseMach √M - LapseTheta (θ0-TR)/(1.5+M))    θ0 >  ThrottleRatio
-//	max climb thrust = Count StaticThrust ClimbRating α
-//	TSFC = (TSFCA + TSFCB M) √(T/T0)
+//	f  = 1 - LapseMach √M
+//	α  = δ0 (f - max(LapseTheta (θ0-TR)/(1.5+M), f·min(FlatRatingLapse ΔT_eff, 0.4)))
+//	ΔT_eff = ISA deviation - FlatRatingISADev (no loss when negative)
+//	max climb thrust = Count StaticThrust ClimbRating α; max cruise = CruiseRatio × that
+//
+// The flat-rating term is the temperature correction of the maximum climb
+// thrust in EUROCONTROL's Base of Aircraft Data, revision 3 (BADA 3 user
+// manual, section 3.7.1: T = T_ISA (1 - C_Tc5 ΔT_eff), ΔT_eff = ΔT - C_Tc4,
+// 0 <= C_Tc5 ΔT_eff <= 0.4), FlatRatingISADev being C_Tc4 and
+// FlatRatingLapse C_Tc5. It applies at every altitude, so a warm day lowers
+// the thrust ceiling as flat-rated engines do; where Mattingly's θ0-break
+// loss (hot, low and fast) is larger, that one applies instead, so the two
+// temperature effects are not counted twice (our combination).
+//
+// Fuel flow is TSFC × thrust with
+//
+//	TSFC = (TSFCA + TSFCB M) √(T/T0) (1 + PartPower (τ/PartPowerBucket - 1)²)
+//
+// where τ = thrust / max climb thrust. The first factors are Mattingly's
+// TSFC correlation (generic 0.4 and 0.45 in 1/h); the last is the
+// part-power "bucket" of turbofan TSFC against thrust, lowest at the
+// bucket setting and rising at lower and higher thrust (described from
+// engine data by Bensel, "Characteristics of the Specific Fuel Consumption
+// for Jet Engines", HAW Hamburg, 2018, doi:10.15488/4316; the quadratic
+// about the bucket is our simplification, not that report's polynomial).
+// Climb at max climb thrust has τ = 1. Idle thrust and idle fuel flow are
+// separate (IdleFraction, IdleFuelFlow).
 type Engines struct {
-	Count         int
-	StaticThrust  float64 // sea-level static thrust per engine, N
-	LapseMach     float64 // Mattingly's 0.49
-	LapseTheta    float64 // Mattingly's 3.0
-	ThrottleRatio float64 // θ0 break (TR), Mattingly 1.0-1.1
-	TSFCA, TSFCB  float64 // TSFC = (A + B M) √θ, kg/(N s)
-	ClimbRating   float64 // max climb thrust as a fraction of the lapse curve
-	CruiseRatio   float64 // max cruise / max climb thrust
-	IdleFraction  float64 // idle thrust / max climb thrust
-	IdleFuelFlow  float64 // idle fuel flow per engine at sea-level static, kg/s; scaled by δ0 √θ0
+	Count            int
+	StaticThrust     float64 // sea-level static thrust per engine, N
+	LapseMach        float64 // Mattingly's 0.49
+	LapseTheta       float64 // Mattingly's 3.0
+	ThrottleRatio    float64 // θ0 break (TR), Mattingly 1.0-1.1
+	FlatRatingISADev float64 // BADA C_Tc4: ISA deviation (K) above which max climb thrust falls
+	FlatRatingLapse  float64 // BADA C_Tc5: fraction of thrust lost per K above FlatRatingISADev
+	TSFCA, TSFCB     float64 // TSFC = (A + B M) √θ at the bucket, kg/(N s)
+	PartPower        float64 // TSFC rise coefficient of the part-power bucket
+	PartPowerBucket  float64 // thrust / max climb thrust of least TSFC
+	ClimbRating      float64 // max climb thrust as a fraction of the lapse curve
+	CruiseRatio      float64 // max cruise / max climb thrust
+	IdleFraction     float64 // idle thrust / max climb thrust
+	IdleFuelFlow     float64 // idle fuel flow per engine at sea-level static, kg/s; scaled by δ0 √θ0
 }
 
 //go:embed aircraft/*.yaml
@@ -162,13 +193,17 @@ type yamlDrag struct {
 }
 
 type yamlEngines struct {
-	Count         *int     `yaml:"count"`
+	Count         *float64 `yaml:"count"`
 	StaticThrust  *float64 `yaml:"static_thrust_kn"`
 	LapseMach     *float64 `yaml:"lapse_mach"`
 	LapseTheta    *float64 `yaml:"lapse_theta"`
 	ThrottleRatio *float64 `yaml:"throttle_ratio"`
+	FlatISADev    *float64 `yaml:"flat_rating_isa_dev_k"`
+	FlatLapse     *float64 `yaml:"flat_rating_lapse_per_k"`
 	TSFCA         *float64 `yaml:"tsfc_a_per_h"`
 	TSFCB         *float64 `yaml:"tsfc_b_per_h"`
+	PartPower     *float64 `yaml:"part_power_coeff"`
+	PartBucket    *float64 `yaml:"part_power_bucket"`
 	ClimbRating   *float64 `yaml:"climb_rating"`
 	CruiseRatio   *float64 `yaml:"cruise_ratio"`
 	IdleFraction  *float64 `yaml:"idle_thrust_fraction"`
@@ -325,20 +360,23 @@ func (y *yamlAircraft) build(source string) (*Aircraft, error) {
 		r.fail("engines", "missing")
 	} else {
 		e := y.Engines
-		if e.Count == nil {
-			r.fail("engines.count", "missing")
-		} else if *e.Count < 1 || *e.Count > 8 {
-			r.fail("engines.count", "%d outside the accepted range 1..8", *e.Count)
-		} else {
-			a.Engines.Count = *e.Count
+		if c := r.num("engines.count", e.Count, 1, 8, false); r.err == nil {
+			if c != math.Trunc(c) {
+				r.fail("engines.count", "%g is not a whole number", c)
+			}
+			a.Engines.Count = int(c)
 		}
 		tsfc := 1 / (3600 * G0) // 1/h (kg per kgf per hour) -> kg/(N s)
 		a.Engines.StaticThrust = 1000 * r.num("engines.static_thrust_kn", e.StaticThrust, 0, inf, true)
 		a.Engines.LapseMach = r.num("engines.lapse_mach", e.LapseMach, 0, 1, false)
 		a.Engines.LapseTheta = r.num("engines.lapse_theta", e.LapseTheta, 0, 10, false)
 		a.Engines.ThrottleRatio = r.num("engines.throttle_ratio", e.ThrottleRatio, 0.5, 1.5, false)
+		a.Engines.FlatRatingISADev = r.num("engines.flat_rating_isa_dev_k", e.FlatISADev, -30, 50, false)
+		a.Engines.FlatRatingLapse = r.num("engines.flat_rating_lapse_per_k", e.FlatLapse, 0, 0.05, false)
 		a.Engines.TSFCA = tsfc * r.num("engines.tsfc_a_per_h", e.TSFCA, 0, 2, false)
 		a.Engines.TSFCB = tsfc * r.num("engines.tsfc_b_per_h", e.TSFCB, 0, 2, false)
+		a.Engines.PartPower = r.num("engines.part_power_coeff", e.PartPower, 0, 5, false)
+		a.Engines.PartPowerBucket = r.num("engines.part_power_bucket", e.PartBucket, 0.3, 1.2, false)
 		a.Engines.ClimbRating = r.num("engines.climb_rating", e.ClimbRating, 0, 1, true)
 		a.Engines.CruiseRatio = r.num("engines.cruise_ratio", e.CruiseRatio, 0, 1, true)
 		a.Engines.IdleFraction = r.num("engines.idle_thrust_fraction", e.IdleFraction, 0, 0.5, false)

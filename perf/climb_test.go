@@ -25,7 +25,12 @@ func TestClimbMatchesEnergyEquation(t *testing.T) {
 		if relErr(tr.Time, want) > 1e-3 {
 			t.Errorf("ISA%+g: climb time %.3f s, energy equation %.3f s", dev, tr.Time, want)
 		}
-		if relErr(tr.Distance, pt.TAS*tr.Time) > 1e-9 || relErr(tr.Fuel, pt.MaxClimbThrust*pt.FuelFlow/pt.Drag*tr.Time) > 1e-3 {
+		// Climb fuel is TSFC at the max climb setting (τ = 1) times thrust:
+		// the cruise TSFC FuelFlow/Drag rescaled by the part-power factor.
+		e := &a.Engines
+		bucket := func(tau float64) float64 { u := tau/e.PartPowerBucket - 1; return 1 + e.PartPower*u*u }
+		tsfc := pt.FuelFlow / pt.Drag * bucket(1) / bucket(pt.Drag/pt.MaxClimbThrust)
+		if relErr(tr.Distance, pt.TAS*tr.Time) > 1e-9 || relErr(tr.Fuel, pt.MaxClimbThrust*tsfc*tr.Time) > 1e-3 {
 			t.Errorf("distance %g or fuel %g inconsistent", tr.Distance, tr.Fuel)
 		}
 	}

@@ -74,7 +74,8 @@ func (a *Aircraft) Envelope(mass, isaDev, floor float64) (Envelope, error) {
 	for i := 0; i < nrows; i++ {
 		fl := envelopeLowFL + 10*float64(i)
 		p := FLToPressure(fl)
-		t := isaTemperatureAtPressure(p) + isaDev
+		tisa := isaTemperatureAtPressure(p)
+		t := tisa + isaDev
 		r := EnvelopeRow{FL: fl, Pressure: p, OAT: t, SoundSpeed: SpeedOfSound(t), MMO: a.MMO,
 			LowBuffet1g: nan, HighBuffet1g: nan, LowBuffetFloor: nan, HighBuffetFloor: nan, LRCMach: nan, ResidualClimb: nan}
 		if lo, hi, ok := a.BuffetMachs(mass, p, 1); ok {
@@ -84,10 +85,10 @@ func (a *Aircraft) Envelope(mass, isaDev, floor float64) (Envelope, error) {
 			r.LowBuffetFloor, r.HighBuffetFloor = lo, hi
 		}
 		if lo, hi, ok := a.MachBand(mass, p, isaDev, floor); ok {
-			lrc, mr := a.lrcIn(mass, p, t, lo, hi)
+			lrc, mr := a.lrcIn(mass, p, t, tisa, lo, hi)
 			r.LRCMach = lrc
 			r.ResidualClimb = a.residualClimb(mass, p, isaDev, lrc)
-			if sr := a.specificRange(mass, p, t, mr, cosL); sr > bestSR {
+			if sr := a.specificRange(mass, p, t, tisa, mr, cosL); sr > bestSR {
 				bestRow, bestSR = i, sr
 			}
 		}
@@ -103,7 +104,8 @@ func (a *Aircraft) Envelope(mass, isaDev, floor float64) (Envelope, error) {
 		if !ok {
 			return false
 		}
-		lrc, _ := a.lrcIn(mass, p, isaTemperatureAtPressure(p)+isaDev, lo, hi)
+		tisa := isaTemperatureAtPressure(p)
+		lrc, _ := a.lrcIn(mass, p, tisa+isaDev, tisa, lo, hi)
 		return a.residualClimb(mass, p, isaDev, lrc) >= minResidualClimb
 	}
 	env.MaxFLBuffet = highestLevel(buffetOK)
@@ -121,7 +123,7 @@ func (a *Aircraft) residualClimb(mass, p, isaDev, m float64) float64 {
 	tisa := isaTemperatureAtPressure(p)
 	t := tisa + isaDev
 	d, _, _ := a.drag(mass, p, m, math.Cos(a.Sweep))
-	return climbRate(a.climbThrust(p, t, m), d, m*SpeedOfSound(t), mass, tisa, t)
+	return climbRate(a.climbThrust(p, t, tisa, m), d, m*SpeedOfSound(t), mass, tisa, t)
 }
 
 // highestLevel returns the highest flight level in [FL100, FL650] where ok
@@ -151,9 +153,10 @@ func (a *Aircraft) optimumLevel(mass, isaDev, floor, near, maxFL float64) (fl, s
 		if !ok {
 			return math.Inf(-1)
 		}
-		t := isaTemperatureAtPressure(p) + isaDev
-		m := a.econMachIn(mass, p, t, lo, hi, 0, 0)
-		return a.specificRange(mass, p, t, m, cosL)
+		tisa := isaTemperatureAtPressure(p)
+		t := tisa + isaDev
+		m := a.econMachIn(mass, p, t, tisa, lo, hi, 0, 0)
+		return a.specificRange(mass, p, t, tisa, m, cosL)
 	}
 	x0, x3 := near-10, math.Min(near+10, maxFL)
 	if x3 <= x0 {

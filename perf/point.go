@@ -78,37 +78,60 @@ func ramRatios(p, t, mach float64) (d0, th0 float64) {
 	return p / P0 * x * x * x * math.Sqrt(x), t / T0 * x
 }
 
-// thrustLapse returns Mattingly's α for the engine, see Engines.
-func (e *Engines) thrustLapse(p, t, mach float64) float64 {
+// maxFlatLoss is the largest fraction of thrust the flat-rating term may
+// remove (the bound 0 <= ΔT_eff C_Tc5 <= 0.4 of the BADA 3 climb-thrust
+// temperature correction, see Engines).
+const maxFlatLoss = 0.4
+
+// thrustLapse returns the lapse α of the max climb rating, see Engines:
+// Mattingly's δ0 (1 - LapseMach √M) less the larger of Mattingly's θ0-break
+// loss and the flat-rating loss above FlatRatingISADev (isaDev in K).
+func (e *Engines) thrustLapse(p, t, isaDev, mach float64) float64 {
 	d0, th0 := ramRatios(p, t, mach)
 	f := 1 - e.LapseMach*math.Sqrt(mach)
+	var loss float64
 	if th0 > e.ThrottleRatio {
-		f -= e.LapseTheta * (th0 - e.ThrottleRatio) / (1.5 + mach)
+		loss = e.LapseTheta * (th0 - e.ThrottleRatio) / (1.5 + mach)
 	}
+	if dt := isaDev - e.FlatRatingISADev; dt > 0 {
+		if lb := f * math.Min(e.FlatRatingLapse*dt, maxFlatLoss); lb > loss {
+			loss = lb
+		}
+	}
+	f -= loss
 	if f < 0 {
 		return 0
 	}
 	return d0 * f
 }
 
-// climbThrust returns the max climb thrust of all engines (N).
-func (a *Aircraft) climbThrust(p, t, mach float64) float64 {
+// climbThrust returns the max climb thrust of all engines (N) at static
+// pressure p, temperature t and Mach; tisa is the standard temperature at p.
+func (a *Aircraft) climbThrust(p, t, tisa, mach float64) float64 {
 	e := &a.Engines
-	return float64(e.Count) * e.StaticThrust * e.ClimbRating * e.thrustLapse(p, t, mach)
+	return float64(e.Count) * e.StaticThrust * e.ClimbRating * e.thrustLapse(p, t, t-tisa, mach)
 }
 
-// tsfc returns thrust-specific fuel consumption (kg/(N s)).
-func (a *Aircraft) tsfc(t, mach float64) float64 {
-	return (a.Engines.TSFCA + a.Engines.TSFCB*mach) * math.Sqrt(t/T0)
+// fuelFlow returns the fuel flow (kg/s) of all engines giving thrust (N)
+// when max climb thrust is maxThrust (N): TSFC × thrust, with TSFC as on
+// Engines (part-power factor at the setting thrust/maxThrust) times the
+// performance factor.
+func (a *Aircraft) fuelFlow(thrust, maxThrust, t, mach float64) float64 {
+	e := &a.Engines
+	u := thrust/(maxThrust*e.PartPowerBucket) - 1
+	return (e.TSFCA + e.TSFCB*mach) * math.Sqrt(t/T0) * (1 + e.PartPower*u*u) * a.fuelFactor() * thrust
 }
+
+// fuelFactor returns 1 + PerfFactorPct/100.
+func (a *Aircraft) fuelFactor() float64 { return 1 + a.PerfFactorPct/100 }
 
 // idle returns idle thrust (N) and idle fuel flow (kg/s), all engines; the
 // fuel flow is the sea-level static value scaled by δ0 √θ0 (corrected fuel
-// flow held constant).
-func (a *Aircraft) idle(p, t, mach float64) (thrust, ff float64) {
+// flow held constant) and by the performance factor.
+func (a *Aircraft) idle(p, t, tisa, mach float64) (thrust, ff float64) {
 	e := &a.Engines
 	d0, th0 := ramRatios(p, t, mach)
-	return e.IdleFraction * a.climbThrust(p, t, mach), float64(e.Count) * e.IdleFuelFlow * d0 * math.Sqrt(th0)
+	return e.IdleFraction * a.climbThrust(p, t, tisa, mach), float64(e.Count) * e.IdleFuelFlow * d0 * math.Sqrt(th0) * a.fuelFactor()
 }
 
 // climbRate returns the residual rate of climb (m/s of pressure altitude)
@@ -156,11 +179,11 @@ func (a *Aircraft) Point(s State) Point {
 	pt.CL = cl1 * n
 	pt.CD = cd
 	pt.Drag = d
-	pt.FuelFlow = a.tsfc(t, s.Mach) * d
+	pt.MaxClimbThrust = a.climbThrust(s.Pressure, t, tisa, s.Mach)
+	pt.FuelFlow = a.fuelFlow(d, pt.MaxClimbThrust, t, s.Mach)
 	pt.SpecificRange = pt.TAS / pt.FuelFlow
 	pt.BuffetCL = a.buffetCL(s.Mach)
 	pt.BuffetMargin = pt.BuffetCL / cl1
-	pt.MaxClimbThrust = a.climbThrust(s.Pressure, t, s.Mach)
 	pt.MaxCruiseThrust = pt.MaxClimbThrust * a.Engines.CruiseRatio
 	pt.ResidualClimb = climbRate(pt.MaxClimbThrust, d, pt.TAS, s.Mass, tisa, t)
 	pt.ThrustLimited = d > pt.MaxCruiseThrust

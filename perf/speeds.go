@@ -118,9 +118,9 @@ func bisectSeg(x0, y0, x1, y1, xa, xb, c float64) float64 {
 }
 
 // excessThrust returns max cruise thrust minus level-flight drag (N).
-func (a *Aircraft) excessThrust(mass, p, t, mach, cosL float64) float64 {
+func (a *Aircraft) excessThrust(mass, p, t, tisa, mach, cosL float64) float64 {
 	d, _, _ := a.drag(mass, p, mach, cosL)
-	return a.climbThrust(p, t, mach)*a.Engines.CruiseRatio - d
+	return a.climbThrust(p, t, tisa, mach)*a.Engines.CruiseRatio - d
 }
 
 // machTol is the Mach resolution of the speed searches.
@@ -196,9 +196,10 @@ func (a *Aircraft) MachBand(mass, p, isaDev, floor float64) (lo, hi float64, ok 
 	if !(lo < hi) {
 		return nan, nan, false
 	}
-	t := isaTemperatureAtPressure(p) + isaDev
+	tisa := isaTemperatureAtPressure(p)
+	t := tisa + isaDev
 	cosL := math.Cos(a.Sweep)
-	excess := func(m float64) float64 { return a.excessThrust(mass, p, t, m, cosL) }
+	excess := func(m float64) float64 { return a.excessThrust(mass, p, t, tisa, m, cosL) }
 	thrustOK := func(m float64) bool { return excess(m) >= 0 }
 	elo, ehi := excess(lo), excess(hi)
 	if elo >= 0 && ehi >= 0 {
@@ -224,13 +225,13 @@ func (a *Aircraft) MachBand(mass, p, isaDev, floor float64) (lo, hi float64, ok 
 
 // econCost returns (fuel flow + ci/60)/(TAS + wind) in kg per metre of
 // ground distance, +Inf when the ground speed is not positive.
-func (a *Aircraft) econCost(mass, p, t, mach, cosL, ciPerS, wind float64) float64 {
+func (a *Aircraft) econCost(mass, p, t, tisa, mach, cosL, ciPerS, wind float64) float64 {
 	gs := mach*SpeedOfSound(t) + wind
 	if !(gs > 0) {
 		return math.Inf(1)
 	}
 	d, _, _ := a.drag(mass, p, mach, cosL)
-	return (a.tsfc(t, mach)*d + ciPerS) / gs
+	return (a.fuelFlow(d, a.climbThrust(p, t, tisa, mach), t, mach) + ciPerS) / gs
 }
 
 // EconMach returns the Mach within MachBand that minimises the cost per
@@ -244,13 +245,13 @@ func (a *Aircraft) EconMach(mass, p, isaDev, floor, ci, windAlong float64) (floa
 	if !ok || math.IsNaN(ci) || math.IsNaN(windAlong) {
 		return math.NaN(), false
 	}
-	t := isaTemperatureAtPressure(p) + isaDev
-	return a.econMachIn(mass, p, t, lo, hi, ci/60, windAlong), true
+	tisa := isaTemperatureAtPressure(p)
+	return a.econMachIn(mass, p, tisa+isaDev, tisa, lo, hi, ci/60, windAlong), true
 }
 
-func (a *Aircraft) econMachIn(mass, p, t, lo, hi, ciPerS, wind float64) float64 {
+func (a *Aircraft) econMachIn(mass, p, t, tisa, lo, hi, ciPerS, wind float64) float64 {
 	cosL := math.Cos(a.Sweep)
-	f := func(m float64) float64 { return a.econCost(mass, p, t, m, cosL, ciPerS, wind) }
+	f := func(m float64) float64 { return a.econCost(mass, p, t, tisa, m, cosL, ciPerS, wind) }
 	g := goldenMax(lo, hi, machTol, math.NaN(), func(m float64) float64 { return -f(m) })
 	best := 0.5 * (g.x0 + g.x3)
 	fb := f(best)
@@ -270,9 +271,9 @@ func (a *Aircraft) MaxRangeMach(mass, p, isaDev, floor float64) (float64, bool) 
 }
 
 // specificRange returns TAS/fuel flow (m/kg) at level flight.
-func (a *Aircraft) specificRange(mass, p, t, mach, cosL float64) float64 {
+func (a *Aircraft) specificRange(mass, p, t, tisa, mach, cosL float64) float64 {
 	d, _, _ := a.drag(mass, p, mach, cosL)
-	return mach * SpeedOfSound(t) / (a.tsfc(t, mach) * d)
+	return mach * SpeedOfSound(t) / a.fuelFlow(d, a.climbThrust(p, t, tisa, mach), t, mach)
 }
 
 // LRCMach returns the long-range cruise Mach: the Mach above MaxRangeMach
@@ -284,19 +285,19 @@ func (a *Aircraft) LRCMach(mass, p, isaDev, floor float64) (float64, bool) {
 	if !ok {
 		return math.NaN(), false
 	}
-	t := isaTemperatureAtPressure(p) + isaDev
-	m, _ := a.lrcIn(mass, p, t, lo, hi)
+	tisa := isaTemperatureAtPressure(p)
+	m, _ := a.lrcIn(mass, p, tisa+isaDev, tisa, lo, hi)
 	return m, true
 }
 
 // lrcIn returns LRC Mach and the max-range Mach within [lo, hi].
-func (a *Aircraft) lrcIn(mass, p, t, lo, hi float64) (lrc, mr float64) {
+func (a *Aircraft) lrcIn(mass, p, t, tisa, lo, hi float64) (lrc, mr float64) {
 	cosL := math.Cos(a.Sweep)
-	mr = a.econMachIn(mass, p, t, lo, hi, 0, 0)
-	target := 0.99 * a.specificRange(mass, p, t, mr, cosL)
-	if a.specificRange(mass, p, t, hi, cosL) >= target {
+	mr = a.econMachIn(mass, p, t, tisa, lo, hi, 0, 0)
+	target := 0.99 * a.specificRange(mass, p, t, tisa, mr, cosL)
+	if a.specificRange(mass, p, t, tisa, hi, cosL) >= target {
 		return hi, mr
 	}
-	rangeOK := func(m float64) bool { return a.specificRange(mass, p, t, m, cosL) >= target }
+	rangeOK := func(m float64) bool { return a.specificRange(mass, p, t, tisa, m, cosL) >= target }
 	return bisectEdge(mr, hi, machTol, rangeOK), mr
 }
