@@ -30,7 +30,8 @@ type Aircraft struct {
 	Sweep          float64 // quarter-chord sweep Λ, radians
 	ThicknessRatio float64 // mean streamwise thickness/chord t/c
 	KornKappa      float64 // Korn airfoil technology factor κ (0.87 conventional, 0.95 supercritical)
-	CD0, K         float64 // parabolic polar CD = CD0 + K CL² (+ compressibility)
+	CD0, K         float64 // polar CD = CD0 + K CL² + K6 CL⁶ (+ compressibility)
+	K6             float64 // lift-dependent drag rise coefficient, see dragCoeff
 
 	Engines Engines
 
@@ -190,6 +191,7 @@ type yamlWing struct {
 type yamlDrag struct {
 	CD0 *float64 `yaml:"cd0"`
 	K   *float64 `yaml:"k"`
+	K6  *float64 `yaml:"k6"`
 }
 
 type yamlEngines struct {
@@ -355,6 +357,7 @@ func (y *yamlAircraft) build(source string) (*Aircraft, error) {
 	} else {
 		a.CD0 = r.num("drag.cd0", y.Drag.CD0, 0, 0.1, true)
 		a.K = r.num("drag.k", y.Drag.K, 0, 0.5, true)
+		a.K6 = r.num("drag.k6", y.Drag.K6, 0, 1, false)
 	}
 	if y.Engines == nil {
 		r.fail("engines", "missing")

@@ -42,15 +42,24 @@ type Point struct {
 	ThrustLimited bool // drag exceeds max cruise thrust
 }
 
-// dragCoeff returns CD = CD0 + K CL² + ΔCD_wave, the wave drag from the
-// Korn equation with Lock's fourth-power law (Malone and Mason, "Multi-
-// disciplinary optimization in aircraft design using analytic technology
-// models", J. Aircraft 32(2), 1995):
+// dragCoeff returns CD = CD0 + K CL² + K6 CL⁶ + ΔCD_wave.
+//
+// The CL⁶ term is the lift-dependent drag rise of the clean-configuration
+// drag polynomial of EUROCONTROL's BADA 4 (user manual, aerodynamic model:
+// terms in CL⁰, CL² and CL⁶, each with Mach-dependent coefficients); here
+// its coefficient is one per-aircraft constant, a simplification. It makes
+// drag rise faster than the parabola as CL approaches buffet onset, which
+// gives specific range its curvature about the optimum level.
+//
+// The wave drag is from the Korn equation with Lock's fourth-power law
+// (Malone and Mason, "Multidisciplinary optimization in aircraft design
+// using analytic technology models", J. Aircraft 32(2), 1995):
 //
 //	Mdd = κ/cosΛ - (t/c)/cos²Λ - CL/(10 cos³Λ)
 //	Mcrit = Mdd - (0.1/80)^(1/3),  ΔCD = 20 (M - Mcrit)^4 for M > Mcrit.
 func (a *Aircraft) dragCoeff(cl, mach, cosL float64) float64 {
-	cd := a.CD0 + a.K*cl*cl
+	cl2 := cl * cl
+	cd := a.CD0 + cl2*(a.K+a.K6*cl2*cl2)
 	mdd := a.KornKappa/cosL - a.ThicknessRatio/(cosL*cosL) - cl/(10*cosL*cosL*cosL)
 	if d := mach - (mdd - lockOffset); d > 0 {
 		d2 := d * d
