@@ -16,11 +16,28 @@ const machSearchMin = 0.05
 // and whose crossings are bracketed and bisected to 1e-12. Validation
 // guarantees a single peak. Beyond the table the boundary is unknown: the
 // search ends at the last table Mach, which is returned as hi when that
-// Mach is still buffet-free (the table reaches at least MMO). Cost: O(rows).
+// Mach is still buffet-free (the table reaches at least MMO; see
+// HighBuffetBeyondData to tell that case from an onset). Cost: O(rows).
 func (a *Aircraft) BuffetMachs(mass, p, n float64) (lo, hi float64, ok bool) {
+	lo, hi, _, ok = a.buffetMachs(mass, p, n)
+	return lo, hi, ok
+}
+
+// HighBuffetBeyondData reports whether BuffetMachs(mass, p, n) returns as
+// hi the last Mach of the buffet table rather than a buffet onset: the
+// boundary is not known beyond the data, so hi is then the end of the data,
+// not a physical limit, and outputs must say so.
+func (a *Aircraft) HighBuffetBeyondData(mass, p, n float64) bool {
+	_, _, beyond, ok := a.buffetMachs(mass, p, n)
+	return ok && beyond
+}
+
+// buffetMachs is BuffetMachs, with beyond true when hi is the end of the
+// table (no high-speed onset within the data).
+func (a *Aircraft) buffetMachs(mass, p, n float64) (lo, hi float64, beyond, ok bool) {
 	b := a.Buffet
 	if !(mass > 0 && p > 0 && n > 0) || len(b) < 2 {
-		return math.NaN(), math.NaN(), false
+		return math.NaN(), math.NaN(), false, false
 	}
 	c := 2 * n * mass * G0 / (Gamma * p * a.WingArea)
 	// Segments: [machSearchMin, b0] with flat CL, then table segments.
@@ -47,7 +64,7 @@ func (a *Aircraft) BuffetMachs(mass, p, n float64) (lo, hi float64, ok bool) {
 		}
 	}
 	if peakH < c {
-		return math.NaN(), math.NaN(), false
+		return math.NaN(), math.NaN(), false, false
 	}
 	// Low root: first segment up to the peak where h crosses c.
 	lo = machSearchMin
@@ -65,7 +82,7 @@ func (a *Aircraft) BuffetMachs(mass, p, n float64) (lo, hi float64, ok bool) {
 		}
 	}
 	// High root: first segment from the peak where h falls below c.
-	hi = b[len(b)-1].Mach
+	hi, beyond = b[len(b)-1].Mach, true
 	for j := peakSeg; j < nseg; j++ {
 		x0, y0, x1, y1 := seg(j)
 		xs := x0
@@ -73,11 +90,11 @@ func (a *Aircraft) BuffetMachs(mass, p, n float64) (lo, hi float64, ok bool) {
 			xs = peakM
 		}
 		if x1*x1*y1 < c {
-			hi = bisectSeg(x0, y0, x1, y1, xs, x1, c)
+			hi, beyond = bisectSeg(x0, y0, x1, y1, xs, x1, c), false
 			break
 		}
 	}
-	return lo, hi, lo < hi
+	return lo, hi, beyond, lo < hi
 }
 
 func lerp(x0, y0, x1, y1, x float64) float64 {
@@ -175,26 +192,64 @@ func bisectEdge(good, bad, tol float64, ok func(float64) bool) float64 {
 	return good
 }
 
+// Names of the limits that bound a Mach band (Band.LoLimit, Band.HiLimit).
+const (
+	LimitBuffet = "buffet"      // buffet onset at the protection floor
+	LimitThrust = "thrust"      // drag exceeds max cruise thrust
+	LimitMMO    = "mmo"         // maximum operating Mach
+	LimitVMO    = "vmo"         // maximum operating speed (CAS)
+	LimitData   = "buffet-data" // end of the buffet table: boundary unknown beyond it
+)
+
+// Band is the Mach band usable in level flight and the limit that sets
+// each end: Lo by LimitBuffet or LimitThrust; Hi by LimitBuffet, LimitMMO,
+// LimitVMO, LimitThrust or LimitData (the buffet table ends before any
+// onset and before MMO and VMO, which validation normally prevents).
+type Band struct {
+	Lo, Hi           float64
+	LoLimit, HiLimit string
+	VMOMach          float64 // Mach of VMO at this pressure
+}
+
 // MachBand returns the Mach range usable in level flight: buffet-free at
 // load factor floor (g), at most MMO and the Mach of VMO (CAS), and with
 // drag no more than max cruise thrust. ok is false when the range is empty.
+// SpeedBand also names the limit at each end.
 //
 // The thrust test assumes excess thrust is unimodal in Mach (drag is
 // U-shaped, thrust smooth): the ends are tested first; if either fails,
 // the maximum is found by golden-section search and the feasible ends by
 // bisection to 1e-7 Mach. Cost: 2 to about 150 drag evaluations.
 func (a *Aircraft) MachBand(mass, p, isaDev, floor float64) (lo, hi float64, ok bool) {
+	b, ok := a.SpeedBand(mass, p, isaDev, floor)
+	return b.Lo, b.Hi, ok
+}
+
+// SpeedBand is MachBand with the limit that sets each end named (see Band).
+// When ok is false the band is empty and HiLimit names the limit that
+// closed it: LimitBuffet when no Mach is free of buffet at the floor (or
+// the buffet band lies above MMO or VMO: then LimitMMO or LimitVMO), else
+// LimitThrust. No allocation.
+func (a *Aircraft) SpeedBand(mass, p, isaDev, floor float64) (Band, bool) {
 	nan := math.NaN()
-	lo, hi, ok = a.BuffetMachs(mass, p, floor)
+	b := Band{Lo: nan, Hi: nan, VMOMach: CASToMach(a.VMO, p)}
+	lo, hi, beyond, ok := a.buffetMachs(mass, p, floor)
 	if !ok || math.IsNaN(isaDev) {
-		return nan, nan, false
+		b.HiLimit = LimitBuffet
+		return b, false
 	}
-	hi = math.Min(hi, a.MMO)
-	if mv := CASToMach(a.VMO, p); mv < hi {
-		hi = mv
+	b.LoLimit, b.HiLimit = LimitBuffet, LimitBuffet
+	if beyond {
+		b.HiLimit = LimitData
+	}
+	if a.MMO <= hi {
+		hi, b.HiLimit = a.MMO, LimitMMO
+	}
+	if mv := b.VMOMach; mv < hi {
+		hi, b.HiLimit = mv, LimitVMO
 	}
 	if !(lo < hi) {
-		return nan, nan, false
+		return b, false
 	}
 	tisa := isaTemperatureAtPressure(p)
 	t := tisa + isaDev
@@ -203,7 +258,8 @@ func (a *Aircraft) MachBand(mass, p, isaDev, floor float64) (lo, hi float64, ok 
 	thrustOK := func(m float64) bool { return excess(m) >= 0 }
 	elo, ehi := excess(lo), excess(hi)
 	if elo >= 0 && ehi >= 0 {
-		return lo, hi, true
+		b.Lo, b.Hi = lo, hi
+		return b, true
 	}
 	// The maximum excess thrust, or any Mach with some to spare.
 	g := goldenMax(lo, hi, 1e-5, 0, excess)
@@ -212,15 +268,17 @@ func (a *Aircraft) MachBand(mass, p, isaDev, floor float64) (lo, hi float64, ok 
 		xm, em = g.x2, g.f2
 	}
 	if em < 0 {
-		return nan, nan, false
+		b.HiLimit = LimitThrust
+		return b, false
 	}
 	if elo < 0 {
-		lo = bisectEdge(xm, lo, machTol, thrustOK)
+		lo, b.LoLimit = bisectEdge(xm, lo, machTol, thrustOK), LimitThrust
 	}
 	if ehi < 0 {
-		hi = bisectEdge(xm, hi, machTol, thrustOK)
+		hi, b.HiLimit = bisectEdge(xm, hi, machTol, thrustOK), LimitThrust
 	}
-	return lo, hi, lo <= hi
+	b.Lo, b.Hi = lo, hi
+	return b, lo <= hi
 }
 
 // econCost returns (fuel flow + ci/60)/(TAS + wind) in kg per metre of
