@@ -320,16 +320,19 @@ func (y *yamlAircraft) build(source string) (*Aircraft, error) {
 	} else {
 		a.Name = strings.TrimSpace(*y.Name)
 	}
-	inf := math.Inf(1)
+	// Upper bounds are plausibility limits well beyond any transport
+	// aircraft (largest MTOW about 640 t, static thrust about 500 kN, wing
+	// about 850 m²; from memory), so a typo or an infinite value is refused.
+	const maxMass, maxArea, maxThrustKN, maxIdleKgH = 1e6, 1500, 1000, 5000
 	if y.Mass == nil {
 		r.fail("mass", "missing")
 	} else {
 		m := y.Mass
-		a.OEW = r.num("mass.oew_kg", m.OEW, 0, inf, true)
-		a.MZFW = r.num("mass.mzfw_kg", m.MZFW, 0, inf, true)
-		a.MTOW = r.num("mass.mtow_kg", m.MTOW, 0, inf, true)
-		a.MLW = r.num("mass.mlw_kg", m.MLW, 0, inf, true)
-		a.FuelCapacity = r.num("mass.fuel_capacity_kg", m.FuelCapacity, 0, inf, true)
+		a.OEW = r.num("mass.oew_kg", m.OEW, 0, maxMass, true)
+		a.MZFW = r.num("mass.mzfw_kg", m.MZFW, 0, maxMass, true)
+		a.MTOW = r.num("mass.mtow_kg", m.MTOW, 0, maxMass, true)
+		a.MLW = r.num("mass.mlw_kg", m.MLW, 0, maxMass, true)
+		a.FuelCapacity = r.num("mass.fuel_capacity_kg", m.FuelCapacity, 0, maxMass, true)
 		if r.err == nil {
 			switch {
 			case a.MZFW < a.OEW:
@@ -347,7 +350,7 @@ func (y *yamlAircraft) build(source string) (*Aircraft, error) {
 		r.fail("wing", "missing")
 	} else {
 		w := y.Wing
-		a.WingArea = r.num("wing.area_m2", w.Area, 0, inf, true)
+		a.WingArea = r.num("wing.area_m2", w.Area, 0, maxArea, true)
 		a.Sweep = r.num("wing.sweep_deg", w.Sweep, 0, 60, false) * math.Pi / 180
 		a.ThicknessRatio = r.num("wing.thickness_ratio", w.ThicknessRatio, 0, 0.25, true)
 		a.KornKappa = r.num("wing.korn_kappa", w.KornKappa, 0.8, 1.0, false)
@@ -370,7 +373,7 @@ func (y *yamlAircraft) build(source string) (*Aircraft, error) {
 			a.Engines.Count = int(c)
 		}
 		tsfc := 1 / (3600 * G0) // 1/h (kg per kgf per hour) -> kg/(N s)
-		a.Engines.StaticThrust = 1000 * r.num("engines.static_thrust_kn", e.StaticThrust, 0, inf, true)
+		a.Engines.StaticThrust = 1000 * r.num("engines.static_thrust_kn", e.StaticThrust, 0, maxThrustKN, true)
 		a.Engines.LapseMach = r.num("engines.lapse_mach", e.LapseMach, 0, 1, false)
 		a.Engines.LapseTheta = r.num("engines.lapse_theta", e.LapseTheta, 0, 10, false)
 		a.Engines.ThrottleRatio = r.num("engines.throttle_ratio", e.ThrottleRatio, 0.5, 1.5, false)
@@ -383,7 +386,7 @@ func (y *yamlAircraft) build(source string) (*Aircraft, error) {
 		a.Engines.ClimbRating = r.num("engines.climb_rating", e.ClimbRating, 0, 1, true)
 		a.Engines.CruiseRatio = r.num("engines.cruise_ratio", e.CruiseRatio, 0, 1, true)
 		a.Engines.IdleFraction = r.num("engines.idle_thrust_fraction", e.IdleFraction, 0, 0.5, false)
-		a.Engines.IdleFuelFlow = r.num("engines.idle_fuel_flow_kg_h", e.IdleFuelFlow, 0, inf, true) / 3600
+		a.Engines.IdleFuelFlow = r.num("engines.idle_fuel_flow_kg_h", e.IdleFuelFlow, 0, maxIdleKgH, true) / 3600
 		if r.err == nil && a.Engines.TSFCA+a.Engines.TSFCB <= 0 {
 			r.fail("engines.tsfc_a_per_h", "TSFC must be positive")
 		}
@@ -396,9 +399,22 @@ func (y *yamlAircraft) build(source string) (*Aircraft, error) {
 		a.CertifiedCeiling = 100 * FtToM * r.num("limits.ceiling_fl", y.Limits.Ceiling, 100, 600, false)
 	}
 	if s := y.Schedule; s != nil {
-		a.Schedule.CASLow = KtToMS * r.num("schedule.cas_low_kt", s.CASLow, 0, 600, true)
-		a.Schedule.CAS = KtToMS * r.num("schedule.cas_kt", s.CAS, 0, 600, true)
-		a.Schedule.Mach = r.num("schedule.mach", s.Mach, 0, 0.99, true)
+		casLow := r.num("schedule.cas_low_kt", s.CASLow, 0, 600, true)
+		cas := r.num("schedule.cas_kt", s.CAS, 0, 600, true)
+		mach := r.num("schedule.mach", s.Mach, 0, 0.99, true)
+		// A schedule may not exceed the limits (VMO, MMO) given above.
+		if r.err == nil {
+			vmo, mmo := *y.Limits.VMO, *y.Limits.MMO
+			switch {
+			case casLow > vmo:
+				r.fail("schedule.cas_low_kt", "%g kt is above limits.vmo_kt %g kt", casLow, vmo)
+			case cas > vmo:
+				r.fail("schedule.cas_kt", "%g kt is above limits.vmo_kt %g kt", cas, vmo)
+			case mach > mmo:
+				r.fail("schedule.mach", "%g is above limits.mmo %g", mach, mmo)
+			}
+		}
+		a.Schedule = Schedule{CASLow: KtToMS * casLow, CAS: KtToMS * cas, Mach: mach}
 	}
 	a.Buffet = r.buffet(y.Buffet, a.MMO)
 	if r.err != nil {

@@ -112,6 +112,20 @@ func TestParseValidation(t *testing.T) {
 		{"buffet below mmo", "  - [0.82, 0.629]\n  - [0.84, 0.539]\n  - [0.86, 0.438]\n", "", "buffet"},
 		{"schedule mach", "  mach: 0.78", "  mach: 1.2", "schedule.mach"},
 		{"ceiling", "ceiling_fl: 410", "ceiling_fl: 4100", "limits.ceiling_fl"},
+		// Issue 17: implausible, non-finite and non-integer values.
+		{"infinite thrust", "static_thrust_kn: 120", "static_thrust_kn: 1e308", "engines.static_thrust_kn"},
+		{"inf thrust", "static_thrust_kn: 120", "static_thrust_kn: .inf", "engines.static_thrust_kn"},
+		{"nan cd0", "cd0: 0.016", "cd0: .nan", "drag.cd0"},
+		{"huge mass", "mtow_kg: 78000", "mtow_kg: 1e12", "mass.mtow_kg"},
+		{"huge wing", "area_m2: 128", "area_m2: 1e9", "wing.area_m2"},
+		{"huge idle flow", "idle_fuel_flow_kg_h: 350", "idle_fuel_flow_kg_h: 1e7", "engines.idle_fuel_flow_kg_h"},
+		{"fractional engines", "count: 2", "count: 2.5", "engines.count"},
+		{"schedule mach above mmo", "  mach: 0.78", "  mach: 0.83", "schedule.mach"},
+		{"schedule cas above vmo", "cas_kt: 300", "cas_kt: 350", "schedule.cas_kt"},
+		{"low cas above vmo", "cas_low_kt: 250", "cas_low_kt: 345", "schedule.cas_low_kt"},
+		{"nan flat rating", "flat_rating_lapse_per_k: 0.006", "flat_rating_lapse_per_k: .nan", "engines.flat_rating_lapse_per_k"},
+		{"missing part power", "  part_power_coeff: 0.5\n", "", "engines.part_power_coeff"},
+		{"nan k6", "k6: 0.03", "k6: .nan", "drag.k6"},
 	}
 	for _, tc := range tests {
 		if !strings.Contains(src, tc.old) {
