@@ -508,3 +508,28 @@ func DefaultSchedule(a *Aircraft) Schedule {
 		Mach:   a.MMO - 0.04,
 	}
 }
+
+// Accepted range of the performance factor, percent. Per-tail factors of
+// in-service aircraft are a few percent (from memory); the bounds refuse a
+// typo (a fraction for a percent, a sign slip of a large number).
+const (
+	MinPerfFactorPct = -20.0
+	MaxPerfFactorPct = 30.0
+)
+
+// WithPerfFactor returns a copy of a whose fuel flows (cruise, climb and
+// idle) are all multiplied by 1 + pct/100, the per-tail performance factor
+// operators apply for engine and airframe deterioration. The factor
+// replaces any factor a already has (it does not compound). It returns a
+// *RangeError for pct outside MinPerfFactorPct..MaxPerfFactorPct or not
+// finite. Thrust, drag and speeds are unchanged, so levels and Mach limits
+// are too; optimum speeds with a cost index shift because fuel weighs more
+// against time.
+func (a *Aircraft) WithPerfFactor(pct float64) (*Aircraft, error) {
+	if !(pct >= MinPerfFactorPct && pct <= MaxPerfFactorPct) {
+		return nil, &RangeError{Quantity: "performance factor", Value: pct, Min: MinPerfFactorPct, Max: MaxPerfFactorPct, Unit: "%", Aircraft: a.Name}
+	}
+	b := *a
+	b.PerfFactorPct = pct
+	return &b, nil
+}

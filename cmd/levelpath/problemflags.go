@@ -41,6 +41,8 @@ type problemFlags struct {
 	turb        string
 	bucketKg    float64
 	date        string
+	perfFactor  float64
+	isaDev      float64
 }
 
 func (f *problemFlags) register(c *cobra.Command) {
@@ -68,6 +70,8 @@ func (f *problemFlags) register(c *cobra.Command) {
 	fl.StringVar(&f.turb, "turbulence", "", "EDR rules: EDR:FLOOR or EDR:closed, comma-separated (default 0.20:1.5,0.45:closed)")
 	fl.Float64Var(&f.bucketKg, "mass-bucket-kg", 0, "mass bucket of the search, kg (default 0.25 % of MTOW)")
 	fl.StringVar(&f.date, "date", "", "date for magnetic variation, YYYY-MM-DD (default: departure date)")
+	fl.Float64Var(&f.perfFactor, "perf-factor", 0, "performance factor, percent: every fuel flow multiplied by 1 + PCT/100 (per tail, e.g. 2.5)")
+	fl.Float64Var(&f.isaDev, "isa-dev", 0, "temperature deviation from ISA, °C, where there is no forecast temperature (no --weather: still air at ISA+DEV)")
 }
 
 // loadWeather opens the weather files for planning (nil when none).
@@ -105,7 +109,14 @@ func (f *problemFlags) problem(c *cobra.Command, wx *winds.Field, stderr io.Writ
 	if f.route == "" {
 		return nil, badInputf("--route is required")
 	}
-	p := &optimizer.Problem{Aircraft: a, Weather: wx, CI: f.ci, Floor: f.floor, MinFL: f.minFL, MaxFL: f.maxFL, MassBucket: f.bucketKg}
+	p := &optimizer.Problem{Aircraft: a, Weather: wx, CI: f.ci, Floor: f.floor, MinFL: f.minFL, MaxFL: f.maxFL, MassBucket: f.bucketKg,
+		PerfFactorPct: f.perfFactor, ISADev: f.isaDev}
+	if !(f.perfFactor >= perf.MinPerfFactorPct && f.perfFactor <= perf.MaxPerfFactorPct) {
+		return nil, badInputf("--perf-factor %v: want %g..%g percent", f.perfFactor, perf.MinPerfFactorPct, perf.MaxPerfFactorPct)
+	}
+	if !(f.isaDev >= -60 && f.isaDev <= 60) {
+		return nil, badInputf("--isa-dev %v: want -60..60 °C", f.isaDev)
+	}
 	massSet := c.Flags().Changed("mass")
 	switch {
 	case massSet && (f.zfw != 0 || f.fuel != 0):
