@@ -134,7 +134,9 @@ func Builtin(name string) (*Aircraft, error) {
 const maxFileSize = 1 << 20
 
 // Load returns the built-in aircraft called nameOrPath, or else reads the
-// YAML file at that path.
+// YAML file at that path. A directory is read as operator tables
+// (LoadTables); valid tables give an *UnsupportedError, since planning from
+// tables is not supported yet.
 func Load(nameOrPath string) (*Aircraft, error) {
 	if slices.Contains(builtinNames, nameOrPath) {
 		return Builtin(nameOrPath)
@@ -147,7 +149,13 @@ func Load(nameOrPath string) (*Aircraft, error) {
 		return nil, fmt.Errorf("perf: aircraft %q: %w", nameOrPath, err)
 	}
 	if fi.IsDir() {
-		return nil, fmt.Errorf("perf: aircraft %q is a directory", nameOrPath)
+		// Operator tables (format in aircraft/TABLES.md): validated, so
+		// errors in them are reported, but not yet usable for planning.
+		t, err := LoadTables(nameOrPath)
+		if err != nil {
+			return nil, err
+		}
+		return nil, &UnsupportedError{Source: nameOrPath, Reason: fmt.Sprintf("the operator tables of %s are valid (%d cruise fuel-flow points), but planning from tables is not supported yet; use a performance model (built-in or YAML)", t.Name, len(t.CruiseFuelFlow.Values))}
 	}
 	if fi.Size() > maxFileSize {
 		return nil, &FormatError{Source: nameOrPath, Reason: fmt.Sprintf("file is %d bytes, more than the %d allowed", fi.Size(), maxFileSize)}

@@ -66,10 +66,10 @@ func aircraftSource(name string) string {
 func newAircraftCmd() *cobra.Command {
 	c := &cobra.Command{
 		Use:   "aircraft",
-		Short: "Describe aircraft models: list the built-ins, show one model's limits and ceilings",
+		Short: "Describe aircraft models: list the built-ins, show one model's limits and ceilings, export it as tables",
 		Args:  cobra.NoArgs,
 	}
-	c.AddCommand(newAircraftListCmd(), newAircraftShowCmd())
+	c.AddCommand(newAircraftListCmd(), newAircraftShowCmd(), newAircraftExportCmd())
 	return c
 }
 
@@ -156,6 +156,67 @@ func newAircraftShowCmd() *cobra.Command {
 			flOf(d.RefMaxFLBuffet), flOf(d.RefMaxFLThrust), flOf(d.RefMaxFLHot), flOf(d.RefOptimumFL))
 		tw.Flush()
 		fmt.Fprintf(out, "Levels are rounded down to whole flight levels.\n\n%s\n", cautionText)
+		return nil
+	}
+	return c
+}
+
+// exportGrid returns the export grid for a: masses OEW..MTOW in 5 % of the
+// range, FL100 to the certified ceiling every 1,000 ft, Mach 0.50 to MMO
+// every 0.02 (and MMO), ISA deviation -20..+30 K every 10 K.
+func exportGrid(a *perf.Aircraft) (ms, fls, machs, devs []float64) {
+	for i := 0; i <= 20; i++ {
+		ms = append(ms, a.OEW+float64(i)/20*(a.MTOW-a.OEW))
+	}
+	top := perf.ReportFL(a.CertifiedCeiling / (100 * perf.FtToM))
+	for fl := 100.0; fl < top; fl += 10 {
+		fls = append(fls, fl)
+	}
+	fls = append(fls, top)
+	for i := 0; 0.50+0.02*float64(i) < a.MMO-1e-9; i++ {
+		machs = append(machs, float64(50+2*i)/100)
+	}
+	machs = append(machs, a.MMO)
+	for d := -20.0; d <= 30; d += 10 {
+		devs = append(devs, d)
+	}
+	return ms, fls, machs, devs
+}
+
+func newAircraftExportCmd() *cobra.Command {
+	var acName, out string
+	var factor float64
+	c := &cobra.Command{
+		Use:   "export",
+		Short: "Write an aircraft model as operator tables (format version 1, perf/aircraft/TABLES.md)",
+		Example: "  levelpath aircraft export --aircraft demo-widebody --out widebody-tables\n" +
+			"  levelpath aircraft export --aircraft my-type.yaml --out tables --perf-factor 2.5",
+		Args: cobra.NoArgs,
+	}
+	c.Flags().StringVar(&acName, "aircraft", "", "built-in aircraft name or YAML file")
+	c.Flags().StringVar(&out, "out", "", "directory to write (created if needed)")
+	c.Flags().Float64Var(&factor, "perf-factor", 0, "performance factor, percent, applied to the exported fuel flows")
+	c.RunE = func(cmd *cobra.Command, _ []string) error {
+		if out == "" {
+			return badInputf("--out DIR is required")
+		}
+		a, err := loadAircraft(acName)
+		if err != nil {
+			return err
+		}
+		if factor != 0 {
+			if a, err = a.WithPerfFactor(factor); err != nil {
+				return badInputf("--perf-factor: %v", err)
+			}
+			warnf(cmd.ErrOrStderr(), "performance factor %+.1f %%: exported fuel flows multiplied by %.3f", factor, 1+factor/100)
+		}
+		ms, fls, machs, devs := exportGrid(a)
+		if err := a.ExportTables(out, ms, fls, machs, devs); err != nil {
+			return fmt.Errorf("export: %w", err)
+		}
+		fmt.Fprintf(cmd.OutOrStdout(), "wrote %s and %s to %s: %d cruise fuel-flow points (%d masses, %d levels, %d Mach, %d ISA deviations)\n"+
+			"Planning from tables is not supported yet; the tables are for inspection and exchange.\n%s\n",
+			perf.TablesManifest, perf.CruiseFuelFlowFile, out, len(ms)*len(fls)*len(machs)*len(devs), len(ms), len(fls), len(machs), len(devs), cautionText)
 		return nil
 	}
 	return c

@@ -54,3 +54,32 @@ func TestAircraftCommands(t *testing.T) {
 		t.Errorf("show unknown: exit %d, %q", code, errs)
 	}
 }
+
+// aircraft export writes tables that perf.LoadTables accepts, with the
+// model's fuel flow at the grid points; planning from them is refused as
+// unsupported (exit 2), not silently done with something else.
+func TestAircraftExport(t *testing.T) {
+	dir := filepath.Join(t.TempDir(), "tables")
+	code, out, errs := runCLI(t, "aircraft", "export", "--aircraft", "demo-narrowbody", "--out", dir, "--perf-factor", "2")
+	if code != 0 || !strings.Contains(out, "cruise fuel-flow points") || !strings.Contains(errs, "performance factor +2.0 %") {
+		t.Fatalf("export: exit %d\n%s%s", code, out, errs)
+	}
+	tb, err := perf.LoadTables(dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	a, _ := perf.Builtin("demo-narrowbody")
+	a, _ = a.WithPerfFactor(2)
+	m := tb.CruiseFuelFlow.Axes[0].Values[10]
+	got, err := tb.CruiseFuelFlow.At(m, 350, 0.78, 10)
+	want := a.Point(perf.State{Mass: m, Pressure: perf.FLToPressure(350), Mach: 0.78, ISADev: 10}).FuelFlow
+	if err != nil || abs(got-want) > 1e-8*want {
+		t.Errorf("exported fuel flow %v (%v), model %v", got, err, want)
+	}
+	if code, _, errs := runCLI(t, "aircraft", "show", dir); code != 2 || !strings.Contains(errs, "not supported yet") {
+		t.Errorf("show tables: exit %d, %q", code, errs)
+	}
+	if code, _, errs := runCLI(t, "aircraft", "export", "--aircraft", "demo-narrowbody"); code != 2 || !strings.Contains(errs, "--out") {
+		t.Errorf("export without --out: exit %d, %q", code, errs)
+	}
+}
