@@ -146,3 +146,26 @@ func BenchmarkClimbStep(b *testing.B) {
 		}
 	}
 }
+
+// Idle is not a flat-rated setting: a hot-day descent does not depend on
+// the flat-rating coefficients, while the hot-day climb thrust falls by the
+// BADA 3 correction 1 - C_Tc5 (ΔT - C_Tc4) where Mattingly's θ0 break is
+// not reached (θ0 < TR; here θ0 = 0.94 at FL370, M0.78, ISA+25).
+func TestFlatRatingClimbOnly(t *testing.T) {
+	a := mustBuiltin(t, "demo-narrowbody")
+	b := *a
+	b.Engines.FlatRatingLapse = 0
+	s := DefaultSchedule(a)
+	da, errA := a.Descent(55000, FLToPressure(370), FLToPressure(15), 25, s)
+	db, errB := b.Descent(55000, FLToPressure(370), FLToPressure(15), 25, s)
+	if errA != nil || errB != nil || da != db {
+		t.Errorf("hot descent depends on the flat rating: %+v vs %+v (%v, %v)", da, db, errA, errB)
+	}
+	p, dev := FLToPressure(370), 25.0
+	pa := a.Point(State{Mass: 60000, Pressure: p, Mach: 0.78, ISADev: dev})
+	pb := b.Point(State{Mass: 60000, Pressure: p, Mach: 0.78, ISADev: dev})
+	want := 1 - a.Engines.FlatRatingLapse*(dev-a.Engines.FlatRatingISADev)
+	if relErr(pa.MaxClimbThrust/pb.MaxClimbThrust, want) > 1e-12 {
+		t.Errorf("hot climb thrust ratio %v, BADA correction %v", pa.MaxClimbThrust/pb.MaxClimbThrust, want)
+	}
+}

@@ -137,10 +137,16 @@ func (a *Aircraft) fuelFactor() float64 { return 1 + a.PerfFactorPct/100 }
 // idle returns idle thrust (N) and idle fuel flow (kg/s), all engines; the
 // fuel flow is the sea-level static value scaled by δ0 √θ0 (corrected fuel
 // flow held constant) and by the performance factor.
+//
+// Idle thrust is IdleFraction of the max climb thrust without the
+// flat-rating loss (idle is not a flat-rated setting), as before that term
+// was added.
 func (a *Aircraft) idle(p, t, tisa, mach float64) (thrust, ff float64) {
-	e := &a.Engines
+	e := a.Engines
+	e.FlatRatingLapse = 0
 	d0, th0 := ramRatios(p, t, mach)
-	return e.IdleFraction * a.climbThrust(p, t, tisa, mach), float64(e.Count) * e.IdleFuelFlow * d0 * math.Sqrt(th0) * a.fuelFactor()
+	thrust = e.IdleFraction * float64(e.Count) * e.StaticThrust * e.ClimbRating * e.thrustLapse(p, t, t-tisa, mach)
+	return thrust, float64(e.Count) * e.IdleFuelFlow * d0 * math.Sqrt(th0) * a.fuelFactor()
 }
 
 // climbRate returns the residual rate of climb (m/s of pressure altitude)
