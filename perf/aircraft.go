@@ -71,8 +71,9 @@ type BuffetPoint struct {
 //
 // The flat-rating term is the temperature correction of the maximum climb
 // thrust in EUROCONTROL's Base of Aircraft Data, revision 3 (BADA 3 user
-// manual, section 3.7.1: T = T_ISA (1 - C_Tc5 ΔT_eff), ΔT_eff = ΔT - C_Tc4,
-// 0 <= C_Tc5 ΔT_eff <= 0.4), FlatRatingISADev being C_Tc4 and
+// manual, engine thrust model: T = T_ISA (1 - C_Tc5 ΔT_eff), ΔT_eff =
+// ΔT - C_Tc4, 0 <= C_Tc5 ΔT_eff <= 0.4; recalled from memory, section
+// number not checked here), FlatRatingISADev being C_Tc4 and
 // FlatRatingLapse C_Tc5. It applies at every altitude, so a warm day lowers
 // the thrust ceiling as flat-rated engines do; where Mattingly's θ0-break
 // loss (hot, low and fast) is larger, that one applies instead, so the two

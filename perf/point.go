@@ -46,8 +46,9 @@ type Point struct {
 //
 // The CL⁶ term is the lift-dependent drag rise of the clean-configuration
 // drag polynomial of EUROCONTROL's BADA 4 (user manual, aerodynamic model:
-// terms in CL⁰, CL² and CL⁶, each with Mach-dependent coefficients); here
-// its coefficient is one per-aircraft constant, a simplification. It makes
+// terms in CL⁰, CL² and CL⁶, each with Mach-dependent coefficients; the
+// form is recalled from memory, the manual's section not checked here);
+// here its coefficient is one per-aircraft constant, a simplification. It makes
 // drag rise faster than the parabola as CL approaches buffet onset, which
 // gives specific range its curvature about the optimum level.
 //
