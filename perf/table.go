@@ -21,6 +21,7 @@ type Grid struct {
 	Axes   []Axis
 	Value  string // value column in SI, e.g. "fuel_flow_kg_s"
 	Values []float64
+	Lines  []int // file line of each value (ReadGridCSV), nil for a computed grid
 }
 
 // Axis is one dimension of a Grid, in SI (or FL for levels).
@@ -252,7 +253,26 @@ func ReadGridCSV(r io.Reader, file string, axes []ColumnSpec, value ColumnSpec) 
 			return nil, &TableError{File: file, Reason: "hole in the grid: no row for " + g.pointName(off)}
 		}
 	}
+	g.Lines = seen
 	return g, nil
+}
+
+// checkRising returns a *TableError naming the line (and column) of the
+// first value that is lower than the value at the previous grid point
+// along axis 0, the others held: for a fuel-flow table by mass, fuel flow
+// must not fall as mass rises.
+func (g *Grid) checkRising(column string) error {
+	stride := len(g.Values) / len(g.Axes[0].Values)
+	for off := stride; off < len(g.Values); off++ {
+		if g.Values[off] < g.Values[off-stride] {
+			line := 0
+			if g.Lines != nil {
+				line = g.Lines[off]
+			}
+			return &TableError{File: g.Name, Line: line, Column: column, Reason: fmt.Sprintf("falls as %s rises (%s): want a value that does not fall with %s", g.Axes[0].Name, g.pointName(off), g.Axes[0].Name)}
+		}
+	}
+	return nil
 }
 
 // pointName names the grid point at offset off, e.g. "mass_kg=60000, fl=350".

@@ -57,7 +57,8 @@ type yamlTables struct {
 // LoadTables reads and validates the table directory dir: the manifest's
 // format, version and fields (errors name the field), each table's header,
 // numbers, axes, duplicates and holes (errors name file, line and column),
-// and that the cruise table's mass axis covers OEW..MTOW. Files over the
+// that the cruise table's mass axis covers OEW..MTOW and that fuel flow
+// does not fall as mass rises. Files over the
 // size limit are refused before they are read.
 func LoadTables(dir string) (*Tables, error) {
 	man := filepath.Join(dir, TablesManifest)
@@ -122,6 +123,9 @@ func LoadTables(dir string) (*Tables, error) {
 	}
 	if ms := g.Axes[0].Values; ms[0] > t.OEW || ms[len(ms)-1] < t.MTOW {
 		return nil, &TableError{File: ffPath, Column: "mass", Reason: fmt.Sprintf("mass axis %g..%g kg does not cover OEW..MTOW %g..%g kg", ms[0], ms[len(ms)-1], t.OEW, t.MTOW)}
+	}
+	if err := g.checkRising("fuel flow"); err != nil {
+		return nil, err
 	}
 	t.CruiseFuelFlow = g
 	return t, nil

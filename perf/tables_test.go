@@ -60,6 +60,7 @@ func TestLoadTablesErrors(t *testing.T) {
 		{"unknown key", TablesManifest, "name: demo-regional", "name: demo-regional\ncolour: red", "field colour", &FieldError{}},
 		{"mass cover", CruiseFuelFlowFile, "40000,", "39000,", "does not cover OEW..MTOW", &TableError{}},
 		{"unit", CruiseFuelFlowFile, "mass_kg", "mass_t", `column "mass_t"`, &TableError{}},
+		{"falling", CruiseFuelFlowFile, "24000,350,0.76,0,", "24000,350,0.76,0,9", "column fuel flow: falls as mass_kg rises (mass_kg=40000, fl=350, mach=0.76, isa_dev_k=0)", &TableError{}},
 	}
 	for _, tc := range tests {
 		dir := t.TempDir()
