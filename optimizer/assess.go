@@ -40,7 +40,7 @@ type sim struct {
 	segs []route.Segment
 }
 
-func (s *sim) violate(limit string, by float64, unit, detail string) {
+func (s *sim) violate(limit Limit, by float64, unit, detail string) {
 	s.plan.Violations = append(s.plan.Violations, Violation{Leg: len(s.plan.Legs) - 1, Limit: limit, By: by, Unit: unit, Detail: detail})
 }
 
@@ -52,7 +52,7 @@ func (s *sim) condAt(k, fl int) (cond, error) {
 	pr := perf.FLToPressure(float64(fl))
 	w, d, e, err := segWeather(s.q.Weather, &s.segs[k], pr, s.q.Depart.Add(time.Duration(s.t*float64(time.Second))))
 	if err != nil {
-		return cond{}, &InputError{Field: "weather", Msg: fmt.Sprintf("segment %d at FL%d: %v", k, fl, err)}
+		return cond{}, &InputError{Field: "Weather", Msg: fmt.Sprintf("segment %d at FL%d: %v", k, fl, err), Err: err}
 	}
 	c := cond{wind: w, isaDev: s.q.isaDevOr(d), edr: e}
 	c.floor, c.why, c.closed = floorFor(s.q.Floor, e, s.q.Turbulence)
@@ -78,7 +78,7 @@ func assess(q *Problem, prof Profile, warn []string, detail bool) (*Plan, error)
 			}
 		}
 	}
-	plan := &Plan{Aircraft: q.Aircraft.Name, CI: q.CI, Floor: q.Floor, Speed: q.Speed.String(), Depart: q.Depart,
+	plan := &Plan{Policy: policyOf(q), Aircraft: q.Aircraft.Name, CI: q.CI, Floor: q.Floor, Speed: q.Speed.String(), Depart: q.Depart,
 		TakeoffMass: q.TakeoffMass, Distance: total, Profile: pr, Warnings: append([]string(nil), warn...)}
 	s := &sim{q: q, a: q.Aircraft, plan: plan, m: q.TakeoffMass, fl: pr.Initial, segs: segs}
 	if err := s.run(pr, total, detail); err != nil {

@@ -8,6 +8,7 @@ import (
 	"levelpath/perf"
 	"levelpath/route"
 	"levelpath/winds"
+	"levelpath/winds/synthetic"
 )
 
 // The demo scenario's invented long-haul route (written by `levelpath demo`
@@ -55,7 +56,7 @@ func solve(t testing.TB, p *Problem) *Plan {
 func demoWeather(t testing.TB) (*winds.Field, time.Time) {
 	t.Helper()
 	ref := time.Date(2026, 12, 1, 18, 0, 0, 0, time.UTC)
-	f, err := winds.NewField(winds.SyntheticWeather(ref))
+	f, err := winds.NewField(synthetic.Weather(ref))
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -85,8 +85,8 @@ func TestPerfFactorScalesFuel(t *testing.T) {
 	q.PerfFactorPct = 45
 	_, err = Solve(&q)
 	var ie *InputError
-	if !errors.As(err, &ie) || ie.Field != "perf-factor" {
-		t.Errorf("factor 45 %%: %v, want an input error naming perf-factor", err)
+	if !errors.As(err, &ie) || ie.Field != "PerfFactorPct" {
+		t.Errorf("factor 45 %%: %v, want an input error naming PerfFactorPct", err)
 	}
 }
 
@@ -126,7 +126,7 @@ func TestISADevWithoutForecast(t *testing.T) {
 	q.ISADev = 10
 	_, err = Assess(q, plan.Profile)
 	var ie *InputError
-	if !errors.As(err, &ie) || ie.Field != "isa-dev" {
-		t.Errorf("ISA deviation with forecast temperatures: %v, want an input error naming isa-dev", err)
+	if !errors.As(err, &ie) || ie.Field != "ISADev" {
+		t.Errorf("ISA deviation with forecast temperatures: %v, want an input error naming ISADev", err)
 	}
 }

@@ -1,6 +1,10 @@
 package optimizer
 
-import "time"
+import (
+	"time"
+
+	"levelpath/perf"
+)
 
 // Phase names a leg's flight phase.
 type Phase string
@@ -72,17 +76,59 @@ type Baseline struct {
 	SavingPct float64 // (baseline cost - plan cost) / baseline cost x 100
 }
 
+// Limit names a kind of limit that a profile can break. Programs that read
+// plans should compare against the constants; the strings are the JSON
+// values of violations[].limit.
+type Limit string
+
+// The limits a Violation can name.
+const (
+	LimitBuffet      Limit = "buffet"       // buffet margin under the leg's protection floor
+	LimitThrust      Limit = "thrust"       // residual climb under 300 ft/min, or drag over maximum cruise thrust
+	LimitMachBand    Limit = "mach-band"    // no Mach band at the floor, or the Mach flown outside it
+	LimitCertified   Limit = "certified"    // above the highest usable level (certified ceiling or the problem's MaxFL)
+	LimitLevelRule   Limit = "level-rule"   // a level the direction-of-flight rule does not allow on the segment
+	LimitBlocked     Limit = "blocked"      // a level blocked over that stretch of route
+	LimitTurbulence  Limit = "turbulence"   // a level closed by the turbulence rule
+	LimitWeather     Limit = "weather"      // a level outside the weather's pressure levels
+	LimitStepRule    Limit = "step-rule"    // a step the step rules do not allow
+	LimitProfile     Limit = "profile"      // a profile change that could not be flown as written
+	LimitLandingMass Limit = "landing-mass" // landing mass over MLW
+	LimitFuel        Limit = "fuel"         // trip fuel over the fuel on board
+)
+
 // Violation is a limit that a priced profile breaks.
 type Violation struct {
 	Leg    int     // index into Plan.Legs
-	Limit  string  // "buffet", "thrust", "certified", "level-rule", "blocked", "turbulence", "mach-band", "climb", "profile"
+	Limit  Limit   // the kind of limit broken
 	By     float64 // how far beyond the limit, in Unit
 	Unit   string  // "g", "fpm", "ft", "" ...
 	Detail string
 }
 
+// Policy is the resolved planning policy a plan was made under: the
+// problem's inputs after defaults were applied, so that a plan can be
+// reproduced and compared with another.
+type Policy struct {
+	Steps          StepRules
+	MinFL, MaxFL   int
+	MassBucket     float64 // kg
+	Climb, Descent perf.Schedule
+	EndAltitude    float64 // m, pressure altitude where the climb starts and the descent ends
+	Turbulence     []TurbulenceRule
+	Blocked        []Block
+}
+
+func policyOf(q *Problem) Policy {
+	return Policy{Steps: q.Steps, MinFL: q.MinFL, MaxFL: q.MaxFL, MassBucket: q.MassBucket,
+		Climb: q.ClimbSchedule, Descent: q.DescentSchedule, EndAltitude: q.EndAltitude,
+		Turbulence: append([]TurbulenceRule(nil), q.Turbulence...), Blocked: append([]Block(nil), q.Blocked...)}
+}
+
 // Plan is a priced vertical profile.
 type Plan struct {
+	// Policy is the resolved policy the plan was made under.
+	Policy      Policy
 	Aircraft    string
 	CI          float64 // kg/min
 	Floor       float64 // g
@@ -103,6 +149,9 @@ type Plan struct {
 	// Nodes and Edges count the states settled and edges priced by the
 	// search (Solve only).
 	Nodes, Edges int
+	// Alternatives are the next-cheapest distinct profiles, when asked
+	// for (see Alternatives); nil otherwise.
+	Alternatives []Alternative
 }
 
 // MinMargin returns the least buffet margin over the cruise and step legs,

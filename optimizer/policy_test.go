@@ -46,7 +46,8 @@ func TestAssessViolations(t *testing.T) {
 	p := &Problem{Track: tr, Aircraft: a, TakeoffMass: 70000, Steps: StepRules{MaxSteps: 1},
 		Blocked: []Block{{FromDist: 600 * nmToM, ToDist: 700 * nmToM, Levels: []int{350}}}}
 	cases := []struct {
-		profile, limit string
+		profile string
+		limit   Limit
 	}{
 		{"FL340", "level-rule"},
 		{"FL330,FL350@400", "blocked"},
@@ -84,7 +85,7 @@ func TestAssessViolations(t *testing.T) {
 	}
 	var msgs []string
 	for _, v := range plan.Violations {
-		msgs = append(msgs, v.Limit)
+		msgs = append(msgs, string(v.Limit))
 	}
 	if s := strings.Join(msgs, ","); !strings.Contains(s, "buffet") {
 		t.Errorf("FL350 at 1.6 g: violations %s, want buffet", s)

@@ -89,10 +89,14 @@ type TurbulenceRule struct {
 	Closed bool
 }
 
-// DefaultTurbulence is the default operator table (common practice; ICAO
-// Annex 3 severity thresholds, from memory): EDR over 0.20 is moderate and
-// raises the floor to 1.5 g, over 0.45 is severe and closes the level.
-var DefaultTurbulence = []TurbulenceRule{{EDR: 0.20, Floor: 1.5}, {EDR: 0.45, Closed: true}}
+// DefaultTurbulence returns the default operator table (common practice;
+// ICAO Annex 3 severity thresholds, from memory): EDR over 0.20 is moderate
+// and raises the floor to 1.5 g, over 0.45 is severe and closes the level.
+// Each call returns a new slice, so a caller's change affects only its own
+// problem.
+func DefaultTurbulence() []TurbulenceRule {
+	return []TurbulenceRule{{EDR: 0.20, Floor: 1.5}, {EDR: 0.45, Closed: true}}
+}
 
 // Block removes levels over a distance range (metres from departure), for
 // example airspace that is not available.
@@ -119,7 +123,7 @@ type Problem struct {
 	MinFL      int // lowest cruise level considered (default FL100)
 	MaxFL      int // highest (default: certified ceiling)
 	Blocked    []Block
-	Turbulence []TurbulenceRule // nil: DefaultTurbulence
+	Turbulence []TurbulenceRule // nil: DefaultTurbulence()
 
 	// MassBucket is the width of the search's mass buckets, kg (default
 	// 0.25 % of MTOW). States at the same boundary and level whose masses
@@ -144,25 +148,40 @@ type Problem struct {
 	// air). It is an error with a weather that has temperatures. A
 	// non-zero value is named in the plan's warnings.
 	ISADev float64
+	// Notes are remarks from whoever built the problem (a default it
+	// applied, say); they open the plan's warnings.
+	Notes []string
 }
 
 // InputError reports a Problem that cannot be planned because of its
 // input: a mass out of limits, weather that does not cover the route, no
-// feasible level. Field names the input.
+// feasible level. Field is the path of the Problem field at fault, in Go
+// names ("TakeoffMass", "Steps.MaxChange", "Weather"), or "" when no one
+// field is; Err, when not nil, is the underlying error (a
+// *winds.RangeError, say), reachable with errors.As.
 type InputError struct {
 	Field string
 	Msg   string
+	Err   error
 }
 
 func (e *InputError) Error() string {
-	if e.Field == "" {
-		return e.Msg
+	msg := e.Msg
+	if msg == "" && e.Err != nil {
+		msg = e.Err.Error()
 	}
-	return e.Field + ": " + e.Msg
+	if e.Field == "" {
+		return msg
+	}
+	return e.Field + ": " + msg
 }
 
+// Unwrap returns the underlying error, if any.
+func (e *InputError) Unwrap() error { return e.Err }
+
 func inputErrorf(field, format string, args ...any) error {
-	return &InputError{Field: field, Msg: fmt.Sprintf(format, args...)}
+	err := fmt.Errorf(format, args...)
+	return &InputError{Field: field, Msg: err.Error(), Err: errors.Unwrap(err)}
 }
 
 // IsInputError reports whether err was caused by the problem's input.
@@ -172,56 +191,57 @@ func IsInputError(err error) bool {
 	return errors.As(err, &ie) || errors.As(err, &re)
 }
 
+// MaxStepsLimit is the largest StepRules.MaxSteps accepted; the search's
+// state space grows with it.
+const MaxStepsLimit = 60
+
 const fpm300 = 300 * 0.3048 / 60 // 300 ft/min in m/s (common practice)
 
 // normalise checks the problem and fills defaults, returning warnings.
 func (p *Problem) normalise() ([]string, error) {
-	var warn []string
+	warn := append([]string(nil), p.Notes...)
 	if p.Track == nil || len(p.Track.Segments) == 0 {
-		return nil, inputErrorf("route", "no route segments")
+		return nil, inputErrorf("Track", "no route segments")
 	}
 	if p.Aircraft == nil {
-		return nil, inputErrorf("aircraft", "no aircraft")
+		return nil, inputErrorf("Aircraft", "no aircraft")
 	}
 	a := p.Aircraft
 	if p.PerfFactorPct != 0 {
 		b, err := a.WithPerfFactor(p.PerfFactorPct)
 		if err != nil {
-			return nil, &InputError{Field: "perf-factor", Msg: err.Error()}
+			return nil, &InputError{Field: "PerfFactorPct", Msg: err.Error()}
 		}
 		p.Aircraft, a = b, b
 		warn = append(warn, fmt.Sprintf("performance factor %+.1f %%: every fuel flow of %s multiplied by %.3f", p.PerfFactorPct, a.Name, 1+p.PerfFactorPct/100))
 	}
 	m := p.TakeoffMass
-	if !(m > 0) || math.IsInf(m, 0) {
-		return nil, inputErrorf("mass", "take-off mass %v kg is not a positive number", m)
+	if !(m > 0) {
+		return nil, inputErrorf("TakeoffMass", "take-off mass %v kg is not a positive number", m)
 	}
-	if err := a.CheckMass(m); err != nil {
-		return nil, &InputError{Field: "mass", Msg: err.Error()}
+	if _, _, err := (Loading{TakeoffMass: m}).Resolve(a); err != nil {
+		return nil, err
 	}
-	if m > a.MTOW {
-		return nil, inputErrorf("mass", "take-off mass %.0f kg is over MTOW %.0f kg", m, a.MTOW)
-	}
-	if math.IsNaN(p.CI) || p.CI < 0 || p.CI > 10000 {
-		return nil, inputErrorf("ci", "cost index %v kg/min must lie in 0..10000", p.CI)
+	if err := CheckCI(p.CI); err != nil {
+		return nil, &InputError{Field: "CI", Msg: err.Error()}
 	}
 	if p.Floor == 0 {
-		p.Floor = 1.3
+		p.Floor = DefaultFloor
 	}
-	if !(p.Floor >= 1 && p.Floor <= 2.5) {
-		return nil, inputErrorf("floor", "protection floor %v g must lie in 1.0..2.5", p.Floor)
+	if err := CheckFloor(p.Floor); err != nil {
+		return nil, &InputError{Field: "Floor", Msg: err.Error()}
 	}
 	if p.Speed.Kind == SpeedFixed && !(p.Speed.Mach >= 0.3 && p.Speed.Mach <= a.MMO) {
-		return nil, inputErrorf("speed", "Mach %.3f is outside 0.30..MMO %.3f", p.Speed.Mach, a.MMO)
+		return nil, inputErrorf("Speed.Mach", "Mach %.3f is outside 0.30..MMO %.3f", p.Speed.Mach, a.MMO)
 	}
 	if p.Steps.MaxChange == 0 {
 		p.Steps.MaxChange = 4000
 	}
 	if p.Steps.MaxChange < 1000 || p.Steps.MaxChange > 10000 {
-		return nil, inputErrorf("max-step", "largest step %d ft must lie in 1000..10000", p.Steps.MaxChange)
+		return nil, inputErrorf("Steps.MaxChange", "largest step %d ft must lie in 1000..10000", p.Steps.MaxChange)
 	}
-	if p.Steps.MaxSteps < 0 {
-		return nil, inputErrorf("steps", "the largest number of steps must not be negative")
+	if p.Steps.MaxSteps < 0 || p.Steps.MaxSteps > MaxStepsLimit {
+		return nil, inputErrorf("Steps.MaxSteps", "the largest number of steps %d must lie in 0..%d", p.Steps.MaxSteps, MaxStepsLimit)
 	}
 	switch d := p.Steps.MinDistance; {
 	case d == 0:
@@ -229,7 +249,7 @@ func (p *Problem) normalise() ([]string, error) {
 	case d < 0:
 		p.Steps.MinDistance = 0
 	case math.IsNaN(d) || d > 20000*nmToM:
-		return nil, inputErrorf("min-step-nm", "least distance between steps %v m is not usable", d)
+		return nil, inputErrorf("Steps.MinDistance", "least distance between steps %v m is not usable", d)
 	}
 	if p.MinFL == 0 {
 		p.MinFL = 100
@@ -239,16 +259,16 @@ func (p *Problem) normalise() ([]string, error) {
 		p.MaxFL = cert
 	}
 	if p.MinFL > p.MaxFL {
-		return nil, inputErrorf("levels", "lowest level FL%d is above the highest FL%d", p.MinFL, p.MaxFL)
+		return nil, inputErrorf("MinFL", "lowest level FL%d is above the highest FL%d", p.MinFL, p.MaxFL)
 	}
 	if p.Turbulence == nil {
-		p.Turbulence = DefaultTurbulence
+		p.Turbulence = DefaultTurbulence()
 	}
 	if p.MassBucket == 0 {
 		p.MassBucket = 0.0025 * a.MTOW
 	}
 	if !(p.MassBucket > 0) {
-		return nil, inputErrorf("mass-bucket", "mass bucket %v kg must be positive", p.MassBucket)
+		return nil, inputErrorf("MassBucket", "mass bucket %v kg must be positive", p.MassBucket)
 	}
 	if p.ClimbSchedule == (perf.Schedule{}) {
 		p.ClimbSchedule = bestClimbSchedule(a, p.TakeoffMass, p.CI, p.MaxFL, p.Speed, p.Floor)
@@ -259,27 +279,33 @@ func (p *Problem) normalise() ([]string, error) {
 	if p.EndAltitude == 0 {
 		p.EndAltitude = 1500 * 0.3048
 	}
-	if p.Depart.IsZero() {
-		if p.Weather != nil && len(p.Weather.Times()) > 0 {
-			p.Depart = p.Weather.Times()[0]
-		} else {
-			p.Depart = time.Date(2000, 1, 1, 0, 0, 0, 0, time.UTC)
-		}
+	switch {
+	case !p.Depart.IsZero():
+	case p.Weather == nil || len(p.Weather.Times()) == 0:
+		// Still air does not depend on the time: the plan keeps the zero
+		// time, and its times of passage count from it.
+		warn = append(warn, "no departure time given: times count from the zero time")
+	default:
+		p.Depart = p.Weather.Times()[0]
+		warn = append(warn, "no departure time given: the weather's first valid time "+p.Depart.UTC().Format(time.RFC3339)+" assumed")
 	}
 	if !(math.Abs(p.ISADev) <= 60) {
-		return nil, inputErrorf("isa-dev", "ISA deviation %v °C must lie in -60..60", p.ISADev)
+		return nil, inputErrorf("ISADev", "ISA deviation %v °C must lie in -60..60", p.ISADev)
 	}
 	if p.Weather != nil && p.Weather.Has(winds.ParamT) && p.ISADev != 0 {
-		return nil, inputErrorf("isa-dev", "an ISA deviation applies only where the weather has no temperature; this weather has temperatures")
+		return nil, inputErrorf("ISADev", "an ISA deviation applies only where the weather has no temperature; this weather has temperatures")
 	}
 	if p.Weather == nil {
 		warn = append(warn, fmt.Sprintf("no weather given: ISA%+.0f °C and still air assumed", p.ISADev))
 	} else {
 		if !p.Weather.Has(winds.ParamU) || !p.Weather.Has(winds.ParamV) {
-			return nil, inputErrorf("weather", "the weather has no winds aloft (u and v on isobaric levels)")
+			return nil, inputErrorf("Weather", "the weather has no winds aloft (u and v on isobaric levels)")
 		}
 		if !p.Weather.Has(winds.ParamT) {
 			warn = append(warn, fmt.Sprintf("the weather has no temperature: ISA%+.0f °C assumed", p.ISADev))
+		}
+		for _, w := range p.Weather.Warnings() {
+			warn = append(warn, "weather: "+w.String())
 		}
 	}
 	return warn, nil

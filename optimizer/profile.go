@@ -6,6 +6,8 @@ import (
 	"sort"
 	"strconv"
 	"strings"
+
+	"levelpath/route"
 )
 
 var nan = math.NaN()
@@ -39,8 +41,8 @@ func (e *ProfileError) Error() string {
 
 // ParseProfile parses "FL350,FL370@1250,FL390@2900": the initial level,
 // then level@NM where each change begins, NM counted from departure. The
-// "FL" prefix is optional; distances must increase and levels lie in
-// FL010..FL600.
+// "FL" prefix is optional; distances must increase and levels are read
+// by route.ParseFL (FL010..FL600 in steps of 10).
 func ParseProfile(s string) (Profile, error) {
 	var p Profile
 	parts := strings.Split(strings.TrimSpace(s), ",")
@@ -51,7 +53,7 @@ func ParseProfile(s string) (Profile, error) {
 	for i, raw := range parts {
 		part := strings.TrimSpace(raw)
 		lvl, at, hasAt := strings.Cut(part, "@")
-		fl, err := parseFL(lvl)
+		fl, err := route.ParseFL(lvl)
 		if err != nil {
 			return p, &ProfileError{s, part, err.Error()}
 		}
@@ -76,19 +78,6 @@ func ParseProfile(s string) (Profile, error) {
 		p.Changes = append(p.Changes, Change{AtDist: nm * nmToM, FL: fl})
 	}
 	return p, nil
-}
-
-func parseFL(s string) (int, error) {
-	s = strings.TrimSpace(s)
-	s = strings.TrimPrefix(strings.TrimPrefix(s, "FL"), "fl")
-	n, err := strconv.Atoi(s)
-	if err != nil {
-		return 0, fmt.Errorf("flight level %q is not a number like FL350", s)
-	}
-	if n < 10 || n > 600 {
-		return 0, fmt.Errorf("flight level %d outside FL010..FL600", n)
-	}
-	return n, nil
 }
 
 // String formats the profile in the form ParseProfile reads, distances in

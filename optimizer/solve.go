@@ -139,7 +139,7 @@ func (s *solver) infeasible() error {
 		}
 		parts = append(parts, part)
 	}
-	return inputErrorf("mass", "no feasible profile at take-off mass %.0f kg: %s", m, strings.Join(parts, "; "))
+	return inputErrorf("TakeoffMass", "no feasible profile at take-off mass %.0f kg: %s", m, strings.Join(parts, "; "))
 }
 
 // flRange formats a list of levels compactly.

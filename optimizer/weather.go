@@ -137,8 +137,8 @@ func buildConds(p *Problem, levels []int) ([][]cond, error) {
 					row[li] = c
 					continue
 				}
-				return nil, &InputError{Field: "weather", Msg: fmt.Sprintf("segment %d (%.0f-%.0f NM) at FL%d, %s: %v",
-					k, seg.FromDist/nmToM, seg.ToDist/nmToM, fl, t.Format(time.RFC3339), err)}
+				return nil, &InputError{Field: "Weather", Msg: fmt.Sprintf("segment %d (%.0f-%.0f NM) at FL%d, %s: %v",
+					k, seg.FromDist/nmToM, seg.ToDist/nmToM, fl, t.Format(time.RFC3339), err), Err: err}
 			}
 			c.floor, c.why, c.closed = floorFor(p.Floor, e, p.Turbulence)
 			if c.closed {

@@ -25,7 +25,26 @@
 // degrees of arc); such legs must be split with an intermediate waypoint.
 // Consecutive duplicate points (closer than 1 m) are dropped with a
 // warning in Route.Warnings. Errors are *FormatError (invalid input, naming
-// the source, line, column and point) or *UnsupportedError.
+// the source, line, column and point) or *UnsupportedError; an error
+// quotes at most a short excerpt (24 bytes) of the field it could not
+// read, never more of the file.
+//
+// # Limits
+//
+// A route file must be a regular file (a FIFO, device or directory is
+// refused before it is opened) of at most MaxFileSize (4 MiB) bytes; a
+// route has at most MaxPoints (5,000) waypoints, checked while parsing,
+// and Build makes at most MaxSegments (10,000) segments, checked before
+// it allocates them. Beyond a limit the error is an *UnsupportedError.
+//
+// # Polar areas
+//
+// Build computes the WMM2025 horizontal field H at each segment's
+// midpoint. Where H is under 6000 nT (the model's compass caution zone)
+// or 2000 nT (its blackout zone), a magnetic course is unreliable, so the
+// odd-even-magnetic rule uses the true course there (Options.Polar can
+// ask for the grid course instead); Segment.LevelCourse names the course
+// used and Track.Warnings says where.
 //
 // # Level rules
 //

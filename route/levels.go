@@ -45,7 +45,7 @@ type LevelRule struct {
 // numbers, an "FL" prefix allowed: "odd-even-true:290-430",
 // "every-1000:FL290-FL410"), or list:FL,FL,... ("list:310,330,350").
 // The empty string gives the default rule. Levels must be positive
-// multiples of 10 up to FL990. Errors name the bad part.
+// multiples of 10 from FL010 to FL600 (ParseFL). Errors name the bad part.
 func ParseLevelRule(s string) (LevelRule, error) {
 	s = strings.TrimSpace(s)
 	if s == "" {
@@ -67,10 +67,10 @@ func ParseLevelRule(s string) (LevelRule, error) {
 			return bad(arg, "is not a band MIN-MAX")
 		}
 		var err error
-		if r.Min, err = parseFL(lo); err != nil {
+		if r.Min, err = ParseFL(lo); err != nil {
 			return bad(lo, err.Error())
 		}
-		if r.Max, err = parseFL(hi); err != nil {
+		if r.Max, err = ParseFL(hi); err != nil {
 			return bad(hi, err.Error())
 		}
 		if r.Min > r.Max {
@@ -82,7 +82,7 @@ func ParseLevelRule(s string) (LevelRule, error) {
 		}
 		r.Min, r.Max = 0, 0
 		for _, f := range strings.Split(arg, ",") {
-			fl, err := parseFL(f)
+			fl, err := ParseFL(f)
 			if err != nil {
 				return bad(f, err.Error())
 			}
@@ -94,17 +94,25 @@ func ParseLevelRule(s string) (LevelRule, error) {
 	return r, nil
 }
 
-func parseFL(s string) (int, error) {
+// Flight levels accepted anywhere levelpath reads one (level rules,
+// profiles, blocks): FL010 to FL600 in steps of 10.
+const (
+	MinFlightLevel = 10
+	MaxFlightLevel = 600
+)
+
+// ParseFL reads a flight level such as "FL350", "fl350" or "350": an
+// integer number of hundreds of feet, a multiple of 10 from FL010 to
+// FL600. The error says what is wrong without repeating the text, so a
+// caller can quote it in its own context.
+func ParseFL(s string) (int, error) {
 	t := strings.TrimSpace(s)
 	if len(t) > 2 && strings.EqualFold(t[:2], "FL") {
 		t = t[2:]
 	}
 	v, err := strconv.Atoi(t)
-	switch {
-	case err != nil:
-		return 0, fmt.Errorf("is not a flight level")
-	case v <= 0 || v > 990 || v%10 != 0:
-		return 0, fmt.Errorf("is not a flight level (a positive multiple of 10 up to 990)")
+	if err != nil || v < MinFlightLevel || v > MaxFlightLevel || v%10 != 0 {
+		return 0, fmt.Errorf("is not a flight level (FL%03d to FL%d in steps of 10, such as FL350)", MinFlightLevel, MaxFlightLevel)
 	}
 	return v, nil
 }

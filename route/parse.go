@@ -52,7 +52,7 @@ func ParseGeoJSON(data []byte, source string) (*Route, error) {
 	case "Point", "MultiPoint", "MultiLineString", "Polygon", "MultiPolygon", "GeometryCollection":
 		return nil, &UnsupportedError{Source: source, Msg: fmt.Sprintf("GeoJSON %s; want a LineString, a Feature holding one, or a FeatureCollection of Points", head.Type)}
 	default:
-		return nil, &FormatError{Source: source, Column: "type", Msg: fmt.Sprintf("%q is not a GeoJSON type", head.Type)}
+		return nil, &FormatError{Source: source, Column: "type", Msg: fmt.Sprintf("%s is not a GeoJSON type", clip(head.Type))}
 	}
 }
 
@@ -65,7 +65,7 @@ func lineRoute(source string, g orb.Geometry) (*Route, error) {
 		return nil, &UnsupportedError{Source: source, Msg: fmt.Sprintf("geometry %s; want a LineString", g.GeoJSONType())}
 	}
 	if len(ls) > MaxPoints {
-		return nil, &UnsupportedError{Source: source, Msg: fmt.Sprintf("%d points, more than %d", len(ls), MaxPoints)}
+		return nil, &UnsupportedError{Source: source, Msg: fmt.Sprintf("%d points, more than the limit of %d", len(ls), MaxPoints)}
 	}
 	pts := make([]Point, len(ls))
 	for i, p := range ls {
@@ -86,7 +86,7 @@ func collectionRoute(source string, fc *geojson.FeatureCollection) (*Route, erro
 		}
 	}
 	if len(fc.Features) > MaxPoints {
-		return nil, &UnsupportedError{Source: source, Msg: fmt.Sprintf("%d features, more than %d", len(fc.Features), MaxPoints)}
+		return nil, &UnsupportedError{Source: source, Msg: fmt.Sprintf("%d features, more than the limit of %d", len(fc.Features), MaxPoints)}
 	}
 	pts := make([]Point, len(fc.Features))
 	for i, f := range fc.Features {
@@ -111,7 +111,11 @@ func collectionRoute(source string, fc *geojson.FeatureCollection) (*Route, erro
 // jsonError turns a decoding error into a FormatError with the line of the
 // offending byte when encoding/json reports one.
 func jsonError(data []byte, source string, err error) error {
-	fe := &FormatError{Source: source, Msg: "invalid GeoJSON: " + err.Error()}
+	msg := err.Error()
+	if len(msg) > 120 { // a decoder may quote the input; keep it short
+		msg = msg[:120] + "..."
+	}
+	fe := &FormatError{Source: source, Msg: "invalid GeoJSON: " + strings.ToValidUTF8(msg, "?")}
 	var se *json.SyntaxError
 	var te *json.UnmarshalTypeError
 	switch {
@@ -161,7 +165,7 @@ func ParseCSV(r io.Reader, source string) (*Route, error) {
 	}
 	hl, _ := cr.FieldPos(0)
 	if iLat < 0 || iLon < 0 {
-		return nil, &FormatError{Source: source, Line: hl, Msg: fmt.Sprintf("header %q lacks a lat or lon column; want name,lat,lon", strings.Join(header, ","))}
+		return nil, &FormatError{Source: source, Line: hl, Msg: fmt.Sprintf("header of %d field(s), the first %s, lacks a lat or lon column; want name,lat,lon", len(header), clip(header[0]))}
 	}
 	var pts []Point
 	var lines []int
@@ -175,7 +179,7 @@ func ParseCSV(r io.Reader, source string) (*Route, error) {
 		}
 		line, _ := cr.FieldPos(0)
 		if len(pts) >= MaxPoints {
-			return nil, &UnsupportedError{Source: source, Msg: fmt.Sprintf("more than %d points", MaxPoints)}
+			return nil, &UnsupportedError{Source: source, Msg: fmt.Sprintf("line %d: more than the limit of %d points", line, MaxPoints)}
 		}
 		n := len(pts) + 1
 		name := "WP" + strconv.Itoa(n)

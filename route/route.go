@@ -11,6 +11,7 @@ import (
 	"path/filepath"
 	"strconv"
 	"strings"
+	"unicode/utf8"
 )
 
 // Point is a waypoint: geodetic WGS-84 latitude and longitude in degrees,
@@ -42,7 +43,7 @@ type FormatError struct {
 func (e *FormatError) Error() string {
 	var b strings.Builder
 	b.WriteString("route: ")
-	b.WriteString(e.Source)
+	b.WriteString(clipName(e.Source))
 	if e.Line > 0 {
 		fmt.Fprintf(&b, ": line %d", e.Line)
 	}
@@ -52,7 +53,7 @@ func (e *FormatError) Error() string {
 	if e.Point > 0 {
 		fmt.Fprintf(&b, ": point %d", e.Point)
 		if e.Name != "" {
-			fmt.Fprintf(&b, " (%s)", e.Name)
+			fmt.Fprintf(&b, " (%s)", clipName(e.Name))
 		}
 	}
 	b.WriteString(": ")
@@ -67,13 +68,43 @@ type UnsupportedError struct {
 	Msg    string
 }
 
-func (e *UnsupportedError) Error() string { return "route: " + e.Source + ": unsupported: " + e.Msg }
+func (e *UnsupportedError) Error() string {
+	return "route: " + clipName(e.Source) + ": unsupported: " + e.Msg
+}
+
+// maxExcerpt is the most bytes of input text an error quotes.
+const maxExcerpt = 24
+
+// clip quotes at most maxExcerpt bytes of s (cut on a rune boundary, "..."
+// marking a cut), so that an error about a file it could not parse never
+// echoes more of that file than a short excerpt of the offending field.
+func clip(s string) string {
+	if len(s) <= maxExcerpt {
+		return strconv.Quote(s)
+	}
+	n := maxExcerpt
+	for n > 0 && !utf8.RuneStart(s[n]) {
+		n--
+	}
+	return strconv.Quote(s[:n]) + "..."
+}
+
+// clipName is clip for names printed bare: a short printable name stays
+// as written, anything else is clipped and quoted.
+func clipName(s string) string {
+	if len(s) <= 2*maxExcerpt && strconv.CanBackquote(s) && !strings.ContainsAny(s, "`") {
+		return s
+	}
+	return clip(s)
+}
 
 // Limits applied to every input.
 const (
-	MaxFileSize = 32 << 20 // bytes read from a route file
-	MaxPoints   = 100000   // waypoints in one route
-	MaxLeg      = 10_000e3 // m; longer legs must be split by the user
+	MaxFileSize = 4 << 20 // bytes read from a route file
+	// MaxPoints bounds the waypoints of one route (checked while parsing,
+	// before the route is built); a flight plan's route has a few hundred.
+	MaxPoints = 5000
+	MaxLeg    = 10_000e3 // m; longer legs must be split by the user
 	// MaxLegAngle is the largest great-circle angle (degrees) of a leg;
 	// beyond it the shortest path is nearly antipodal and ill-determined.
 	MaxLegAngle = 170.0
@@ -93,8 +124,8 @@ func Load(arg string) (*Route, error) {
 		}
 		return nil, fmt.Errorf("route: %w", err)
 	}
-	if fi.IsDir() {
-		return nil, &FormatError{Source: arg, Msg: "is a directory, not a route file"}
+	if !fi.Mode().IsRegular() {
+		return nil, &FormatError{Source: arg, Msg: fmt.Sprintf("is %s, not a regular file: a route must be a file", fileKind(fi.Mode()))}
 	}
 	if fi.Size() > MaxFileSize {
 		return nil, &UnsupportedError{Source: arg, Msg: fmt.Sprintf("file is %d bytes, more than %d", fi.Size(), MaxFileSize)}
@@ -104,6 +135,10 @@ func Load(arg string) (*Route, error) {
 		return nil, fmt.Errorf("route: %w", err)
 	}
 	defer f.Close()
+	// The name may have been replaced since Stat: check what was opened.
+	if fi, err := f.Stat(); err != nil || !fi.Mode().IsRegular() {
+		return nil, &FormatError{Source: arg, Msg: "is not a regular file: a route must be a file"}
+	}
 	data, err := io.ReadAll(io.LimitReader(f, MaxFileSize+1))
 	if err != nil {
 		return nil, fmt.Errorf("route: %s: %w", arg, err)
@@ -121,6 +156,23 @@ func Load(arg string) (*Route, error) {
 		return ParseGeoJSON(data, arg)
 	}
 	return ParseCSV(bytes.NewReader(data), arg)
+}
+
+// fileKind names the type of a file that is not regular.
+func fileKind(m fs.FileMode) string {
+	switch {
+	case m.IsDir():
+		return "a directory"
+	case m&fs.ModeNamedPipe != 0:
+		return "a named pipe (FIFO)"
+	case m&fs.ModeCharDevice != 0:
+		return "a character device"
+	case m&fs.ModeDevice != 0:
+		return "a device"
+	case m&fs.ModeSocket != 0:
+		return "a socket"
+	}
+	return "not a regular file"
 }
 
 // looksInline reports whether s reads as an inline route rather than a
@@ -145,7 +197,7 @@ func ParseInline(s string) (*Route, error) {
 	const src = "inline"
 	fields := strings.FieldsFunc(s, func(r rune) bool { return r == ' ' || r == ';' || r == '\t' || r == '\n' })
 	if len(fields) > MaxPoints {
-		return nil, &UnsupportedError{Source: src, Msg: fmt.Sprintf("%d points, more than %d", len(fields), MaxPoints)}
+		return nil, &UnsupportedError{Source: src, Msg: fmt.Sprintf("%d points, more than the limit of %d", len(fields), MaxPoints)}
 	}
 	pts := make([]Point, 0, len(fields))
 	for i, f := range fields {
@@ -158,7 +210,7 @@ func ParseInline(s string) (*Route, error) {
 		}
 		la, lo, ok := strings.Cut(f, ",")
 		if !ok || strings.Contains(lo, ",") {
-			return nil, &FormatError{Source: src, Point: i + 1, Name: name, Msg: fmt.Sprintf("%q is not lat,lon", f)}
+			return nil, &FormatError{Source: src, Point: i + 1, Name: name, Msg: fmt.Sprintf("%s is not lat,lon", clip(f))}
 		}
 		lat, err := parseDeg(la)
 		if err != nil {
@@ -177,7 +229,7 @@ func parseDeg(s string) (float64, error) {
 	s = strings.TrimSpace(s)
 	v, err := strconv.ParseFloat(s, 64)
 	if err != nil {
-		return 0, fmt.Errorf("%q is not a number of degrees", s)
+		return 0, fmt.Errorf("%s is not a number of degrees", clip(s))
 	}
 	return v, nil
 }
@@ -218,7 +270,7 @@ func newRoute(src string, pts []Point, lines []int) (*Route, error) {
 			prev := out[n-1]
 			if d, _, _ = Inverse(prev.Lat, prev.Lon, p.Lat, p.Lon); d < dupTol {
 				r.Warnings = append(r.Warnings, fmt.Sprintf("%s: point %d (%s) repeats point %d (%s); dropped",
-					src, i+1, p.Name, idx[n-1]+1, prev.Name))
+					src, i+1, clipName(p.Name), idx[n-1]+1, clipName(prev.Name)))
 				continue
 			}
 		}
@@ -233,10 +285,10 @@ func newRoute(src string, pts []Point, lines []int) (*Route, error) {
 		a, b := out[k-1], out[k]
 		i, j := idx[k-1], idx[k]
 		if ang := centralAngle(a, b); ang > MaxLegAngle {
-			return nil, ferr(j, "", fmt.Sprintf("leg from point %d (%s) is nearly antipodal (%.1f degrees of arc); the shortest path is ill-determined: add an intermediate waypoint", i+1, a.Name, ang))
+			return nil, ferr(j, "", fmt.Sprintf("leg from point %d (%s) is nearly antipodal (%.1f degrees of arc); the shortest path is ill-determined: add an intermediate waypoint", i+1, clipName(a.Name), ang))
 		}
 		if d := dist[k]; d > MaxLeg {
-			return nil, ferr(j, "", fmt.Sprintf("leg from point %d (%s) is %.0f km, longer than %.0f km: add an intermediate waypoint", i+1, a.Name, d/1e3, MaxLeg/1e3))
+			return nil, ferr(j, "", fmt.Sprintf("leg from point %d (%s) is %.0f km, longer than %.0f km: add an intermediate waypoint", i+1, clipName(a.Name), d/1e3, MaxLeg/1e3))
 		}
 	}
 	r.Points = out

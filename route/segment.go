@@ -12,8 +12,12 @@ import (
 // DefaultMaxSegment is the default longest segment: 50 NM in metres.
 const DefaultMaxSegment = 50 * 1852.0
 
-// maxSegments bounds the number of segments Build allocates.
-const maxSegments = 1 << 20
+// MaxSegments bounds the number of segments Build makes: 10,000 segments
+// hold a 10,000 NM route cut at 1 NM (the CLI's finest --max-seg-nm), and
+// the planner's memory grows with the segment count (about 120 KiB per
+// segment measured with levelpath plan), so a route needing more is refused
+// with an *UnsupportedError before anything is allocated for it.
+const MaxSegments = 10_000
 
 // MeanRadius is the IUGG mean Earth radius R1 = (2a+b)/3 for WGS-84, m
 // (Moritz, "Geodetic Reference System 1980", Bull. Géod. 54, 1980), used
@@ -40,6 +44,17 @@ type Segment struct {
 	MagVar, MagCourse        float64 // degrees, east positive; MagCourse = TrueCourse - MagVar in [0, 360)
 	Samples                  []Point // weather sample points: Start, Mid, End
 	Levels                   []int   // allowed flight levels, ascending; shared between segments, do not modify
+
+	// HorizontalField is the WMM2025 horizontal intensity H (nT) at Mid
+	// and Options.MagAltitude; Zone says whether it lies in the model's
+	// compass caution or blackout zone (see CompassZone).
+	HorizontalField float64
+	Zone            CompassZone
+	// LevelCourse names the course Levels were chosen on: CourseMagnetic,
+	// CourseTrue, CourseGrid, or "" for a rule that ignores the course.
+	// Under the magnetic rule it is the polar policy's course (true by
+	// default) wherever Zone is not ZoneNone.
+	LevelCourse string
 }
 
 // Track is a route cut into legs and segments.
@@ -48,14 +63,48 @@ type Track struct {
 	Legs     []Leg
 	Segments []Segment
 	Total    float64 // m, sum of leg lengths
+	// Warnings are Build's non-fatal findings (segments where the
+	// magnetic level rule fell back to another course); the route's own
+	// are in Route.Warnings.
+	Warnings []string
 }
 
 // Options control Build.
 type Options struct {
 	MaxSegment  float64   // m; 0 means DefaultMaxSegment
-	Date        time.Time // date for magnetic variation; zero means now
+	Date        time.Time // date for magnetic variation (required; no wall-clock default)
 	Levels      LevelRule // zero value means the default rule (see ParseLevelRule)
 	MagAltitude float64   // m above the ellipsoid at which variation is taken; 0 = surface, as charted
+	// Polar is the course the magnetic level rule uses where the compass
+	// is unreliable (Segment.Zone not ZoneNone): PolarTrue ("" means it)
+	// or PolarGrid. Other rules ignore it.
+	Polar string
+}
+
+// Polar policies of Options.Polar.
+const (
+	PolarTrue = "true" // true course, as ICAO Annex 2 lets states prescribe in polar areas
+	PolarGrid = "grid" // grid course, grid north parallel to the Greenwich meridian
+)
+
+// Courses named by Segment.LevelCourse.
+const (
+	CourseMagnetic = "magnetic"
+	CourseTrue     = "true"
+	CourseGrid     = "grid"
+)
+
+// GridCourse returns the grid course in [0, 360) of true course tc
+// (degrees) at latitude lat and longitude lon, grid north being parallel
+// to the Greenwich meridian, pointing from it toward the pole of lat's
+// hemisphere and beyond: G = T - lon in the northern hemisphere and
+// G = T + lon in the southern one (lon east positive). On the equator it
+// uses the northern form.
+func GridCourse(tc, lat, lon float64) float64 {
+	if lat < 0 {
+		return course360(tc + lon)
+	}
+	return course360(tc - lon)
 }
 
 // Build cuts every leg of r into the fewest equal segments no longer than
@@ -67,7 +116,14 @@ type Options struct {
 // once per segment) and the flight levels opt.Levels allows.
 // A hand-built route with a point that has no geodesic (latitude outside
 // [-90, 90], a NaN or infinite coordinate) gives a *FormatError; more than
-// 2^20 segments an *UnsupportedError. Cost O(number of segments).
+// MaxSegments segments an *UnsupportedError.
+//
+// Polar areas: where the WMM2025 horizontal intensity H at a segment's
+// midpoint is in the compass caution or blackout zone (H under
+// WMMCautionH), a compass cannot give the magnetic course, so the
+// odd-even-magnetic rule uses the course opt.Polar names there (true by
+// default), sets Segment.LevelCourse accordingly and adds a warning to
+// Track.Warnings. Cost O(number of segments).
 func Build(r *Route, opt Options) (*Track, error) {
 	if r == nil || len(r.Points) < 2 {
 		return nil, fmt.Errorf("route: Build needs a route of at least two points")
@@ -79,9 +135,14 @@ func Build(r *Route, opt Options) (*Track, error) {
 	if !(maxSeg > 0) || math.IsInf(maxSeg, 0) {
 		return nil, fmt.Errorf("route: maximum segment length %v m is not a positive finite number", opt.MaxSegment)
 	}
+	// WMM2025 report, Sec. 1: the model is valid from 1 km below the
+	// surface to 850 km above it.
+	if !(opt.MagAltitude >= -1e3 && opt.MagAltitude <= 850e3) {
+		return nil, &FormatError{Source: "route options", Msg: fmt.Sprintf("magnetic-variation height %v m is outside WMM2025's -1000 to 850000 m", opt.MagAltitude)}
+	}
 	date := opt.Date
 	if date.IsZero() {
-		date = time.Now()
+		return nil, fmt.Errorf("route: Options.Date is required: the magnetic variation and so the level rule depend on it")
 	}
 	wmm, err := wmmAt(date)
 	if err != nil {
@@ -90,6 +151,14 @@ func Build(r *Route, opt Options) (*Track, error) {
 	rule := opt.Levels
 	if err := rule.check(); err != nil {
 		return nil, err
+	}
+	polarCourse := CourseTrue
+	switch opt.Polar {
+	case "", PolarTrue:
+	case PolarGrid:
+		polarCourse = CourseGrid
+	default:
+		return nil, &FormatError{Source: "polar policy", Msg: fmt.Sprintf("%s is not a polar policy; want %q or %q", clip(opt.Polar), PolarTrue, PolarGrid)}
 	}
 	var levelCache [3][]int
 
@@ -108,13 +177,14 @@ func Build(r *Route, opt Options) (*Track, error) {
 		// Bound the count as a float: converting a huge quotient (a tiny
 		// maxSeg) to int is implementation-defined in Go.
 		c := max(1, math.Ceil(s12/maxSeg*(1-1e-12)))
-		if c > float64(maxSegments-nseg) {
-			return nil, &UnsupportedError{Source: r.Source, Msg: fmt.Sprintf("more than %d segments of %g m", maxSegments, maxSeg)}
+		if c > float64(MaxSegments-nseg) {
+			return nil, &UnsupportedError{Source: r.Source, Msg: fmt.Sprintf("the route needs more than %d segments (the limit) of at most %.0f m each, by leg %d of %d: use longer segments or a shorter route", MaxSegments, maxSeg, i+1, len(t.Legs))}
 		}
 		counts[i] = int(c)
 		nseg += counts[i]
 	}
 	t.Segments = make([]Segment, 0, nseg)
+	var polar polarTally
 	samples := make([]Point, 3*nseg)
 	var line geoLine
 	for i, leg := range t.Legs {
@@ -132,11 +202,23 @@ func Build(r *Route, opt Options) (*Track, error) {
 			mla, mlo, mazi := line.position((s0 + s1) / 2)
 			mid := Point{Lat: mla, Lon: mlo}
 			tc := course360(mazi)
-			mv := wmm.declination(mla, mlo, opt.MagAltitude)
+			fx, fy, _ := wmm.field(mla, mlo, opt.MagAltitude)
+			mv := math.Atan2(fy, fx) * (180 / math.Pi)
+			h := math.Hypot(fx, fy)
+			zone := compassZone(h)
 			mc := course360(tc - mv)
-			cls := rule.class(tc, mc)
+			ruleMC, used := mc, rule.course()
+			if used == CourseMagnetic && zone != ZoneNone {
+				used = polarCourse
+				ruleMC = tc
+				if used == CourseGrid {
+					ruleMC = GridCourse(tc, mla, mlo)
+				}
+				polar.add(zone, leg.StartDist+s0, leg.StartDist+s1, h)
+			}
+			cls := rule.class(tc, ruleMC)
 			if levelCache[cls+1] == nil {
-				levelCache[cls+1] = rule.Allowed(tc, mc)
+				levelCache[cls+1] = rule.Allowed(tc, ruleMC)
 			}
 			j := len(t.Segments)
 			smp := samples[3*j : 3*j+3 : 3*j+3]
@@ -147,12 +229,14 @@ func Build(r *Route, opt Options) (*Track, error) {
 				Start: start, End: end, Mid: mid,
 				TrueCourse: tc, MagVar: mv, MagCourse: mc,
 				Samples: smp, Levels: levelCache[cls+1],
+				HorizontalField: h, Zone: zone, LevelCourse: used,
 			})
 			start = end
 		}
 		// Pin the leg end exactly to the leg's cumulative length.
 		t.Segments[len(t.Segments)-1].ToDist = leg.StartDist + leg.Length
 	}
+	t.Warnings = polar.warnings(polarCourse)
 	return t, nil
 }
 

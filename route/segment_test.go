@@ -65,7 +65,17 @@ func checkTrack(t *testing.T, tr *Track, maxSeg float64) {
 			if sg.TrueCourse < 0 || sg.TrueCourse >= 360 || sg.MagCourse < 0 || sg.MagCourse >= 360 {
 				t.Errorf("segment %d courses %v %v", si, sg.TrueCourse, sg.MagCourse)
 			}
-			if !slices.Equal(sg.Levels, LevelRule{}.Allowed(sg.TrueCourse, sg.MagCourse)) {
+			// The default rule is magnetic except in the WMM compass zones,
+			// where it falls back to the true course.
+			h, zone, err := HorizontalIntensity(sg.Mid.Lat, sg.Mid.Lon, 0, testDate)
+			ruleCourse, wantRef := sg.MagCourse, CourseMagnetic
+			if h < WMMCautionH {
+				ruleCourse, wantRef = sg.TrueCourse, CourseTrue
+			}
+			if err != nil || h != sg.HorizontalField || zone != sg.Zone || sg.LevelCourse != wantRef {
+				t.Errorf("segment %d: H %v zone %q course %q; want %v %q %q (%v)", si, sg.HorizontalField, sg.Zone, sg.LevelCourse, h, zone, wantRef, err)
+			}
+			if !slices.Equal(sg.Levels, LevelRule{}.Allowed(sg.TrueCourse, ruleCourse)) {
 				t.Errorf("segment %d levels %v", si, sg.Levels)
 			}
 			if len(sg.Samples) != 3 || sg.Samples[0] != sg.Start || sg.Samples[1] != sg.Mid || sg.Samples[2] != sg.End {
@@ -86,7 +96,7 @@ func checkTrack(t *testing.T, tr *Track, maxSeg float64) {
 	}
 }
 
-// TestBuildTwoWaypoints uses the REFERENCES.md worked example (GeodSolve
+// TestBuildTwoWaypoints uses the testdata/REFERENCES.md worked example (GeodSolve
 // 2.1.2: 5551759.400319 m, initial azimuth 51.198883).
 func TestBuildTwoWaypoints(t *testing.T) {
 	r, err := ParseInline("A=40.6,-73.8 B=51.6,-0.5")
@@ -106,7 +116,7 @@ func TestBuildTwoWaypoints(t *testing.T) {
 	}
 	checkTrack(t, tr, DefaultMaxSegment)
 	// The final segment's midpoint course is close to the final azimuth
-	// 107.821777 (REFERENCES.md) less the turn over half a segment.
+	// 107.821777 (testdata/REFERENCES.md) less the turn over half a segment.
 	if c := tr.Segments[59].TrueCourse; c < 106 || c > 107.821777 {
 		t.Errorf("last segment course %v", c)
 	}

@@ -11,7 +11,9 @@
 //   - grid definition template 3.0 (regular latitude/longitude) in every
 //     scanning mode of code table 3.4 (i negative, j positive, j
 //     consecutive, boustrophedon rows);
-//   - product definition templates 4.0 and 4.1 (ensemble member);
+//   - product definition templates 4.0 and 4.1 (ensemble member); the
+//     others of 4.2-4.15 are listed by Scan with their level and, where
+//     the template gives it, valid time;
 //   - data representation templates 5.0 (simple), 5.2 (complex), 5.3
 //     (complex with spatial differencing of order 1 and 2), 5.4 (IEEE 32 and
 //     64 bit) and 5.41 (PNG); section 6 bitmaps (indicator 0, 254, 255);
@@ -23,6 +25,17 @@
 // a *FormatError naming the file, message and byte offset. Sizes declared in
 // the file are checked against the bytes present before anything is
 // allocated.
+//
+// Input is read as a stream: gzip and bzip2 files are recognised by
+// their magic bytes and decompressed on the fly; zero padding between
+// messages is skipped with a Warning; each message's own indicator section
+// decides its edition and length. Reads are bounded by a memory budget
+// (Options.Budget, DefaultBudget 2 GiB) checked before allocating: Decode
+// charges every decoded field, Open the whole Field from the headers; a
+// read over it is a *BudgetError. Open and ScanFile refuse directories,
+// devices and FIFOs before opening them. Decoded values outside sanity
+// ranges (wind over 300 kt, temperature outside 150-350 K) are kept and
+// warned about (Field.Warnings, Options.Warn).
 //
 // Kept parameters are u and v wind (GRIB2 0.2.2 and 0.2.3; GRIB1 table 2
 // parameters 33/34 and ECMWF table 128 parameters 131/132), temperature

@@ -7,14 +7,23 @@ import (
 )
 
 // RepackHint is the ecCodes command that rewrites a GRIB2 file with simple
-// packing, which this package always reads.
+// packing, which this package always reads. It works on every packing that
+// ecCodes itself decodes (tested on ecCodes 2.28 with JPEG 2000 and CCSDS
+// files, see TestRemediesWork).
 const RepackHint = "grib_set -r -s packingType=grid_simple in.grib2 out.grib2"
 
-// Remedies for unsupported input, given in UnsupportedError.Remedy.
+// Remedies for unsupported input, given in UnsupportedError.Remedy. Each
+// either gives a command tested on such a file (TestRemediesWork) or says
+// plainly what levelpath cannot read and what it needs instead.
 const (
 	remedyRepack  = "repack with: " + RepackHint
 	remedyRepack1 = "repack with: grib_set -r -s packingType=grid_simple in.grib1 out.grib1"
-	remedyRegrid  = "regrid to a regular latitude/longitude grid (grid template 3.0), for example with: cdo remapbil,r1440x721 in.grib2 out.grib2"
+	remedyRegrid  = "levelpath reads only regular latitude/longitude grids (GRIB2 grid template 3.0, GRIB1 data representation type 0); " +
+		"download the data on such a grid, or regrid it with a tool that knows the source grid (ecCodes cannot regrid)"
+	remedySpectral = "these are spectral coefficients, not grid-point values; levelpath needs grid-point data on a regular latitude/longitude grid"
+	remedyNone     = "levelpath cannot read this; it needs GRIB on a regular latitude/longitude grid scanned row by row, with an explicit bitmap if any"
+	remedyArea     = "download a smaller area or a coarser grid"
+	remedyTime     = "levelpath needs forecasts whose valid time is given in minutes, hours, days or seconds"
 )
 
 // A FormatError reports that the input is not valid GRIB: it is truncated,
@@ -27,6 +36,9 @@ type FormatError struct {
 }
 
 func (e *FormatError) Error() string {
+	if e.Message == 0 && e.Offset == 0 {
+		return fmt.Sprintf("winds: %s: invalid GRIB: %s", e.Source, e.What)
+	}
 	return fmt.Sprintf("winds: %s: message %d at byte %d: invalid GRIB: %s", e.Source, e.Message, e.Offset, e.What)
 }
 

@@ -3,7 +3,6 @@ package winds
 import (
 	"fmt"
 	"math"
-	"os"
 	"sort"
 	"strings"
 	"time"
@@ -52,6 +51,7 @@ type Field struct {
 	lnp         []float64 // ln(levels)
 	vars        [nslots][]float32
 	plane       int // ni*nj
+	warnings    []Warning
 }
 
 // A Sample is the field interpolated at one point: wind components (m/s,
@@ -76,6 +76,19 @@ func Open(paths ...string) (*Field, error) {
 // a 0.25-degree global forecast on 41 levels needs about 16 between 850
 // and 70 hPa.
 func OpenBetween(pLow, pHigh float64, paths ...string) (*Field, error) {
+	return Options{}.OpenBetween(pLow, pHigh, paths...)
+}
+
+// Open is the package function Open with these options.
+func (o Options) Open(paths ...string) (*Field, error) {
+	return o.OpenBetween(0, math.Inf(1), paths...)
+}
+
+// OpenBetween is the package function OpenBetween with these options: the
+// Field's size is checked against o's budget from the headers, before
+// anything is allocated; files that are not regular files are refused
+// before they are opened; warnings go to o.Warn and Field.Warnings.
+func (o Options) OpenBetween(pLow, pHigh float64, paths ...string) (*Field, error) {
 	if len(paths) == 0 {
 		return nil, fmt.Errorf("winds: Open: no files")
 	}
@@ -83,12 +96,14 @@ func OpenBetween(pLow, pHigh float64, paths ...string) (*Field, error) {
 		return nil, fmt.Errorf("winds: Open: pressure band %g..%g Pa is empty", pLow, pHigh)
 	}
 	var heads []Message
+	var warns []Warning
+	scanOpts := Options{Budget: o.Budget, Warn: func(w Warning) { warns = append(warns, w) }}
 	for _, p := range paths {
-		f, err := os.Open(p)
+		f, err := openRegular(p)
 		if err != nil {
-			return nil, fmt.Errorf("winds: %w", err)
+			return nil, err
 		}
-		ms, err := Scan(f, p)
+		ms, err := scanOpts.Scan(f, p)
 		f.Close()
 		if err != nil {
 			return nil, err
@@ -102,17 +117,28 @@ func OpenBetween(pLow, pHigh float64, paths ...string) (*Field, error) {
 			kept = append(kept, m)
 		}
 	}
+	if err := unreadableGrid(kept); err != nil {
+		return nil, err
+	}
+	if err := checkFieldBudget(kept, o.budget(), paths); err != nil {
+		return nil, err
+	}
 	fl, err := layout(kept)
 	if err != nil {
 		return nil, err
 	}
 	// Every message is decoded into the same scratch buffers and copied
 	// into the field, so filling it makes no garbage.
-	scratch := &decodeScratch{reuse: true}
+	scratch := &decodeScratch{reuse: true, budget: o.budget(), warn: func(w Warning) {
+		if w.Message == 0 {
+			return // padding: already warned by the header pass
+		}
+		warns = append(warns, w)
+	}}
 	for _, p := range paths {
-		f, err := os.Open(p)
+		f, err := openRegular(p)
 		if err != nil {
-			return nil, fmt.Errorf("winds: %w", err)
+			return nil, err
 		}
 		err = readMessages(f, p, true, scratch, func(m *Message) error {
 			if m.Param != ParamOther && keep[m.Level] {
@@ -123,6 +149,12 @@ func OpenBetween(pLow, pHigh float64, paths ...string) (*Field, error) {
 		f.Close()
 		if err != nil {
 			return nil, err
+		}
+	}
+	fl.warnings = append(warns, fl.windSanity(kept)...)
+	if o.Warn != nil {
+		for _, w := range fl.warnings {
+			o.Warn(w)
 		}
 	}
 	return fl, nil

@@ -46,7 +46,7 @@ func decodeGRIB1(msg []byte, src string, index int, base int64, values bool, scr
 	if err != nil {
 		return err
 	}
-	m := Message{Source: src, Index: index, Edition: 1, Discipline: -1, Product: -1, Ensemble: -1,
+	m := Message{Source: src, Index: index, Offset: base, Edition: 1, Discipline: -1, Product: -1, Ensemble: -1,
 		Category: int(pds[3]), Number: int(pds[8]), LevelType: int(pds[9]), Level: math.NaN()}
 	if m.LevelType == LevelIsobaric {
 		m.Level = float64(u16(pds[10:])) * 100 // hPa to Pa
@@ -71,10 +71,10 @@ func decodeGRIB1(msg []byte, src string, index int, base int64, values bool, scr
 		ok = false
 	}
 	if !ok {
-		if m.Param != ParamOther {
-			return unsup(17, "", "GRIB1 time unit %d with time range indicator %d (tables 4 and 5)", pds[17], pds[20])
+		// Listed without a valid time (zero); refused when decoded.
+		if values && m.Param != ParamOther {
+			return unsup(17, remedyTime, "GRIB1 time unit %d with time range indicator %d (tables 4 and 5)", pds[17], pds[20])
 		}
-		m.ValidTime = m.RefTime
 	} else {
 		m.ValidTime = m.RefTime.Add(time.Duration(p) * step)
 	}
@@ -86,7 +86,8 @@ func decodeGRIB1(msg []byte, src string, index int, base int64, values bool, scr
 	// 21-23 Lo2, 24-25 Di, 26-27 Dj, 28 scanning mode.
 	gridOK := false
 	if flags&0x80 == 0 {
-		if m.Param != ParamOther {
+		m.Grid = -1
+		if values && m.Param != ParamOther {
 			return unsup(7, remedyRegrid, "GRIB1 predefined grid %d (no grid description section)", pds[6])
 		}
 	} else {
@@ -95,6 +96,16 @@ func decodeGRIB1(msg []byte, src string, index int, base int64, values bool, scr
 			return err
 		}
 		m.Grid = int(gds[5])
+		if len(gds) >= 10 {
+			// Octets 7-10 are Ni (Nx) and Nj (Ny) in the latitude/longitude,
+			// Gaussian, polar stereographic, Lambert and Mercator layouts
+			// (GRIB1 table D); 0xffff (missing) marks a reduced grid's rows.
+			for k, p := range []*int{&m.Ni, &m.Nj} {
+				if v := u16(gds[6+2*k:]); v != 0xffff {
+					*p = v
+				}
+			}
+		}
 		if m.Grid == 0 && len(gds) >= 28 && u16(gds[6:]) != 0xffff {
 			gridOK = true
 			m.Ni, m.Nj = u16(gds[6:]), u16(gds[8:])
@@ -113,10 +124,10 @@ func decodeGRIB1(msg []byte, src string, index int, base int64, values bool, scr
 			}
 		}
 	}
-	if m.Param != ParamOther && !gridOK {
+	if values && m.Param != ParamOther && !gridOK && m.Grid >= 0 {
 		return unsup(8, remedyRegrid, "GRIB1 grid (data representation type %d, GRIB1 table 6; only 0 regular lat/lon)", m.Grid)
 	}
-	if m.Param != ParamOther && (m.Ni == 0 || m.Nj == 0 || ((m.Di <= 0 || m.Dj <= 0) && m.Ni*m.Nj > 1)) {
+	if m.Param != ParamOther && gridOK && (m.Ni == 0 || m.Nj == 0 || ((m.Di <= 0 || m.Dj <= 0) && m.Ni*m.Nj > 1)) {
 		return ferr(8, "grid Ni %d, Nj %d, Di %g, Dj %g", m.Ni, m.Nj, m.Di, m.Dj)
 	}
 	npoints := m.Ni * m.Nj
@@ -130,12 +141,12 @@ func decodeGRIB1(msg []byte, src string, index int, base int64, values bool, scr
 		}
 		m.Bitmap = true
 		if u16(bms[4:]) != 0 {
-			if m.Param != ParamOther {
-				return unsup(pos-len(bms)+4, remedyRepack1, "GRIB1 predefined bitmap %d", u16(bms[4:]))
+			if values && m.Param != ParamOther {
+				return unsup(pos-len(bms)+4, remedyNone, "GRIB1 predefined bitmap %d", u16(bms[4:]))
 			}
 		} else {
 			bitmap = bms[6:]
-			if m.Param != ParamOther && len(bitmap)*8 < npoints {
+			if m.Param != ParamOther && gridOK && len(bitmap)*8 < npoints {
 				return ferr(pos-len(bms), "bitmap of %d bits is shorter than %d grid points", len(bitmap)*8, npoints)
 			}
 		}
@@ -161,13 +172,13 @@ func decodeGRIB1(msg []byte, src string, index int, base int64, values bool, scr
 		return fn(&m)
 	}
 	if bds[3]&0x80 != 0 {
-		return unsup(bdsAt+3, remedyRegrid, "GRIB1 spherical harmonic coefficients")
+		return unsup(bdsAt+3, remedySpectral, "GRIB1 spherical harmonic coefficients")
 	}
 	if bds[3]&0x40 != 0 {
 		return unsup(bdsAt+3, remedyRepack1, "GRIB1 complex (second-order) packing")
 	}
 	if m.ScanMode&0x1f != 0 {
-		return unsup(8, remedyRegrid, "GRIB1 scanning mode %#02x", m.ScanMode)
+		return unsup(8, remedyNone, "GRIB1 scanning mode %#02x (bits 4-8 are reserved in GRIB1 table 8)", m.ScanMode)
 	}
 	n := npoints
 	if bitmap != nil {
@@ -179,7 +190,10 @@ func decodeGRIB1(msg []byte, src string, index int, base int64, values bool, scr
 		return ferr(bdsAt, "%d values of %d bits need %d bytes, section 4 holds %d", n, nbits, (uint64(n)*uint64(nbits)+7)/8, len(bds)-11)
 	}
 	if npoints > maxPoints {
-		return unsup(8, "", "grid of %d points (limit %d)", npoints, maxPoints)
+		return unsup(8, remedyArea, "grid of %d points (limit %d)", npoints, maxPoints)
+	}
+	if err := scratch.chargeValues(src, index, npoints); err != nil {
+		return err
 	}
 	vals := scratch.floats(n, npoints)
 	unpackSimple(vals, bds[11:], uint(nbits), ibmFloat(u32(bds[6:])), s16(bds[4:]), dec)

@@ -234,10 +234,17 @@ func lonSpan(lon1, lon2 float64, negative bool) float64 {
 }
 
 // productDefinition reads section 4: octets 6-7 number of coordinate
-// values, 8-9 template; templates 4.0/4.1: 10 category, 11 number,
-// 18 unit of time range, 19-22 forecast time, 23 type of first fixed
-// surface, 24 scale factor, 25-28 scaled value; 4.1 adds 35 type of
-// ensemble forecast, 36 perturbation number, 37 number of members.
+// values, 8-9 template. Templates 4.0 to 4.15 share octets 10-34 of 4.0:
+// 10 category, 11 number, 18 unit of time range, 19-22 forecast time,
+// 23 type of first fixed surface, 24 scale factor, 25-28 scaled value;
+// 4.1 and 4.11 add 35 type of ensemble forecast, 36 perturbation number,
+// 37 number of members. The statistically processed templates (4.8 to
+// 4.12) give the end of the overall time interval (year 2 octets, month,
+// day, hour, minute, second), which is their valid time as in ecCodes'
+// validityDate: 4.8 at octet 35, 4.9 at 48, 4.10 at 36, 4.11 at 38, 4.12
+// at 37 (WMO FM 92 GRIB2 templates; ecCodes grib2/template.4.*.def).
+// Only 4.0 and 4.1 fields are kept; the others are listed with their level
+// and, where the template gives it, valid time (zero otherwise).
 func (d *grib2Decoder) productDefinition(s []byte) error {
 	if !d.haveGrid {
 		return d.formatErr(d.pos, "section 4 before any section 3")
@@ -249,41 +256,85 @@ func (d *grib2Decoder) productDefinition(s []byte) error {
 	d.productOK = false
 	c := &d.cur
 	c.Edition = 2
-	c.Source, c.Index = d.src, d.index
+	c.Source, c.Index, c.Offset = d.src, d.index, d.base
 	c.Discipline = d.discipline
 	c.Product = u16(s[7:])
 	c.Category, c.Number = int(s[9]), int(s[10])
 	c.Param = ParamOther
 	c.LevelType, c.Level = -1, math.NaN()
-	c.RefTime, c.ValidTime = d.ref, d.ref
+	c.RefTime, c.ValidTime = d.ref, time.Time{}
 	c.Ensemble = -1
-	if c.Product != 0 && c.Product != 1 {
-		return nil // statistically processed and other products: listed, not kept
+	kept := c.Product == 0 || c.Product == 1
+	if c.Product > 15 || c.Product == 13 || c.Product == 14 {
+		return nil // other layouts (4.13/4.14 cluster lists, 4.20 radar, 4.30 satellite, ...): listed, not kept
 	}
-	need := 34
-	if c.Product == 1 {
-		need = 37
+	need := map[int]int{1: 37, 8: 41, 9: 54, 10: 42, 11: 44, 12: 43}[c.Product]
+	if need == 0 {
+		need = 34
 	}
 	if nv := u16(s[5:]); len(s) < need+4*nv {
+		if !kept {
+			return nil // too short to read: listed without time and level
+		}
 		return d.formatErr(d.pos, "product template 4.%d with %d coordinate values needs %d octets, section has %d", c.Product, nv, need+4*nv, len(s))
 	}
-	step, ok := timeUnit(int(s[17]))
-	if !ok {
-		return d.unsupported(d.pos+17, "", "product template 4.%d: unit of time range %d (code table 4.4)", c.Product, s[17])
-	}
-	c.ValidTime = d.ref.Add(time.Duration(s32(s[18:])) * step)
 	if s[22] != 255 {
 		c.LevelType = int(s[22])
 		if s[23] != 255 || u32(s[24:]) != math.MaxUint32 {
 			c.Level = float64(u32(s[24:])) / pow10(s8(s[23:]))
 		}
 	}
-	if c.Product == 1 {
+	if c.Product == 1 || c.Product == 11 {
 		c.Ensemble = int(s[35])
+	}
+	if end := map[int]int{8: 34, 9: 47, 10: 35, 11: 37, 12: 36}[c.Product]; end > 0 {
+		e := s[end:]
+		if t, ok := dateTime(u16(e), int(e[2]), int(e[3]), int(e[4]), int(e[5]), int(e[6])); ok {
+			c.ValidTime = t
+		}
+		return nil
+	}
+	step, ok := timeUnit(int(s[17]))
+	if !ok {
+		if !kept {
+			return nil
+		}
+		return d.unsupported(d.pos+17, remedyTime, "product template 4.%d: unit of time range %d (code table 4.4)", c.Product, s[17])
+	}
+	vt, ok := addSteps(d.ref, s32(s[18:]), step)
+	if !ok {
+		if !kept {
+			return nil
+		}
+		return d.formatErr(d.pos+18, "forecast time %d x %v puts the valid time outside years 1..9999", s32(s[18:]), step)
+	}
+	c.ValidTime = vt
+	if !kept {
+		return nil
 	}
 	c.Param = classify2(c.Discipline, c.Category, c.Number, c.LevelType, c.Level)
 	d.productOK = true
 	return nil
+}
+
+// addSteps returns t + n*step in whole seconds, computed in int64 seconds
+// so that no forecast time wraps (n*step overflows time.Duration past 292
+// years), and whether the result lies in years 1..9999 (the years RFC 3339
+// can write). Every GRIB2 unit of time (code table 4.4) is a whole number
+// of seconds and |n| < 2^31, so the products fit easily in int64.
+func addSteps(t time.Time, n int64, step time.Duration) (time.Time, bool) {
+	sec := t.Unix() + n*int64(step/time.Second)
+	v := time.Unix(sec, 0).UTC()
+	return v, v.Year() >= 1 && v.Year() <= 9999
+}
+
+// dateTime is the time of a GRIB date (year, month, day, hour, minute,
+// second), if valid.
+func dateTime(year, month, day, hour, minute, second int) (time.Time, bool) {
+	if month < 1 || month > 12 || day < 1 || day > 31 || hour > 23 || minute > 59 || second > 59 {
+		return time.Time{}, false
+	}
+	return time.Date(year, time.Month(month), day, hour, minute, second, 0, time.UTC), true
 }
 
 // timeUnit maps GRIB2 code table 4.4 to a duration.
@@ -395,7 +446,7 @@ func (d *grib2Decoder) bitmapSection(s []byte) error {
 		d.bitmap = nil
 		d.cur.Bitmap = true
 		if d.cur.Param != ParamOther && d.values {
-			return d.unsupported(d.pos+5, remedyRepack, "predefined bitmap %d (section 6)", ind)
+			return d.unsupported(d.pos+5, remedyNone, "predefined bitmap %d (section 6)", ind)
 		}
 		return nil
 	}
@@ -422,10 +473,13 @@ func (d *grib2Decoder) data(s []byte) error {
 		return d.formatErr(d.pos, "grid increments Di %g, Dj %g must be positive", m.Di, m.Dj)
 	}
 	if m.ScanMode&0x0f != 0 {
-		return d.unsupported(d.pos, remedyRegrid, "scanning mode %#02x (offset or staggered rows, code table 3.4 bits 5-8)", m.ScanMode)
+		return d.unsupported(d.pos, remedyNone, "scanning mode %#02x (offset or staggered rows, code table 3.4 bits 5-8)", m.ScanMode)
 	}
 	if d.npoints > maxPoints {
-		return d.unsupported(d.pos, "", "grid of %d points (limit %d)", d.npoints, maxPoints)
+		return d.unsupported(d.pos, remedyArea, "grid of %d points (limit %d)", d.npoints, maxPoints)
+	}
+	if err := d.scratch.chargeValues(d.src, d.index, d.npoints); err != nil {
+		return err
 	}
 	present := d.npoints
 	if d.bitmap != nil {

@@ -1,10 +1,7 @@
 package winds
 
 import (
-	"bufio"
 	"bytes"
-	"fmt"
-	"io"
 	"math"
 	"time"
 )
@@ -40,6 +37,7 @@ const LevelIsobaric = 100
 type Message struct {
 	Source  string // name given to Scan or Decode
 	Index   int    // 1-based message number in the file
+	Offset  int64  // byte offset of the message in the (decompressed) file
 	Edition int    // 1 or 2
 
 	// GRIB2: discipline, parameter category and number (code tables 0.0,
@@ -82,121 +80,27 @@ func (m *Message) Origin() (north, west float64) {
 	return north, west
 }
 
-// Scan reads every message of a GRIB1 or GRIB2 stream and returns the
-// headers of all fields, kept or not, without decoding values. Structure
-// and lengths are validated as in Decode.
-func Scan(r io.Reader, source string) ([]Message, error) { return collect(r, source, false) }
-
-// Decode reads every message of a GRIB1 or GRIB2 stream and returns all
-// fields, with Values decoded for kept parameters (Param != ParamOther) and
-// nil for the others. Time is linear in the number of grid points.
-func Decode(r io.Reader, source string) ([]Message, error) { return collect(r, source, true) }
-
-// collect returns every field of the stream, with values when values is
-// set, each in its own slice.
-func collect(r io.Reader, source string, values bool) ([]Message, error) {
-	var out []Message
-	err := readMessages(r, source, values, &decodeScratch{}, func(m *Message) error {
-		out = append(out, *m)
-		return nil
-	})
-	return out, err
-}
-
 // maxPoints bounds the grid size this package allocates for: 2^24 points
 // (64 MiB of float32 per field; a 0.1-degree global grid has 6.5 million).
 // It matters for constant fields, whose data section is empty whatever the
 // grid size, so the data cannot bound the allocation.
 const maxPoints = 1 << 24
 
-// readMessages streams messages from r, reading each whole message into
-// scratch's buffer, and calls fn for each field. The buffer grows with the
-// bytes actually read, never to a declared length alone. With
-// scratch.reuse, the Values given to fn are scratch buffers, overwritten
-// by the next field.
-func readMessages(r io.Reader, source string, values bool, scratch *decodeScratch, fn func(*Message) error) error {
-	br := bufio.NewReaderSize(r, 1<<16)
-	buf := &scratch.msg
-	var off int64
-	for index := 1; ; index++ {
-		head, err := br.Peek(16)
-		if len(head) == 0 && err == io.EOF {
-			if index == 1 {
-				return &FormatError{source, 0, 0, "empty input"}
-			}
-			return nil
-		}
-		if allZero(head) && len(head) < 16 {
-			// Trailing zero padding shorter than a message header.
-			return nil
-		}
-		if len(head) < 8 {
-			return &FormatError{source, index, off, fmt.Sprintf("truncated indicator section: %d bytes", len(head))}
-		}
-		if string(head[:4]) != "GRIB" {
-			if allZero(head) {
-				if rest, _ := io.ReadAll(br); allZero(rest) {
-					return nil // zero padding at the end of the file
-				}
-			}
-			return &FormatError{source, index, off, fmt.Sprintf("wrong magic %q, want \"GRIB\"", head[:4])}
-		}
-		var length uint64
-		switch head[7] {
-		case 1:
-			length = uint64(u24(head[4:7]))
-		case 2:
-			if len(head) < 16 {
-				return &FormatError{source, index, off, "truncated indicator section"}
-			}
-			length = u64(head[8:16])
-		default:
-			return &UnsupportedError{source, index, off, fmt.Sprintf("GRIB edition %d", head[7]), ""}
-		}
-		if length < 20 || length > 1<<40 {
-			return &FormatError{source, index, off, fmt.Sprintf("total length %d out of range", length)}
-		}
-		buf.Reset()
-		n, err := buf.ReadFrom(io.LimitReader(br, int64(length)))
-		if err != nil {
-			return &FormatError{source, index, off, "read: " + err.Error()}
-		}
-		if uint64(n) != length {
-			return &FormatError{source, index, off, fmt.Sprintf("truncated: declared length %d, %d bytes present", length, n)}
-		}
-		msg := buf.Bytes()
-		if head[7] == 1 {
-			err = decodeGRIB1(msg, source, index, off, values, scratch, fn)
-		} else {
-			d := grib2Decoder{src: source, index: index, base: off, msg: msg, values: values, fn: fn, scratch: scratch}
-			err = d.decode()
-		}
-		if err != nil {
-			return err
-		}
-		off += int64(length)
-	}
-}
-
-func allZero(p []byte) bool {
-	for _, c := range p {
-		if c != 0 {
-			return false
-		}
-	}
-	return true
-}
-
 // decodeScratch holds buffers reused between messages and fields: the
 // message bytes, the integers of complex unpacking and, when reuse is set
 // (for a caller that copies each field's values before the next, as Open
-// does), the float32 values themselves.
+// does), the float32 values themselves; and the read's budget and
+// warnings.
 type decodeScratch struct {
 	msg   bytes.Buffer
 	ints  []int64
 	reuse bool
 	vals  []float32 // values as unpacked, then canonical (in place)
 	perm  []float32 // canonical values of j-consecutive scanning
+
+	budget int64         // bytes (see Options.Budget)
+	used   uint64        // bytes charged so far
+	warn   func(Warning) // nil: warnings dropped
 }
 
 // floats returns n float32s with capacity c >= n for one field's values:

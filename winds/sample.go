@@ -16,7 +16,9 @@ const tol = 1e-9
 // enclosing valid times. A field with a single level or time answers only
 // at that level or time. Points outside the grid area (a regional grid),
 // the levels or the times are a *RangeError; the field never
-// extrapolates. Global grids wrap across their last column to the first.
+// extrapolates, except that a pressure within 0.2 % outside the top or
+// bottom level is sampled at that level (levelSlack: FL340 is 1 Pa above
+// 250 hPa). Global grids wrap across their last column to the first.
 // Sample takes constant time (binary search over levels and times) and
 // does not allocate unless it returns an error.
 func (f *Field) Sample(lat, lon, p float64, t time.Time) (Sample, error) {
@@ -73,7 +75,7 @@ func (f *Field) Sample(lat, lon, p float64, t time.Time) (Sample, error) {
 		}
 	}
 	// Pressure: levels descend, so ln p descends.
-	k0, k1, fp, ok := bracket(f.lnp, math.Log(p), true)
+	k0, k1, fp, ok := bracket(f.lnp, f.clampLevel(math.Log(p)), true)
 	if !ok {
 		return out, f.rangeErr(lat, lon, p, t, "pressure")
 	}

@@ -8,6 +8,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"levelpath/cmd/levelpath/internal/planout"
+	"levelpath/optimizer"
 	"levelpath/perf"
 )
 
@@ -102,7 +103,7 @@ func newAircraftListCmd() *cobra.Command {
 			return writeJSON(out, struct {
 				Caution  string         `json:"caution"`
 				Aircraft []aircraftJSON `json:"aircraft"`
-			}{cautionLine, all})
+			}{optimizer.Caution, all})
 		}
 		tw := tabwriter.NewWriter(out, 0, 0, 2, ' ', 0)
 		fmt.Fprintln(tw, "NAME\tMTOW kg\tMMO\tCEILING\tDESCRIPTION")
@@ -110,7 +111,7 @@ func newAircraftListCmd() *cobra.Command {
 			fmt.Fprintf(tw, "%s\t%.0f\t%.2f\tFL%.0f\t%s\n", d.Name, d.MTOWKg, d.MMO, d.CeilingFL, d.Description)
 		}
 		tw.Flush()
-		fmt.Fprintf(out, "\nAny YAML file in the format of perf/aircraft/README.md is accepted too (--aircraft FILE).\n%s\n", cautionText)
+		fmt.Fprintf(out, "\nAny YAML file in the format of perf/aircraft/README.md is accepted too (--aircraft FILE).\n%s\n", "Caution: "+optimizer.Caution)
 		return nil
 	}
 	return c
@@ -138,7 +139,7 @@ func newAircraftShowCmd() *cobra.Command {
 		}
 		out := cmd.OutOrStdout()
 		if *format == "json" {
-			d.Caution = cautionLine
+			d.Caution = optimizer.Caution
 			return writeJSON(out, d)
 		}
 		flOf := func(x *float64) string {
@@ -155,7 +156,7 @@ func newAircraftShowCmd() *cobra.Command {
 		fmt.Fprintf(tw, "  buffet-limited level\t%s\n  thrust-limited level ISA / ISA+20\t%s / %s\n  optimum level ISA\t%s\n",
 			flOf(d.RefMaxFLBuffet), flOf(d.RefMaxFLThrust), flOf(d.RefMaxFLHot), flOf(d.RefOptimumFL))
 		tw.Flush()
-		fmt.Fprintf(out, "Levels are rounded down to whole flight levels.\n\n%s\n", cautionText)
+		fmt.Fprintf(out, "Levels are rounded down to whole flight levels.\n\n%s\n", "Caution: "+optimizer.Caution)
 		return nil
 	}
 	return c
@@ -216,7 +217,7 @@ func newAircraftExportCmd() *cobra.Command {
 		}
 		fmt.Fprintf(cmd.OutOrStdout(), "wrote %s and %s to %s: %d cruise fuel-flow points (%d masses, %d levels, %d Mach, %d ISA deviations)\n"+
 			"Planning from tables is not supported yet; the tables are for inspection and exchange.\n%s\n",
-			perf.TablesManifest, perf.CruiseFuelFlowFile, out, len(ms)*len(fls)*len(machs)*len(devs), len(ms), len(fls), len(machs), len(devs), cautionText)
+			perf.TablesManifest, perf.CruiseFuelFlowFile, out, len(ms)*len(fls)*len(machs)*len(devs), len(ms), len(fls), len(machs), len(devs), "Caution: "+optimizer.Caution)
 		return nil
 	}
 	return c

@@ -47,7 +47,7 @@ func TestAircraftCommands(t *testing.T) {
 		t.Fatal(err)
 	}
 	code, out, errs = runCLI(t, "aircraft", "show", path)
-	if code != 0 || !strings.Contains(out, "mine:") || !strings.Contains(out, "source: file "+path) || !strings.Contains(out, "CAUTION") {
+	if code != 0 || !strings.Contains(out, "mine:") || !strings.Contains(out, "source: file "+path) || !strings.Contains(out, "Caution: ") {
 		t.Errorf("show file: exit %d\n%s%s", code, out, errs)
 	}
 	if code, _, errs := runCLI(t, "aircraft", "show", "no-such-type"); code != 2 || !strings.Contains(errs, "no-such-type") {

@@ -134,6 +134,7 @@ func newBatchCmd() *cobra.Command {
 		schedule, out, sweep, shard, chartPath string
 		weather                                []string
 		workers, shardCount                    int
+		budgetMiB                              int64
 		resume                                 bool
 		maxSegNM                               float64
 		maxStepFt, maxSteps                    int
@@ -154,6 +155,7 @@ func newBatchCmd() *cobra.Command {
 	fl.StringVar(&schedule, "schedule", "", "schedule CSV: flight,departure,route,aircraft,tow_kg,ci (+ zfw_kg,fuel_kg,floor_g,levels,speed)")
 	fl.StringArrayVar(&weather, "weather", nil, "GRIB2/GRIB1 weather file (repeatable), decoded once and shared")
 	fl.StringVar(&out, "out", "", "output directory")
+	weatherBudgetFlag(c, &budgetMiB)
 	fl.IntVar(&workers, "workers", 0, "parallel planners (default: one per CPU)")
 	fl.StringVar(&sweep, "ci-sweep", "", "plan every flight at each cost index, e.g. 0,20,50,100")
 	fl.StringVar(&shard, "shard", "", "plan only shard K/N of the flights (0-based K); also read from JOB_COMPLETION_INDEX with --shard-count, or SLURM_ARRAY_TASK_ID/SLURM_ARRAY_TASK_COUNT")
@@ -215,7 +217,7 @@ func newBatchCmd() *cobra.Command {
 		if err != nil {
 			return badInput(err)
 		}
-		wx, err := loadWeather(weather)
+		wx, err := loadWeather(weather, budgetMiB)
 		if err != nil {
 			return err
 		}
@@ -325,6 +327,6 @@ func printBatchSummary(w io.Writer, format string, s batch.Summary) error {
 		fmt.Fprintf(tw, "%g\t%d\t%d\t%.0f\t%.1f\t%.0f\t%.1f\t\n", b.CI, b.Flights, b.Failed, b.FuelKg, b.TimeMin/60, b.Cost, b.CO2Kg/1000)
 	}
 	tw.Flush()
-	fmt.Fprintf(w, "\n%s\n", cautionText)
+	fmt.Fprintf(w, "\n%s\n", "Caution: "+optimizer.Caution)
 	return nil
 }

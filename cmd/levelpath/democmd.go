@@ -29,7 +29,7 @@ that made it. Everything in the scenario is invented.`,
 		}
 		fs, err := demo.Write(dir)
 		if err != nil {
-			return badInputf("demo: writing %s: %v", dir, err)
+			return badInputf("demo: writing %s: %w", dir, err)
 		}
 		f := demo.Schedule()[0]
 		args := []string{"plan", "--route", fs.Route, "--aircraft", f.Aircraft, "--mass", fmt.Sprintf("%.0f", f.TOW),

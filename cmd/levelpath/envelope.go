@@ -9,6 +9,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"levelpath/cmd/levelpath/internal/planout"
+	"levelpath/optimizer"
 	"levelpath/perf"
 )
 
@@ -43,7 +44,7 @@ type envelopeJSON struct {
 }
 
 func envelopeDoc(e perf.Envelope) envelopeJSON {
-	d := envelopeJSON{Caution: cautionLine, Aircraft: e.Aircraft, MassKg: e.Mass, ISADevC: e.ISADev, FloorG: e.Floor,
+	d := envelopeJSON{Caution: optimizer.Caution, Aircraft: e.Aircraft, MassKg: e.Mass, ISADevC: e.ISADev, FloorG: e.Floor,
 		MaxFLBuffet: planout.Number(e.MaxFLBuffet), MaxFLThrust: planout.Number(e.MaxFLThrust), MaxFLCertified: e.MaxFLCertified,
 		MaxFL: planout.Number(e.MaxFL), OptimumFL: planout.Number(e.OptimumFL), Rows: []envelopeRowJSON{}}
 	for _, r := range e.Rows {
@@ -136,7 +137,7 @@ func newEnvelopeCmd() *cobra.Command {
 				r.MMO, machStr(r.LRCMach), fpmStr(r.ResidualClimbFPM))
 		}
 		tw.Flush()
-		fmt.Fprintf(out, "\n%s\n", cautionText)
+		fmt.Fprintf(out, "\n%s\n", "Caution: "+optimizer.Caution)
 		return nil
 	}
 	return c

@@ -3,7 +3,6 @@ package main
 import (
 	"fmt"
 	"math"
-	"os"
 	"strconv"
 	"strings"
 	"text/tabwriter"
@@ -42,6 +41,7 @@ type gridMsgJSON struct {
 	Lon1       float64  `json:"lon1"`
 	Lat2       float64  `json:"lat2"`
 	Lon2       float64  `json:"lon2"`
+	Grid       int      `json:"grid"`
 	Packing    int      `json:"packing"`
 	Ensemble   int      `json:"ensemble"`
 	Kept       bool     `json:"kept"`
@@ -60,21 +60,19 @@ func newGridInfoCmd() *cobra.Command {
 			return err
 		}
 		var all []gridMsgJSON
+		// Warnings (zero padding skipped) go to stderr; a directory,
+		// device or FIFO is refused before it is opened.
+		opts := winds.Options{Warn: func(w winds.Warning) { warnf(cmd.ErrOrStderr(), "%s", w) }}
 		for _, path := range args {
-			f, err := os.Open(path)
-			if err != nil {
-				return badInput(err)
-			}
-			msgs, err := winds.Scan(f, path)
-			f.Close()
+			msgs, err := opts.ScanFile(path)
 			if err != nil {
 				return badInput(err)
 			}
 			for _, m := range msgs {
 				j := gridMsgJSON{File: path, Message: m.Index, Edition: m.Edition, Discipline: m.Discipline, Category: m.Category,
 					Number: m.Number, Parameter: string(m.Param), LevelType: m.LevelType, RefTime: m.RefTime.UTC().Format(time.RFC3339),
-					ValidTime: m.ValidTime.UTC().Format(time.RFC3339), Ni: m.Ni, Nj: m.Nj, Lat1: m.Lat1, Lon1: m.Lon1, Lat2: m.Lat2,
-					Lon2: m.Lon2, Packing: m.Packing, Ensemble: m.Ensemble, Kept: m.Param != "other"}
+					ValidTime: validTime(m.ValidTime), Ni: m.Ni, Nj: m.Nj, Lat1: m.Lat1, Lon1: m.Lon1, Lat2: m.Lat2,
+					Lon2: m.Lon2, Grid: m.Grid, Packing: m.Packing, Ensemble: m.Ensemble, Kept: m.Param != "other"}
 				if m.LevelType == 100 {
 					j.LevelHPa = planout.Number(m.Level / 100)
 				}
@@ -89,7 +87,7 @@ func newGridInfoCmd() *cobra.Command {
 			return writeJSON(out, all)
 		}
 		tw := tabwriter.NewWriter(out, 0, 0, 1, ' ', 0)
-		fmt.Fprintln(tw, "file\tmsg\ted\tparam\t(d.c.n)\tlevel hPa\tref time\tvalid time\tni x nj\tarea\tpacking\t")
+		fmt.Fprintln(tw, "file\tmsg\ted\tparam\t(d.c.n)\tlevel hPa\tref time\tvalid time\tgrid\tni x nj\tarea\tpacking\t")
 		for _, m := range all {
 			lv := "-"
 			if m.LevelHPa != nil {
@@ -99,12 +97,21 @@ func newGridInfoCmd() *cobra.Command {
 			if !m.Kept {
 				name += " (skipped)"
 			}
-			fmt.Fprintf(tw, "%s\t%d\t%d\t%s\t%d.%d.%d\t%s\t%s\t%s\t%dx%d\t%g,%g..%g,%g\t%d\t\n", m.File, m.Message, m.Edition, name,
-				m.Discipline, m.Category, m.Number, lv, m.RefTime, m.ValidTime, m.Ni, m.Nj, m.Lat1, m.Lon1, m.Lat2, m.Lon2, m.Packing)
+			fmt.Fprintf(tw, "%s\t%d\t%d\t%s\t%d.%d.%d\t%s\t%s\t%s\t%d\t%dx%d\t%g,%g..%g,%g\t%d\t\n", m.File, m.Message, m.Edition, name,
+				m.Discipline, m.Category, m.Number, lv, m.RefTime, m.ValidTime, m.Grid, m.Ni, m.Nj, m.Lat1, m.Lon1, m.Lat2, m.Lon2, m.Packing)
 		}
 		return tw.Flush()
 	}
 	return c
+}
+
+// validTime formats a message's valid time, "-" when its product template
+// gives none.
+func validTime(t time.Time) string {
+	if t.IsZero() {
+		return "-"
+	}
+	return t.UTC().Format(time.RFC3339)
 }
 
 type sampleJSON struct {
@@ -121,6 +128,7 @@ type sampleJSON struct {
 func newGridSampleCmd() *cobra.Command {
 	var at, tm string
 	var hpa, fl float64
+	var budgetMiB int64
 	c := &cobra.Command{
 		Use:     "sample FILE...",
 		Short:   "Sample wind, temperature and EDR at a point, pressure (or flight level) and time",
@@ -129,6 +137,7 @@ func newGridSampleCmd() *cobra.Command {
 	}
 	format := formatFlag(c, "table", "json")
 	c.Flags().StringVar(&at, "at", "", "point LAT,LON in degrees")
+	weatherBudgetFlag(c, &budgetMiB)
 	c.Flags().Float64Var(&hpa, "hpa", 0, "pressure level, hPa")
 	c.Flags().Float64Var(&fl, "fl", 0, "flight level (converted with the ICAO standard atmosphere)")
 	c.Flags().StringVar(&tm, "time", "", "valid time, RFC3339 (default: the first valid time)")
@@ -158,9 +167,12 @@ func newGridSampleCmd() *cobra.Command {
 			}
 			p = perf.FLToPressure(fl)
 		}
-		field, err := openWeather(args, 0, math.Inf(1)) // every level, not only the cruise band
+		field, err := openWeather(args, 0, math.Inf(1), budgetMiB) // every level, not only the cruise band
 		if err != nil {
 			return err
+		}
+		for _, w := range field.Warnings() {
+			warnf(cmd.ErrOrStderr(), "%s", w)
 		}
 		t := field.Times()[0]
 		if tm != "" {

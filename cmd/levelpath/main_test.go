@@ -348,7 +348,7 @@ func TestBatchCLI(t *testing.T) {
 
 // TestRouteCommand: JSON fields, the GeoJSON form, and a bad route naming
 // its point. The length is checked against GeographicLib (GeodSolve 2.1.2,
-// REFERENCES.md): (40.6, -73.8) -> (51.6, -0.5) is 5551759.400319 m.
+// testdata/REFERENCES.md): (40.6, -73.8) -> (51.6, -0.5) is 5551759.400319 m.
 func TestRouteCommand(t *testing.T) {
 	code, out, errs := runCLI(t, "route", "40.6,-73.8 51.6,-0.5", "--date", "2026-12-01", "--format", "json")
 	if code != 0 {
@@ -396,7 +396,7 @@ func TestWeatherCoverage(t *testing.T) {
 	// A regional field over the Pacific: the Lakeport route lies outside.
 	dir := t.TempDir()
 	var msgs []winds.Message
-	ref := demo.Ref
+	ref := demo.Ref()
 	for _, h := range []int{0, 24} {
 		for _, p := range []float64{30000, 25000, 20000} {
 			for _, f := range []struct {
@@ -420,7 +420,7 @@ func TestWeatherCoverage(t *testing.T) {
 	}
 	os.WriteFile(path, buf.Bytes(), 0o644)
 	code, _, errs := runCLI(t, "plan", "--route", fs.Routes[3], "--aircraft", "demo-regional", "--mass", "36000", "--weather", path, "--depart", "2026-12-01T20:00:00Z")
-	if code != 2 || !strings.Contains(errs, "weather") || !strings.Contains(errs, "segment 0") {
+	if code != 2 || !strings.Contains(strings.ToLower(errs), "weather") || !strings.Contains(errs, "segment 0") {
 		t.Errorf("weather off the route: exit %d, %q", code, errs)
 	}
 	// The ecCodes fixture g2_regional.grib2 holds temperature only.
@@ -510,7 +510,7 @@ func TestBatchStepPolicy(t *testing.T) {
 }
 
 // TestExitCodeClasses: a command's own failure exits 1, its bad-input
-// error 2, and cobra's rejection of the command line 2 (DESIGN.md).
+// error 2, and cobra's rejection of the command line 2 (README, "Commands"; testdata/REFERENCES.md, "Exit codes").
 func TestExitCodeClasses(t *testing.T) {
 	saved := subcommands
 	defer func() { subcommands = saved }()
@@ -547,5 +547,44 @@ func TestBatchZFWAndFuel(t *testing.T) {
 	eb, _ := os.ReadFile(filepath.Join(out, "errors.csv"))
 	if !strings.Contains(string(eb), "Z2") || !strings.Contains(string(eb), "fuel capacity") || strings.Contains(string(eb), "Z1") {
 		t.Errorf("errors.csv: %s", eb)
+	}
+}
+
+// TestPlanAlternatives: --alternatives K lists K distinct profiles besides
+// the plan's own in the JSON, none cheaper than the plan beyond the
+// search's 0.2 % pricing tolerance (optimizer.TestAlternativesMatchEnumeration
+// checks them against an exhaustive enumeration).
+func TestPlanAlternatives(t *testing.T) {
+	fs := demoFiles(t)
+	code, out, errs := runCLI(t, "plan", "--route", fs.Routes[2], "--aircraft", "demo-narrowbody", "--mass", "70000",
+		"--weather", fs.Weather, "--depart", "2026-12-01T20:00:00Z", "--alternatives", "2", "--format", "json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	var d struct {
+		Profile string `json:"profile"`
+		Totals  struct {
+			Cost float64 `json:"cost"`
+		} `json:"totals"`
+		Alternatives []struct {
+			Profile   string  `json:"profile"`
+			CostDelta float64 `json:"cost_delta"`
+		} `json:"alternatives"`
+	}
+	if err := json.Unmarshal([]byte(out), &d); err != nil {
+		t.Fatal(err)
+	}
+	if len(d.Alternatives) != 2 {
+		t.Fatalf("%d alternatives, want 2", len(d.Alternatives))
+	}
+	seen := map[string]bool{d.Profile: true}
+	for _, a := range d.Alternatives {
+		if seen[a.Profile] || a.CostDelta < -2e-3*d.Totals.Cost {
+			t.Errorf("alternative %s (delta %.2f) repeats a profile or beats the plan %s", a.Profile, a.CostDelta, d.Profile)
+		}
+		seen[a.Profile] = true
+	}
+	if code, _, _ := runCLI(t, "plan", "--route", fs.Routes[2], "--aircraft", "demo-narrowbody", "--mass", "70000", "--alternatives", "-1"); code != 2 {
+		t.Errorf("--alternatives -1: exit %d, want 2", code)
 	}
 }

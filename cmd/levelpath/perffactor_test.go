@@ -35,7 +35,7 @@ func TestPerfFactorAndISADevFlags(t *testing.T) {
 		{[]string{"--perf-factor", "80"}, "--perf-factor"},
 		{[]string{"--perf-factor", "NaN"}, "--perf-factor"},
 		{[]string{"--isa-dev", "99"}, "--isa-dev"},
-		{[]string{"--isa-dev", "5", "--weather", fs.Weather, "--depart", "2026-12-01T21:00:00Z"}, "isa-dev"},
+		{[]string{"--isa-dev", "5", "--weather", fs.Weather, "--depart", "2026-12-01T21:00:00Z"}, "ISA deviation applies only where the weather has no temperature"},
 	} {
 		code, _, errs := runCLI(t, append(args, tc.extra...)...)
 		if code != 2 || !strings.Contains(errs, tc.want) {

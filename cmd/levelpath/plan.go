@@ -1,6 +1,7 @@
 package main
 
 import (
+	"fmt"
 	"io"
 
 	"github.com/spf13/cobra"
@@ -26,6 +27,7 @@ type planFlags struct {
 	problemFlags
 	chart, report, profile string
 	format                 *string
+	alternatives           int
 }
 
 func (f *planFlags) register(c *cobra.Command) {
@@ -43,7 +45,7 @@ func (f *planFlags) run(cmd *cobra.Command, assessed bool, price func(*optimizer
 	if err := checkOutputs(f.chart, f.report); err != nil {
 		return err
 	}
-	wx, err := loadWeather(f.weather)
+	wx, err := loadWeather(f.weather, f.budgetMiB)
 	if err != nil {
 		return err
 	}
@@ -56,6 +58,7 @@ func (f *planFlags) run(cmd *cobra.Command, assessed bool, price func(*optimizer
 	if err != nil {
 		return planErr(err)
 	}
+	plan.Warnings = append(plan.Warnings, pr.Track.Warnings...) // e.g. the polar level-rule fallback
 	if err := writeCharts(f.chart, f.report, plan, pr); err != nil {
 		return err
 	}
@@ -73,7 +76,23 @@ func newPlanCmd() *cobra.Command {
 		Args: cobra.NoArgs,
 	}
 	f.register(c)
-	c.RunE = func(cmd *cobra.Command, _ []string) error { return f.run(cmd, false, optimizer.Solve) }
+	c.Flags().IntVar(&f.alternatives, "alternatives", 0, "also list the K next-cheapest distinct profiles (levels or step points differ), each priced exactly")
+	c.RunE = func(cmd *cobra.Command, _ []string) error {
+		if f.alternatives < 0 || f.alternatives > 20 {
+			return badInputf("--alternatives %d: want 0..20", f.alternatives)
+		}
+		return f.run(cmd, false, func(p *optimizer.Problem) (*optimizer.Plan, error) {
+			plan, err := optimizer.Solve(p)
+			if err != nil || f.alternatives == 0 {
+				return plan, err
+			}
+			plan.Alternatives, err = optimizer.Alternatives(p, plan, f.alternatives)
+			if err == nil && len(plan.Alternatives) < f.alternatives {
+				plan.Warnings = append(plan.Warnings, fmt.Sprintf("%d alternative profile(s) found of the %d asked for", len(plan.Alternatives), f.alternatives))
+			}
+			return plan, err
+		})
+	}
 	return c
 }
 

@@ -5,6 +5,7 @@ import (
 	"io"
 	"math"
 	"os"
+	"slices"
 	"strconv"
 	"strings"
 	"time"
@@ -29,6 +30,7 @@ type problemFlags struct {
 	speed       string
 	floor       float64
 	levels      string
+	polar       string
 	maxSegNM    float64
 	minFL       int
 	maxFL       int
@@ -43,6 +45,7 @@ type problemFlags struct {
 	date        string
 	perfFactor  float64
 	isaDev      float64
+	budgetMiB   int64
 }
 
 func (f *problemFlags) register(c *cobra.Command) {
@@ -58,6 +61,7 @@ func (f *problemFlags) register(c *cobra.Command) {
 	fl.StringVar(&f.speed, "speed", "econ", "speed policy: econ, lrc or a Mach number such as 0.84")
 	fl.Float64Var(&f.floor, "floor", 1.3, "buffet protection floor, g (common practice 1.3)")
 	fl.StringVar(&f.levels, "levels", "", "level rule, e.g. odd-even-magnetic, odd-even-true, every-1000:290-430, list:310,350,390 (default odd-even-magnetic)")
+	fl.StringVar(&f.polar, "polar", "true", "course the magnetic level rule uses where the WMM2025 compass caution/blackout zones make the compass unreliable: true or grid")
 	fl.Float64Var(&f.maxSegNM, "max-seg-nm", 50, "longest route segment, NM")
 	fl.IntVar(&f.minFL, "min-fl", 0, "lowest cruise level (default FL100)")
 	fl.IntVar(&f.maxFL, "max-fl", 0, "highest cruise level (default: certified ceiling)")
@@ -72,36 +76,75 @@ func (f *problemFlags) register(c *cobra.Command) {
 	fl.StringVar(&f.date, "date", "", "date for magnetic variation, YYYY-MM-DD (default: departure date)")
 	fl.Float64Var(&f.perfFactor, "perf-factor", 0, "performance factor, percent: every fuel flow multiplied by 1 + PCT/100 (per tail, e.g. 2.5)")
 	fl.Float64Var(&f.isaDev, "isa-dev", 0, "temperature deviation from ISA, °C, where there is no forecast temperature (no --weather: still air at ISA+DEV)")
+	weatherBudgetFlag(c, &f.budgetMiB)
 }
 
 // loadWeather opens the weather files for planning (nil when none).
 // Cruise levels lie between FL050 and FL600: it keeps those pressure
 // levels (and one beyond each end) and drops the rest of a full forecast.
-func loadWeather(paths []string) (*winds.Field, error) {
+func loadWeather(paths []string, budgetMiB int64) (*winds.Field, error) {
 	if len(paths) == 0 {
 		return nil, nil
 	}
-	return openWeather(paths, perf.FLToPressure(600), perf.FLToPressure(50))
+	return openWeather(paths, perf.FLToPressure(600), perf.FLToPressure(50), budgetMiB)
+}
+
+// weatherBudgetFlag registers --weather-budget-mib on c.
+func weatherBudgetFlag(c *cobra.Command, v *int64) {
+	c.Flags().Int64Var(v, "weather-budget-mib", winds.DefaultBudget>>20, "memory the decoded weather may take, MiB; larger inputs are refused before decoding")
 }
 
 // openWeather opens the weather files keeping the levels from pLow to
-// pHigh (Pa); a missing file is named.
-func openWeather(paths []string, pLow, pHigh float64) (*winds.Field, error) {
+// pHigh (Pa) within a memory budget (MiB); a missing file is named.
+func openWeather(paths []string, pLow, pHigh float64, budgetMiB int64) (*winds.Field, error) {
+	if budgetMiB <= 0 || budgetMiB > 1<<24 {
+		return nil, badInputf("--weather-budget-mib %d: want 1..%d", budgetMiB, 1<<24)
+	}
 	for _, p := range paths {
-		if _, err := os.Stat(p); err != nil {
-			return nil, badInputf("weather file %s: %v", p, err)
+		fi, err := os.Stat(p)
+		if err != nil {
+			return nil, badInputf("weather file %s: %w", p, err)
+		}
+		if err := regularFile("weather file", p, fi); err != nil {
+			return nil, err
 		}
 	}
-	f, err := winds.OpenBetween(pLow, pHigh, paths...)
+	f, err := winds.Options{Budget: budgetMiB << 20}.OpenBetween(pLow, pHigh, paths...)
 	if err != nil {
 		return nil, badInput(err)
 	}
 	return f, nil
 }
 
+// regularFile refuses an input that is not a regular file (a FIFO would
+// block the read, a device never end, a directory hold no data) before
+// anything opens it.
+func regularFile(what, path string, fi os.FileInfo) error {
+	if fi.Mode().IsRegular() {
+		return nil
+	}
+	kind := "not a regular file"
+	switch m := fi.Mode(); {
+	case m.IsDir():
+		kind = "a directory"
+	case m&os.ModeNamedPipe != 0:
+		kind = "a named pipe (FIFO)"
+	case m&os.ModeDevice != 0:
+		kind = "a device"
+	}
+	return badInputf("%s %s is %s; want a regular file", what, path, kind)
+}
+
 // problem builds the optimizer problem from the flags, with weather
 // already decoded (shared by batch runs).
 func (f *problemFlags) problem(c *cobra.Command, wx *winds.Field, stderr io.Writer) (*optimizer.Problem, error) {
+	if !slices.Contains(perf.BuiltinNames(), f.aircraft) {
+		if fi, err := os.Stat(f.aircraft); err == nil {
+			if err := regularFile("aircraft file", f.aircraft, fi); err != nil {
+				return nil, err
+			}
+		}
+	}
 	a, err := loadAircraft(f.aircraft)
 	if err != nil {
 		return nil, err
@@ -117,25 +160,21 @@ func (f *problemFlags) problem(c *cobra.Command, wx *winds.Field, stderr io.Writ
 	if !(f.isaDev >= -60 && f.isaDev <= 60) {
 		return nil, badInputf("--isa-dev %v: want -60..60 °C", f.isaDev)
 	}
-	massSet := c.Flags().Changed("mass")
-	switch {
-	case massSet && (f.zfw != 0 || f.fuel != 0):
-		return nil, badInputf("give either --mass or --zfw with --fuel, not both")
-	case massSet:
-		p.TakeoffMass = f.mass
-	case f.zfw > 0 && f.fuel > 0:
-		if f.zfw > a.MZFW {
-			return nil, badInputf("--zfw %.0f kg is over MZFW %.0f kg of %s", f.zfw, a.MZFW, a.Name)
-		}
-		if f.fuel > a.FuelCapacity {
-			return nil, badInputf("--fuel %.0f kg is over the fuel capacity %.0f kg of %s", f.fuel, a.FuelCapacity, a.Name)
-		}
-		p.TakeoffMass, p.ZFW = f.zfw+f.fuel, f.zfw
-	default:
+	if f.minFL != 0 && (f.minFL < 1 || f.minFL > 600) || f.maxFL != 0 && (f.maxFL < 1 || f.maxFL > 600) {
+		return nil, badInputf("--min-fl %d, --max-fl %d: each must be 0 (the default) or a flight level 1..600", f.minFL, f.maxFL)
+	}
+	if c.Flags().Changed("mass") && !(f.mass > 0) {
+		return nil, badInputf("--mass %v: want a take-off mass in kg", f.mass)
+	}
+	if f.mass == 0 && (f.zfw > 0) != (f.fuel > 0) || f.mass == 0 && f.zfw == 0 && f.fuel == 0 {
 		return nil, badInputf("--mass (kg) or both --zfw and --fuel are required")
 	}
-	if p.TakeoffMass > a.MTOW {
-		return nil, badInputf("take-off mass %.0f kg is over MTOW %.0f kg of %s", p.TakeoffMass, a.MTOW, a.Name)
+	if err := checkFloorFlag(f.floor); err != nil {
+		return nil, err
+	}
+
+	if p.TakeoffMass, p.ZFW, err = (optimizer.Loading{TakeoffMass: f.mass, ZFW: f.zfw, Fuel: f.fuel}).Resolve(a); err != nil {
+		return nil, badInput(err)
 	}
 	if f.depart != "" {
 		t, err := time.Parse(time.RFC3339, f.depart)
@@ -143,11 +182,11 @@ func (f *problemFlags) problem(c *cobra.Command, wx *winds.Field, stderr io.Writ
 			return nil, badInputf("--depart %q: want RFC3339 such as 2026-12-01T22:00:00Z", f.depart)
 		}
 		p.Depart = t
-	} else if wx != nil {
-		p.Depart = wx.Times()[0]
-	} else {
+	} else if wx == nil {
+		// Still air: the time only dates the plan and the magnetic variation.
 		p.Depart = time.Now().UTC().Truncate(time.Minute)
-	}
+		p.Notes = append(p.Notes, "no --depart given: the current time "+p.Depart.Format(time.RFC3339)+" assumed")
+	} // else the optimizer takes the weather's first valid time and says so
 	sp, err := optimizer.ParseSpeed(f.speed)
 	if err != nil {
 		return nil, badInputf("--speed: %v", err)
@@ -170,7 +209,11 @@ func (f *problemFlags) problem(c *cobra.Command, wx *winds.Field, stderr io.Writ
 		}
 		p.Turbulence = rules
 	}
-	tr, err := buildTrack(f.route, f.levels, f.maxSegNM, f.date, p.Depart, stderr)
+	magDate := p.Depart
+	if magDate.IsZero() {
+		magDate = wx.Times()[0]
+	}
+	tr, err := buildTrackPolar(f.route, f.levels, f.polar, f.maxSegNM, f.date, magDate, stderr)
 	if err != nil {
 		return nil, err
 	}
@@ -178,8 +221,20 @@ func (f *problemFlags) problem(c *cobra.Command, wx *winds.Field, stderr io.Writ
 	return p, nil
 }
 
-// buildTrack loads a route and segments it.
+// buildTrack loads a route and segments it with the default polar policy.
 func buildTrack(arg, levels string, maxSegNM float64, date string, depart time.Time, stderr io.Writer) (*route.Track, error) {
+	return buildTrackPolar(arg, levels, route.PolarTrue, maxSegNM, date, depart, stderr)
+}
+
+// buildTrackPolar loads a route and segments it; polar is the course the
+// magnetic level rule uses in the WMM2025 compass zones (route.PolarTrue
+// or route.PolarGrid). The route's and the track's warnings go to stderr.
+func buildTrackPolar(arg, levels, polar string, maxSegNM float64, date string, depart time.Time, stderr io.Writer) (*route.Track, error) {
+	switch polar {
+	case route.PolarTrue, route.PolarGrid:
+	default:
+		return nil, badInputf("--polar %q: want %s or %s", polar, route.PolarTrue, route.PolarGrid)
+	}
 	r, err := route.Load(arg)
 	if err != nil {
 		return nil, badInput(err)
@@ -190,7 +245,7 @@ func buildTrack(arg, levels string, maxSegNM float64, date string, depart time.T
 	if math.IsNaN(maxSegNM) || maxSegNM < 1 || maxSegNM > 1000 {
 		return nil, badInputf("--max-seg-nm %v: want 1..1000", maxSegNM)
 	}
-	opt := route.Options{MaxSegment: maxSegNM * perf.NMToM}
+	opt := route.Options{MaxSegment: maxSegNM * perf.NMToM, Polar: polar}
 	if levels != "" { // else the zero rule: odd-even-magnetic
 		rule, err := route.ParseLevelRule(levels)
 		if err != nil {
@@ -204,21 +259,30 @@ func buildTrack(arg, levels string, maxSegNM float64, date string, depart time.T
 		if err != nil {
 			return nil, badInputf("--date %q: want YYYY-MM-DD", date)
 		}
-		opt.Date = d
+		// 0001-01-01 is time.Time's zero, which Build refuses as no date:
+		// clamp every given date, that one included.
+		opt.Date = clampMagDate(d, stderr)
 	case !depart.IsZero():
-		opt.Date = depart
-	}
-	if !opt.Date.IsZero() {
-		opt.Date = clampMagDate(opt.Date, stderr)
+		opt.Date = clampMagDate(depart, stderr)
 	}
 	tr, err := route.Build(r, opt)
 	if err != nil {
 		return nil, badInput(err)
 	}
+	for _, w := range tr.Warnings {
+		warnf(stderr, "%s", w)
+	}
 	return tr, nil
 }
 
-// parseBlock reads "FL370,FL390@1200-1800".
+// maxBlockNM bounds the NM distances of --block and --min-step-nm: ten
+// times the longest flight (about 10,000 NM), so every real value passes
+// and no arithmetic on one overflows.
+const maxBlockNM = 1e5
+
+// parseBlock reads "FL370,FL390@1200-1800": levels FL010 to FL600 in
+// steps of 10, distances in NM from departure with 0 <= FROM < TO <=
+// maxBlockNM.
 func parseBlock(s string) (optimizer.Block, error) {
 	var b optimizer.Block
 	lv, rng, ok := strings.Cut(s, "@")
@@ -226,16 +290,16 @@ func parseBlock(s string) (optimizer.Block, error) {
 	if !ok || !ok2 {
 		return b, badInputf("--block %q: want FL370,FL390@FROM_NM-TO_NM", s)
 	}
-	x, err1 := strconv.ParseFloat(from, 64)
-	y, err2 := strconv.ParseFloat(to, 64)
-	if err1 != nil || err2 != nil || !(x >= 0) || !(y > x) {
-		return b, badInputf("--block %q: distances must be numbers with FROM < TO", s)
+	x, err1 := strconv.ParseFloat(strings.TrimSpace(from), 64)
+	y, err2 := strconv.ParseFloat(strings.TrimSpace(to), 64)
+	if err1 != nil || err2 != nil || !(x >= 0) || !(y > x) || !(y <= maxBlockNM) {
+		return b, badInputf("--block %q: distances must be numbers of NM with 0 <= FROM < TO <= %.0f", s, float64(maxBlockNM))
 	}
 	b.FromDist, b.ToDist = x*perf.NMToM, y*perf.NMToM
 	for _, l := range strings.Split(lv, ",") {
-		n, err := strconv.Atoi(strings.TrimPrefix(strings.TrimSpace(strings.ToUpper(l)), "FL"))
-		if err != nil || n < 10 || n > 600 {
-			return b, badInputf("--block %q: level %q is not like FL370", s, l)
+		n, err := route.ParseFL(l)
+		if err != nil {
+			return b, badInputf("--block %q: level %q %v", s, l, err)
 		}
 		b.Levels = append(b.Levels, n)
 	}
@@ -247,17 +311,18 @@ func parseTurbulence(s string) ([]optimizer.TurbulenceRule, error) {
 	var out []optimizer.TurbulenceRule
 	for _, part := range strings.Split(s, ",") {
 		e, v, ok := strings.Cut(strings.TrimSpace(part), ":")
-		edr, err := strconv.ParseFloat(e, 64)
-		if !ok || err != nil || !(edr > 0) {
+		edr, err := strconv.ParseFloat(strings.TrimSpace(e), 64)
+		if !ok || err != nil || !(edr > 0) || math.IsInf(edr, 0) {
 			return nil, badInputf("--turbulence %q: item %q: want EDR:FLOOR or EDR:closed", s, part)
 		}
 		r := optimizer.TurbulenceRule{EDR: edr}
+		v = strings.TrimSpace(v)
 		if v == "closed" {
 			r.Closed = true
-		} else if fl, err := strconv.ParseFloat(v, 64); err == nil && fl >= 1 && fl <= 2.5 {
+		} else if fl, err := strconv.ParseFloat(v, 64); err == nil && optimizer.CheckFloor(fl) == nil {
 			r.Floor = fl
 		} else {
-			return nil, badInputf("--turbulence %q: item %q: floor must be 1.0..2.5 g or closed", s, part)
+			return nil, badInputf("--turbulence %q: item %q: floor must be %.1f..%.1f g or closed", s, part, optimizer.MinFloor, optimizer.MaxFloor)
 		}
 		out = append(out, r)
 	}
@@ -295,8 +360,8 @@ func clampMagDate(d time.Time, stderr io.Writer) time.Time {
 
 // stepRules checks the step flags and builds the rules.
 func stepRules(maxStepFt int, descents bool, minStepNM float64, maxSteps int, none bool) (optimizer.StepRules, error) {
-	if math.IsNaN(minStepNM) || minStepNM < 0 {
-		return optimizer.StepRules{}, badInputf("--min-step-nm %v: must be 0 or more", minStepNM)
+	if !(minStepNM >= 0 && minStepNM <= maxBlockNM) {
+		return optimizer.StepRules{}, badInputf("--min-step-nm %v: must lie in 0..%.0f", minStepNM, float64(maxBlockNM))
 	}
 	if maxStepFt < 1000 || maxStepFt > 10000 {
 		return optimizer.StepRules{}, badInputf("--max-step-ft %d: must lie in 1000..10000", maxStepFt)
@@ -309,4 +374,12 @@ func stepRules(maxStepFt int, descents bool, minStepNM float64, maxSteps int, no
 		minStep = -1 // no minimum
 	}
 	return optimizer.StepRules{MaxChange: maxStepFt, AllowDescent: descents, MinDistance: minStep, MaxSteps: maxSteps, NoSteps: none}, nil
+}
+
+// checkFloorFlag checks --floor with the optimizer's one floor range.
+func checkFloorFlag(g float64) error {
+	if err := optimizer.CheckFloor(g); err != nil {
+		return badInputf("--floor: %v", err)
+	}
+	return nil
 }

@@ -4,15 +4,19 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"io/fs"
+	"syscall"
 
 	"github.com/spf13/cobra"
+
+	"levelpath/optimizer"
 )
 
 // version is the program version, set at build time with
 // -ldflags "-X main.version=...".
 var version = "0.1.0-dev"
 
-// Exit codes shared by every command (DESIGN.md).
+// Exit codes shared by every command (README, "Commands"; testdata/REFERENCES.md, "Exit codes").
 const (
 	exitOK       = 0
 	exitInternal = 1
@@ -62,7 +66,7 @@ fuel plus cost-index-weighted time is least while every leg keeps its margin
 to low- and high-speed buffet and stays under the thrust-limited and
 certified ceilings.
 
-` + cautionText,
+Caution: ` + optimizer.Caution,
 		Version:       version,
 		SilenceUsage:  true,
 		SilenceErrors: true,
@@ -126,10 +130,29 @@ func run(args []string, stdout, stderr io.Writer) int {
 	var ie *inputError
 	var re *ranError
 	switch {
+	case environmentFailure(err):
+		return exitInternal // even when a command marked it as input
 	case errors.As(err, &ie):
 		return exitBadInput
 	case errors.As(err, &re):
 		return exitInternal
 	}
 	return exitBadInput // cobra rejected the command line itself
+}
+
+// environmentFailure reports whether err comes from the machine rather
+// than from the user's input: a full disk or quota, a read-only file
+// system, an I/O error, missing permissions, exhausted memory or file
+// descriptors. Such a failure exits 1 even if a command wrapped it as bad
+// input (writing a chart to a full disk is not the user's mistake).
+func environmentFailure(err error) bool {
+	if errors.Is(err, fs.ErrPermission) {
+		return true
+	}
+	for _, e := range []syscall.Errno{syscall.ENOSPC, syscall.EDQUOT, syscall.EROFS, syscall.EIO, syscall.ENOMEM, syscall.EMFILE, syscall.ENFILE} {
+		if errors.Is(err, e) {
+			return true
+		}
+	}
+	return false
 }

@@ -42,6 +42,13 @@ type segmentJSON struct {
 	MagVarDeg     float64   `json:"mag_var_deg"`
 	MagCourseDeg  float64   `json:"mag_course_deg"`
 	Levels        []int     `json:"levels"`
+	// HorizontalFieldNT is the WMM2025 horizontal intensity at the
+	// segment's midpoint; CompassZone is "caution" or "blackout" where
+	// the compass is unreliable, else empty; LevelCourse names the course
+	// the level rule used: magnetic, true, grid, or empty when it ignores it.
+	HorizontalFieldNT float64 `json:"horizontal_field_nt"`
+	CompassZone       string  `json:"compass_zone"`
+	LevelCourse       string  `json:"level_course"`
 }
 
 type routeJSON struct {
@@ -55,7 +62,7 @@ type routeJSON struct {
 func pj(p route.Point) pointJSON { return pointJSON{Lat: p.Lat, Lon: p.Lon, Name: p.Name} }
 
 func routeDoc(t *route.Track) routeJSON {
-	d := routeJSON{Source: t.Route.Source, TotalNM: t.Total / perf.NMToM, Warnings: append([]string{}, t.Route.Warnings...)}
+	d := routeJSON{Source: t.Route.Source, TotalNM: t.Total / perf.NMToM, Warnings: append(append([]string{}, t.Route.Warnings...), t.Warnings...)}
 	for _, l := range t.Legs {
 		d.Legs = append(d.Legs, legJSON{Index: l.Index, From: pj(l.From), To: pj(l.To), LengthNM: l.Length / perf.NMToM, InitialCourseDeg: l.InitialCourse})
 	}
@@ -66,14 +73,14 @@ func routeDoc(t *route.Track) routeJSON {
 		}
 		d.Segments = append(d.Segments, segmentJSON{Index: s.Index, Leg: s.Leg, FromNM: s.FromDist / perf.NMToM, ToNM: s.ToDist / perf.NMToM,
 			LengthNM: s.Length / perf.NMToM, Start: pj(s.Start), End: pj(s.End), TrueCourseDeg: s.TrueCourse, MagVarDeg: s.MagVar,
-			MagCourseDeg: s.MagCourse, Levels: lv})
+			MagCourseDeg: s.MagCourse, Levels: lv, HorizontalFieldNT: s.HorizontalField, CompassZone: string(s.Zone), LevelCourse: s.LevelCourse})
 	}
 	return d
 }
 
 func newRouteCmd() *cobra.Command {
 	var maxSeg float64
-	var date, levels string
+	var date, levels, polar string
 	c := &cobra.Command{
 		Use:   "route ROUTE",
 		Short: "Split a route into geodesic segments with courses, magnetic variation and allowed levels",
@@ -85,12 +92,16 @@ func newRouteCmd() *cobra.Command {
 	c.Flags().Float64Var(&maxSeg, "max-seg-nm", 50, "longest segment, NM")
 	c.Flags().StringVar(&date, "date", "", "date for magnetic variation, YYYY-MM-DD (default today)")
 	c.Flags().StringVar(&levels, "levels", "", "level rule (default odd-even-magnetic)")
+	c.Flags().StringVar(&polar, "polar", route.PolarTrue, "course the magnetic level rule uses where the WMM2025 compass caution/blackout zones make the compass unreliable: true or grid")
 	c.RunE = func(cmd *cobra.Command, args []string) error {
 		if err := checkFormat(*format, "table", "json", "geojson"); err != nil {
 			return err
 		}
 		dep := time.Now().UTC()
-		tr, err := buildTrack(args[0], levels, maxSeg, date, dep, cmd.ErrOrStderr())
+		if date == "" {
+			warnf(cmd.ErrOrStderr(), "no --date given: magnetic variation for today, %s", dep.Format("2006-01-02"))
+		}
+		tr, err := buildTrackPolar(args[0], levels, polar, maxSeg, date, dep, cmd.ErrOrStderr())
 		if err != nil {
 			return err
 		}
@@ -120,10 +131,17 @@ func newRouteCmd() *cobra.Command {
 		}
 		fmt.Fprintf(out, "Route %s: %d legs, %d segments, %.1f NM\n\n", d.Source, len(d.Legs), len(d.Segments), d.TotalNM)
 		tw := tabwriter.NewWriter(out, 0, 0, 1, ' ', tabwriter.AlignRight)
-		fmt.Fprintln(tw, "seg\tleg\tfrom NM\tto NM\tlen NM\ttrue\tvar\tmag\tlevels\t")
+		fmt.Fprintln(tw, "seg\tleg\tfrom NM\tto NM\tlen NM\ttrue\tvar\tmag\tH nT\tlevels on\tlevels\t")
 		for _, s := range d.Segments {
-			fmt.Fprintf(tw, "%d\t%d\t%.1f\t%.1f\t%.1f\t%05.1f\t%+.1f\t%05.1f\t%s\t\n", s.Index, s.Leg, s.FromNM, s.ToNM, s.LengthNM,
-				s.TrueCourseDeg, s.MagVarDeg, s.MagCourseDeg, levelList(s.Levels))
+			on := s.LevelCourse
+			if on == "" {
+				on = "-"
+			}
+			if s.CompassZone != "" {
+				on += " (" + s.CompassZone + ")"
+			}
+			fmt.Fprintf(tw, "%d\t%d\t%.1f\t%.1f\t%.1f\t%05.1f\t%+.1f\t%05.1f\t%.0f\t%s\t%s\t\n", s.Index, s.Leg, s.FromNM, s.ToNM, s.LengthNM,
+				s.TrueCourseDeg, s.MagVarDeg, s.MagCourseDeg, s.HorizontalFieldNT, on, levelList(s.Levels))
 		}
 		return tw.Flush()
 	}

@@ -12,6 +12,7 @@ import (
 	"levelpath/perf"
 	"levelpath/route"
 	"levelpath/winds"
+	"levelpath/winds/synthetic"
 )
 
 // dayType describes how the invented day uses one demo aircraft: route
@@ -73,7 +74,7 @@ func Day(dir string, n int, seed int64) (schedule string, err error) {
 		payload := (0.3 + 0.6*rng.Float64()) * (a.MZFW - a.OEW)
 		fuel := math.Min(a.FuelCapacity, ty.burnPerNM*nm*1.08+0.04*a.MTOW)
 		tow := math.Min(a.MTOW, a.OEW+payload+fuel)
-		dep := Ref.Add(time.Duration(rng.Intn(20*60)) * time.Minute)
+		dep := Ref().Add(time.Duration(rng.Intn(20*60)) * time.Minute)
 		ci := float64(rng.Intn(9) * 10)
 		fmt.Fprintf(&sb, "DAY%04d,%s,%s,%s,%.0f,%g\n", i, dep.Format(time.RFC3339), rf, ty.name, tow, ci)
 	}
@@ -82,7 +83,7 @@ func Day(dir string, n int, seed int64) (schedule string, err error) {
 		return "", err
 	}
 	var wb bytes.Buffer
-	if err := winds.WriteGRIB2(&wb, winds.SyntheticWeather(Ref)); err != nil {
+	if err := winds.WriteGRIB2(&wb, synthetic.Weather(Ref())); err != nil {
 		return "", err
 	}
 	return schedule, os.WriteFile(filepath.Join(dir, "weather.grib2"), wb.Bytes(), 0o644)

@@ -1,5 +1,5 @@
 // Package demo writes the invented demonstration scenario: routes, a
-// synthetic weather file (winds.SyntheticWeather) and a day's schedule.
+// synthetic weather file (synthetic.Weather) and a day's schedule.
 // Everything in it is invented for demonstration; none of it is a check
 // value.
 package demo
@@ -17,11 +17,11 @@ import (
 
 	"levelpath/route"
 	"levelpath/winds"
+	"levelpath/winds/synthetic"
 )
 
-// Ref is the reference time of the demo weather; the first departure is
-// two hours later.
-var Ref = time.Date(2026, 12, 1, 18, 0, 0, 0, time.UTC)
+// Ref returns the reference time of the demo weather, 2026-12-01 18:00 UTC.
+func Ref() time.Time { return time.Date(2026, 12, 1, 18, 0, 0, 0, time.UTC) }
 
 // City is an invented airport.
 type City struct {
@@ -30,13 +30,14 @@ type City struct {
 }
 
 // Invented airports (the coordinates are arbitrary points; the names are
-// made up for the demo).
+// made up for the demo). Constant after package initialisation: the
+// package's exported functions return copies.
 var (
-	Avalon   = City{"AVALON", 44.6, -74.2}
-	Meridia  = City{"MERIDIA", 25.3, 55.8}
-	Corvale  = City{"CORVALE", 51.0, -1.0}
-	Sunhaven = City{"SUNHAVEN", 25.8, -80.3}
-	Lakeport = City{"LAKEPORT", 42.0, -87.8}
+	avalon   = City{"AVALON", 44.6, -74.2}
+	meridia  = City{"MERIDIA", 25.3, 55.8}
+	corvale  = City{"CORVALE", 51.0, -1.0}
+	sunhaven = City{"SUNHAVEN", 25.8, -80.3}
+	lakeport = City{"LAKEPORT", 42.0, -87.8}
 )
 
 // RouteFile is one demo route.
@@ -46,13 +47,15 @@ type RouteFile struct {
 	Via      int // intermediate waypoints on the geodesic
 }
 
-// Routes are the demo routes: the long haul first.
-var Routes = []RouteFile{
-	{"route.geojson", Avalon, Meridia, 7},
-	{"route-corvale.geojson", Avalon, Corvale, 4},
-	{"route-sunhaven.geojson", Avalon, Sunhaven, 2},
-	{"route-lakeport.geojson", Avalon, Lakeport, 1},
+var routes = [...]RouteFile{
+	{"route.geojson", avalon, meridia, 7},
+	{"route-corvale.geojson", avalon, corvale, 4},
+	{"route-sunhaven.geojson", avalon, sunhaven, 2},
+	{"route-lakeport.geojson", avalon, lakeport, 1},
 }
+
+// Routes returns the demo routes, the long haul first (a copy).
+func Routes() []RouteFile { return append([]RouteFile(nil), routes[:]...) }
 
 // Flight is a schedule line.
 type Flight struct {
@@ -65,7 +68,7 @@ type Flight struct {
 
 // Schedule is the demo day.
 func Schedule() []Flight {
-	d := func(h, m int) time.Time { return Ref.Add(time.Duration(h)*time.Hour + time.Duration(m)*time.Minute) }
+	d := func(h, m int) time.Time { return Ref().Add(time.Duration(h)*time.Hour + time.Duration(m)*time.Minute) }
 	return []Flight{
 		{"DEMO101", d(2, 0), "route.geojson", "demo-widebody", 245000, 40},
 		{"DEMO103", d(4, 30), "route.geojson", "demo-widebody", 238000, 80},
@@ -112,7 +115,7 @@ func Write(dir string) (Files, error) {
 	if err := os.MkdirAll(dir, 0o755); err != nil {
 		return fs, err
 	}
-	for _, r := range Routes {
+	for _, r := range Routes() {
 		b, err := RouteGeoJSON(r)
 		if err != nil {
 			return fs, err
@@ -125,7 +128,7 @@ func Write(dir string) (Files, error) {
 	}
 	fs.Route = fs.Routes[0]
 	var buf bytes.Buffer
-	if err := winds.WriteGRIB2(&buf, winds.SyntheticWeather(Ref)); err != nil {
+	if err := winds.WriteGRIB2(&buf, synthetic.Weather(Ref())); err != nil {
 		return fs, err
 	}
 	fs.Weather = filepath.Join(dir, "weather.grib2")

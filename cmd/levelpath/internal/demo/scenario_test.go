@@ -9,6 +9,7 @@ import (
 
 	"levelpath/route"
 	"levelpath/winds"
+	"levelpath/winds/synthetic"
 )
 
 // TestWriteScenario writes the scenario and reads every file back with the
@@ -25,7 +26,7 @@ func TestWriteScenario(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	tr, err := route.Build(r, route.Options{Date: Ref})
+	tr, err := route.Build(r, route.Options{Date: Ref()})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -45,7 +46,7 @@ func TestWriteScenario(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		u, v, tk, _ := winds.SyntheticPoint(q.lat, q.lon, q.p, q.h)
+		u, v, tk, _ := synthetic.Point(q.lat, q.lon, q.p, q.h)
 		// On grid points the decoded value equals the packed one to within
 		// the packing step (range/65535 for 16 bits).
 		if math.Abs(s.U-u) > 0.05 || math.Abs(s.V-v) > 0.05 || math.Abs(s.T-tk) > 0.05 {

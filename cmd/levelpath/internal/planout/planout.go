@@ -43,6 +43,78 @@ type Doc struct {
 	SearchNodes   int         `json:"search_nodes,omitempty"`
 	SearchEdges   int         `json:"search_edges,omitempty"`
 	Assessed      bool        `json:"assessed"`
+	// Alternatives are present when they were asked for (plan
+	// --alternatives K).
+	Alternatives []Alternative `json:"alternatives,omitempty"`
+	// Policy is the resolved policy the plan was made under.
+	Policy Policy `json:"policy"`
+}
+
+// Policy is the resolved planning policy (defaults applied).
+type Policy struct {
+	MaxStepFt       float64          `json:"max_step_ft"`
+	StepDescents    bool             `json:"step_descents"`
+	MinStepNM       float64          `json:"min_step_nm"`
+	MaxSteps        int              `json:"max_steps"`
+	NoSteps         bool             `json:"no_steps"`
+	MinFL           int              `json:"min_fl"`
+	MaxFL           int              `json:"max_fl"`
+	MassBucketKg    float64          `json:"mass_bucket_kg"`
+	ClimbCASLowKt   float64          `json:"climb_cas_low_kt"`
+	ClimbCASKt      float64          `json:"climb_cas_kt"`
+	ClimbMach       float64          `json:"climb_mach"`
+	DescentCASLowKt float64          `json:"descent_cas_low_kt"`
+	DescentCASKt    float64          `json:"descent_cas_kt"`
+	DescentMach     float64          `json:"descent_mach"`
+	EndAltitudeFt   float64          `json:"end_altitude_ft"`
+	Turbulence      []TurbulenceRule `json:"turbulence"`
+	BlockedLevels   []BlockedLevels  `json:"blocked"`
+}
+
+// TurbulenceRule is one row of the turbulence table.
+type TurbulenceRule struct {
+	EDR    float64  `json:"edr"`
+	FloorG *float64 `json:"floor_g"`
+	Closed bool     `json:"closed"`
+}
+
+// BlockedLevels are levels unavailable over a stretch of route.
+type BlockedLevels struct {
+	FromNM float64 `json:"from_nm"`
+	ToNM   float64 `json:"to_nm"`
+	Levels []int   `json:"levels"`
+}
+
+func policy(p optimizer.Policy) Policy {
+	d := Policy{MaxStepFt: float64(p.Steps.MaxChange), StepDescents: p.Steps.AllowDescent, MinStepNM: p.Steps.MinDistance / mPerNM,
+		MaxSteps: p.Steps.MaxSteps, NoSteps: p.Steps.NoSteps, MinFL: p.MinFL, MaxFL: p.MaxFL, MassBucketKg: p.MassBucket,
+		ClimbCASLowKt: p.Climb.CASLow / msPerKt, ClimbCASKt: p.Climb.CAS / msPerKt, ClimbMach: p.Climb.Mach,
+		DescentCASLowKt: p.Descent.CASLow / msPerKt, DescentCASKt: p.Descent.CAS / msPerKt, DescentMach: p.Descent.Mach,
+		EndAltitudeFt: p.EndAltitude / perf.FtToM, Turbulence: []TurbulenceRule{}, BlockedLevels: []BlockedLevels{}}
+	for _, r := range p.Turbulence {
+		t := TurbulenceRule{EDR: r.EDR, Closed: r.Closed}
+		if !r.Closed {
+			t.FloorG = Number(r.Floor)
+		}
+		d.Turbulence = append(d.Turbulence, t)
+	}
+	for _, b := range p.Blocked {
+		d.BlockedLevels = append(d.BlockedLevels, BlockedLevels{FromNM: b.FromDist / mPerNM, ToNM: b.ToDist / mPerNM, Levels: append([]int{}, b.Levels...)})
+	}
+	return d
+}
+
+// Alternative is one of the next-cheapest distinct profiles.
+type Alternative struct {
+	Profile     string   `json:"profile"`
+	CostDelta   float64  `json:"cost_delta"`
+	FuelKg      float64  `json:"fuel_kg"`
+	TimeMin     float64  `json:"time_min"`
+	Cost        float64  `json:"cost"`
+	MinMarginG  *float64 `json:"min_margin_g"`
+	InitialFL   int      `json:"initial_fl"`
+	StepsCount  int      `json:"steps"`
+	LandingMass float64  `json:"landing_mass_kg"`
 }
 
 // Totals sums the flight.
@@ -147,7 +219,13 @@ func FromPlan(p *optimizer.Plan, assessed bool) *Doc {
 	}
 	d.Violations = []Violation{}
 	for _, v := range p.Violations {
-		d.Violations = append(d.Violations, Violation{Leg: v.Leg, Limit: v.Limit, By: v.By, Unit: v.Unit, Detail: v.Detail})
+		d.Violations = append(d.Violations, Violation{Leg: v.Leg, Limit: string(v.Limit), By: v.By, Unit: v.Unit, Detail: v.Detail})
+	}
+	d.Policy = policy(p.Policy)
+	for _, a := range p.Alternatives {
+		d.Alternatives = append(d.Alternatives, Alternative{Profile: a.Profile.String(), CostDelta: a.CostDelta,
+			FuelKg: a.Totals.Fuel, TimeMin: a.Totals.Time / 60, Cost: a.Totals.Cost, MinMarginG: Number(a.MinMargin),
+			InitialFL: a.Profile.Initial, StepsCount: len(a.Profile.Changes), LandingMass: a.Totals.LandingMass})
 	}
 	if !assessed {
 		d.SearchCost = Number(p.SearchCost)

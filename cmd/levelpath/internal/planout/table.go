@@ -41,6 +41,16 @@ func WriteTable(w io.Writer, p *optimizer.Plan, assessed bool) error {
 	for _, s := range d.Steps {
 		bw.printf("  at %6.0f NM  FL%03d -> FL%03d\n", s.AtNM, s.FromFL, s.ToFL)
 	}
+	if len(d.Alternatives) > 0 {
+		bw.printf("\nAlternatives (next-cheapest profiles, priced exactly)\n")
+		for i, a := range d.Alternatives {
+			margin := "-"
+			if a.MinMarginG != nil {
+				margin = fmt.Sprintf("%.3f g", *a.MinMarginG)
+			}
+			bw.printf("  %d. %s: cost %+.1f, fuel %.0f kg, time %s, least margin %s\n", i+1, a.Profile, a.CostDelta, a.FuelKg, hhmm(a.TimeMin), margin)
+		}
+	}
 	bw.printf("\nLegs\n")
 	tw := tabwriter.NewWriter(bw, 0, 0, 1, ' ', tabwriter.AlignRight)
 	fmt.Fprintln(tw, "from NM\tto NM\tphase\tFL\tMach\tTAS kt\twind kt\tGS kt\tISA C\tfuel kg\tmin\tmass kg\tmargin g\tfloor g\t")

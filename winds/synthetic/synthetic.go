@@ -1,8 +1,14 @@
-package winds
+// Package synthetic makes invented weather for demonstrations, tests and
+// benchmarks: a reproducible global field of wind, temperature and
+// turbulence written as GRIB messages. It is not a forecast and never a
+// check value.
+package synthetic
 
 import (
 	"math"
 	"time"
+
+	"levelpath/winds"
 )
 
 // Grid of the synthetic weather: global, 2 degrees, north to south.
@@ -12,24 +18,30 @@ const (
 	synNj   = 91
 )
 
-// SyntheticLevels are the pressure levels of the synthetic weather, Pa.
-var SyntheticLevels = []float64{85000, 70000, 50000, 40000, 30000, 25000, 20000, 15000, 10000}
+var (
+	levels = [...]float64{85000, 70000, 50000, 40000, 30000, 25000, 20000, 15000, 10000}
+	hours  = [...]int{0, 6, 12, 18, 24, 30, 36}
+)
 
-// SyntheticHours are the valid times after the reference time.
-var SyntheticHours = []int{0, 6, 12, 18, 24, 30, 36}
+// Levels returns the pressure levels of the invented weather, Pa (a copy).
+func Levels() []float64 { return append([]float64(nil), levels[:]...) }
 
-// SyntheticWeather returns invented weather for demonstrations and
-// benchmarks, as GRIB messages valid at ref plus SyntheticHours on a global
-// 2-degree grid at SyntheticLevels: a meandering westerly jet stream near 250 hPa in each
+// Hours returns the valid times of the invented weather, hours after the
+// reference time (a copy).
+func Hours() []int { return append([]int(nil), hours[:]...) }
+
+// Weather returns invented weather for demonstrations and benchmarks, as
+// GRIB messages valid at ref plus Hours on a global 2-degree grid at
+// Levels: a meandering westerly jet stream near 250 hPa in each
 // hemisphere, a temperature deviation from ISA that is warm in the tropics
 // and cold towards the poles, and a patch of turbulence (EDR) over the
 // northern ocean. Reproducible: no randomness.
-func SyntheticWeather(ref time.Time) []Message {
-	var msgs []Message
+func Weather(ref time.Time) []winds.Message {
+	var msgs []winds.Message
 	n := synNi * synNj
-	for _, h := range SyntheticHours {
+	for _, h := range hours {
 		vt := ref.Add(time.Duration(h) * time.Hour)
-		for _, p := range SyntheticLevels {
+		for _, p := range levels {
 			u := make([]float32, n)
 			v := make([]float32, n)
 			t := make([]float32, n)
@@ -38,16 +50,16 @@ func SyntheticWeather(ref time.Time) []Message {
 				lat := 90 - float64(j)*synStep
 				for i := 0; i < synNi; i++ {
 					lon := float64(i) * synStep
-					uu, vv, tt, ee := SyntheticPoint(lat, lon, p, float64(h))
+					uu, vv, tt, ee := Point(lat, lon, p, float64(h))
 					k := j*synNi + i
 					u[k], v[k], t[k], e[k] = float32(uu), float32(vv), float32(tt), float32(ee)
 				}
 			}
-			base := Message{LevelType: 100, Level: p, RefTime: ref, ValidTime: vt, Ni: synNi, Nj: synNj,
+			base := winds.Message{LevelType: 100, Level: p, RefTime: ref, ValidTime: vt, Ni: synNi, Nj: synNj,
 				Lat1: 90, Lon1: 0, Lat2: -90, Lon2: 360 - synStep, Di: synStep, Dj: synStep, ScanMode: 0, Ensemble: -1}
 			for _, f := range []struct {
 				cat, num int
-				par      Param
+				par      winds.Param
 				vals     []float32
 			}{{2, 2, "u", u}, {2, 3, "v", v}, {0, 0, "t", t}, {19, 30, "edr", e}} {
 				m := base
@@ -59,10 +71,10 @@ func SyntheticWeather(ref time.Time) []Message {
 	return msgs
 }
 
-// SyntheticPoint is the invented weather at a point: u, v (m/s), T (K) and EDR
+// Point is the invented weather at a point: u, v (m/s), T (K) and EDR
 // (m^(2/3)/s) at latitude, longitude (degrees), pressure p (Pa) and hours
 // after the reference time.
-func SyntheticPoint(lat, lon, p, hours float64) (u, v, t, edr float64) {
+func Point(lat, lon, p, hours float64) (u, v, t, edr float64) {
 	rad := math.Pi / 180
 	// Jet axes meander with longitude and drift eastward with time.
 	phase := (lon - 8*hours) * rad
