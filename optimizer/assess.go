@@ -80,7 +80,7 @@ func (s *sim) condAt(k, fl int) (cond, error) {
 	if err != nil {
 		return cond{}, &InputError{Field: "Weather", Msg: fmt.Sprintf("segment %d at FL%d: %v", k, fl, err), Err: err}
 	}
-	c := cond{wind: w, isaDev: d, edr: e}
+	c := cond{wind: w, isaDev: s.q.isaDevOr(d), edr: e}
 	c.floor, c.why, c.closed = floorFor(s.q.Floor, e, s.q.Turbulence)
 	c.closedLim, c.closedWhy = "turbulence", c.why
 	return c, nil

@@ -144,6 +144,16 @@ type Problem struct {
 	// thrust-limited maximum levels at their mass (for charts and
 	// reports; it costs a few milliseconds a plan).
 	LegCeilings bool
+	// PerfFactorPct is the per-tail performance factor, percent: every
+	// fuel flow is multiplied by 1 + PerfFactorPct/100 (see
+	// perf.Aircraft.WithPerfFactor). A non-zero factor is named in the
+	// plan's warnings.
+	PerfFactorPct float64
+	// ISADev is the temperature deviation from ISA, K, used where the
+	// weather gives no temperature (no weather: ISA+ISADev and still
+	// air). It is an error with a weather that has temperatures. A
+	// non-zero value is named in the plan's warnings.
+	ISADev float64
 	// Notes are remarks from whoever built the problem (a default it
 	// applied, say); they open the plan's warnings.
 	Notes []string
@@ -203,6 +213,14 @@ func (p *Problem) normalise() ([]string, error) {
 		return nil, inputErrorf("Aircraft", "no aircraft")
 	}
 	a := p.Aircraft
+	if p.PerfFactorPct != 0 {
+		b, err := a.WithPerfFactor(p.PerfFactorPct)
+		if err != nil {
+			return nil, &InputError{Field: "PerfFactorPct", Msg: err.Error()}
+		}
+		p.Aircraft, a = b, b
+		warn = append(warn, fmt.Sprintf("performance factor %+.1f %%: every fuel flow of %s multiplied by %.3f", p.PerfFactorPct, a.Name, 1+p.PerfFactorPct/100))
+	}
 	m := p.TakeoffMass
 	if !(m > 0) {
 		return nil, inputErrorf("TakeoffMass", "take-off mass %v kg is not a positive number", m)
@@ -277,14 +295,20 @@ func (p *Problem) normalise() ([]string, error) {
 		p.Depart = p.Weather.Times()[0]
 		warn = append(warn, "no departure time given: the weather's first valid time "+p.Depart.UTC().Format(time.RFC3339)+" assumed")
 	}
+	if !(math.Abs(p.ISADev) <= 60) {
+		return nil, inputErrorf("ISADev", "ISA deviation %v °C must lie in -60..60", p.ISADev)
+	}
+	if p.Weather != nil && p.Weather.Has(winds.ParamT) && p.ISADev != 0 {
+		return nil, inputErrorf("ISADev", "an ISA deviation applies only where the weather has no temperature; this weather has temperatures")
+	}
 	if p.Weather == nil {
-		warn = append(warn, "no weather given: ISA and still air assumed")
+		warn = append(warn, fmt.Sprintf("no weather given: ISA%+.0f °C and still air assumed", p.ISADev))
 	} else {
 		if !p.Weather.Has(winds.ParamU) || !p.Weather.Has(winds.ParamV) {
 			return nil, inputErrorf("Weather", "the weather has no winds aloft (u and v on isobaric levels)")
 		}
 		if !p.Weather.Has(winds.ParamT) {
-			warn = append(warn, "the weather has no temperature: ISA temperature assumed")
+			warn = append(warn, fmt.Sprintf("the weather has no temperature: ISA%+.0f °C assumed", p.ISADev))
 		}
 		for _, w := range p.Weather.Warnings() {
 			warn = append(warn, "weather: "+w.String())

@@ -51,6 +51,15 @@ func weatherAt(f *winds.Field, lat, lon, p float64, t time.Time, course float64)
 	return along, dev, s.EDR, nil
 }
 
+// isaDevOr returns the weather's ISA deviation d, or the problem's ISADev
+// where the weather gives no temperature (or there is no weather).
+func (p *Problem) isaDevOr(d float64) float64 {
+	if p.Weather == nil || !p.Weather.Has(winds.ParamT) {
+		return p.ISADev
+	}
+	return d
+}
+
 // segWeather averages the weather over a segment's sample points.
 func segWeather(f *winds.Field, seg *route.Segment, p float64, t time.Time) (wind, isaDev, edr float64, err error) {
 	pts := seg.Samples
@@ -121,7 +130,7 @@ func buildConds(p *Problem, levels []int) ([][]cond, error) {
 		for li, fl := range levels {
 			pr := perf.FLToPressure(float64(fl))
 			w, d, e, err := segWeather(p.Weather, seg, pr, t)
-			c := cond{wind: w, isaDev: d, edr: e}
+			c := cond{wind: w, isaDev: p.isaDevOr(d), edr: e}
 			if err != nil {
 				if isLevelRange(p.Weather, pr) {
 					c.closed, c.closedLim, c.closedWhy = true, "weather", fmt.Sprintf("FL%d outside the weather's pressure levels", fl)

@@ -30,7 +30,8 @@ type Aircraft struct {
 	Sweep          float64 // quarter-chord sweep Λ, radians
 	ThicknessRatio float64 // mean streamwise thickness/chord t/c
 	KornKappa      float64 // Korn airfoil technology factor κ (0.87 conventional, 0.95 supercritical)
-	CD0, K         float64 // parabolic polar CD = CD0 + K CL² (+ compressibility)
+	CD0, K         float64 // polar CD = CD0 + K CL² + K6 CL⁶ (+ compressibility)
+	K6             float64 // lift-dependent drag rise coefficient, see dragCoeff
 
 	Engines Engines
 
@@ -45,6 +46,11 @@ type Aircraft struct {
 	// Schedule is the climb and descent speed schedule from the file; the
 	// zero value means none was given (see DefaultSchedule).
 	Schedule Schedule
+
+	// PerfFactorPct is the per-tail performance factor: every fuel flow
+	// (cruise, climb, idle) is multiplied by 1 + PerfFactorPct/100. Files
+	// never set it; see WithPerfFactor.
+	PerfFactorPct float64
 }
 
 // BuffetPoint is one row of the buffet-onset boundary.
@@ -52,28 +58,55 @@ type BuffetPoint struct {
 	Mach, CL float64
 }
 
-// Engines describes the engines with the high-bypass turbofan thrust-lapse
-// and TSFC correlations of Mattingly, Heiser and Pratt (Aircraft Engine
+// Engines describes the engines. Thrust at the max climb rating follows the
+// high-bypass turbofan lapse of Mattingly, Heiser and Pratt (Aircraft Engine
 // Design, 2nd ed., AIAA 2002, ch. 2; equation numbers not checked here),
-// with per-aircraft coefficients in place of the generic 0.49, 3.0, 0.4 and
-// 0.45 (TSFC in 1/h) given there:
+// with per-aircraft coefficients in place of the generic 0.49, 3.0 and TR:
 //
 //	δ0 = (p/P0)(1+0.2M²)^3.5, θ0 = (T/T0)(1+0.2M²)
-//	α  = δ0 (1 - LapseMach √M)                                 θ0 <= ThrottleRatio
-//	α  = δ0 (1 - LapseMach √M - LapseTheta (θ0-TR)/(1.5+M))    θ0 >  ThrottleRatio
-//	max climb thrust = Count StaticThrust ClimbRating α
-//	TSFC = (TSFCA + TSFCB M) √(T/T0)
+//	f  = 1 - LapseMach √M
+//	α  = δ0 (f - max(LapseTheta (θ0-TR)/(1.5+M), f·min(FlatRatingLapse ΔT_eff, 0.4)))
+//	ΔT_eff = ISA deviation - FlatRatingISADev (no loss when negative)
+//	max climb thrust = Count StaticThrust ClimbRating α; max cruise = CruiseRatio × that
+//
+// The flat-rating term is the temperature correction of the maximum climb
+// thrust in EUROCONTROL's Base of Aircraft Data, revision 3 (BADA 3 user
+// manual, engine thrust model: T = T_ISA (1 - C_Tc5 ΔT_eff), ΔT_eff =
+// ΔT - C_Tc4, 0 <= C_Tc5 ΔT_eff <= 0.4; recalled from memory, section
+// number not checked here), FlatRatingISADev being C_Tc4 and
+// FlatRatingLapse C_Tc5. It applies at every altitude, so a warm day lowers
+// the thrust ceiling as flat-rated engines do; where Mattingly's θ0-break
+// loss (hot, low and fast) is larger, that one applies instead, so the two
+// temperature effects are not counted twice (our combination).
+//
+// Fuel flow is TSFC × thrust with
+//
+//	TSFC = (TSFCA + TSFCB M) √(T/T0) (1 + PartPower (τ/PartPowerBucket - 1)²)
+//
+// where τ = thrust / max climb thrust. The first factors are Mattingly's
+// TSFC correlation (generic 0.4 and 0.45 in 1/h); the last is the
+// part-power "bucket" of turbofan TSFC against thrust, lowest at the
+// bucket setting and rising at lower and higher thrust (described from
+// engine data by Bensel, "Characteristics of the Specific Fuel Consumption
+// for Jet Engines", HAW Hamburg, 2018, doi:10.15488/4316; the quadratic
+// about the bucket is our simplification, not that report's polynomial).
+// Climb at max climb thrust has τ = 1. Idle thrust and idle fuel flow are
+// separate (IdleFraction, IdleFuelFlow).
 type Engines struct {
-	Count         int
-	StaticThrust  float64 // sea-level static thrust per engine, N
-	LapseMach     float64 // Mattingly's 0.49
-	LapseTheta    float64 // Mattingly's 3.0
-	ThrottleRatio float64 // θ0 break (TR), Mattingly 1.0-1.1
-	TSFCA, TSFCB  float64 // TSFC = (A + B M) √θ, kg/(N s)
-	ClimbRating   float64 // max climb thrust as a fraction of the lapse curve
-	CruiseRatio   float64 // max cruise / max climb thrust
-	IdleFraction  float64 // idle thrust / max climb thrust
-	IdleFuelFlow  float64 // idle fuel flow per engine at sea-level static, kg/s; scaled by δ0 √θ0
+	Count            int
+	StaticThrust     float64 // sea-level static thrust per engine, N
+	LapseMach        float64 // Mattingly's 0.49
+	LapseTheta       float64 // Mattingly's 3.0
+	ThrottleRatio    float64 // θ0 break (TR), Mattingly 1.0-1.1
+	FlatRatingISADev float64 // BADA C_Tc4: ISA deviation (K) above which max climb thrust falls
+	FlatRatingLapse  float64 // BADA C_Tc5: fraction of thrust lost per K above FlatRatingISADev
+	TSFCA, TSFCB     float64 // TSFC = (A + B M) √θ at the bucket, kg/(N s)
+	PartPower        float64 // TSFC rise coefficient of the part-power bucket
+	PartPowerBucket  float64 // thrust / max climb thrust of least TSFC
+	ClimbRating      float64 // max climb thrust as a fraction of the lapse curve
+	CruiseRatio      float64 // max cruise / max climb thrust
+	IdleFraction     float64 // idle thrust / max climb thrust
+	IdleFuelFlow     float64 // idle fuel flow per engine at sea-level static, kg/s; scaled by δ0 √θ0
 }
 
 //go:embed aircraft/*.yaml
@@ -102,7 +135,9 @@ func Builtin(name string) (*Aircraft, error) {
 const maxFileSize = 1 << 20
 
 // Load returns the built-in aircraft called nameOrPath, or else reads the
-// YAML file at that path.
+// YAML file at that path. A directory is read as operator tables
+// (LoadTables); valid tables give an *UnsupportedError, since planning from
+// tables is not supported yet.
 func Load(nameOrPath string) (*Aircraft, error) {
 	if slices.Contains(builtinNames, nameOrPath) {
 		return Builtin(nameOrPath)
@@ -115,7 +150,13 @@ func Load(nameOrPath string) (*Aircraft, error) {
 		return nil, fmt.Errorf("perf: aircraft %q: %w", nameOrPath, err)
 	}
 	if fi.IsDir() {
-		return nil, fmt.Errorf("perf: aircraft %q is a directory", nameOrPath)
+		// Operator tables (format in aircraft/TABLES.md): validated, so
+		// errors in them are reported, but not yet usable for planning.
+		t, err := LoadTables(nameOrPath)
+		if err != nil {
+			return nil, err
+		}
+		return nil, &UnsupportedError{Source: nameOrPath, Reason: fmt.Sprintf("the operator tables of %s are valid (%d cruise fuel-flow points), but planning from tables is not supported yet; use a performance model (built-in or YAML)", t.Name, len(t.CruiseFuelFlow.Values))}
 	}
 	if fi.Size() > maxFileSize {
 		return nil, &FormatError{Source: nameOrPath, Reason: fmt.Sprintf("file is %d bytes, more than the %d allowed", fi.Size(), maxFileSize)}
@@ -159,16 +200,21 @@ type yamlWing struct {
 type yamlDrag struct {
 	CD0 *float64 `yaml:"cd0"`
 	K   *float64 `yaml:"k"`
+	K6  *float64 `yaml:"k6"`
 }
 
 type yamlEngines struct {
-	Count         *int     `yaml:"count"`
+	Count         *float64 `yaml:"count"`
 	StaticThrust  *float64 `yaml:"static_thrust_kn"`
 	LapseMach     *float64 `yaml:"lapse_mach"`
 	LapseTheta    *float64 `yaml:"lapse_theta"`
 	ThrottleRatio *float64 `yaml:"throttle_ratio"`
+	FlatISADev    *float64 `yaml:"flat_rating_isa_dev_k"`
+	FlatLapse     *float64 `yaml:"flat_rating_lapse_per_k"`
 	TSFCA         *float64 `yaml:"tsfc_a_per_h"`
 	TSFCB         *float64 `yaml:"tsfc_b_per_h"`
+	PartPower     *float64 `yaml:"part_power_coeff"`
+	PartBucket    *float64 `yaml:"part_power_bucket"`
 	ClimbRating   *float64 `yaml:"climb_rating"`
 	CruiseRatio   *float64 `yaml:"cruise_ratio"`
 	IdleFraction  *float64 `yaml:"idle_thrust_fraction"`
@@ -283,16 +329,19 @@ func (y *yamlAircraft) build(source string) (*Aircraft, error) {
 	} else {
 		a.Name = strings.TrimSpace(*y.Name)
 	}
-	inf := math.Inf(1)
+	// Upper bounds are plausibility limits well beyond any transport
+	// aircraft (largest MTOW about 640 t, static thrust about 500 kN, wing
+	// about 850 m²; from memory), so a typo or an infinite value is refused.
+	const maxMass, maxArea, maxThrustKN, maxIdleKgH = 1e6, 1500, 1000, 5000
 	if y.Mass == nil {
 		r.fail("mass", "missing")
 	} else {
 		m := y.Mass
-		a.OEW = r.num("mass.oew_kg", m.OEW, 0, inf, true)
-		a.MZFW = r.num("mass.mzfw_kg", m.MZFW, 0, inf, true)
-		a.MTOW = r.num("mass.mtow_kg", m.MTOW, 0, inf, true)
-		a.MLW = r.num("mass.mlw_kg", m.MLW, 0, inf, true)
-		a.FuelCapacity = r.num("mass.fuel_capacity_kg", m.FuelCapacity, 0, inf, true)
+		a.OEW = r.num("mass.oew_kg", m.OEW, 0, maxMass, true)
+		a.MZFW = r.num("mass.mzfw_kg", m.MZFW, 0, maxMass, true)
+		a.MTOW = r.num("mass.mtow_kg", m.MTOW, 0, maxMass, true)
+		a.MLW = r.num("mass.mlw_kg", m.MLW, 0, maxMass, true)
+		a.FuelCapacity = r.num("mass.fuel_capacity_kg", m.FuelCapacity, 0, maxMass, true)
 		if r.err == nil {
 			switch {
 			case a.MZFW < a.OEW:
@@ -310,7 +359,7 @@ func (y *yamlAircraft) build(source string) (*Aircraft, error) {
 		r.fail("wing", "missing")
 	} else {
 		w := y.Wing
-		a.WingArea = r.num("wing.area_m2", w.Area, 0, inf, true)
+		a.WingArea = r.num("wing.area_m2", w.Area, 0, maxArea, true)
 		a.Sweep = r.num("wing.sweep_deg", w.Sweep, 0, 60, false) * math.Pi / 180
 		a.ThicknessRatio = r.num("wing.thickness_ratio", w.ThicknessRatio, 0, 0.25, true)
 		a.KornKappa = r.num("wing.korn_kappa", w.KornKappa, 0.8, 1.0, false)
@@ -320,29 +369,33 @@ func (y *yamlAircraft) build(source string) (*Aircraft, error) {
 	} else {
 		a.CD0 = r.num("drag.cd0", y.Drag.CD0, 0, 0.1, true)
 		a.K = r.num("drag.k", y.Drag.K, 0, 0.5, true)
+		a.K6 = r.num("drag.k6", y.Drag.K6, 0, 1, false)
 	}
 	if y.Engines == nil {
 		r.fail("engines", "missing")
 	} else {
 		e := y.Engines
-		if e.Count == nil {
-			r.fail("engines.count", "missing")
-		} else if *e.Count < 1 || *e.Count > 8 {
-			r.fail("engines.count", "%d outside the accepted range 1..8", *e.Count)
-		} else {
-			a.Engines.Count = *e.Count
+		if c := r.num("engines.count", e.Count, 1, 8, false); r.err == nil {
+			if c != math.Trunc(c) {
+				r.fail("engines.count", "%g is not a whole number", c)
+			}
+			a.Engines.Count = int(c)
 		}
 		tsfc := 1 / (3600 * G0) // 1/h (kg per kgf per hour) -> kg/(N s)
-		a.Engines.StaticThrust = 1000 * r.num("engines.static_thrust_kn", e.StaticThrust, 0, inf, true)
+		a.Engines.StaticThrust = 1000 * r.num("engines.static_thrust_kn", e.StaticThrust, 0, maxThrustKN, true)
 		a.Engines.LapseMach = r.num("engines.lapse_mach", e.LapseMach, 0, 1, false)
 		a.Engines.LapseTheta = r.num("engines.lapse_theta", e.LapseTheta, 0, 10, false)
 		a.Engines.ThrottleRatio = r.num("engines.throttle_ratio", e.ThrottleRatio, 0.5, 1.5, false)
+		a.Engines.FlatRatingISADev = r.num("engines.flat_rating_isa_dev_k", e.FlatISADev, -30, 50, false)
+		a.Engines.FlatRatingLapse = r.num("engines.flat_rating_lapse_per_k", e.FlatLapse, 0, 0.05, false)
 		a.Engines.TSFCA = tsfc * r.num("engines.tsfc_a_per_h", e.TSFCA, 0, 2, false)
 		a.Engines.TSFCB = tsfc * r.num("engines.tsfc_b_per_h", e.TSFCB, 0, 2, false)
+		a.Engines.PartPower = r.num("engines.part_power_coeff", e.PartPower, 0, 5, false)
+		a.Engines.PartPowerBucket = r.num("engines.part_power_bucket", e.PartBucket, 0.3, 1.2, false)
 		a.Engines.ClimbRating = r.num("engines.climb_rating", e.ClimbRating, 0, 1, true)
 		a.Engines.CruiseRatio = r.num("engines.cruise_ratio", e.CruiseRatio, 0, 1, true)
 		a.Engines.IdleFraction = r.num("engines.idle_thrust_fraction", e.IdleFraction, 0, 0.5, false)
-		a.Engines.IdleFuelFlow = r.num("engines.idle_fuel_flow_kg_h", e.IdleFuelFlow, 0, inf, true) / 3600
+		a.Engines.IdleFuelFlow = r.num("engines.idle_fuel_flow_kg_h", e.IdleFuelFlow, 0, maxIdleKgH, true) / 3600
 		if r.err == nil && a.Engines.TSFCA+a.Engines.TSFCB <= 0 {
 			r.fail("engines.tsfc_a_per_h", "TSFC must be positive")
 		}
@@ -355,9 +408,22 @@ func (y *yamlAircraft) build(source string) (*Aircraft, error) {
 		a.CertifiedCeiling = 100 * FtToM * r.num("limits.ceiling_fl", y.Limits.Ceiling, 100, 600, false)
 	}
 	if s := y.Schedule; s != nil {
-		a.Schedule.CASLow = KtToMS * r.num("schedule.cas_low_kt", s.CASLow, 0, 600, true)
-		a.Schedule.CAS = KtToMS * r.num("schedule.cas_kt", s.CAS, 0, 600, true)
-		a.Schedule.Mach = r.num("schedule.mach", s.Mach, 0, 0.99, true)
+		casLow := r.num("schedule.cas_low_kt", s.CASLow, 0, 600, true)
+		cas := r.num("schedule.cas_kt", s.CAS, 0, 600, true)
+		mach := r.num("schedule.mach", s.Mach, 0, 0.99, true)
+		// A schedule may not exceed the limits (VMO, MMO) given above.
+		if r.err == nil {
+			vmo, mmo := *y.Limits.VMO, *y.Limits.MMO
+			switch {
+			case casLow > vmo:
+				r.fail("schedule.cas_low_kt", "%g kt is above limits.vmo_kt %g kt", casLow, vmo)
+			case cas > vmo:
+				r.fail("schedule.cas_kt", "%g kt is above limits.vmo_kt %g kt", cas, vmo)
+			case mach > mmo:
+				r.fail("schedule.mach", "%g is above limits.mmo %g", mach, mmo)
+			}
+		}
+		a.Schedule = Schedule{CASLow: KtToMS * casLow, CAS: KtToMS * cas, Mach: mach}
 	}
 	a.Buffet = r.buffet(y.Buffet, a.MMO)
 	if r.err != nil {
@@ -450,4 +516,29 @@ func DefaultSchedule(a *Aircraft) Schedule {
 		CAS:    math.Min(300*KtToMS, a.VMO-30*KtToMS),
 		Mach:   a.MMO - 0.04,
 	}
+}
+
+// Accepted range of the performance factor, percent. Per-tail factors of
+// in-service aircraft are a few percent (from memory); the bounds refuse a
+// typo (a fraction for a percent, a sign slip of a large number).
+const (
+	MinPerfFactorPct = -20.0
+	MaxPerfFactorPct = 30.0
+)
+
+// WithPerfFactor returns a copy of a whose fuel flows (cruise, climb and
+// idle) are all multiplied by 1 + pct/100, the per-tail performance factor
+// operators apply for engine and airframe deterioration. The factor
+// replaces any factor a already has (it does not compound). It returns a
+// *RangeError for pct outside MinPerfFactorPct..MaxPerfFactorPct or not
+// finite. Thrust, drag and speeds are unchanged, so levels and Mach limits
+// are too; optimum speeds with a cost index shift because fuel weighs more
+// against time.
+func (a *Aircraft) WithPerfFactor(pct float64) (*Aircraft, error) {
+	if !(pct >= MinPerfFactorPct && pct <= MaxPerfFactorPct) {
+		return nil, &RangeError{Quantity: "performance factor", Value: pct, Min: MinPerfFactorPct, Max: MaxPerfFactorPct, Unit: "%", Aircraft: a.Name}
+	}
+	b := *a
+	b.PerfFactorPct = pct
+	return &b, nil
 }

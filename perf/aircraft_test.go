@@ -4,6 +4,7 @@ import (
 	"errors"
 	"os"
 	"path/filepath"
+	"regexp"
 	"strings"
 	"testing"
 )
@@ -87,13 +88,14 @@ func TestParseValidation(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	src := string(base)
+	// Value comments removed so the cases can name whole lines.
+	src := regexp.MustCompile(` +#[^\n]*`).ReplaceAllString(string(base), "")
 	tests := []struct {
 		name, old, new, field string
 	}{
 		{"missing oew", "  oew_kg: 42000\n", "", "mass.oew_kg"},
-		{"zero area", "area_m2: 124", "area_m2: 0", "wing.area_m2"},
-		{"negative cd0", "cd0: 0.0145", "cd0: -0.01", "drag.cd0"},
+		{"zero area", "area_m2: 128", "area_m2: 0", "wing.area_m2"},
+		{"negative cd0", "cd0: 0.016", "cd0: -0.01", "drag.cd0"},
 		{"negative thrust", "static_thrust_kn: 120", "static_thrust_kn: -120", "engines.static_thrust_kn"},
 		{"zero engines", "count: 2", "count: 0", "engines.count"},
 		{"mzfw below oew", "mzfw_kg: 62000", "mzfw_kg: 40000", "mass.mzfw_kg"},
@@ -103,13 +105,27 @@ func TestParseValidation(t *testing.T) {
 		{"missing name", "name: demo-narrowbody\n", "", "name"},
 		{"renamed section", "engines:\n", "engines_gone:\n", "engines_gone"},
 		{"missing section", "limits:\n  vmo_kt: 340\n  mmo: 0.82\n  ceiling_fl: 410\n", "", "limits"},
-		{"unknown key", "  cd0: 0.0145\n", "  cd0: 0.0145\n  cdx: 1\n", "drag.cdx"},
+		{"unknown key", "  cd0: 0.016\n", "  cd0: 0.016\n  cdx: 1\n", "drag.cdx"},
 		{"unknown top key", "name: demo-narrowbody\n", "name: demo-narrowbody\ncolour: red\n", "colour"},
-		{"buffet mach not ascending", "  - [0.60, 0.940]", "  - [0.45, 0.940]", "buffet[2]"},
-		{"buffet row width", "  - [0.60, 0.940]", "  - [0.60, 0.940, 1]", "buffet[2]"},
-		{"buffet below mmo", "  - [0.82, 0.605]\n  - [0.84, 0.518]\n  - [0.86, 0.421]\n", "", "buffet"},
+		{"buffet mach not ascending", "  - [0.60, 0.978]", "  - [0.45, 0.978]", "buffet[2]"},
+		{"buffet row width", "  - [0.60, 0.978]", "  - [0.60, 0.978, 1]", "buffet[2]"},
+		{"buffet below mmo", "  - [0.82, 0.629]\n  - [0.84, 0.539]\n  - [0.86, 0.438]\n", "", "buffet"},
 		{"schedule mach", "  mach: 0.78", "  mach: 1.2", "schedule.mach"},
 		{"ceiling", "ceiling_fl: 410", "ceiling_fl: 4100", "limits.ceiling_fl"},
+		// Issue 17: implausible, non-finite and non-integer values.
+		{"infinite thrust", "static_thrust_kn: 120", "static_thrust_kn: 1e308", "engines.static_thrust_kn"},
+		{"inf thrust", "static_thrust_kn: 120", "static_thrust_kn: .inf", "engines.static_thrust_kn"},
+		{"nan cd0", "cd0: 0.016", "cd0: .nan", "drag.cd0"},
+		{"huge mass", "mtow_kg: 78000", "mtow_kg: 1e12", "mass.mtow_kg"},
+		{"huge wing", "area_m2: 128", "area_m2: 1e9", "wing.area_m2"},
+		{"huge idle flow", "idle_fuel_flow_kg_h: 350", "idle_fuel_flow_kg_h: 1e7", "engines.idle_fuel_flow_kg_h"},
+		{"fractional engines", "count: 2", "count: 2.5", "engines.count"},
+		{"schedule mach above mmo", "  mach: 0.78", "  mach: 0.83", "schedule.mach"},
+		{"schedule cas above vmo", "cas_kt: 300", "cas_kt: 350", "schedule.cas_kt"},
+		{"low cas above vmo", "cas_low_kt: 250", "cas_low_kt: 345", "schedule.cas_low_kt"},
+		{"nan flat rating", "flat_rating_lapse_per_k: 0.006", "flat_rating_lapse_per_k: .nan", "engines.flat_rating_lapse_per_k"},
+		{"missing part power", "  part_power_coeff: 0.5\n", "", "engines.part_power_coeff"},
+		{"nan k6", "k6: 0.03", "k6: .nan", "drag.k6"},
 	}
 	for _, tc := range tests {
 		if !strings.Contains(src, tc.old) {

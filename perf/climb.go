@@ -157,10 +157,10 @@ func (a *Aircraft) transition(mass, fromP, toP, isaDev float64, s *Schedule, cli
 			d, _, _ := a.drag(m, pm, mm, cosL)
 			var thrust, ff float64
 			if climb {
-				thrust = a.climbThrust(pm, tm, mm)
-				ff = a.tsfc(tm, mm) * thrust
+				thrust = a.climbThrust(pm, tm, tisam, mm)
+				ff = a.fuelFlow(thrust, thrust, tm, mm)
 			} else {
-				thrust, ff = a.idle(pm, tm, mm)
+				thrust, ff = a.idle(pm, tm, tisam, mm)
 			}
 			power := (thrust - d) * vm
 			de := G0*(hb-ha)*tm/tisam + 0.5*(vb*vb-va*va)

@@ -25,7 +25,12 @@ func TestClimbMatchesEnergyEquation(t *testing.T) {
 		if relErr(tr.Time, want) > 1e-3 {
 			t.Errorf("ISA%+g: climb time %.3f s, energy equation %.3f s", dev, tr.Time, want)
 		}
-		if relErr(tr.Distance, pt.TAS*tr.Time) > 1e-9 || relErr(tr.Fuel, pt.MaxClimbThrust*pt.FuelFlow/pt.Drag*tr.Time) > 1e-3 {
+		// Climb fuel is TSFC at the max climb setting (τ = 1) times thrust:
+		// the cruise TSFC FuelFlow/Drag rescaled by the part-power factor.
+		e := &a.Engines
+		bucket := func(tau float64) float64 { u := tau/e.PartPowerBucket - 1; return 1 + e.PartPower*u*u }
+		tsfc := pt.FuelFlow / pt.Drag * bucket(1) / bucket(pt.Drag/pt.MaxClimbThrust)
+		if relErr(tr.Distance, pt.TAS*tr.Time) > 1e-9 || relErr(tr.Fuel, pt.MaxClimbThrust*tsfc*tr.Time) > 1e-3 {
 			t.Errorf("distance %g or fuel %g inconsistent", tr.Distance, tr.Fuel)
 		}
 	}
@@ -139,5 +144,28 @@ func BenchmarkClimbStep(b *testing.B) {
 		if _, err := a.Climb(200000, p1, p2, 0, s); err != nil {
 			b.Fatal(err)
 		}
+	}
+}
+
+// Idle is not a flat-rated setting: a hot-day descent does not depend on
+// the flat-rating coefficients, while the hot-day climb thrust falls by the
+// BADA 3 correction 1 - C_Tc5 (ΔT - C_Tc4) where Mattingly's θ0 break is
+// not reached (θ0 < TR; here θ0 = 0.94 at FL370, M0.78, ISA+25).
+func TestFlatRatingClimbOnly(t *testing.T) {
+	a := mustBuiltin(t, "demo-narrowbody")
+	b := *a
+	b.Engines.FlatRatingLapse = 0
+	s := DefaultSchedule(a)
+	da, errA := a.Descent(55000, FLToPressure(370), FLToPressure(15), 25, s)
+	db, errB := b.Descent(55000, FLToPressure(370), FLToPressure(15), 25, s)
+	if errA != nil || errB != nil || da != db {
+		t.Errorf("hot descent depends on the flat rating: %+v vs %+v (%v, %v)", da, db, errA, errB)
+	}
+	p, dev := FLToPressure(370), 25.0
+	pa := a.Point(State{Mass: 60000, Pressure: p, Mach: 0.78, ISADev: dev})
+	pb := b.Point(State{Mass: 60000, Pressure: p, Mach: 0.78, ISADev: dev})
+	want := 1 - a.Engines.FlatRatingLapse*(dev-a.Engines.FlatRatingISADev)
+	if relErr(pa.MaxClimbThrust/pb.MaxClimbThrust, want) > 1e-12 {
+		t.Errorf("hot climb thrust ratio %v, BADA correction %v", pa.MaxClimbThrust/pb.MaxClimbThrust, want)
 	}
 }

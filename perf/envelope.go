@@ -10,7 +10,19 @@ type EnvelopeRow struct {
 	// where no Mach is free of buffet.
 	LowBuffet1g, HighBuffet1g, LowBuffetFloor, HighBuffetFloor float64
 
-	MMO           float64
+	// HighBuffet1gBeyondData and HighBuffetFloorBeyondData are true when
+	// the high-speed value is the last Mach of the buffet table, not an
+	// onset: the boundary lies beyond the data and must be shown as such.
+	HighBuffet1gBeyondData, HighBuffetFloorBeyondData bool
+
+	MMO     float64
+	VMOMach float64 // Mach of VMO at this level
+
+	// Band is the usable Mach band at the floor (SpeedBand): bounded by
+	// buffet, MMO, VMO and thrust, with the limit at each end named; NaN
+	// ends where it is empty.
+	Band Band
+
 	LRCMach       float64 // NaN if MachBand is empty
 	ResidualClimb float64 // m/s of pressure altitude at LRC, NaN if none
 }
@@ -74,20 +86,24 @@ func (a *Aircraft) Envelope(mass, isaDev, floor float64) (Envelope, error) {
 	for i := 0; i < nrows; i++ {
 		fl := envelopeLowFL + 10*float64(i)
 		p := FLToPressure(fl)
-		t := isaTemperatureAtPressure(p) + isaDev
+		tisa := isaTemperatureAtPressure(p)
+		t := tisa + isaDev
 		r := EnvelopeRow{FL: fl, Pressure: p, OAT: t, SoundSpeed: SpeedOfSound(t), MMO: a.MMO,
 			LowBuffet1g: nan, HighBuffet1g: nan, LowBuffetFloor: nan, HighBuffetFloor: nan, LRCMach: nan, ResidualClimb: nan}
-		if lo, hi, ok := a.BuffetMachs(mass, p, 1); ok {
-			r.LowBuffet1g, r.HighBuffet1g = lo, hi
+		if lo, hi, beyond, ok := a.buffetMachs(mass, p, 1); ok {
+			r.LowBuffet1g, r.HighBuffet1g, r.HighBuffet1gBeyondData = lo, hi, beyond
 		}
-		if lo, hi, ok := a.BuffetMachs(mass, p, floor); ok {
-			r.LowBuffetFloor, r.HighBuffetFloor = lo, hi
+		if lo, hi, beyond, ok := a.buffetMachs(mass, p, floor); ok {
+			r.LowBuffetFloor, r.HighBuffetFloor, r.HighBuffetFloorBeyondData = lo, hi, beyond
 		}
-		if lo, hi, ok := a.MachBand(mass, p, isaDev, floor); ok {
-			lrc, mr := a.lrcIn(mass, p, t, lo, hi)
+		band, ok := a.SpeedBand(mass, p, isaDev, floor)
+		r.Band, r.VMOMach = band, band.VMOMach
+		if ok {
+			lo, hi := band.Lo, band.Hi
+			lrc, mr := a.lrcIn(mass, p, t, tisa, lo, hi)
 			r.LRCMach = lrc
 			r.ResidualClimb = a.residualClimb(mass, p, isaDev, lrc)
-			if sr := a.specificRange(mass, p, t, mr, cosL); sr > bestSR {
+			if sr := a.specificRange(mass, p, t, tisa, mr, cosL); sr > bestSR {
 				bestRow, bestSR = i, sr
 			}
 		}
@@ -103,7 +119,8 @@ func (a *Aircraft) Envelope(mass, isaDev, floor float64) (Envelope, error) {
 		if !ok {
 			return false
 		}
-		lrc, _ := a.lrcIn(mass, p, isaTemperatureAtPressure(p)+isaDev, lo, hi)
+		tisa := isaTemperatureAtPressure(p)
+		lrc, _ := a.lrcIn(mass, p, tisa+isaDev, tisa, lo, hi)
 		return a.residualClimb(mass, p, isaDev, lrc) >= minResidualClimb
 	}
 	env.MaxFLBuffet = highestLevel(buffetOK)
@@ -116,12 +133,18 @@ func (a *Aircraft) Envelope(mass, isaDev, floor float64) (Envelope, error) {
 	return env, nil
 }
 
+// ReportFL is the one rounding rule for printing a continuous level (a
+// ceiling or the optimum of an Envelope) as a whole flight level: round
+// down, so a maximum level is never overstated, and the same rule for every
+// level so tables and charts agree. NaN stays NaN.
+func ReportFL(fl float64) float64 { return math.Floor(fl + 1e-9) }
+
 // residualClimb is Point's ResidualClimb at Mach m.
 func (a *Aircraft) residualClimb(mass, p, isaDev, m float64) float64 {
 	tisa := isaTemperatureAtPressure(p)
 	t := tisa + isaDev
 	d, _, _ := a.drag(mass, p, m, math.Cos(a.Sweep))
-	return climbRate(a.climbThrust(p, t, m), d, m*SpeedOfSound(t), mass, tisa, t)
+	return climbRate(a.climbThrust(p, t, tisa, m), d, m*SpeedOfSound(t), mass, tisa, t)
 }
 
 // highestLevel returns the highest flight level in [FL100, FL650] where ok
@@ -151,9 +174,10 @@ func (a *Aircraft) optimumLevel(mass, isaDev, floor, near, maxFL float64) (fl, s
 		if !ok {
 			return math.Inf(-1)
 		}
-		t := isaTemperatureAtPressure(p) + isaDev
-		m := a.econMachIn(mass, p, t, lo, hi, 0, 0)
-		return a.specificRange(mass, p, t, m, cosL)
+		tisa := isaTemperatureAtPressure(p)
+		t := tisa + isaDev
+		m := a.econMachIn(mass, p, t, tisa, lo, hi, 0, 0)
+		return a.specificRange(mass, p, t, tisa, m, cosL)
 	}
 	x0, x3 := near-10, math.Min(near+10, maxFL)
 	if x3 <= x0 {

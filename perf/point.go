@@ -42,15 +42,25 @@ type Point struct {
 	ThrustLimited bool // drag exceeds max cruise thrust
 }
 
-// dragCoeff returns CD = CD0 + K CL² + ΔCD_wave, the wave drag from the
-// Korn equation with Lock's fourth-power law (Malone and Mason, "Multi-
-// disciplinary optimization in aircraft design using analytic technology
-// models", J. Aircraft 32(2), 1995):
+// dragCoeff returns CD = CD0 + K CL² + K6 CL⁶ + ΔCD_wave.
+//
+// The CL⁶ term is the lift-dependent drag rise of the clean-configuration
+// drag polynomial of EUROCONTROL's BADA 4 (user manual, aerodynamic model:
+// terms in CL⁰, CL² and CL⁶, each with Mach-dependent coefficients; the
+// form is recalled from memory, the manual's section not checked here);
+// here its coefficient is one per-aircraft constant, a simplification. It makes
+// drag rise faster than the parabola as CL approaches buffet onset, which
+// gives specific range its curvature about the optimum level.
+//
+// The wave drag is from the Korn equation with Lock's fourth-power law
+// (Malone and Mason, "Multidisciplinary optimization in aircraft design
+// using analytic technology models", J. Aircraft 32(2), 1995):
 //
 //	Mdd = κ/cosΛ - (t/c)/cos²Λ - CL/(10 cos³Λ)
 //	Mcrit = Mdd - (0.1/80)^(1/3),  ΔCD = 20 (M - Mcrit)^4 for M > Mcrit.
 func (a *Aircraft) dragCoeff(cl, mach, cosL float64) float64 {
-	cd := a.CD0 + a.K*cl*cl
+	cl2 := cl * cl
+	cd := a.CD0 + cl2*(a.K+a.K6*cl2*cl2)
 	mdd := a.KornKappa/cosL - a.ThicknessRatio/(cosL*cosL) - cl/(10*cosL*cosL*cosL)
 	if d := mach - (mdd - lockOffset); d > 0 {
 		d2 := d * d
@@ -78,37 +88,66 @@ func ramRatios(p, t, mach float64) (d0, th0 float64) {
 	return p / P0 * x * x * x * math.Sqrt(x), t / T0 * x
 }
 
-// thrustLapse returns Mattingly's α for the engine, see Engines.
-func (e *Engines) thrustLapse(p, t, mach float64) float64 {
+// maxFlatLoss is the largest fraction of thrust the flat-rating term may
+// remove (the bound 0 <= ΔT_eff C_Tc5 <= 0.4 of the BADA 3 climb-thrust
+// temperature correction, see Engines).
+const maxFlatLoss = 0.4
+
+// thrustLapse returns the lapse α of the max climb rating, see Engines:
+// Mattingly's δ0 (1 - LapseMach √M) less the larger of Mattingly's θ0-break
+// loss and the flat-rating loss above FlatRatingISADev (isaDev in K).
+func (e *Engines) thrustLapse(p, t, isaDev, mach float64) float64 {
 	d0, th0 := ramRatios(p, t, mach)
 	f := 1 - e.LapseMach*math.Sqrt(mach)
+	var loss float64
 	if th0 > e.ThrottleRatio {
-		f -= e.LapseTheta * (th0 - e.ThrottleRatio) / (1.5 + mach)
+		loss = e.LapseTheta * (th0 - e.ThrottleRatio) / (1.5 + mach)
 	}
+	if dt := isaDev - e.FlatRatingISADev; dt > 0 {
+		if lb := f * math.Min(e.FlatRatingLapse*dt, maxFlatLoss); lb > loss {
+			loss = lb
+		}
+	}
+	f -= loss
 	if f < 0 {
 		return 0
 	}
 	return d0 * f
 }
 
-// climbThrust returns the max climb thrust of all engines (N).
-func (a *Aircraft) climbThrust(p, t, mach float64) float64 {
+// climbThrust returns the max climb thrust of all engines (N) at static
+// pressure p, temperature t and Mach; tisa is the standard temperature at p.
+func (a *Aircraft) climbThrust(p, t, tisa, mach float64) float64 {
 	e := &a.Engines
-	return float64(e.Count) * e.StaticThrust * e.ClimbRating * e.thrustLapse(p, t, mach)
+	return float64(e.Count) * e.StaticThrust * e.ClimbRating * e.thrustLapse(p, t, t-tisa, mach)
 }
 
-// tsfc returns thrust-specific fuel consumption (kg/(N s)).
-func (a *Aircraft) tsfc(t, mach float64) float64 {
-	return (a.Engines.TSFCA + a.Engines.TSFCB*mach) * math.Sqrt(t/T0)
+// fuelFlow returns the fuel flow (kg/s) of all engines giving thrust (N)
+// when max climb thrust is maxThrust (N): TSFC × thrust, with TSFC as on
+// Engines (part-power factor at the setting thrust/maxThrust) times the
+// performance factor.
+func (a *Aircraft) fuelFlow(thrust, maxThrust, t, mach float64) float64 {
+	e := &a.Engines
+	u := thrust/(maxThrust*e.PartPowerBucket) - 1
+	return (e.TSFCA + e.TSFCB*mach) * math.Sqrt(t/T0) * (1 + e.PartPower*u*u) * a.fuelFactor() * thrust
 }
+
+// fuelFactor returns 1 + PerfFactorPct/100.
+func (a *Aircraft) fuelFactor() float64 { return 1 + a.PerfFactorPct/100 }
 
 // idle returns idle thrust (N) and idle fuel flow (kg/s), all engines; the
 // fuel flow is the sea-level static value scaled by δ0 √θ0 (corrected fuel
-// flow held constant).
-func (a *Aircraft) idle(p, t, mach float64) (thrust, ff float64) {
-	e := &a.Engines
+// flow held constant) and by the performance factor.
+//
+// Idle thrust is IdleFraction of the max climb thrust without the
+// flat-rating loss (idle is not a flat-rated setting), as before that term
+// was added.
+func (a *Aircraft) idle(p, t, tisa, mach float64) (thrust, ff float64) {
+	e := a.Engines
+	e.FlatRatingLapse = 0
 	d0, th0 := ramRatios(p, t, mach)
-	return e.IdleFraction * a.climbThrust(p, t, mach), float64(e.Count) * e.IdleFuelFlow * d0 * math.Sqrt(th0)
+	thrust = e.IdleFraction * float64(e.Count) * e.StaticThrust * e.ClimbRating * e.thrustLapse(p, t, t-tisa, mach)
+	return thrust, float64(e.Count) * e.IdleFuelFlow * d0 * math.Sqrt(th0) * a.fuelFactor()
 }
 
 // climbRate returns the residual rate of climb (m/s of pressure altitude)
@@ -156,11 +195,11 @@ func (a *Aircraft) Point(s State) Point {
 	pt.CL = cl1 * n
 	pt.CD = cd
 	pt.Drag = d
-	pt.FuelFlow = a.tsfc(t, s.Mach) * d
+	pt.MaxClimbThrust = a.climbThrust(s.Pressure, t, tisa, s.Mach)
+	pt.FuelFlow = a.fuelFlow(d, pt.MaxClimbThrust, t, s.Mach)
 	pt.SpecificRange = pt.TAS / pt.FuelFlow
 	pt.BuffetCL = a.buffetCL(s.Mach)
 	pt.BuffetMargin = pt.BuffetCL / cl1
-	pt.MaxClimbThrust = a.climbThrust(s.Pressure, t, s.Mach)
 	pt.MaxCruiseThrust = pt.MaxClimbThrust * a.Engines.CruiseRatio
 	pt.ResidualClimb = climbRate(pt.MaxClimbThrust, d, pt.TAS, s.Mass, tisa, t)
 	pt.ThrustLimited = d > pt.MaxCruiseThrust

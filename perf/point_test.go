@@ -1,6 +1,7 @@
 package perf
 
 import (
+	"errors"
 	"math"
 	"testing"
 )
@@ -123,4 +124,45 @@ func BenchmarkPoint(b *testing.B) {
 		s.Mach += 1e-9
 	}
 	_ = sink
+}
+
+// A performance factor scales every fuel flow by 1 + pct/100 and nothing
+// else: cruise fuel flow, climb fuel and idle descent fuel (definition of
+// the factor), with time and distance unchanged.
+func TestPerfFactor(t *testing.T) {
+	a := mustBuiltin(t, "demo-narrowbody")
+	b, err := a.WithPerfFactor(3.5)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if a.PerfFactorPct != 0 {
+		t.Fatal("WithPerfFactor changed its receiver")
+	}
+	s := State{Mass: 65000, Pressure: FLToPressure(350), Mach: 0.78}
+	pa, pb := a.Point(s), b.Point(s)
+	if relErr(pb.FuelFlow, 1.035*pa.FuelFlow) > 1e-12 || pb.Drag != pa.Drag || pb.ResidualClimb != pa.ResidualClimb {
+		t.Errorf("fuel flow %g vs %g x 1.035; drag %g vs %g", pb.FuelFlow, pa.FuelFlow, pb.Drag, pa.Drag)
+	}
+	sch := DefaultSchedule(a)
+	ca, _ := a.Climb(70000, FLToPressure(15), FLToPressure(350), 0, sch)
+	cb, _ := b.Climb(70000, FLToPressure(15), FLToPressure(350), 0, sch)
+	// Fuel is 3.5 % more; the lighter mass along the climb changes time by
+	// far less than that.
+	if r := cb.Fuel / ca.Fuel; r < 1.034 || r > 1.036 || relErr(cb.Time, ca.Time) > 1e-3 {
+		t.Errorf("climb fuel ratio %v, time %v vs %v", r, cb.Time, ca.Time)
+	}
+	da, _ := a.Descent(55000, FLToPressure(370), FLToPressure(15), 0, sch)
+	db, _ := b.Descent(55000, FLToPressure(370), FLToPressure(15), 0, sch)
+	if r := db.Fuel / da.Fuel; r < 1.034 || r > 1.036 {
+		t.Errorf("descent fuel ratio %v", r)
+	}
+	if c, _ := b.WithPerfFactor(-2); c.PerfFactorPct != -2 {
+		t.Errorf("factor compounds: %v", c.PerfFactorPct)
+	}
+	for _, bad := range []float64{-25, 31, math.NaN(), math.Inf(1)} {
+		var re *RangeError
+		if _, err := a.WithPerfFactor(bad); !errors.As(err, &re) {
+			t.Errorf("WithPerfFactor(%v) = %v, want *RangeError", bad, err)
+		}
+	}
 }

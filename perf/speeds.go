@@ -16,11 +16,28 @@ const machSearchMin = 0.05
 // and whose crossings are bracketed and bisected to 1e-12. Validation
 // guarantees a single peak. Beyond the table the boundary is unknown: the
 // search ends at the last table Mach, which is returned as hi when that
-// Mach is still buffet-free (the table reaches at least MMO). Cost: O(rows).
+// Mach is still buffet-free (the table reaches at least MMO; see
+// HighBuffetBeyondData to tell that case from an onset). Cost: O(rows).
 func (a *Aircraft) BuffetMachs(mass, p, n float64) (lo, hi float64, ok bool) {
+	lo, hi, _, ok = a.buffetMachs(mass, p, n)
+	return lo, hi, ok
+}
+
+// HighBuffetBeyondData reports whether BuffetMachs(mass, p, n) returns as
+// hi the last Mach of the buffet table rather than a buffet onset: the
+// boundary is not known beyond the data, so hi is then the end of the data,
+// not a physical limit, and outputs must say so.
+func (a *Aircraft) HighBuffetBeyondData(mass, p, n float64) bool {
+	_, _, beyond, ok := a.buffetMachs(mass, p, n)
+	return ok && beyond
+}
+
+// buffetMachs is BuffetMachs, with beyond true when hi is the end of the
+// table (no high-speed onset within the data).
+func (a *Aircraft) buffetMachs(mass, p, n float64) (lo, hi float64, beyond, ok bool) {
 	b := a.Buffet
 	if !(mass > 0 && p > 0 && n > 0) || len(b) < 2 {
-		return math.NaN(), math.NaN(), false
+		return math.NaN(), math.NaN(), false, false
 	}
 	c := 2 * n * mass * G0 / (Gamma * p * a.WingArea)
 	// Segments: [machSearchMin, b0] with flat CL, then table segments.
@@ -47,7 +64,7 @@ func (a *Aircraft) BuffetMachs(mass, p, n float64) (lo, hi float64, ok bool) {
 		}
 	}
 	if peakH < c {
-		return math.NaN(), math.NaN(), false
+		return math.NaN(), math.NaN(), false, false
 	}
 	// Low root: first segment up to the peak where h crosses c.
 	lo = machSearchMin
@@ -65,7 +82,7 @@ func (a *Aircraft) BuffetMachs(mass, p, n float64) (lo, hi float64, ok bool) {
 		}
 	}
 	// High root: first segment from the peak where h falls below c.
-	hi = b[len(b)-1].Mach
+	hi, beyond = b[len(b)-1].Mach, true
 	for j := peakSeg; j < nseg; j++ {
 		x0, y0, x1, y1 := seg(j)
 		xs := x0
@@ -73,11 +90,11 @@ func (a *Aircraft) BuffetMachs(mass, p, n float64) (lo, hi float64, ok bool) {
 			xs = peakM
 		}
 		if x1*x1*y1 < c {
-			hi = bisectSeg(x0, y0, x1, y1, xs, x1, c)
+			hi, beyond = bisectSeg(x0, y0, x1, y1, xs, x1, c), false
 			break
 		}
 	}
-	return lo, hi, lo < hi
+	return lo, hi, beyond, lo < hi
 }
 
 func lerp(x0, y0, x1, y1, x float64) float64 {
@@ -118,9 +135,9 @@ func bisectSeg(x0, y0, x1, y1, xa, xb, c float64) float64 {
 }
 
 // excessThrust returns max cruise thrust minus level-flight drag (N).
-func (a *Aircraft) excessThrust(mass, p, t, mach, cosL float64) float64 {
+func (a *Aircraft) excessThrust(mass, p, t, tisa, mach, cosL float64) float64 {
 	d, _, _ := a.drag(mass, p, mach, cosL)
-	return a.climbThrust(p, t, mach)*a.Engines.CruiseRatio - d
+	return a.climbThrust(p, t, tisa, mach)*a.Engines.CruiseRatio - d
 }
 
 // machTol is the Mach resolution of the speed searches.
@@ -175,34 +192,74 @@ func bisectEdge(good, bad, tol float64, ok func(float64) bool) float64 {
 	return good
 }
 
+// Names of the limits that bound a Mach band (Band.LoLimit, Band.HiLimit).
+const (
+	LimitBuffet = "buffet"      // buffet onset at the protection floor
+	LimitThrust = "thrust"      // drag exceeds max cruise thrust
+	LimitMMO    = "mmo"         // maximum operating Mach
+	LimitVMO    = "vmo"         // maximum operating speed (CAS)
+	LimitData   = "buffet-data" // end of the buffet table: boundary unknown beyond it
+)
+
+// Band is the Mach band usable in level flight and the limit that sets
+// each end: Lo by LimitBuffet or LimitThrust; Hi by LimitBuffet, LimitMMO,
+// LimitVMO, LimitThrust or LimitData (the buffet table ends before any
+// onset and before MMO and VMO, which validation normally prevents).
+type Band struct {
+	Lo, Hi           float64
+	LoLimit, HiLimit string
+	VMOMach          float64 // Mach of VMO at this pressure
+}
+
 // MachBand returns the Mach range usable in level flight: buffet-free at
 // load factor floor (g), at most MMO and the Mach of VMO (CAS), and with
 // drag no more than max cruise thrust. ok is false when the range is empty.
+// SpeedBand also names the limit at each end.
 //
 // The thrust test assumes excess thrust is unimodal in Mach (drag is
 // U-shaped, thrust smooth): the ends are tested first; if either fails,
 // the maximum is found by golden-section search and the feasible ends by
-// bisection to 1e-7 Mach. Cost: 2 to about 150 drag evaluations.
+// the Illinois method to 1e-7 Mach (see rootEdge). Cost: 2 to about 50
+// drag evaluations.
 func (a *Aircraft) MachBand(mass, p, isaDev, floor float64) (lo, hi float64, ok bool) {
+	b, ok := a.SpeedBand(mass, p, isaDev, floor)
+	return b.Lo, b.Hi, ok
+}
+
+// SpeedBand is MachBand with the limit that sets each end named (see Band).
+// When ok is false the band is empty and HiLimit names the limit that
+// closed it: LimitBuffet when no Mach is free of buffet at the floor (or
+// the buffet band lies above MMO or VMO: then LimitMMO or LimitVMO), else
+// LimitThrust. No allocation.
+func (a *Aircraft) SpeedBand(mass, p, isaDev, floor float64) (Band, bool) {
 	nan := math.NaN()
-	lo, hi, ok = a.BuffetMachs(mass, p, floor)
+	b := Band{Lo: nan, Hi: nan, VMOMach: CASToMach(a.VMO, p)}
+	lo, hi, beyond, ok := a.buffetMachs(mass, p, floor)
 	if !ok || math.IsNaN(isaDev) {
-		return nan, nan, false
+		b.HiLimit = LimitBuffet
+		return b, false
 	}
-	hi = math.Min(hi, a.MMO)
-	if mv := CASToMach(a.VMO, p); mv < hi {
-		hi = mv
+	b.LoLimit, b.HiLimit = LimitBuffet, LimitBuffet
+	if beyond {
+		b.HiLimit = LimitData
+	}
+	if a.MMO <= hi {
+		hi, b.HiLimit = a.MMO, LimitMMO
+	}
+	if mv := b.VMOMach; mv < hi {
+		hi, b.HiLimit = mv, LimitVMO
 	}
 	if !(lo < hi) {
-		return nan, nan, false
+		return b, false
 	}
-	t := isaTemperatureAtPressure(p) + isaDev
+	tisa := isaTemperatureAtPressure(p)
+	t := tisa + isaDev
 	cosL := math.Cos(a.Sweep)
-	excess := func(m float64) float64 { return a.excessThrust(mass, p, t, m, cosL) }
-	thrustOK := func(m float64) bool { return excess(m) >= 0 }
+	excess := func(m float64) float64 { return a.excessThrust(mass, p, t, tisa, m, cosL) }
 	elo, ehi := excess(lo), excess(hi)
 	if elo >= 0 && ehi >= 0 {
-		return lo, hi, true
+		b.Lo, b.Hi = lo, hi
+		return b, true
 	}
 	// The maximum excess thrust, or any Mach with some to spare.
 	g := goldenMax(lo, hi, 1e-5, 0, excess)
@@ -211,49 +268,49 @@ func (a *Aircraft) MachBand(mass, p, isaDev, floor float64) (lo, hi float64, ok 
 		xm, em = g.x2, g.f2
 	}
 	if em < 0 {
-		return nan, nan, false
+		b.HiLimit = LimitThrust
+		return b, false
 	}
 	if elo < 0 {
-		lo = bisectEdge(xm, lo, machTol, thrustOK)
+		lo, b.LoLimit = rootEdge(xm, lo, em, elo, machTol, excess), LimitThrust
 	}
 	if ehi < 0 {
-		hi = bisectEdge(xm, hi, machTol, thrustOK)
+		hi, b.HiLimit = rootEdge(xm, hi, em, ehi, machTol, excess), LimitThrust
 	}
-	return lo, hi, lo <= hi
+	b.Lo, b.Hi = lo, hi
+	return b, lo <= hi
 }
 
 // econCost returns (fuel flow + ci/60)/(TAS + wind) in kg per metre of
 // ground distance, +Inf when the ground speed is not positive.
-func (a *Aircraft) econCost(mass, p, t, mach, cosL, ciPerS, wind float64) float64 {
+func (a *Aircraft) econCost(mass, p, t, tisa, mach, cosL, ciPerS, wind float64) float64 {
 	gs := mach*SpeedOfSound(t) + wind
 	if !(gs > 0) {
 		return math.Inf(1)
 	}
 	d, _, _ := a.drag(mass, p, mach, cosL)
-	return (a.tsfc(t, mach)*d + ciPerS) / gs
+	return (a.fuelFlow(d, a.climbThrust(p, t, tisa, mach), t, mach) + ciPerS) / gs
 }
 
 // EconMach returns the Mach within MachBand that minimises the cost per
 // ground distance (FuelFlow + ci/60)/(TAS + windAlong), ci the cost index in
 // kg/min and windAlong the tailwind component (m/s). With ci = 0 and no
-// wind it is MaxRangeMach. Method: golden-section search (Kiefer 1953) to
-// 1e-7 Mach, about 35 evaluations, assuming the cost is unimodal in Mach;
-// the band ends are compared too so a boundary optimum is exact.
+// wind it is MaxRangeMach. Method: Brent's minimisation (see brentMin) to
+// 1e-7 Mach, typically 10-15 evaluations, assuming the cost is unimodal in
+// Mach; the band ends are compared too so a boundary optimum is exact.
 func (a *Aircraft) EconMach(mass, p, isaDev, floor, ci, windAlong float64) (float64, bool) {
 	lo, hi, ok := a.MachBand(mass, p, isaDev, floor)
 	if !ok || math.IsNaN(ci) || math.IsNaN(windAlong) {
 		return math.NaN(), false
 	}
-	t := isaTemperatureAtPressure(p) + isaDev
-	return a.econMachIn(mass, p, t, lo, hi, ci/60, windAlong), true
+	tisa := isaTemperatureAtPressure(p)
+	return a.econMachIn(mass, p, tisa+isaDev, tisa, lo, hi, ci/60, windAlong), true
 }
 
-func (a *Aircraft) econMachIn(mass, p, t, lo, hi, ciPerS, wind float64) float64 {
+func (a *Aircraft) econMachIn(mass, p, t, tisa, lo, hi, ciPerS, wind float64) float64 {
 	cosL := math.Cos(a.Sweep)
-	f := func(m float64) float64 { return a.econCost(mass, p, t, m, cosL, ciPerS, wind) }
-	g := goldenMax(lo, hi, machTol, math.NaN(), func(m float64) float64 { return -f(m) })
-	best := 0.5 * (g.x0 + g.x3)
-	fb := f(best)
+	f := func(m float64) float64 { return a.econCost(mass, p, t, tisa, m, cosL, ciPerS, wind) }
+	best, fb := brentMin(lo, hi, machTol, f)
 	if fl := f(lo); fl < fb {
 		best, fb = lo, fl
 	}
@@ -270,33 +327,34 @@ func (a *Aircraft) MaxRangeMach(mass, p, isaDev, floor float64) (float64, bool) 
 }
 
 // specificRange returns TAS/fuel flow (m/kg) at level flight.
-func (a *Aircraft) specificRange(mass, p, t, mach, cosL float64) float64 {
+func (a *Aircraft) specificRange(mass, p, t, tisa, mach, cosL float64) float64 {
 	d, _, _ := a.drag(mass, p, mach, cosL)
-	return mach * SpeedOfSound(t) / (a.tsfc(t, mach) * d)
+	return mach * SpeedOfSound(t) / a.fuelFlow(d, a.climbThrust(p, t, tisa, mach), t, mach)
 }
 
 // LRCMach returns the long-range cruise Mach: the Mach above MaxRangeMach
 // where specific range has fallen to 99 % of its maximum (common
-// practice), found by bisection to 1e-7 Mach; the top of MachBand if the
+// practice), found by the Illinois method to 1e-7 Mach (see rootEdge); the
+// top of MachBand if the
 // range is still above 99 % there.
 func (a *Aircraft) LRCMach(mass, p, isaDev, floor float64) (float64, bool) {
 	lo, hi, ok := a.MachBand(mass, p, isaDev, floor)
 	if !ok {
 		return math.NaN(), false
 	}
-	t := isaTemperatureAtPressure(p) + isaDev
-	m, _ := a.lrcIn(mass, p, t, lo, hi)
+	tisa := isaTemperatureAtPressure(p)
+	m, _ := a.lrcIn(mass, p, tisa+isaDev, tisa, lo, hi)
 	return m, true
 }
 
 // lrcIn returns LRC Mach and the max-range Mach within [lo, hi].
-func (a *Aircraft) lrcIn(mass, p, t, lo, hi float64) (lrc, mr float64) {
+func (a *Aircraft) lrcIn(mass, p, t, tisa, lo, hi float64) (lrc, mr float64) {
 	cosL := math.Cos(a.Sweep)
-	mr = a.econMachIn(mass, p, t, lo, hi, 0, 0)
-	target := 0.99 * a.specificRange(mass, p, t, mr, cosL)
-	if a.specificRange(mass, p, t, hi, cosL) >= target {
+	mr = a.econMachIn(mass, p, t, tisa, lo, hi, 0, 0)
+	target := 0.99 * a.specificRange(mass, p, t, tisa, mr, cosL)
+	if a.specificRange(mass, p, t, tisa, hi, cosL) >= target {
 		return hi, mr
 	}
-	rangeOK := func(m float64) bool { return a.specificRange(mass, p, t, m, cosL) >= target }
-	return bisectEdge(mr, hi, machTol, rangeOK), mr
+	excess := func(m float64) float64 { return a.specificRange(mass, p, t, tisa, m, cosL) - target }
+	return rootEdge(mr, hi, excess(mr), excess(hi), machTol, excess), mr
 }

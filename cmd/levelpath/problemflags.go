@@ -46,6 +46,8 @@ type problemFlags struct {
 	bucketKg    float64
 	exact       bool
 	date        string
+	perfFactor  float64
+	isaDev      float64
 	budgetMiB   int64
 }
 
@@ -76,6 +78,8 @@ func (f *problemFlags) register(c *cobra.Command) {
 	fl.Float64Var(&f.bucketKg, "mass-bucket-kg", 0, "mass bucket of the search, kg (default 0.25 % of MTOW)")
 	fl.BoolVar(&f.exact, "exact", false, "turn off the search's approximations (merged step counters)")
 	fl.StringVar(&f.date, "date", "", "date for magnetic variation, YYYY-MM-DD (default: departure date)")
+	fl.Float64Var(&f.perfFactor, "perf-factor", 0, "performance factor, percent: every fuel flow multiplied by 1 + PCT/100 (per tail, e.g. 2.5)")
+	fl.Float64Var(&f.isaDev, "isa-dev", 0, "temperature deviation from ISA, °C, where there is no forecast temperature (no --weather: still air at ISA+DEV)")
 	weatherBudgetFlag(c, &f.budgetMiB)
 }
 
@@ -152,7 +156,14 @@ func (f *problemFlags) problem(c *cobra.Command, wx *winds.Field, stderr io.Writ
 	if f.route == "" {
 		return nil, badInputf("--route is required")
 	}
-	p := &optimizer.Problem{Aircraft: a, Weather: wx, CI: f.ci, Floor: f.floor, MinFL: f.minFL, MaxFL: f.maxFL, MassBucket: f.bucketKg, Exact: f.exact}
+	p := &optimizer.Problem{Aircraft: a, Weather: wx, CI: f.ci, Floor: f.floor, MinFL: f.minFL, MaxFL: f.maxFL, MassBucket: f.bucketKg, Exact: f.exact,
+		PerfFactorPct: f.perfFactor, ISADev: f.isaDev}
+	if !(f.perfFactor >= perf.MinPerfFactorPct && f.perfFactor <= perf.MaxPerfFactorPct) {
+		return nil, badInputf("--perf-factor %v: want %g..%g percent", f.perfFactor, perf.MinPerfFactorPct, perf.MaxPerfFactorPct)
+	}
+	if !(f.isaDev >= -60 && f.isaDev <= 60) {
+		return nil, badInputf("--isa-dev %v: want -60..60 °C", f.isaDev)
+	}
 	if f.minFL != 0 && (f.minFL < 1 || f.minFL > 600) || f.maxFL != 0 && (f.maxFL < 1 || f.maxFL > 600) {
 		return nil, badInputf("--min-fl %d, --max-fl %d: each must be 0 (the default) or a flight level 1..600", f.minFL, f.maxFL)
 	}

@@ -1,0 +1,99 @@
+package perf
+
+import (
+	"bytes"
+	"errors"
+	"math"
+	"strings"
+	"testing"
+)
+
+// Multilinear interpolation reproduces any function that is linear in each
+// coordinate separately (here f = 1 + 2x + 3y - 0.5xy + 0.25xyz) exactly
+// inside the grid (definition of multilinear interpolation), and a query
+// outside the grid is an error naming the axis and value.
+func TestGridMultilinear(t *testing.T) {
+	f := func(x, y, z float64) float64 { return 1 + 2*x + 3*y - 0.5*x*y + 0.25*x*y*z }
+	xs, ys, zs := []float64{0, 1, 3}, []float64{-2, 0.5, 1, 4}, []float64{10, 20}
+	g := &Grid{Name: "t.csv", Axes: []Axis{{"x", xs}, {"y", ys}, {"z", zs}}}
+	for _, x := range xs {
+		for _, y := range ys {
+			for _, z := range zs {
+				g.Values = append(g.Values, f(x, y, z))
+			}
+		}
+	}
+	for _, q := range [][3]float64{{0, -2, 10}, {3, 4, 20}, {0.3, 0.7, 12}, {2.9, -1.5, 19.9}, {1, 1, 15}} {
+		got, err := g.At(q[0], q[1], q[2])
+		if err != nil || math.Abs(got-f(q[0], q[1], q[2])) > 1e-12 {
+			t.Errorf("At%v = %v, %v; want %v", q, got, err, f(q[0], q[1], q[2]))
+		}
+	}
+	for _, q := range [][3]float64{{-0.1, 0, 15}, {1, 4.5, 15}, {1, 0, math.NaN()}} {
+		_, err := g.At(q[0], q[1], q[2])
+		var oe *OutOfTableError
+		if !errors.As(err, &oe) || !strings.Contains(err.Error(), "t.csv") {
+			t.Errorf("At%v: %v, want *OutOfTableError", q, err)
+		}
+	}
+	if _, err := g.At(1, 2); err == nil {
+		t.Error("two coordinates for three axes accepted")
+	}
+}
+
+// The model's cruise fuel flow written as a table and read back is the
+// model at every grid point (to the 10 digits written), in lb and ft too.
+func TestCruiseFuelFlowRoundTrip(t *testing.T) {
+	a := mustBuiltin(t, "demo-narrowbody")
+	g, err := a.CruiseFuelFlowGrid([]float64{50000, 60000, 70000}, []float64{310, 350}, []float64{0.74, 0.78}, []float64{0, 15})
+	if err != nil {
+		t.Fatal(err)
+	}
+	axes := []ColumnSpec{ColMass, ColLevel, ColMach, ColISADev}
+	for _, units := range []struct {
+		header  []string
+		factors []float64
+	}{
+		{[]string{"mass_kg", "fl", "mach", "isa_dev_c", "fuel_flow_kg_h"}, []float64{1, 1, 1, 1, 1.0 / 3600}},
+		{[]string{"mass_lb", "altitude_ft", "mach", "isa_dev_c", "fuel_flow_lb_h"}, []float64{0.45359237, 0.01, 1, 1, 0.45359237 / 3600}},
+	} {
+		var buf bytes.Buffer
+		if err := WriteGridCSV(&buf, g, units.header, units.factors); err != nil {
+			t.Fatal(err)
+		}
+		r, err := ReadGridCSV(&buf, "ff.csv", axes, ColFuelFF)
+		if err != nil {
+			t.Fatalf("%v: %v", units.header, err)
+		}
+		for _, q := range [][4]float64{{50000, 310, 0.74, 0}, {70000, 350, 0.78, 15}, {60000, 350, 0.74, 15}} {
+			got, err := r.At(q[0], q[1], q[2], q[3])
+			want := a.Point(State{Mass: q[0], Pressure: FLToPressure(q[1]), Mach: q[2], ISADev: q[3]}).FuelFlow
+			if err != nil || relErr(got, want) > 1e-8 {
+				t.Errorf("%v at %v: %v (%v), model %v", units.header[0], q, got, err, want)
+			}
+		}
+	}
+}
+
+// Bad tables are refused naming the file, line and column.
+func TestReadGridCSVErrors(t *testing.T) {
+	axes := []ColumnSpec{ColMass, ColLevel}
+	const head = "mass_kg,fl,fuel_flow_kg_h\n"
+	tests := []struct{ name, data, want string }{
+		{"unit", "mass_t,fl,fuel_flow_kg_h\n1,2,3\n", `t.csv:1: column "mass_t": unrecognised column or unit; want mass_kg or mass_lb`},
+		{"number", head + "60000,350,abc\n", `t.csv:2: column fuel_flow_kg_h: "abc" is not a finite number`},
+		{"nan", head + "60000,NaN,2000\n", `t.csv:2: column fl: "NaN" is not a finite number`},
+		{"negative", head + "60000,350,-1\n", "t.csv:2: column fuel_flow_kg_h: -1 is negative"},
+		{"duplicate", head + "60000,350,1\n70000,350,2\n60000,350,3\n", "t.csv:4: duplicates the grid point of line 2"},
+		{"hole", head + "60000,350,1\n70000,350,2\n60000,370,3\n", "t.csv: hole in the grid: no row for mass_kg=70000, fl=370"},
+		{"width", head + "60000,350\n", "t.csv:2: wrong number of fields"},
+		{"empty", head, "t.csv: no rows"},
+	}
+	for _, tc := range tests {
+		_, err := ReadGridCSV(strings.NewReader(tc.data), "t.csv", axes, ColFuelFF)
+		var te *TableError
+		if !errors.As(err, &te) || err.Error() != tc.want {
+			t.Errorf("%s: %v, want %q", tc.name, err, tc.want)
+		}
+	}
+}
