@@ -341,30 +341,81 @@ func (a *aecDecoder) splitSamples(out []float32, i int, ref bool, k uint) (int, 
 		return 0, a.fail("split option k=%d for %d-bit samples", k, a.bps)
 	}
 	hmax := a.xmax >> k
-	for s := start; s < a.block; s++ {
-		m, ok := a.fundamentalSequence()
-		if !ok {
-			return 0, a.fail("stream ends in a fundamental sequence")
+	// The FS codewords are read with acc and nacc in locals; the loop
+	// falls back to fundamentalSequence (which refills) when the next one
+	// bit is not among the valid bits.
+	acc, nacc := a.acc, a.nacc
+	hi := a.buf[start:a.block]
+	for s := range hi {
+		var m uint32
+		if lz := uint(bits.LeadingZeros64(acc)); lz < nacc {
+			m = uint32(lz)
+			acc <<= lz + 1
+			nacc -= lz + 1
+		} else {
+			a.acc, a.nacc = acc, nacc
+			var ok bool
+			if m, ok = a.fundamentalSequence(); !ok {
+				return 0, a.fail("stream ends in a fundamental sequence")
+			}
+			acc, nacc = a.acc, a.nacc
 		}
 		if m > hmax {
 			return 0, a.fail("sample %d exceeds %d bits", m<<k, a.bps)
 		}
-		a.buf[s] = m
+		hi[s] = m
 	}
-	if k > 0 {
-		for s := start; s < a.block; s++ {
-			if a.nacc < k {
+	if i+a.block > len(out) || !a.pp {
+		// The padded last block, or no preprocessing: low bits into
+		// a.buf, then emit.
+		for s := range hi {
+			if nacc < k {
+				a.acc, a.nacc = acc, nacc
 				a.refill()
-				if a.nacc < k {
+				acc, nacc = a.acc, a.nacc
+				if nacc < k {
 					return 0, a.fail("stream ends in split samples")
 				}
 			}
-			a.buf[s] = a.buf[s]<<k | uint32(a.acc>>(64-k))
-			a.acc <<= k
-			a.nacc -= k
+			hi[s] = hi[s]<<k | uint32(acc>>(64-k)) // acc>>64 is 0 for k = 0
+			acc <<= k
+			nacc -= k
 		}
+		a.acc, a.nacc = acc, nacc
+		return a.emit(out, i, ref)
 	}
-	return a.emit(out, i, ref)
+	// A whole block with preprocessing: low bits, inverse mapping (see
+	// emit) and scaling in one pass.
+	dst := out[i+start : i+a.block]
+	dst = dst[:len(hi)]
+	x, xmax, fa, fb := a.last, a.xmax, a.a, a.b
+	if ref {
+		x = a.buf[0]
+		out[i] = float32(fa + float64(x)*fb)
+	}
+	for s, h := range hi {
+		if nacc < k {
+			a.acc, a.nacc = acc, nacc
+			a.refill()
+			acc, nacc = a.acc, a.nacc
+			if nacc < k {
+				return 0, a.fail("stream ends in split samples")
+			}
+		}
+		d := h<<k | uint32(acc>>(64-k))
+		acc <<= k
+		nacc -= k
+		if t := min(x, xmax-x); d <= 2*t {
+			x += d>>1 ^ -(d & 1)
+		} else if x <= xmax-x {
+			x = d
+		} else {
+			x = xmax - d
+		}
+		dst[s] = float32(fa + float64(x)*fb)
+	}
+	a.acc, a.nacc, a.last = acc, nacc, x
+	return a.block, nil
 }
 
 // uncompressed decodes a block of raw samples of bps bits; with a
@@ -395,25 +446,22 @@ func (a *aecDecoder) emit(out []float32, i int, ref bool) (int, error) {
 		}
 		return a.block, nil
 	}
-	x, xmax := a.last, a.xmax
+	x, xmax, fa, fb := a.last, a.xmax, a.a, a.b
+	if ref {
+		x = buf[0]
+		dst[0] = float32(fa + float64(x)*fb)
+		buf, dst = buf[1:], dst[1:]
+	}
 	for k, d := range buf {
-		switch {
-		case k == 0 && ref:
+		if t := min(x, xmax-x); d <= 2*t {
+			// x + d/2 for even d, x - (d+1)/2 = x + ^(d/2) for odd d.
+			x += d>>1 ^ -(d & 1)
+		} else if x <= xmax-x {
 			x = d
-		default:
-			t := min(x, xmax-x)
-			switch {
-			case d <= 2*t && d&1 == 0:
-				x += d >> 1
-			case d <= 2*t:
-				x -= d>>1 + 1
-			case x <= xmax-x:
-				x = d
-			default:
-				x = xmax - d
-			}
+		} else {
+			x = xmax - d
 		}
-		dst[k] = float32(a.a + float64(x)*a.b)
+		dst[k] = float32(fa + float64(x)*fb)
 	}
 	// Samples of the padded last block past the field still predict
 	// nothing that is kept, so a.last need not follow them.

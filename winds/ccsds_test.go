@@ -5,6 +5,7 @@ import (
 	"bytes"
 	"math"
 	"os"
+	"os/exec"
 	"path/filepath"
 	"strconv"
 	"strings"
@@ -112,5 +113,29 @@ func TestCCSDSFixtures(t *testing.T) {
 				}
 			}
 		})
+	}
+}
+
+// TestCCSDSRepackEcCodes repacks c_large (360x181, 65160 values) with
+// ecCodes' grib_set -r -s packingType=grid_simple, when installed, and
+// checks that both files decode to identical values.
+func TestCCSDSRepackEcCodes(t *testing.T) {
+	exe, err := exec.LookPath("grib_set")
+	if err != nil {
+		t.Skip("grib_set not installed")
+	}
+	src := filepath.Join(ccsdsFixtures, "c_large.grib2")
+	dst := filepath.Join(t.TempDir(), "c_large_simple.grib2")
+	if out, err := exec.Command(exe, "-r", "-s", "packingType=grid_simple", src, dst).CombinedOutput(); err != nil {
+		t.Fatalf("grib_set: %v %s", err, out)
+	}
+	c, s := decodeOne(t, src), decodeOne(t, dst)
+	if s.Packing != 0 || len(c.Values) != 360*181 || len(s.Values) != len(c.Values) {
+		t.Fatalf("packing %d, %d and %d values", s.Packing, len(c.Values), len(s.Values))
+	}
+	for i := range c.Values {
+		if c.Values[i] != s.Values[i] {
+			t.Fatalf("value %d: CCSDS %.9g, simple repack %.9g", i, c.Values[i], s.Values[i])
+		}
 	}
 }

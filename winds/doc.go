@@ -14,7 +14,8 @@
 //   - product definition templates 4.0 and 4.1 (ensemble member);
 //   - data representation templates 5.0 (simple), 5.2 (complex), 5.3
 //     (complex with spatial differencing of order 1 and 2), 5.4 (IEEE 32 and
-//     64 bit) and 5.41 (PNG); section 6 bitmaps (indicator 0, 254, 255);
+//     64 bit), 5.41 (PNG) and 5.42 (CCSDS 121.0-B adaptive Rice coding,
+//     as libaec writes it); section 6 bitmaps (indicator 0, 254, 255);
 //   - GRIB1 regular latitude/longitude grids with simple packing and bitmap.
 //
 // Anything else is reported as an *UnsupportedError that names the template
