@@ -11,7 +11,8 @@
 //   - grid definition template 3.0 (regular latitude/longitude) in every
 //     scanning mode of code table 3.4 (i negative, j positive, j
 //     consecutive, boustrophedon rows);
-//   - product definition templates 4.0 and 4.1 (ensemble member);
+//   - product definition templates 4.0, 4.1 (ensemble member) and, for
+//     EDR only, 4.15 (spatial statistics);
 //   - data representation templates 5.0 (simple), 5.2 (complex), 5.3
 //     (complex with spatial differencing of order 1 and 2), 5.4 (IEEE 32 and
 //     64 bit), 5.41 (PNG) and 5.42 (CCSDS 121.0-B adaptive Rice coding,

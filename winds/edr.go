@@ -15,10 +15,10 @@ var edrNames = map[int]string{
 	31: "maximum of eddy dissipation parameter in layer",
 }
 
-// isEDR reports whether m carries EDR (discipline 0, category 19, 28-31)
-// on an isobaric surface, whatever its product template.
+// isEDR reports whether m carries EDR: kept as ParamEDR, or GRIB2
+// discipline 0, category 19, 28-31 whatever its product template and level.
 func isEDR(m *Message) bool {
-	return m.Edition == 2 && m.Discipline == 0 && m.Category == 19 && edrNames[m.Number] != "" && m.LevelType == LevelIsobaric
+	return m.Param == ParamEDR || (m.Edition == 2 && m.Discipline == 0 && m.Category == 19 && edrNames[m.Number] != "")
 }
 
 func edrName(n int) string { return fmt.Sprintf("0.19.%d (%s)", n, edrNames[n]) }
@@ -31,15 +31,21 @@ func edrName(n int) string { return fmt.Sprintf("0.19.%d (%s)", n, edrNames[n]) 
 // that are not read (anything but 4.0, 4.1 and 4.15) and EDR taken from
 // spatial statistics (4.15).
 func selectEDR(msgs []Message, want int) (int, []string, error) {
-	present := map[int]int{}    // number -> messages, kept templates
-	ignored := map[[2]int]int{} // {template, number} -> messages not read
-	spatial := map[int]int{}    // number -> template 4.15 messages
+	present := map[int]int{}     // number -> messages, kept templates
+	ignored := map[[2]int]int{}  // {template, number} -> messages not read
+	offLevel := map[[2]int]int{} // {level type, number} -> messages not read
+	spatial := map[int]int{}     // number -> template 4.15 messages
 	for i := range msgs {
 		m := &msgs[i]
 		if !isEDR(m) {
 			continue
 		}
-		if m.Param != ParamEDR {
+		switch {
+		case m.Param == ParamEDR:
+		case m.Product == 0 || m.Product == 1 || m.Product == 15:
+			offLevel[[2]int{m.LevelType, m.Number}]++
+			continue
+		default:
 			ignored[[2]int{m.Product, m.Number}]++
 			continue
 		}
@@ -56,6 +62,9 @@ func selectEDR(msgs []Message, want int) (int, []string, error) {
 	var warnings []string
 	for k, c := range ignored {
 		warnings = append(warnings, fmt.Sprintf("EDR %s in product template 4.%d (%d messages) not read: only templates 4.0, 4.1 and 4.15 are", edrName(k[1]), k[0], c))
+	}
+	for k, c := range offLevel {
+		warnings = append(warnings, fmt.Sprintf("EDR %s on fixed surface type %d (%d messages) not read: only isobaric surfaces (type 100) are", edrName(k[1]), k[0], c))
 	}
 	slices.Sort(warnings)
 	chosen := 0

@@ -38,7 +38,7 @@ var slotParams = [nslots]Param{ParamU, ParamV, ParamT, ParamEDR}
 // beyond a variable's top or bottom level with that level's value: 0.5 %.
 // Producers round flight-level pressures: GRIB1 stores isobaric levels in
 // whole hPa (up to 50 Pa off, 0.34 % at FL450's 147.48 hPa) and GRIB2
-// hazard files give them to 10 Pa (FL450 as 14750 Pa for 14748.3 Pa in the
+// hazard files give them to 10 Pa (FL450 as 14750 Pa for 14747.7 Pa in the
 // ICAO standard atmosphere). 0.5 % of pressure is about 40 m of altitude
 // (dz = H dp/p with a scale height H of 6.3 to 8.4 km), an eighth of the
 // 1000 ft between flight levels, while the closest distinct levels in use

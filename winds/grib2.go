@@ -259,12 +259,12 @@ func (d *grib2Decoder) productDefinition(s []byte) error {
 	c.LevelType, c.Level = -1, math.NaN()
 	c.RefTime, c.ValidTime = d.ref, d.ref
 	c.Ensemble = -1
-	if c.Product != 0 && c.Product != 1 {
+	if c.Product != 0 && c.Product != 1 && c.Product != 15 {
 		return nil // statistically processed and other products: listed, not kept
 	}
 	need := 34
-	if c.Product == 1 {
-		need = 37
+	if c.Product == 1 || c.Product == 15 {
+		need = 37 // 4.15 adds 35 statistical process, 36 spatial processing, 37 points used
 	}
 	if nv := u16(s[5:]); len(s) < need+4*nv {
 		return d.formatErr(d.pos, "product template 4.%d with %d coordinate values needs %d octets, section has %d", c.Product, nv, need+4*nv, len(s))
@@ -284,6 +284,9 @@ func (d *grib2Decoder) productDefinition(s []byte) error {
 		c.Ensemble = int(s[35])
 	}
 	c.Param = classify2(c.Discipline, c.Category, c.Number, c.LevelType, c.Level)
+	if c.Product == 15 && c.Param != ParamEDR {
+		c.Param = ParamOther // spatial statistics are kept for EDR only
+	}
 	d.productOK = true
 	return nil
 }

@@ -55,7 +55,7 @@ def message(f, g, cat, num, level, step, kind, product=0):
 
 HAZARD = (18, 10, 90.0, -180.0, -90.0, 160.0, 20.0, 20.0)  # -180..160E
 # Isobaric levels of flight levels as hazard files give them, rounded to
-# 10 Pa: FL300 30090 (ISA 30089.6), FL390 19680 (19677.0), FL450 14750 (14748.3).
+# 10 Pa: FL300 30090 (ISA 30089.6), FL390 19680 (19677.0), FL450 14750 (14747.7).
 EDR_LEVELS = (30090, 19680, 14750)
 
 # 0.19.28 mountain-wave EDR, 29 clear-air EDR, 30 eddy dissipation

@@ -1,0 +1,185 @@
+package winds
+
+import (
+	"bytes"
+	"errors"
+	"math"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+	"time"
+)
+
+const mixedFixtures = "../testdata/winds/mixed"
+
+// hazardRef is the reference time of the ecCodes-written EDR fixtures.
+var hazardRef = time.Date(2026, 12, 1, 0, 0, 0, 0, time.UTC)
+
+// windsFile writes u, v and temperature on the 10-degree grid from 0E at
+// 350..100 hPa, steps 0 and 6 h from hazardRef, with this package's
+// writer (the EDR checks need no ecCodes decode of the winds).
+func windsFile(t *testing.T) string {
+	t.Helper()
+	var msgs []Message
+	for _, p := range []Param{ParamU, ParamV, ParamT} {
+		for _, m := range synthetic(p, []float64{35000, 30000, 25000, 20000, 15000, 10000}, []int{0, 6}, multilinear) {
+			m.ValidTime = hazardRef.Add(m.ValidTime.Sub(m.RefTime))
+			m.RefTime = hazardRef
+			msgs = append(msgs, m)
+		}
+	}
+	var buf bytes.Buffer
+	if err := WriteGRIB2(&buf, msgs); err != nil {
+		t.Fatal(err)
+	}
+	path := filepath.Join(t.TempDir(), "winds.grib2")
+	if err := os.WriteFile(path, buf.Bytes(), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	return path
+}
+
+// isaPressure is the ICAO standard atmosphere pressure (ICAO Doc 7488,
+// from memory: 101325 Pa, 288.15 K, -6.5 K/km to 11 km, then isothermal
+// 216.65 K, g0 = 9.80665, R = 287.05287) at geopotential altitude h (m).
+func isaPressure(h float64) float64 {
+	const g, r = 9.80665, 287.05287
+	if h <= 11000 {
+		return 101325 * math.Pow(1-0.0065*h/288.15, g/(0.0065*r))
+	}
+	return 22632.06 * math.Exp(-g*(h-11000)/(r*216.65))
+}
+
+// checkEDR samples f at every grid node of the ecCodes grib_get_data dump
+// (longitudes -180..160, also given as 0..360) at the dumped fields'
+// levels, valid at hazardRef + 6 h, against the dumped values.
+func checkEDR(t *testing.T, f *Field, dump string, levels []float64) {
+	t.Helper()
+	blocks := readDump(t, filepath.Join(mixedFixtures, dump))
+	if len(blocks) != len(levels) {
+		t.Fatalf("%s: %d fields, want %d", dump, len(blocks), len(levels))
+	}
+	for k, b := range blocks {
+		for _, p := range b {
+			for _, lon := range []float64{p.lon, p.lon + 360} {
+				s, err := f.Sample(p.lat, lon, levels[k], hazardRef.Add(6*time.Hour))
+				if err != nil {
+					t.Fatal(err)
+				}
+				if math.Abs(s.EDR-p.val) > 2e-7*math.Max(1, math.Abs(p.val)) {
+					t.Fatalf("%s at (%g, %g) %g Pa: EDR %v, ecCodes %v", dump, p.lat, lon, levels[k], s.EDR, p.val)
+				}
+			}
+		}
+	}
+}
+
+// TestMixedSources combines winds on a 0..350E grid with EDR from an
+// ecCodes-written hazard file on a 20-degree grid from -180E, at
+// flight-level pressures rounded to 10 Pa, holding EDR parameters 28-31.
+func TestMixedSources(t *testing.T) {
+	wf := windsFile(t)
+	edrFile := filepath.Join(mixedFixtures, "mixed_edr.grib2")
+	levels := []float64{30090, 19680, 14750} // the file's levels (gen_mixed.py)
+
+	f, err := Open(wf, edrFile)
+	if err != nil {
+		t.Fatal(err)
+	}
+	w := strings.Join(f.Warnings(), "\n")
+	if !strings.Contains(w, "using 0.19.30") || !strings.Contains(w, "0.19.28") || !strings.Contains(w, "0.19.29") || !strings.Contains(w, "0.19.31") {
+		t.Errorf("warnings %q: want 0.19.30 used and 28, 29, 31 listed", w)
+	}
+	checkEDR(t, f, "mixed_edr_30.txt", levels)
+	if got := f.ParamLevels(ParamEDR); len(got) != 3 || got[0] != 30090 || got[2] != 14750 {
+		t.Errorf("EDR levels %v", got)
+	}
+	if got := f.Levels(); len(got) != 6 || got[0] != 35000 {
+		t.Errorf("wind levels %v", got)
+	}
+	// Winds still come from their own grid: multilinear is reproduced
+	// exactly by the interpolation (see its comment).
+	s, err := f.Sample(12.5, -97.5, 27000, hazardRef.Add(3*time.Hour))
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := multilinear(12.5, 262.5, 27000, t0.Add(3*time.Hour))
+	if math.Abs(s.U-want) > 1e-3 {
+		t.Errorf("u = %v, want %v", s.U, want)
+	}
+
+	f29, err := OpenWith(Options{EDRParam: 29}, wf, edrFile)
+	if err != nil {
+		t.Fatal(err)
+	}
+	checkEDR(t, f29, "mixed_edr_29.txt", levels)
+	if w := strings.Join(f29.Warnings(), "\n"); !strings.Contains(w, "using 0.19.29") || !strings.Contains(w, "as asked") {
+		t.Errorf("warnings %q", w)
+	}
+	if _, err := OpenWith(Options{EDRParam: 27}, wf, edrFile); err == nil || !strings.Contains(err.Error(), "0.19.28") {
+		t.Errorf("EDR parameter 27: %v, want an error listing those present", err)
+	}
+}
+
+// TestEDRLevelTolerance: the hazard file gives FL450 as 14750 Pa, the
+// standard atmosphere 14747.7 Pa (13716 m); FL100 (3048 m, 696.8 hPa) and
+// FL480 (14630 m, 127.7 hPa) are outside its levels. Sample answers at
+// FL450 with the 14750 Pa value, and gives NaN EDR without an error
+// outside; InLevels tells the planner which.
+func TestEDRLevelTolerance(t *testing.T) {
+	f, err := Open(windsFile(t), filepath.Join(mixedFixtures, "mixed_edr.grib2"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	at := hazardRef.Add(6 * time.Hour)
+	fl450 := isaPressure(45000 * 0.3048)
+	if math.Abs(fl450-14748) > 1 {
+		t.Fatalf("ISA FL450 %g Pa, want 147.48 hPa (standard atmosphere tables, from memory)", fl450)
+	}
+	a, err1 := f.Sample(40, 20, fl450, at)
+	b, err2 := f.Sample(40, 20, 14750, at)
+	if err1 != nil || err2 != nil || math.IsNaN(a.EDR) || a.EDR != b.EDR || !f.InLevels(ParamEDR, fl450) {
+		t.Errorf("FL450: %v %v, at 14750 Pa %v %v; InLevels %v", a, err1, b, err2, f.InLevels(ParamEDR, fl450))
+	}
+	for _, ft := range []float64{10000, 48000} {
+		p := isaPressure(ft * 0.3048)
+		s, err := f.Sample(40, 20, p, at)
+		if ft == 48000 {
+			if err != nil || !math.IsNaN(s.EDR) || math.IsNaN(s.U) || f.InLevels(ParamEDR, p) {
+				t.Errorf("FL480 (%g Pa): %+v %v, want winds and EDR NaN; InLevels %v", p, s, err, f.InLevels(ParamEDR, p))
+			}
+			continue
+		}
+		var re *RangeError
+		if !errors.As(err, &re) || f.InLevels(ParamEDR, p) || f.InLevels(ParamU, p) {
+			t.Errorf("FL100 (%g Pa): %v, want a RangeError (below the winds' 350 hPa)", p, err)
+		}
+	}
+	if n := testing.AllocsPerRun(100, func() { f.Sample(40, 20, 20000, at) }); n != 0 {
+		t.Errorf("Sample on two grids allocates %v times", n)
+	}
+}
+
+// TestEDRTemplates: EDR in product template 4.15 (spatial statistics) is
+// read, with a warning, and matches ecCodes' dump; in 4.8 (statistically
+// processed over time) it is not read, with a warning naming it.
+func TestEDRTemplates(t *testing.T) {
+	wf := windsFile(t)
+	f, err := Open(wf, filepath.Join(mixedFixtures, "mixed_edr415.grib2"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if w := strings.Join(f.Warnings(), "\n"); !strings.Contains(w, "template 4.15") {
+		t.Errorf("warnings %q: want 4.15 named", w)
+	}
+	checkEDR(t, f, "mixed_edr415.txt", []float64{30090, 19680, 14750})
+
+	g, err := Open(wf, filepath.Join(mixedFixtures, "mixed_edr48.grib2"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if w := strings.Join(g.Warnings(), "\n"); g.Has(ParamEDR) || !strings.Contains(w, "template 4.8") || !strings.Contains(w, "not read") {
+		t.Errorf("4.8: Has(EDR) %v, warnings %q", g.Has(ParamEDR), w)
+	}
+}
