@@ -32,6 +32,13 @@
 // isobaric surfaces (GRIB2 fixed surface type 100, GRIB1 level type 100).
 // Everything else is listed by Scan with Param "other" and not decoded.
 //
+// A Field may combine files: each of u, v, temperature and EDR keeps its
+// own grid, levels and times (winds from one forecast, EDR from a hazard
+// file on another grid), longitudes in any convention; levels within
+// LevelTolerance are one level. Of several EDR parameters one is used
+// (Options.EDRParam, DefaultEDRParam) and the rest reported by
+// Field.Warnings.
+//
 // Units inside the package are SI: Pa, K, m/s, EDR in m^(2/3)/s; angles in
 // degrees.
 package winds
