@@ -19,7 +19,9 @@ var hazardRef = time.Date(2026, 12, 1, 0, 0, 0, 0, time.UTC)
 // windsFile writes u, v and temperature on the 10-degree grid from 0E at
 // 350..100 hPa, steps 0 and 6 h from hazardRef, with this package's
 // writer (the EDR checks need no ecCodes decode of the winds).
-func windsFile(t *testing.T) string {
+func windsFile(t *testing.T) string { return windsFileB(t) }
+
+func windsFileB(t testing.TB) string {
 	t.Helper()
 	var msgs []Message
 	for _, p := range []Param{ParamU, ParamV, ParamT} {
@@ -181,5 +183,23 @@ func TestEDRTemplates(t *testing.T) {
 	}
 	if w := strings.Join(g.Warnings(), "\n"); g.Has(ParamEDR) || !strings.Contains(w, "template 4.8") || !strings.Contains(w, "not read") {
 		t.Errorf("4.8: Has(EDR) %v, warnings %q", g.Has(ParamEDR), w)
+	}
+}
+
+// BenchmarkSampleMixed samples winds and EDR held on two grids (see
+// TestMixedSources), to compare with BenchmarkSample's single grid.
+func BenchmarkSampleMixed(b *testing.B) {
+	f, err := Open(windsFileB(b), filepath.Join(mixedFixtures, "mixed_edr.grib2"))
+	if err != nil {
+		b.Fatal(err)
+	}
+	at := hazardRef.Add(3 * time.Hour)
+	b.ReportAllocs()
+	i := 0
+	for b.Loop() {
+		if _, err := f.Sample(float64(i%140)-70, float64(i%360), 15000+float64(i%150)*100, at); err != nil {
+			b.Fatal(err)
+		}
+		i++
 	}
 }
