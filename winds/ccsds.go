@@ -184,7 +184,7 @@ func (a *aecDecoder) fundamentalSequence() (uint32, bool) {
 	for {
 		lz := uint(bits.LeadingZeros64(a.acc))
 		if lz < a.nacc {
-			a.acc <<= lz + 1
+			a.acc = a.acc << (lz & 63) << 1
 			a.nacc -= lz + 1
 			return m + uint32(lz), true
 		}
@@ -350,7 +350,7 @@ func (a *aecDecoder) splitSamples(out []float32, i int, ref bool, k uint) (int, 
 		var m uint32
 		if lz := uint(bits.LeadingZeros64(acc)); lz < nacc {
 			m = uint32(lz)
-			acc <<= lz + 1
+			acc = acc << (lz & 63) << 1
 			nacc -= lz + 1
 		} else {
 			a.acc, a.nacc = acc, nacc
@@ -377,7 +377,7 @@ func (a *aecDecoder) splitSamples(out []float32, i int, ref bool, k uint) (int, 
 					return 0, a.fail("stream ends in split samples")
 				}
 			}
-			hi[s] = hi[s]<<k | uint32(acc>>(64-k)) // acc>>64 is 0 for k = 0
+			hi[s] = hi[s]<<k | uint32(acc>>((63-k)&63)>>1) // 0 for k = 0
 			acc <<= k
 			nacc -= k
 		}
@@ -402,8 +402,8 @@ func (a *aecDecoder) splitSamples(out []float32, i int, ref bool, k uint) (int, 
 				return 0, a.fail("stream ends in split samples")
 			}
 		}
-		d := h<<k | uint32(acc>>(64-k))
-		acc <<= k
+		d := h<<(k&31) | uint32(acc>>((63-k)&63)>>1) // low bits: 0 for k = 0
+		acc <<= k & 63
 		nacc -= k
 		if t := min(x, xmax-x); d <= 2*t {
 			x += d>>1 ^ -(d & 1)
