@@ -51,6 +51,14 @@ var aecSESum = func() (t [aecMaxSE + 1]uint8) {
 // coded data set's unit: block, option identifier, zero-block run, second
 // extension, fundamental sequence, split samples, uncompressed block, and
 // the preprocessor's inverse mapping. Time O(len(data) + n); no allocation.
+//
+// Where CCSDS 121.0-B leaves the layout to the implementation, it follows
+// libaec (the coder ecCodes uses), checked on ecCodes-written fixtures: a
+// block opening a reference sample interval codes the reference sample
+// after the option identifier (and after the low-entropy selector bit);
+// with the second extension, the first codeword of such a block gives
+// one sample; a zero-block run may not cross the interval. The stream
+// must end within the block holding the last sample, with zero padding.
 type aecDecoder struct {
 	data []byte
 	pos  int    // next byte of data to load into acc
@@ -93,8 +101,8 @@ func (d *grib2Decoder) unpackCCSDS(data []byte, at int) ([]float32, error) {
 		return nil, d.unsupported(at, remedyRepack, "data representation template 5.42 (CCSDS) with flags %#x (signed samples or RSI padding)", r.ccsdsFlags)
 	}
 	a, b := scaleFactors(r.ref, r.e, r.d)
-	out := d.scratch.floats(n, d.npoints)
 	if r.nbits == 0 || n == 0 {
+		out := d.scratch.floats(n, d.npoints)
 		for i := range out {
 			out[i] = float32(a)
 		}
@@ -111,6 +119,10 @@ func (d *grib2Decoder) unpackCCSDS(data []byte, at int) ([]float32, error) {
 	dec := aecDecoder{data: data, bps: uint(r.nbits), block: r.ccsdsBlock, rsi: r.ccsdsRSI,
 		pp: r.ccsdsFlags&aecPreprocess != 0, a: a, b: b}
 	dec.optionIDLength(r.ccsdsFlags&aecRestricted != 0)
+	if need := dec.minBits(n); need > uint64(len(data))*8 {
+		return nil, d.formatErr(at, "CCSDS data of %d bytes cannot hold %d values (at least %d bits)", len(data), n, need)
+	}
+	out := d.scratch.floats(n, d.npoints)
 	if err := dec.decode(out); err != nil {
 		e := err.(*aecError)
 		return nil, d.formatErr(at+e.off, "CCSDS data: %s", e.what)
@@ -136,6 +148,23 @@ func (a *aecDecoder) optionIDLength(restricted bool) {
 	}
 	a.uncomp = 1<<a.idLen - 1
 	a.xmax = uint32(1<<a.bps - 1)
+}
+
+// minBits is the shortest coded data set of n samples: every block in
+// zero-block runs to the end of each 64-block segment (an option
+// identifier, the selector bit and a 1-bit FS codeword per run), plus a
+// reference sample per interval with preprocessing. It bounds what a
+// declared size may allocate.
+func (a *aecDecoder) minBits(n int) uint64 {
+	blocks := (uint64(n) + uint64(a.block) - 1) / uint64(a.block)
+	r := uint64(a.rsi)
+	full, rest := blocks/r, blocks%r
+	runs := full*((r+63)/64) + (rest+63)/64
+	bits := runs * uint64(a.idLen+2)
+	if a.pp {
+		bits += (full + min(rest, 1)) * uint64(a.bps)
+	}
+	return bits
 }
 
 func (a *aecDecoder) fail(format string, args ...any) error {

@@ -37,12 +37,13 @@ func withData(t *testing.T, msg, data []byte) []byte {
 // TestCCSDSBadInput: damaged CCSDS messages give a *FormatError naming the
 // file, the message and a byte offset inside the message, or an
 // *UnsupportedError for valid flags this package does not decode, and
-// never a field. Offsets of template 5.42 octets per the WMO template (20
+// never a field, and without allocating for a declared size the data
+// cannot hold. Offsets of template 5.42 octets per the WMO template (20
 // bits per value, 22 flags, 23 block size, 24-25 RSI).
 func TestCCSDSBadInput(t *testing.T) {
 	good := fixture(t, "ccsds/c_b16_j32_pp.grib2")
 	sec := sections(t, good)
-	s5, s7 := sec[5], sec[7]
+	s3, s5, s7 := sec[3], sec[5], sec[7]
 	data := good[s7+5 : len(good)-4]
 	mod := func(f func([]byte)) []byte { c := append([]byte(nil), good...); f(c); return c }
 	cases := []struct {
@@ -53,7 +54,13 @@ func TestCCSDSBadInput(t *testing.T) {
 	}{
 		{"truncated payload", withData(t, good, data[:len(data)/2]), false, "stream ends"},
 		{"one byte short", withData(t, good, data[:len(data)-1]), false, "stream ends"},
-		{"empty payload", withData(t, good, nil), false, "stream ends"},
+		{"empty payload", withData(t, good, nil), false, "cannot hold 684 values"},
+		{"huge grid, short data", mod(func(b []byte) {
+			binary.BigEndian.PutUint32(b[s3+6:], 1<<24) // 4096 x 4096 points, no more data
+			binary.BigEndian.PutUint32(b[s3+30:], 4096)
+			binary.BigEndian.PutUint32(b[s3+34:], 4096)
+			binary.BigEndian.PutUint32(b[s5+5:], 1<<24)
+		}), false, "cannot hold 16777216 values"},
 		{"runs over the field", withData(t, good, append(append([]byte(nil), data...), 0xff, 0x12)), false, "continues after the 684 values"},
 		{"block size 12", mod(func(b []byte) { b[s5+22] = 12 }), false, "block size 12"},
 		{"block size 0", mod(func(b []byte) { b[s5+22] = 0 }), false, "block size 0"},
