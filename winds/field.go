@@ -86,8 +86,8 @@ type Sample struct{ U, V, T, EDR float64 }
 // Options control how OpenWith and NewFieldWith build a Field.
 type Options struct {
 	// PLow and PHigh (Pa) keep only the isobaric levels between them and
-	// the nearest level beyond each bound, per variable (see OpenBetween).
-	// PHigh 0 means no upper bound.
+	// the nearest level beyond each bound, per variable (see OpenBetween;
+	// OpenWith only). PHigh 0 means no upper bound.
 	PLow, PHigh float64
 	// EDRParam is the GRIB2 parameter number (discipline 0, category 19,
 	// code table 4.2.0.19) of the EDR to use when the files hold several:

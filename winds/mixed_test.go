@@ -122,6 +122,15 @@ func TestMixedSources(t *testing.T) {
 	if _, err := OpenWith(Options{EDRParam: 27}, wf, edrFile); err == nil || !strings.Contains(err.Error(), "0.19.28") {
 		t.Errorf("EDR parameter 27: %v, want an error listing those present", err)
 	}
+	// EDR alone: its own levels bound Sample with a RangeError.
+	e, err := Open(edrFile)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var re *RangeError
+	if _, err := e.Sample(40, 20, 50000, hazardRef); !errors.As(err, &re) || e.Has(ParamU) {
+		t.Errorf("EDR-only field at 500 hPa: %v, want a RangeError", err)
+	}
 }
 
 // TestEDRLevelTolerance: the hazard file gives FL450 as 14750 Pa, the

@@ -18,8 +18,8 @@ const tol = 1e-9
 // takes that level's value (producers round level pressures). A variable
 // with a single level or time answers only at that level or time. Points
 // outside the grid area (a regional grid), the levels or the times of u,
-// v or temperature are a *RangeError; outside EDR's, EDR is NaN (see
-// InLevels). The field never extrapolates. Global grids wrap across their
+// v or temperature (of EDR in a field holding nothing else) are a
+// *RangeError; outside EDR's, EDR is NaN (see InLevels). The field never extrapolates. Global grids wrap across their
 // last column to the first. Sample takes constant time (binary search
 // over levels and times, once per distinct grid) and does not allocate
 // unless it returns an error.
@@ -31,8 +31,8 @@ func (f *Field) Sample(lat, lon, p float64, t time.Time) (Sample, error) {
 	for _, a := range f.uniq[:f.nuniq] {
 		var l loc
 		if what := a.locate(lat, lon, lnp, ts, &l); what != "" {
-			if a != f.ax[slotU] && a != f.ax[slotV] && a != f.ax[slotT] {
-				continue // EDR only: NaN outside its grid, levels or times
+			if a != f.ax[slotU] && a != f.ax[slotV] && a != f.ax[slotT] && a != f.prim {
+				continue // EDR beside winds: NaN outside its grid, levels or times
 			}
 			return Sample{nan, nan, nan, nan}, a.rangeErr(lat, lon, p, t, what)
 		}
