@@ -212,3 +212,36 @@ func BenchmarkSampleMixed(b *testing.B) {
 		i++
 	}
 }
+
+// TestGridsFromMinus180: temperature on a global grid whose longitudes
+// run from -180 combined with winds on one from 0: each is sampled on its
+// own grid, -160 and 200 being one meridian.
+func TestGridsFromMinus180(t *testing.T) {
+	lv := []float64{30000, 20000}
+	var msgs []Message
+	msgs = append(msgs, synthetic(ParamU, lv, []int{0, 6}, multilinear)...)
+	msgs = append(msgs, synthetic(ParamV, lv, []int{0, 6}, multilinear)...)
+	for _, m := range synthetic(ParamT, lv, []int{0, 6}, multilinear) {
+		m.Lon1, m.Lon2 = -180, 170
+		for j := 0; j < m.Nj; j++ {
+			for i := 0; i < m.Ni; i++ {
+				m.Values[j*m.Ni+i] = float32(multilinear(90-10*float64(j), -180+10*float64(i), m.Level, m.ValidTime))
+			}
+		}
+		msgs = append(msgs, m)
+	}
+	f, err := NewField(msgs)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, lon := range []float64{-160, 200} {
+		s, err := f.Sample(30, lon, 25000, t0.Add(2*time.Hour))
+		want := multilinear(30, -160, 25000, t0.Add(2*time.Hour))
+		if err != nil || math.Abs(s.T-want) > 1e-3 {
+			t.Errorf("T at lon %g: %v %v, want %v", lon, s.T, err, want)
+		}
+		if u := multilinear(30, 200, 25000, t0.Add(2*time.Hour)); math.Abs(s.U-u) > 1e-3 {
+			t.Errorf("u at lon %g: %v, want %v (the 0..350 grid)", lon, s.U, u)
+		}
+	}
+}
