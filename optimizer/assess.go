@@ -80,6 +80,7 @@ func assess(q *Problem, prof Profile, warn []string, detail bool) (*Plan, error)
 	}
 	plan := &Plan{Policy: policyOf(q), Aircraft: q.Aircraft.Name, CI: q.CI, Floor: q.Floor, Speed: q.Speed.String(), Depart: q.Depart,
 		TakeoffMass: q.TakeoffMass, Distance: total, Profile: pr, Warnings: append([]string(nil), warn...)}
+	plan.Warnings = append(plan.Warnings, edrLevelWarnings(q.Weather, pr)...)
 	s := &sim{q: q, a: q.Aircraft, plan: plan, m: q.TakeoffMass, fl: pr.Initial, segs: segs}
 	if err := s.run(pr, total, detail); err != nil {
 		return nil, err
