@@ -113,6 +113,7 @@ func assessFrom(q *Problem, prof Profile, warn []string, detail bool, start *InF
 	}
 	plan := &Plan{Policy: policyOf(q), Aircraft: q.Aircraft.Name, CI: q.CI, Floor: q.Floor, Speed: q.Speed.String(), Depart: q.Depart,
 		TakeoffMass: q.TakeoffMass, Distance: total, Profile: pr, Warnings: append([]string(nil), warn...)}
+	plan.Warnings = append(plan.Warnings, edrLevelWarnings(q.Weather, pr)...)
 	s := &sim{q: q, a: q.Aircraft, plan: plan, m: q.TakeoffMass, fl: pr.Initial, target: pr.Initial, segs: segs, start: start}
 	if start != nil {
 		s.x = start.Dist

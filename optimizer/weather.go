@@ -3,6 +3,7 @@ package optimizer
 import (
 	"fmt"
 	"math"
+	"strings"
 	"time"
 
 	"levelpath/perf"
@@ -153,18 +154,45 @@ func buildConds(p *Problem, levels []int) ([][]cond, error) {
 	return out, nil
 }
 
-// isLevelRange reports whether pressure p lies outside the field's levels.
+// isLevelRange reports whether pressure p lies outside the levels of the
+// field's winds (widened by winds.LevelTolerance, as Sample samples them).
 func isLevelRange(f *winds.Field, p float64) bool {
-	if f == nil {
-		return false
+	return f != nil && !f.InLevels(winds.ParamU, p)
+}
+
+// edrLevelWarnings returns one warning listing the cruise levels of prof
+// (initial level and every change, each once, in flight order) that lie
+// outside the weather's EDR levels when the weather holds EDR: there
+// Sample gives no EDR, so no turbulence rule applies, and the plan says
+// so rather than staying silent. Nil when the weather holds no EDR or
+// every level lies inside.
+func edrLevelWarnings(f *winds.Field, prof Profile) []string {
+	if f == nil || !f.Has(winds.ParamEDR) {
+		return nil
 	}
-	lv := f.Levels()
-	if len(lv) == 0 {
-		return true
+	seen := map[int]bool{}
+	var out []string
+	for _, fl := range append([]int{prof.Initial}, changeLevels(prof)...) {
+		if seen[fl] {
+			continue
+		}
+		seen[fl] = true
+		if !f.InLevels(winds.ParamEDR, perf.FLToPressure(float64(fl))) {
+			out = append(out, fmt.Sprintf("FL%03d", fl))
+		}
 	}
-	lo, hi := lv[0], lv[0]
-	for _, x := range lv {
-		lo, hi = math.Min(lo, x), math.Max(hi, x)
+	if len(out) == 0 {
+		return nil
 	}
-	return p < lo || p > hi
+	lv := f.ParamLevels(winds.ParamEDR) // descending pressure
+	return []string{fmt.Sprintf("no turbulence rule at %s: outside the weather's EDR levels (%.0f..%.0f hPa, about FL%03.0f..FL%03.0f), so no EDR there",
+		strings.Join(out, ", "), lv[0]/100, lv[len(lv)-1]/100, perf.PressureToFL(lv[0]), perf.PressureToFL(lv[len(lv)-1]))}
+}
+
+func changeLevels(prof Profile) []int {
+	out := make([]int, len(prof.Changes))
+	for i, c := range prof.Changes {
+		out[i] = c.FL
+	}
+	return out
 }

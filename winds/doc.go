@@ -11,12 +11,14 @@
 //   - grid definition template 3.0 (regular latitude/longitude) in every
 //     scanning mode of code table 3.4 (i negative, j positive, j
 //     consecutive, boustrophedon rows);
-//   - product definition templates 4.0 and 4.1 (ensemble member); the
-//     others of 4.2-4.15 are listed by Scan with their level and, where
-//     the template gives it, valid time;
+//   - product definition templates 4.0, 4.1 (ensemble member) and, for
+//     EDR only, 4.15 (spatial statistics); the others of 4.2-4.15 are
+//     listed by Scan with their level and, where the template gives it,
+//     valid time;
 //   - data representation templates 5.0 (simple), 5.2 (complex), 5.3
 //     (complex with spatial differencing of order 1 and 2), 5.4 (IEEE 32 and
-//     64 bit) and 5.41 (PNG); section 6 bitmaps (indicator 0, 254, 255);
+//     64 bit), 5.41 (PNG) and 5.42 (CCSDS 121.0-B adaptive Rice coding,
+//     as libaec writes it); section 6 bitmaps (indicator 0, 254, 255);
 //   - GRIB1 regular latitude/longitude grids with simple packing and bitmap.
 //
 // Anything else is reported as an *UnsupportedError that names the template
@@ -42,6 +44,14 @@
 // (0.0.0; GRIB1 11 and 130) and eddy dissipation rate (0.19.28-31) on
 // isobaric surfaces (GRIB2 fixed surface type 100, GRIB1 level type 100).
 // Everything else is listed by Scan with Param "other" and not decoded.
+//
+// A Field may combine files: each of u, v, temperature and EDR keeps its
+// own grid, levels and times (winds from one forecast, EDR from a hazard
+// file on another grid), longitudes in any convention; levels within
+// LevelTolerance (0.5 %) are one level, and a pressure within it beyond a
+// variable's top or bottom level is sampled at that level. Of several EDR parameters one is used
+// (Options.EDRParam, DefaultEDRParam) and the rest reported by
+// Field.Warnings.
 //
 // Units inside the package are SI: Pa, K, m/s, EDR in m^(2/3)/s; angles in
 // degrees.

@@ -4,7 +4,6 @@ import (
 	"fmt"
 	"math"
 	"sort"
-	"strings"
 	"time"
 )
 
@@ -33,14 +32,28 @@ func slotOf(p Param) int {
 
 var slotParams = [nslots]Param{ParamU, ParamV, ParamT, ParamEDR}
 
-// A Field holds u, v, temperature and EDR on one regular lat/lon grid at a
-// set of pressure levels and valid times, as float32 arrays indexed
-// [time][level][row][column] with rows from north to south and columns
-// from the western edge eastwards. Memory is 4 bytes per value: a
-// 0.25-degree global grid (1440 x 721) with 12 levels, 3 variables and 5
-// times takes 747.5 MB. A Field is immutable after construction and safe
-// for concurrent use.
-type Field struct {
+// LevelTolerance is the relative pressure difference within which two
+// isobaric levels are the same level, and within which Sample answers
+// beyond a variable's top or bottom level with that level's value: 0.5 %.
+// Producers round flight-level pressures: GRIB1 stores isobaric levels in
+// whole hPa (up to 50 Pa off, 0.34 % at FL450's 147.48 hPa) and GRIB2
+// hazard files give them to 10 Pa (FL450 as 14750 Pa for 14747.7 Pa in the
+// ICAO standard atmosphere). 0.5 % of pressure is about 40 m of altitude
+// (dz = H dp/p with a scale height H of 6.3 to 8.4 km), an eighth of the
+// 1000 ft between flight levels, while the closest distinct levels in use
+// (FL spacing, 975/1000 hPa) differ by 2.5 % or more. Flight levels
+// converted to pressure with the ICAO standard atmosphere fall just off
+// the chart levels too: FL340 is 249.99 hPa, 1 Pa above a 250 hPa top
+// level that every chart calls FL340. Using the edge level's values across
+// 40 m changes them by far less than the forecast's own error (common
+// practice: winds aloft change by a few m/s per 1000 ft at most outside
+// jet cores). Beyond it, Sample does not extrapolate. This is the only
+// level tolerance of the package.
+const LevelTolerance = 0.005
+
+// axes is the grid, pressure levels and valid times of one variable of a
+// Field; variables on equal axes share one axes value.
+type axes struct {
 	ni, nj      int
 	north, west float64 // degrees; west in [0, 360)
 	di, dj      float64
@@ -49,16 +62,38 @@ type Field struct {
 	secs        []float64 // Unix seconds of times
 	levels      []float64 // Pa, descending
 	lnp         []float64 // ln(levels)
-	vars        [nslots][]float32
-	plane       int // ni*nj
-	warnings    []Warning
+	plane       int       // ni*nj
+}
+
+// A Field holds u, v, temperature and EDR, each on its own regular
+// lat/lon grid, pressure levels and valid times (variables may come from
+// different files: winds from one forecast, EDR from a hazard file), as
+// float32 arrays indexed [time][level][row][column] with rows from north
+// to south and columns from the western edge eastwards. Memory is 4 bytes
+// per value: a 0.25-degree global grid (1440 x 721) with 12 levels, 3
+// variables and 5 times takes 747.5 MB. A Field is immutable after
+// construction and safe for concurrent use.
+type Field struct {
+	ax       [nslots]*axes // nil for a variable the field lacks
+	uniq     [nslots]*axes // the distinct axes, nuniq of them
+	nuniq    int
+	prim     *axes // the axes of u (else v, T, EDR): Grid, Bounds, Levels, Times
+	vars     [nslots][]float32
+	warnings []Warning
 }
 
 // A Sample is the field interpolated at one point: wind components (m/s,
 // u eastward, v northward), temperature (K) and eddy dissipation rate
 // (m^(2/3)/s). A variable the field does not hold is NaN, and so is one
-// whose surrounding grid values include a missing (bitmap) point.
+// whose surrounding grid values include a missing (bitmap) point, and EDR
+// at a point outside its own grid, levels or times.
 type Sample struct{ U, V, T, EDR float64 }
+
+// DefaultEDRParam is the EDR used when Options.EDRParam is 0 and the files
+// hold it: 0.19.30, the eddy dissipation parameter, which hazard forecasts
+// give as the turbulence of all sources (clear air, mountain wave,
+// convection) combined.
+const DefaultEDRParam = 30
 
 // Open decodes the GRIB files at paths and builds one Field from their kept
 // messages (see NewField). Each file is read twice: once for the headers,
@@ -66,18 +101,23 @@ type Sample struct{ U, V, T, EDR float64 }
 // buffer and copy it into the field, so that peak memory is the field plus
 // one message. Errors name the file.
 func Open(paths ...string) (*Field, error) {
-	return OpenBetween(0, math.Inf(1), paths...)
+	return Options{}.Open(paths...)
 }
 
 // OpenBetween is Open keeping only the isobaric levels from pLow to pHigh
 // (Pa), and the nearest level beyond each bound where the files hold one,
 // so that interpolation inside the band is the same as with every level.
-// A caller that needs only cruise levels saves the memory of the rest:
-// a 0.25-degree global forecast on 41 levels needs about 16 between 850
-// and 70 hPa.
+// The band is applied to each variable's own levels. A caller that needs
+// only cruise levels saves the memory of the rest: a 0.25-degree global
+// forecast on 41 levels needs about 16 between 850 and 70 hPa.
 func OpenBetween(pLow, pHigh float64, paths ...string) (*Field, error) {
 	return Options{}.OpenBetween(pLow, pHigh, paths...)
 }
+
+// OpenWith is o.Open: files may hold different variables on different
+// grids, levels and times (say winds from a forecast and EDR from a
+// hazard file); each variable is sampled on its own.
+func OpenWith(o Options, paths ...string) (*Field, error) { return o.Open(paths...) }
 
 // Open is the package function Open with these options.
 func (o Options) Open(paths ...string) (*Field, error) {
@@ -85,9 +125,10 @@ func (o Options) Open(paths ...string) (*Field, error) {
 }
 
 // OpenBetween is the package function OpenBetween with these options: the
-// Field's size is checked against o's budget from the headers, before
-// anything is allocated; files that are not regular files are refused
-// before they are opened; warnings go to o.Warn and Field.Warnings.
+// EDR parameter is o.EDRParam (see selectEDR); the Field's size is
+// checked against o's budget from the headers, before anything is
+// allocated; files that are not regular files are refused before they
+// are opened; warnings go to o.Warn and Field.Warnings.
 func (o Options) OpenBetween(pLow, pHigh float64, paths ...string) (*Field, error) {
 	if len(paths) == 0 {
 		return nil, fmt.Errorf("winds: Open: no files")
@@ -110,11 +151,20 @@ func (o Options) OpenBetween(pLow, pHigh float64, paths ...string) (*Field, erro
 		}
 		heads = append(heads, ms...)
 	}
-	keep := levelBand(heads, pLow, pHigh)
+	edr, edrWarns, err := selectEDR(heads, o.EDRParam)
+	if err != nil {
+		return nil, err
+	}
+	warns = append(warns, edrWarns...)
+	keep := levelBand(heads, edr, pLow, pHigh)
+	want := func(m *Message) bool {
+		s := slotOf(m.Param)
+		return s >= 0 && (s != slotEDR || m.Number == edr) && keep[bandKey{s, m.Level}]
+	}
 	kept := heads[:0:0]
-	for _, m := range heads {
-		if m.Param == ParamOther || keep[m.Level] {
-			kept = append(kept, m)
+	for i := range heads {
+		if want(&heads[i]) {
+			kept = append(kept, heads[i])
 		}
 	}
 	if err := unreadableGrid(kept); err != nil {
@@ -141,7 +191,7 @@ func (o Options) OpenBetween(pLow, pHigh float64, paths ...string) (*Field, erro
 			return nil, err
 		}
 		err = readMessages(f, p, true, scratch, func(m *Message) error {
-			if m.Param != ParamOther && keep[m.Level] {
+			if want(m) {
 				return fl.put(m)
 			}
 			return nil
@@ -160,156 +210,58 @@ func (o Options) OpenBetween(pLow, pHigh float64, paths ...string) (*Field, erro
 	return fl, nil
 }
 
-// NewField builds a Field from decoded messages. Messages with Param other
-// are ignored. All kept messages must share one grid; every kept parameter
-// must be present at every combination of valid time and level that occurs
-// in the messages, once (select a single ensemble member beforehand).
-// Missing or repeated combinations are an error naming them.
-func NewField(msgs []Message) (*Field, error) {
-	f, err := layout(msgs)
+// NewField builds a Field from decoded messages with the default Options.
+func NewField(msgs []Message) (*Field, error) { return NewFieldWith(Options{}, msgs) }
+
+// NewFieldWith builds a Field from decoded messages. Messages with Param
+// other are ignored, and EDR messages other than the chosen parameter (see
+// Options.EDRParam). All messages of one variable must share one grid;
+// u, v and temperature must be present at every combination of their
+// valid times and levels, once (select a single ensemble member
+// beforehand); EDR may lack some (NaN there). Missing or repeated
+// combinations are an error naming them. Levels within LevelTolerance of
+// each other are one level.
+func NewFieldWith(o Options, msgs []Message) (*Field, error) {
+	edr, warnings, err := selectEDR(msgs, o.EDRParam)
 	if err != nil {
 		return nil, err
 	}
-	for i := range msgs {
-		if msgs[i].Param == ParamOther {
-			continue
+	var kept []Message
+	for _, m := range msgs {
+		if s := slotOf(m.Param); s >= 0 && (s != slotEDR || m.Number == edr) {
+			kept = append(kept, m)
 		}
-		if err := f.put(&msgs[i]); err != nil {
+	}
+	f, err := layout(kept)
+	if err != nil {
+		return nil, err
+	}
+	f.warnings = warnings
+	for i := range kept {
+		if err := f.put(&kept[i]); err != nil {
 			return nil, err
 		}
 	}
 	return f, nil
 }
 
-type fieldKey struct {
-	slot  int
-	t     int64
-	level float64
-}
-
 func where(m *Message) string {
 	return fmt.Sprintf("%s message %d (%s at %g Pa, %s)", m.Source, m.Index, m.Param, m.Level, m.ValidTime.UTC().Format(time.RFC3339))
-}
-
-// layout checks grids and completeness and allocates the arrays.
-func layout(msgs []Message) (*Field, error) {
-	var first *Message
-	seen := map[fieldKey]*Message{}
-	tset := map[int64]time.Time{}
-	lset := map[float64]bool{}
-	var have [nslots]bool
-	for i := range msgs {
-		m := &msgs[i]
-		s := slotOf(m.Param)
-		if s < 0 {
-			continue
-		}
-		if first == nil {
-			first = m
-		} else if !sameGrid(first, m) {
-			return nil, fmt.Errorf("winds: %s: grid %dx%d from (%g, %g) step (%g, %g) differs from %s: %dx%d from (%g, %g) step (%g, %g)",
-				where(m), m.Ni, m.Nj, m.Lat1, m.Lon1, m.Di, m.Dj, where(first), first.Ni, first.Nj, first.Lat1, first.Lon1, first.Di, first.Dj)
-		}
-		k := fieldKey{s, m.ValidTime.Unix(), m.Level}
-		if prev, dup := seen[k]; dup {
-			return nil, fmt.Errorf("winds: %s repeats %s (ensemble members %d and %d; select one member)", where(m), where(prev), m.Ensemble, prev.Ensemble)
-		}
-		seen[k] = m
-		tset[k.t] = m.ValidTime.UTC()
-		lset[m.Level] = true
-		have[s] = true
-	}
-	if first == nil {
-		return nil, fmt.Errorf("winds: no u, v, temperature or EDR fields on isobaric levels")
-	}
-	if first.Ni*first.Nj > maxPoints {
-		return nil, fmt.Errorf("winds: %s: grid of %d points exceeds %d", where(first), first.Ni*first.Nj, maxPoints)
-	}
-	f := &Field{ni: first.Ni, nj: first.Nj, di: first.Di, dj: first.Dj, plane: first.Ni * first.Nj}
-	f.north, f.west = first.Origin()
-	f.west = math.Mod(math.Mod(f.west, 360)+360, 360)
-	f.global = f.ni > 1 && math.Abs(float64(f.ni)*f.di-360) < 1e-6*360
-	if f.ni > 1 && float64(f.ni-1)*f.di > 360+1e-9 {
-		return nil, fmt.Errorf("winds: %s: grid of %d columns at %g degrees spans more than 360 degrees", where(first), f.ni, f.di)
-	}
-	for _, t := range tset {
-		f.times = append(f.times, t)
-	}
-	sort.Slice(f.times, func(i, j int) bool { return f.times[i].Before(f.times[j]) })
-	for _, t := range f.times {
-		f.secs = append(f.secs, float64(t.Unix()))
-	}
-	for l := range lset {
-		f.levels = append(f.levels, l)
-	}
-	sort.Sort(sort.Reverse(sort.Float64Slice(f.levels)))
-	for _, l := range f.levels {
-		f.lnp = append(f.lnp, math.Log(l))
-	}
-	// Winds and temperature must cover every level and time; EDR is
-	// often forecast on fewer levels, so its missing planes are NaN (no
-	// turbulence information there) rather than an error.
-	var missing []string
-	edrGaps := false
-	for s := 0; s < nslots; s++ {
-		if !have[s] {
-			continue
-		}
-		for _, t := range f.times {
-			for _, l := range f.levels {
-				if seen[fieldKey{s, t.Unix(), l}] == nil {
-					if s == slotEDR {
-						edrGaps = true
-						continue
-					}
-					missing = append(missing, fmt.Sprintf("%s at %g Pa, %s", slotParams[s], l, t.Format(time.RFC3339)))
-				}
-			}
-		}
-	}
-	if len(missing) > 0 {
-		more := ""
-		if len(missing) > 10 {
-			more = fmt.Sprintf(" and %d more", len(missing)-10)
-			missing = missing[:10]
-		}
-		return nil, fmt.Errorf("winds: missing fields: %s%s", strings.Join(missing, "; "), more)
-	}
-	size := len(f.times) * len(f.levels) * f.plane
-	for s := 0; s < nslots; s++ {
-		if have[s] {
-			f.vars[s] = make([]float32, size)
-		}
-	}
-	if edrGaps {
-		nan := float32(math.NaN())
-		for i := range f.vars[slotEDR] {
-			f.vars[slotEDR][i] = nan
-		}
-	}
-	return f, nil
-}
-
-func sameGrid(a, b *Message) bool {
-	an, aw := a.Origin()
-	bn, bw := b.Origin()
-	dw := math.Mod(math.Abs(aw-bw), 360)
-	return a.Ni == b.Ni && a.Nj == b.Nj && math.Abs(an-bn) < 1e-6 && (dw < 1e-6 || dw > 360-1e-6) &&
-		math.Abs(a.Di-b.Di) < 1e-9 && math.Abs(a.Dj-b.Dj) < 1e-9
 }
 
 // put copies a message's values into its plane.
 func (f *Field) put(m *Message) error {
 	s := slotOf(m.Param)
-	if len(m.Values) != f.plane {
-		return fmt.Errorf("winds: %s: %d values, grid has %d", where(m), len(m.Values), f.plane)
+	a := f.ax[s]
+	if a == nil || len(m.Values) != a.plane {
+		return fmt.Errorf("winds: %s: %d values do not fit the field's layout", where(m), len(m.Values))
 	}
-	it := sort.Search(len(f.times), func(i int) bool { return !f.times[i].Before(m.ValidTime) })
-	il := sort.Search(len(f.levels), func(i int) bool { return f.levels[i] <= m.Level })
-	if it == len(f.times) || !f.times[it].Equal(m.ValidTime) || il == len(f.levels) || f.levels[il] != m.Level {
+	it := sort.Search(len(a.times), func(i int) bool { return !a.times[i].Before(m.ValidTime) })
+	il := levelIndex(a.levels, m.Level)
+	if it == len(a.times) || !a.times[it].Equal(m.ValidTime) || il < 0 {
 		return fmt.Errorf("winds: %s not in the field's layout (file changed between reads?)", where(m))
 	}
-	copy(f.vars[s][(it*len(f.levels)+il)*f.plane:], m.Values)
+	copy(f.vars[s][(it*len(a.levels)+il)*a.plane:], m.Values)
 	return nil
 }
 
@@ -319,49 +271,49 @@ func (f *Field) Has(p Param) bool {
 	return s >= 0 && f.vars[s] != nil
 }
 
-// Times returns the valid times, ascending.
-func (f *Field) Times() []time.Time { return append([]time.Time(nil), f.times...) }
+// Times returns the valid times of u (else of the first variable held),
+// ascending.
+func (f *Field) Times() []time.Time { return append([]time.Time(nil), f.prim.times...) }
 
-// Levels returns the pressure levels in Pa, descending (from the lowest
-// altitude up).
-func (f *Field) Levels() []float64 { return append([]float64(nil), f.levels...) }
+// Levels returns the pressure levels of u (else of the first variable
+// held) in Pa, descending (from the lowest altitude up). ParamLevels gives
+// another variable's.
+func (f *Field) Levels() []float64 { return append([]float64(nil), f.prim.levels...) }
 
-// Grid returns the number of columns and rows and the increments in
-// degrees.
-func (f *Field) Grid() (ni, nj int, di, dj float64) { return f.ni, f.nj, f.di, f.dj }
-
-// Bounds returns the southern and northern latitudes, the western and
-// eastern longitudes of the grid points (lon1 in [0, 360), lon2 = lon1 +
-// (ni-1) di, possibly above 360), and whether the grid wraps around the
-// globe in longitude (ni di = 360), in which case every longitude is
-// inside.
-func (f *Field) Bounds() (lat1, lat2, lon1, lon2 float64, global bool) {
-	return f.north - float64(f.nj-1)*f.dj, f.north, f.west, f.west + float64(f.ni-1)*f.di, f.global
+// ParamLevels returns the pressure levels of parameter p in Pa,
+// descending, or nil when the field does not hold p.
+func (f *Field) ParamLevels(p Param) []float64 {
+	if s := slotOf(p); s >= 0 && f.ax[s] != nil {
+		return append([]float64(nil), f.ax[s].levels...)
+	}
+	return nil
 }
 
-// levelBand returns the isobaric levels of the kept parameters in msgs that
-// lie from pLow to pHigh, with the nearest level outside each bound.
-func levelBand(msgs []Message, pLow, pHigh float64) map[float64]bool {
-	keep := map[float64]bool{}
-	below, above := math.Inf(-1), math.Inf(1) // nearest level under pLow, over pHigh
-	for _, m := range msgs {
-		if m.Param == ParamOther {
-			continue
-		}
-		switch l := m.Level; {
-		case l >= pLow && l <= pHigh:
-			keep[l] = true
-		case l < pLow && l > below:
-			below = l
-		case l > pHigh && l < above:
-			above = l
-		}
+// InLevels reports whether pressure p (Pa) lies within the levels of
+// parameter p, widened by LevelTolerance, so that Sample can give a value
+// of it there. A planner uses it to warn of legs outside the EDR levels.
+func (f *Field) InLevels(param Param, p float64) bool {
+	s := slotOf(param)
+	if s < 0 || f.ax[s] == nil {
+		return false
 	}
-	if !math.IsInf(below, -1) {
-		keep[below] = true
-	}
-	if !math.IsInf(above, 1) {
-		keep[above] = true
-	}
-	return keep
+	_, _, _, ok := bracket(f.ax[s].lnp, math.Log(p), true, levelEps)
+	return ok
+}
+
+// Grid returns the number of columns and rows and the increments in
+// degrees of u's grid (else of the first variable held).
+func (f *Field) Grid() (ni, nj int, di, dj float64) {
+	return f.prim.ni, f.prim.nj, f.prim.di, f.prim.dj
+}
+
+// Bounds returns the southern and northern latitudes, the western and
+// eastern longitudes of the grid points of u (else of the first variable
+// held; lon1 in [0, 360), lon2 = lon1 + (ni-1) di, possibly above 360),
+// and whether the grid wraps around the globe in longitude (ni di = 360),
+// in which case every longitude is inside.
+func (f *Field) Bounds() (lat1, lat2, lon1, lon2 float64, global bool) { return f.prim.bounds() }
+
+func (a *axes) bounds() (lat1, lat2, lon1, lon2 float64, global bool) {
+	return a.north - float64(a.nj-1)*a.dj, a.north, a.west, a.west + float64(a.ni-1)*a.di, a.global
 }

@@ -135,7 +135,8 @@ func TestSampleRange(t *testing.T) {
 		what        string
 	}{
 		{0, 0, 35000, 0, "pressure"},
-		{0, 0, 19940, 0, "pressure"}, // 0.3 %, beyond levelSlack
+		{0, 0, 19899, 0, "pressure"}, // 0.5 % beyond the top level: LevelTolerance
+		{0, 0, 30151, 0, "pressure"},
 		{0, 0, 25000, -time.Minute, "time"},
 		{0, 0, 25000, 7 * time.Hour, "time"},
 		{90.01, 0, 25000, 0, "latitude"},

@@ -3,6 +3,7 @@ package winds
 import (
 	"fmt"
 	"math"
+	"sort"
 	"strings"
 	"time"
 )
@@ -14,12 +15,18 @@ import (
 func (f *Field) Warnings() []Warning { return append([]Warning(nil), f.warnings...) }
 
 // checkFieldBudget refuses, before anything is allocated, a Field whose
-// arrays (4 bytes a point of each variable at each level and time present
-// in the headers) would pass budget. The count is done in float64 so that
-// no product of header numbers can wrap. Time O(len(heads)).
+// arrays would pass budget: for each variable, 4 bytes a point of its grid
+// at each of its levels (merged within LevelTolerance) and times present
+// in the headers; u, v and temperature are counted on the union of their
+// levels and times, as layout lays them out when they share a grid (an
+// upper bound when they do not). The count is done in float64 so that no
+// product of header numbers can wrap. Time O(n log n) in len(heads).
 func checkFieldBudget(heads []Message, budget int64, paths []string) error {
-	times := map[int64]bool{}
-	levels := map[float64]bool{}
+	var times [2]map[int64]bool // winds and temperature; EDR
+	var levels [2][]float64
+	for g := range times {
+		times[g] = map[int64]bool{}
+	}
 	var points [nslots]float64
 	for i := range heads {
 		m := &heads[i]
@@ -27,19 +34,37 @@ func checkFieldBudget(heads []Message, budget int64, paths []string) error {
 		if s < 0 {
 			continue
 		}
-		times[m.ValidTime.Unix()] = true
-		levels[m.Level] = true
+		g := 0
+		if s == slotEDR {
+			g = 1
+		}
+		times[g][m.ValidTime.Unix()] = true
+		levels[g] = append(levels[g], m.Level)
 		points[s] = math.Max(points[s], float64(m.Ni)*float64(m.Nj))
 	}
+	var nlev [2]int
+	for g := range levels {
+		sort.Sort(sort.Reverse(sort.Float64Slice(levels[g])))
+		for i, l := range levels[g] {
+			if i == 0 || !sameLevel(levels[g][i-1], l) {
+				nlev[g]++
+			}
+		}
+	}
 	var need, nvars, maxPts float64
-	for _, p := range points {
-		need += p
+	maxLev, maxTimes := 0, 0
+	for s, p := range points {
+		g := 0
+		if s == slotEDR {
+			g = 1
+		}
+		need += p * float64(nlev[g]) * float64(len(times[g])) * 4
 		if p > 0 {
 			nvars++
+			maxLev, maxTimes = max(maxLev, nlev[g]), max(maxTimes, len(times[g]))
 		}
 		maxPts = math.Max(maxPts, p)
 	}
-	need *= float64(len(times)) * float64(len(levels)) * 4
 	if need <= float64(budget) {
 		return nil
 	}
@@ -48,41 +73,18 @@ func checkFieldBudget(heads []Message, budget int64, paths []string) error {
 		n = uint64(need)
 	}
 	return &BudgetError{Source: strings.Join(paths, ", "), Need: n, Budget: uint64(budget),
-		What: fmt.Sprintf("a field of %.0f variables x %d levels x %d valid times x %.0f grid points x 4 bytes", nvars, len(levels), len(times), maxPts)}
-}
-
-// levelSlack is how far, in ln p, a pressure may lie outside the field's
-// top or bottom level and still be sampled, at that level: 0.002, that is
-// 0.2 % of the pressure, 50 Pa at 250 hPa or about 13 m (40 ft) of
-// altitude there. Flight levels are converted to pressure with the ICAO
-// standard atmosphere, so FL340 is 249.99 hPa, 1 Pa above a 250 hPa top
-// level although every chart calls it 250 hPa; without a slack, such a
-// cruise level would be out of range. Using the edge level's values across
-// 40 ft changes them by far less than the forecast's own error (common
-// practice: winds aloft change by a few m/s per 1000 ft at most outside
-// jet cores). Beyond the slack, Sample still refuses to extrapolate.
-const levelSlack = 0.002
-
-// clampLevel moves ln p onto the nearest edge of the field's levels when
-// it lies outside them by at most levelSlack.
-func (f *Field) clampLevel(lnp float64) float64 {
-	top, bottom := f.lnp[len(f.lnp)-1], f.lnp[0] // lowest and highest pressure
-	switch {
-	case lnp < top && lnp >= top-levelSlack:
-		return top
-	case lnp > bottom && lnp <= bottom+levelSlack:
-		return bottom
-	}
-	return lnp
+		What: fmt.Sprintf("a field of %.0f variables x up to %d levels x up to %d valid times x up to %.0f grid points x 4 bytes", nvars, maxLev, maxTimes, maxPts)}
 }
 
 // windSanity warns, once for each pair of u and v fields, about points
 // where the wind speed from both components passes MaxWindSpeed although
 // neither component does (a component beyond it is warned about when its
 // message is decoded). It names both messages, the number of points and
-// the fastest. Time O(field size).
+// the fastest. u and v on different axes (different grids) are not
+// combined. Time O(field size).
 func (f *Field) windSanity(heads []Message) []Warning {
-	if f.vars[slotU] == nil || f.vars[slotV] == nil {
+	a := f.ax[slotU]
+	if f.vars[slotU] == nil || f.vars[slotV] == nil || a != f.ax[slotV] {
 		return nil
 	}
 	type key struct {
@@ -93,7 +95,11 @@ func (f *Field) windSanity(heads []Message) []Warning {
 	for i := range heads {
 		m := &heads[i]
 		if s := slotOf(m.Param); s == slotU || s == slotV {
-			k := key{m.ValidTime.Unix(), m.Level}
+			il := levelIndex(a.levels, m.Level)
+			if il < 0 {
+				continue
+			}
+			k := key{m.ValidTime.Unix(), a.levels[il]}
 			n := names[k]
 			n[s] = m
 			names[k] = n
@@ -101,11 +107,11 @@ func (f *Field) windSanity(heads []Message) []Warning {
 	}
 	var out []Warning
 	max2 := MaxWindSpeed * MaxWindSpeed
-	nl := len(f.levels)
-	for it, t := range f.times {
-		for il, l := range f.levels {
-			base := (it*nl + il) * f.plane
-			u, v := f.vars[slotU][base:base+f.plane], f.vars[slotV][base:base+f.plane]
+	nl := len(a.levels)
+	for it, t := range a.times {
+		for il, l := range a.levels {
+			base := (it*nl + il) * a.plane
+			u, v := f.vars[slotU][base:base+a.plane], f.vars[slotV][base:base+a.plane]
 			count, worst, fast := 0, 0, 0.0
 			for k := range u {
 				a, b := float64(u[k]), float64(v[k])
@@ -123,9 +129,12 @@ func (f *Field) windSanity(heads []Message) []Warning {
 				continue
 			}
 			n := names[key{t.Unix(), l}]
-			lat := f.north - float64(worst/f.ni)*f.dj
-			lon := f.west + float64(worst%f.ni)*f.di
+			lat := a.north - float64(worst/a.ni)*a.dj
+			lon := a.west + float64(worst%a.ni)*a.di
 			mu, mv := n[slotU], n[slotV]
+			if mu == nil || mv == nil {
+				continue // cannot happen: layout requires both at every level and time
+			}
 			out = append(out, Warning{Source: mu.Source, Message: mu.Index, What: fmt.Sprintf("wind from u (this message) and v (%s message %d) at %g Pa, %s: %d points over the sanity limit of 300 kt, the fastest %.1f m/s (%.0f kt) at (%.4f, %.4f)",
 				mv.Source, mv.Index, l, t.Format(time.RFC3339), count, math.Sqrt(fast), math.Sqrt(fast)*3600/1852, lat, lon)})
 		}

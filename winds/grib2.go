@@ -51,6 +51,8 @@ type dataRepr struct {
 	refLength, lengthInc, lastLength int
 	bitsLength                       int
 	order, extraOctets               int
+	// CCSDS packing (5.42)
+	ccsdsFlags, ccsdsBlock, ccsdsRSI int
 }
 
 func (d *grib2Decoder) formatErr(at int, format string, args ...any) error {
@@ -264,11 +266,13 @@ func (d *grib2Decoder) productDefinition(s []byte) error {
 	c.LevelType, c.Level = -1, math.NaN()
 	c.RefTime, c.ValidTime = d.ref, time.Time{}
 	c.Ensemble = -1
-	kept := c.Product == 0 || c.Product == 1
+	kept := c.Product == 0 || c.Product == 1 || c.Product == 15
 	if c.Product > 15 || c.Product == 13 || c.Product == 14 {
 		return nil // other layouts (4.13/4.14 cluster lists, 4.20 radar, 4.30 satellite, ...): listed, not kept
 	}
-	need := map[int]int{1: 37, 8: 41, 9: 54, 10: 42, 11: 44, 12: 43}[c.Product]
+	// 4.1 adds 36 ensemble type, 37 member; 4.15 adds 35 statistical
+	// process, 36 spatial processing, 37 points used.
+	need := map[int]int{1: 37, 8: 41, 9: 54, 10: 42, 11: 44, 12: 43, 15: 37}[c.Product]
 	if need == 0 {
 		need = 34
 	}
@@ -313,6 +317,9 @@ func (d *grib2Decoder) productDefinition(s []byte) error {
 		return nil
 	}
 	c.Param = classify2(c.Discipline, c.Category, c.Number, c.LevelType, c.Level)
+	if c.Product == 15 && c.Param != ParamEDR {
+		c.Param = ParamOther // spatial statistics are kept for EDR only
+	}
 	d.productOK = true
 	return nil
 }
@@ -381,7 +388,8 @@ func classify2(disc, cat, num, levelType int, level float64) Param {
 // template. 5.0/5.41: 12-15 reference value (IEEE 32), 16-17 binary scale
 // factor, 18-19 decimal scale factor, 20 bits per value; 5.2 adds 22-47
 // (group layout, see complexParams); 5.3 adds 48 order of spatial
-// differencing and 49 octets of extra descriptors; 5.4: 12 precision.
+// differencing and 49 octets of extra descriptors; 5.4: 12 precision;
+// 5.42 adds 22 CCSDS flags, 23 block size, 24-25 reference sample interval.
 func (d *grib2Decoder) dataRepresentation(s []byte) error {
 	if len(s) < 11 {
 		return d.formatErr(d.pos, "section 5 length %d too short", len(s))
@@ -389,7 +397,7 @@ func (d *grib2Decoder) dataRepresentation(s []byte) error {
 	r := dataRepr{template: u16(s[9:]), nvalues: int(u32(s[5:]))}
 	d.cur.Packing = r.template
 	d.haveRepr = true
-	need := map[int]int{0: 21, 2: 47, 3: 49, 4: 12, 41: 21}[r.template]
+	need := map[int]int{0: 21, 2: 47, 3: 49, 4: 12, 41: 21, 42: 25}[r.template]
 	if need == 0 {
 		d.repr = r
 		return nil // unsupported: reported at section 7 if the field is kept
@@ -413,6 +421,9 @@ func (d *grib2Decoder) dataRepresentation(s []byte) error {
 	}
 	if r.template == 3 {
 		r.order, r.extraOctets = int(s[47]), int(s[48])
+	}
+	if r.template == 42 { // 22 CCSDS flags, 23 block size, 24-25 reference sample interval
+		r.ccsdsFlags, r.ccsdsBlock, r.ccsdsRSI = int(s[21]), int(s[22]), u16(s[23:])
 	}
 	d.repr = r
 	return nil

@@ -158,18 +158,11 @@ func TestGRIB1OtherGrids(t *testing.T) {
 	}
 }
 
-// isaPressure is the ICAO standard atmosphere pressure (Pa) at geopotential
-// altitude h (m) below 11 km: p0 (1 - L h / T0)^(g0 / (R L)) with p0 101325
-// Pa, T0 288.15 K, L 0.0065 K/m, g0 9.80665 m/s^2, R 287.05287 J/(kg K)
-// (ICAO Doc 7488/3, Table A).
-func isaPressure(h float64) float64 {
-	return 101325 * math.Pow(1-0.0065*h/288.15, 9.80665/(287.05287*0.0065))
-}
-
-// TestLevelSlack samples FL340 (249.99 hPa in the standard atmosphere, 1 Pa
-// above a 250 hPa top level) and gets the 250 hPa values; 0.3 % beyond the
-// top level is still out of range.
-func TestLevelSlack(t *testing.T) {
+// TestLevelToleranceEdge samples FL340 (249.99 hPa in the standard
+// atmosphere, isaPressure, 1 Pa above a 250 hPa top level) and gets the
+// 250 hPa values; 0.3 % beyond the top level is still sampled there
+// (LevelTolerance, 0.5 %), 0.6 % is out of range.
+func TestLevelToleranceEdge(t *testing.T) {
 	f, err := NewField(synthetic(ParamU, []float64{30000, 25000}, []int{0}, multilinear))
 	if err != nil {
 		t.Fatal(err)
@@ -179,15 +172,20 @@ func TestLevelSlack(t *testing.T) {
 		t.Fatalf("FL340 = %g Pa", fl340)
 	}
 	at, err1 := f.Sample(10, 20, 25000, t0)
-	got, err2 := f.Sample(10, 20, fl340, t0)
-	if err1 != nil || err2 != nil || got.U != at.U {
-		t.Errorf("FL340: %v %v, %v; want the 250 hPa value %v", got.U, err1, err2, at.U)
+	for _, p := range []float64{fl340, 25000 * 0.997} {
+		got, err2 := f.Sample(10, 20, p, t0)
+		if err1 != nil || err2 != nil || got.U != at.U {
+			t.Errorf("%g Pa: %v %v, %v; want the 250 hPa value %v", p, got.U, err1, err2, at.U)
+		}
 	}
-	if _, err := f.Sample(10, 20, 25000*0.997, t0); err == nil {
-		t.Error("0.3 % above the top level: no error")
+	if _, err := f.Sample(10, 20, 25000*0.994, t0); err == nil {
+		t.Error("0.6 % above the top level: no error")
 	}
-	if _, err := f.Sample(10, 20, 30000*1.0015, t0); err != nil {
-		t.Errorf("0.15 %% below the bottom level: %v", err)
+	if _, err := f.Sample(10, 20, 30000*1.0045, t0); err != nil {
+		t.Errorf("0.45 %% below the bottom level: %v", err)
+	}
+	if _, err := f.Sample(10, 20, 30000*1.006, t0); err == nil {
+		t.Error("0.6 % below the bottom level: no error")
 	}
 }
 

@@ -26,30 +26,31 @@ func TestOpenAgainstEccodes(t *testing.T) {
 				t.Fatalf("decoded %d fields, grib_get_data dumped %d", len(ms), len(dump))
 			}
 			for k, m := range ms {
-				if len(dump[k]) != f.plane {
-					t.Fatalf("field %d: dump has %d points, field plane %d", k+1, len(dump[k]), f.plane)
+				a := f.ax[slotOf(m.Param)]
+				if len(dump[k]) != a.plane {
+					t.Fatalf("field %d: dump has %d points, field plane %d", k+1, len(dump[k]), a.plane)
 				}
 				it, il := 0, 0
-				for il < len(f.levels) && f.levels[il] != m.Level {
+				for il < len(a.levels) && a.levels[il] != m.Level {
 					il++
 				}
-				for it < len(f.times) && !f.times[it].Equal(m.ValidTime) {
+				for it < len(a.times) && !a.times[it].Equal(m.ValidTime) {
 					it++
 				}
-				if il == len(f.levels) || it == len(f.times) {
+				if il == len(a.levels) || it == len(a.times) {
 					t.Fatalf("field %d (%s at %g Pa) not in the field", k+1, m.Param, m.Level)
 				}
-				plane := f.vars[slotOf(m.Param)][(it*len(f.levels)+il)*f.plane:][:f.plane]
+				plane := f.vars[slotOf(m.Param)][(it*len(a.levels)+il)*a.plane:][:a.plane]
 				for _, p := range dump[k] {
-					j := int(math.Round((f.north - p.lat) / f.dj))
-					i := int(math.Round(math.Mod(math.Mod(p.lon-f.west, 360)+360, 360) / f.di))
-					if i == f.ni && f.global {
+					j := int(math.Round((a.north - p.lat) / a.dj))
+					i := int(math.Round(math.Mod(math.Mod(p.lon-a.west, 360)+360, 360) / a.di))
+					if i == a.ni && a.global {
 						i = 0
 					}
-					if j < 0 || j >= f.nj || i < 0 || i >= f.ni {
+					if j < 0 || j >= a.nj || i < 0 || i >= a.ni {
 						t.Fatalf("field %d: point (%g, %g) outside the field", k+1, p.lat, p.lon)
 					}
-					got := float64(plane[j*f.ni+i])
+					got := float64(plane[j*a.ni+i])
 					if math.IsNaN(p.val) != math.IsNaN(got) ||
 						(!math.IsNaN(p.val) && math.Abs(got-p.val) > 2e-7*math.Max(1, math.Abs(p.val))) {
 						t.Fatalf("field %d %s at (%g, %g): %v, ecCodes %v", k+1, m.Param, p.lat, p.lon, got, p.val)

@@ -37,6 +37,16 @@ type Options struct {
 	// warnings are also kept in Field.Warnings; Scan and Decode keep
 	// none, so a caller that shows output should set Warn.
 	Warn func(Warning)
+	// EDRParam is the GRIB2 parameter number (discipline 0, category 19,
+	// code table 4.2.0.19) of the EDR that Open and NewFieldWith use when
+	// the files hold several: 28 mountain-wave turbulence, 29 clear-air
+	// turbulence, 30 eddy dissipation parameter, 31 its maximum. 0
+	// chooses DefaultEDRParam if present, else the only one present, else
+	// the first of 29, 28, 31 present; the others are listed in
+	// Field.Warnings. A number the files do not hold is an error naming
+	// those they do. Scan and Decode return every EDR message whatever it
+	// is.
+	EDRParam int
 }
 
 func (o Options) budget() int64 {
@@ -47,8 +57,9 @@ func (o Options) budget() int64 {
 }
 
 // A Warning reports something a read accepted but the user should know:
-// zero padding skipped, or values outside the sanity ranges (see
-// MaxWindSpeed, MinTemperature, MaxTemperature).
+// zero padding skipped, values outside the sanity ranges (see
+// MaxWindSpeed, MinTemperature, MaxTemperature), EDR parameters or product
+// templates present but not used, EDR taken from spatial statistics.
 type Warning struct {
 	Source  string // file name or other label given by the caller
 	Message int    // 1-based message index; 0 when not about one message

@@ -51,7 +51,7 @@ func (d *grib2Decoder) unpack(data []byte, at int) ([]float32, error) {
 	case 40:
 		return nil, d.unsupported(at, remedyRepack, "data representation template 5.40 (JPEG 2000)")
 	case 42:
-		return nil, d.unsupported(at, remedyRepack, "data representation template 5.42 (CCSDS)")
+		return d.unpackCCSDS(data, at)
 	}
 	return nil, d.unsupported(at, remedyRepack, "data representation template 5.%d", r.template)
 }

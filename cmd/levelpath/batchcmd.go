@@ -169,7 +169,7 @@ func newBatchCmd() *cobra.Command {
 		schedule, out, sweep, shard, chartPath string
 		weather                                []string
 		workers, shardCount                    int
-		budgetMiB                              int64
+		wxo                                    weatherOpts
 		resume                                 bool
 		maxSegNM                               float64
 		maxStepFt, maxSteps                    int
@@ -190,7 +190,7 @@ func newBatchCmd() *cobra.Command {
 	fl.StringVar(&schedule, "schedule", "", "schedule CSV: flight,departure,route,aircraft,tow_kg,ci (+ zfw_kg,fuel_kg,floor_g,levels,speed)")
 	fl.StringArrayVar(&weather, "weather", nil, "GRIB2/GRIB1 weather file (repeatable), decoded once and shared")
 	fl.StringVar(&out, "out", "", "output directory")
-	weatherBudgetFlag(c, &budgetMiB)
+	weatherFlags(c, &wxo)
 	fl.IntVar(&workers, "workers", 0, "parallel planners (default: one per CPU)")
 	fl.StringVar(&sweep, "ci-sweep", "", "plan every flight at each cost index, e.g. 0,20,50,100")
 	fl.StringVar(&shard, "shard", "", "plan only shard K/N of the flights (0-based K, N at most 1048576); or give --shard-count inside a cluster job")
@@ -275,10 +275,10 @@ func newBatchCmd() *cobra.Command {
 		if err != nil {
 			return err
 		}
-		if opt.Meta, err = batchMeta(cmd.Context(), weather, maxSegNM, steps); err != nil {
+		if opt.Meta, err = batchMeta(cmd.Context(), weather, wxo.edrParam, maxSegNM, steps); err != nil {
 			return err
 		}
-		wx, err := loadWeather(weather, budgetMiB)
+		wx, err := loadWeather(weather, wxo)
 		if err != nil {
 			return err
 		}
@@ -377,9 +377,10 @@ func batchError(err error) error {
 
 // batchMeta names what every plan of a batch depends on beyond its row:
 // the program version, each weather file and its SHA-256, the segment
-// length and step rules. batch.Run records its fingerprint and writes it
-// to results.parquet's metadata.
-func batchMeta(ctx context.Context, weather []string, maxSegNM float64, steps optimizer.StepRules) (map[string]string, error) {
+// length and step rules, and the EDR parameter asked for (only when one
+// is, so that default runs keep their fingerprint). batch.Run records its
+// fingerprint and writes it to results.parquet's metadata.
+func batchMeta(ctx context.Context, weather []string, edrParam int, maxSegNM float64, steps optimizer.StepRules) (map[string]string, error) {
 	m := map[string]string{
 		"version":    version,
 		"max_seg_nm": strconv.FormatFloat(maxSegNM, 'g', -1, 64),
@@ -389,6 +390,9 @@ func batchMeta(ctx context.Context, weather []string, maxSegNM float64, steps op
 	}
 	if len(weather) > 0 {
 		m["weather"] = strconv.Itoa(len(weather)) + " file(s)"
+	}
+	if edrParam != 0 {
+		m["edr_param"] = strconv.Itoa(edrParam)
 	}
 	for i, w := range weather {
 		d, err := batch.FileDigest(ctx, w)

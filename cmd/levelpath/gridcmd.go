@@ -128,7 +128,7 @@ type sampleJSON struct {
 func newGridSampleCmd() *cobra.Command {
 	var at, tm string
 	var hpa, fl float64
-	var budgetMiB int64
+	var wxo weatherOpts
 	c := &cobra.Command{
 		Use:     "sample FILE...",
 		Short:   "Sample wind, temperature and EDR at a point, pressure (or flight level) and time",
@@ -137,7 +137,7 @@ func newGridSampleCmd() *cobra.Command {
 	}
 	format := formatFlag(c, "table", "json")
 	c.Flags().StringVar(&at, "at", "", "point LAT,LON in degrees")
-	weatherBudgetFlag(c, &budgetMiB)
+	weatherFlags(c, &wxo)
 	c.Flags().Float64Var(&hpa, "hpa", 0, "pressure level, hPa")
 	c.Flags().Float64Var(&fl, "fl", 0, "flight level (converted with the ICAO standard atmosphere)")
 	c.Flags().StringVar(&tm, "time", "", "valid time, RFC3339 (default: the first valid time)")
@@ -167,7 +167,7 @@ func newGridSampleCmd() *cobra.Command {
 			}
 			p = perf.FLToPressure(fl)
 		}
-		field, err := openWeather(args, 0, math.Inf(1), budgetMiB) // every level, not only the cruise band
+		field, err := openWeather(args, 0, math.Inf(1), wxo) // every level, not only the cruise band
 		if err != nil {
 			return err
 		}

@@ -50,7 +50,7 @@ func (f *planFlags) run(cmd *cobra.Command, assessed bool, price func(*optimizer
 	if err := checkOutputs(f.chart, f.report); err != nil {
 		return err
 	}
-	wx, err := loadWeather(f.weather, f.budgetMiB)
+	wx, err := loadWeather(f.weather, f.wx)
 	if err != nil {
 		return err
 	}

@@ -48,7 +48,7 @@ type problemFlags struct {
 	date        string
 	perfFactor  float64
 	isaDev      float64
-	budgetMiB   int64
+	wx          weatherOpts
 }
 
 func (f *problemFlags) register(c *cobra.Command) {
@@ -80,29 +80,40 @@ func (f *problemFlags) register(c *cobra.Command) {
 	fl.StringVar(&f.date, "date", "", "date for magnetic variation, YYYY-MM-DD (default: departure date)")
 	fl.Float64Var(&f.perfFactor, "perf-factor", 0, "performance factor, percent: every fuel flow multiplied by 1 + PCT/100 (per tail, e.g. 2.5)")
 	fl.Float64Var(&f.isaDev, "isa-dev", 0, "temperature deviation from ISA, °C, where there is no forecast temperature (no --weather: still air at ISA+DEV)")
-	weatherBudgetFlag(c, &f.budgetMiB)
+	weatherFlags(c, &f.wx)
 }
 
 // loadWeather opens the weather files for planning (nil when none).
 // Cruise levels lie between FL050 and FL600: it keeps those pressure
 // levels (and one beyond each end) and drops the rest of a full forecast.
-func loadWeather(paths []string, budgetMiB int64) (*winds.Field, error) {
+func loadWeather(paths []string, o weatherOpts) (*winds.Field, error) {
 	if len(paths) == 0 {
 		return nil, nil
 	}
-	return openWeather(paths, perf.FLToPressure(600), perf.FLToPressure(50), budgetMiB)
+	return openWeather(paths, perf.FLToPressure(600), perf.FLToPressure(50), o)
 }
 
-// weatherBudgetFlag registers --weather-budget-mib on c.
-func weatherBudgetFlag(c *cobra.Command, v *int64) {
-	c.Flags().Int64Var(v, "weather-budget-mib", winds.DefaultBudget>>20, "memory the decoded weather may take, MiB; larger inputs are refused before decoding")
+// weatherOpts are the flags of every command that decodes weather.
+type weatherOpts struct {
+	budgetMiB int64
+	edrParam  int
+}
+
+// weatherFlags registers --weather-budget-mib and --edr-param on c.
+func weatherFlags(c *cobra.Command, o *weatherOpts) {
+	c.Flags().Int64Var(&o.budgetMiB, "weather-budget-mib", winds.DefaultBudget>>20, "memory the decoded weather may take, MiB; larger inputs are refused before decoding")
+	c.Flags().IntVar(&o.edrParam, "edr-param", 0, fmt.Sprintf("EDR to use when the weather holds several (GRIB2 parameter 0.19.N): 28 mountain wave, 29 clear air, 30 eddy dissipation parameter, 31 its maximum; 0: %d if present, else the only one, else the first of 29, 28, 31 (the others are listed in the warnings)", winds.DefaultEDRParam))
 }
 
 // openWeather opens the weather files keeping the levels from pLow to
-// pHigh (Pa) within a memory budget (MiB); a missing file is named.
-func openWeather(paths []string, pLow, pHigh float64, budgetMiB int64) (*winds.Field, error) {
-	if budgetMiB <= 0 || budgetMiB > 1<<24 {
-		return nil, badInputf("--weather-budget-mib %d: want 1..%d", budgetMiB, 1<<24)
+// pHigh (Pa) within a memory budget (MiB), with the EDR parameter asked
+// for; a missing file is named.
+func openWeather(paths []string, pLow, pHigh float64, o weatherOpts) (*winds.Field, error) {
+	if o.budgetMiB <= 0 || o.budgetMiB > 1<<24 {
+		return nil, badInputf("--weather-budget-mib %d: want 1..%d", o.budgetMiB, 1<<24)
+	}
+	if o.edrParam != 0 && (o.edrParam < 28 || o.edrParam > 31) {
+		return nil, badInputf("--edr-param %d: want 28..31 (GRIB2 code table 4.2.0.19), or 0 for the default", o.edrParam)
 	}
 	for _, p := range paths {
 		fi, err := os.Stat(p)
@@ -113,7 +124,7 @@ func openWeather(paths []string, pLow, pHigh float64, budgetMiB int64) (*winds.F
 			return nil, err
 		}
 	}
-	f, err := winds.Options{Budget: budgetMiB << 20}.OpenBetween(pLow, pHigh, paths...)
+	f, err := winds.Options{Budget: o.budgetMiB << 20, EDRParam: o.edrParam}.OpenBetween(pLow, pHigh, paths...)
 	if err != nil {
 		return nil, badInput(err)
 	}
