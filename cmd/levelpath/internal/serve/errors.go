@@ -92,6 +92,7 @@ func decodeJSON(body []byte, v any) error {
 	var se *json.SyntaxError
 	switch {
 	case errors.As(err, &ute):
+		ute.Field = strings.TrimPrefix(ute.Field, "planRequest.")
 		return &apiError{Status: http.StatusBadRequest, Msg: fmt.Sprintf("%s: got a JSON %s, want %s", ute.Field, ute.Value, ute.Type), Field: ute.Field}
 	case errors.As(err, &se):
 		return &apiError{Status: http.StatusBadRequest, Msg: fmt.Sprintf("body is not valid JSON at byte %d: %v", se.Offset, se)}

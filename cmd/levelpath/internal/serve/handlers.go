@@ -16,6 +16,7 @@ import (
 	"levelpath/cmd/levelpath/internal/planout"
 	"levelpath/optimizer"
 	"levelpath/perf"
+	"levelpath/route"
 )
 
 // planAnswer is the body of a plan or assessment answer; everything but
@@ -332,7 +333,16 @@ func (s *Server) aircraftList(w http.ResponseWriter, r *http.Request) error {
 }
 
 func (s *Server) routeList(w http.ResponseWriter, r *http.Request) error {
-	writeJSON(w, http.StatusOK, map[string]any{"routes": nonNil(s.data.list(".geojson", ".json", ".csv"))})
+	// Only files that read as routes (a schedule CSV does not).
+	names := []string{}
+	for _, n := range s.data.list(".geojson", ".json", ".csv") {
+		if p, err := s.data.resolve(n); err == nil {
+			if _, err := route.Load(p); err == nil {
+				names = append(names, n)
+			}
+		}
+	}
+	writeJSON(w, http.StatusOK, map[string]any{"routes": names})
 	return nil
 }
 
