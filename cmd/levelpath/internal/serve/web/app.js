@@ -98,9 +98,11 @@ function show(ans, id) {
   if (p.baseline) items.push(["Best constant level", fl(p.baseline.fl) + ", saving " + f1(p.baseline.saving_pct) + " %"]);
   const dl = document.createElement("dl");
   for (const [k, v] of items) {
+    const div = document.createElement("div");
     const dt = document.createElement("dt"); dt.textContent = k;
     const dd = document.createElement("dd"); dd.textContent = v;
-    dl.append(dt, dd);
+    div.append(dt, dd);
+    dl.appendChild(div);
   }
   $("summary").replaceChildren(dl);
   const ul = document.createElement("ul");
