@@ -28,7 +28,7 @@ var demoDir = sync.OnceValues(func() (string, error) {
 })
 
 // testServer is a Server on the demo directory with a fresh database.
-func testServer(t *testing.T, mod func(*Config)) *Server {
+func testServer(t testing.TB, mod func(*Config)) *Server {
 	t.Helper()
 	dir, err := demoDir()
 	if err != nil {
@@ -102,7 +102,7 @@ func longFlight() map[string]any {
 		"weather": []string{"weather.grib2"}, "depart": "2026-12-01T20:00:00Z", "ci": 40.0}
 }
 
-func records(t *testing.T, s *Server) int64 {
+func records(t testing.TB, s *Server) int64 {
 	t.Helper()
 	n, err := s.store.count(t.Context())
 	if err != nil {
