@@ -148,6 +148,7 @@ async function submit(kind) {
     const t0 = performance.now();
     const ans = await api("POST", "/v1/" + kind, req);
     show(ans, ans.id);
+    $("result-h").focus();
     status("Record " + ans.id + " kept, " + Math.round(performance.now() - t0) + " ms.");
     if (kind === "plan" && !$("f-profile").value) $("f-profile").value = ans.plan.profile;
     if (req.flight) history();
