@@ -353,3 +353,39 @@ func TestBusy(t *testing.T) {
 		t.Errorf("after the slot freed: %d %s", a.code, a.raw)
 	}
 }
+
+// TestInlineRoutes: a route given as a GeoJSON object or as inline text
+// plans as the same route given by name.
+func TestInlineRoutes(t *testing.T) {
+	s := testServer(t, nil)
+	dir, _ := demoDir()
+	b, err := os.ReadFile(filepath.Join(dir, "route-lakeport.geojson"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var gj map[string]any
+	if err := json.Unmarshal(b, &gj); err != nil {
+		t.Fatal(err)
+	}
+	r, err := route.Load(filepath.Join(dir, "route-lakeport.geojson"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var text []string
+	for _, p := range r.Points {
+		text = append(text, strconv.FormatFloat(p.Lat, 'g', -1, 64)+","+strconv.FormatFloat(p.Lon, 'g', -1, 64))
+	}
+	byName := call(t, s.Handler(), "POST", "/v1/plan", shortFlight())
+	for name, rt := range map[string]any{"geojson": gj, "inline": strings.Join(text, " ")} {
+		req := shortFlight()
+		req["route"] = rt
+		a := call(t, s.Handler(), "POST", "/v1/plan", req)
+		if a.code != 200 {
+			t.Fatalf("%s: %d %s", name, a.code, a.raw)
+		}
+		g, w := a.doc["plan"].(map[string]any), byName.doc["plan"].(map[string]any)
+		if g["profile"] != w["profile"] || g["distance_nm"] != w["distance_nm"] {
+			t.Errorf("%s: %v %v NM, by name %v %v NM", name, g["profile"], g["distance_nm"], w["profile"], w["distance_nm"])
+		}
+	}
+}
