@@ -389,3 +389,22 @@ func TestInlineRoutes(t *testing.T) {
 		}
 	}
 }
+
+// TestInternalError: a failure that is not the client's (here the
+// database closed under the service) is 500 "internal error", with no
+// detail in the answer; /healthz then says 503.
+func TestInternalError(t *testing.T) {
+	var logged bytes.Buffer
+	s := testServer(t, func(c *Config) { c.Logger.SetOutput(&logged) })
+	s.store.db.Close()
+	a := call(t, s.Handler(), "POST", "/v1/plan", shortFlight())
+	if a.code != 500 || a.doc["error"] != "internal error" || len(a.doc) != 1 {
+		t.Errorf("%d %s", a.code, a.raw)
+	}
+	if !strings.Contains(logged.String(), "storing the record") {
+		t.Errorf("the cause is not logged: %q", logged.String())
+	}
+	if h := call(t, s.Handler(), "GET", "/healthz", nil); h.code != 503 {
+		t.Errorf("healthz with the database closed: %d", h.code)
+	}
+}
