@@ -196,7 +196,13 @@ func (c *weatherCache) get(names []string) (*weatherSet, error) {
 	// Cruise levels lie between FL050 and FL600, as the command line keeps.
 	f, err := winds.OpenBetween(perf.FLToPressure(600), perf.FLToPressure(50), paths...)
 	if err != nil {
-		return nil, err
+		// Name the files as the request did, not by where the data
+		// directory lies.
+		msg := err.Error()
+		for i, p := range paths {
+			msg = strings.ReplaceAll(msg, p, names[i])
+		}
+		return nil, errors.New(msg)
 	}
 	ws := &weatherSet{field: f, names: append([]string(nil), names...), stamps: stamps}
 	for _, p := range paths {

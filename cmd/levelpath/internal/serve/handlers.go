@@ -147,6 +147,7 @@ func (s *Server) priced(w http.ResponseWriter, r *http.Request, kind string) err
 		return fmt.Errorf("storing the record: %w", err)
 	}
 	s.met.add(func(m *metrics) { m.records[kind]++ })
+	s.log.Printf("%s %d: flight %q, token %q, %s", kind, ans.ID, req.Flight, who, doc.Profile)
 	writeJSON(w, http.StatusOK, ans)
 	return nil
 }

@@ -254,10 +254,15 @@ func TestBadInput(t *testing.T) {
 			}
 		})
 	}
+	dir, _ := demoDir()
+	a := call(t, s.Handler(), "POST", "/v1/plan", with("weather", []string{"schedule.csv"}))
+	if strings.Contains(string(a.raw), dir) {
+		t.Errorf("the answer shows where the data directory lies: %s", a.raw)
+	}
 	if n := records(t, s); n != 0 {
 		t.Errorf("%d records stored for refused requests", n)
 	}
-	a := call(t, s.Handler(), "POST", "/v1/plan", "{}", "Content-Type", "text/plain")
+	a = call(t, s.Handler(), "POST", "/v1/plan", "{}", "Content-Type", "text/plain")
 	if a.code != http.StatusUnsupportedMediaType {
 		t.Errorf("text/plain body: %d", a.code)
 	}
