@@ -34,6 +34,7 @@ type recordInputs struct {
 	AircraftDigest string   `json:"aircraft_digest"`
 	Weather        []string `json:"weather"`
 	WeatherDigests []string `json:"weather_digests"`
+	RouteDigest    string   `json:"route_digest"`
 	Version        string   `json:"program_version"`
 }
 
@@ -129,7 +130,7 @@ func (s *Server) priced(w http.ResponseWriter, r *http.Request, kind string) err
 	doc := planout.FromPlan(res.plan, kind == "assess")
 	doc.Warnings = append(append([]string{}, res.in.warnings...), doc.Warnings...)
 	ans := planAnswer{Plan: doc, ChartSVG: res.svg, Record: &recordInputs{Aircraft: res.in.aircraftName, AircraftDigest: res.in.aircraftDigest,
-		Weather: nonNil(res.in.weather), WeatherDigests: nonNil(res.in.weatherDigests), Version: s.cfg.Version}}
+		Weather: nonNil(res.in.weather), WeatherDigests: nonNil(res.in.weatherDigests), RouteDigest: res.in.routeDigest, Version: s.cfg.Version}}
 	out, err := json.Marshal(struct {
 		Plan     *planout.Doc `json:"plan"`
 		ChartSVG string       `json:"chart_svg,omitempty"`
@@ -140,7 +141,7 @@ func (s *Server) priced(w http.ResponseWriter, r *http.Request, kind string) err
 	who, _ := r.Context().Value(ctxKey{}).(string)
 	rec := &Record{Kind: kind, Flight: req.Flight, CreatedAt: time.Now().UTC().Format(time.RFC3339Nano), Token: who, Version: s.cfg.Version,
 		Aircraft: res.in.aircraftName, AircraftDigest: res.in.aircraftDigest, Weather: res.in.weather, WeatherDigests: res.in.weatherDigests,
-		Request: compactJSON(raw), Output: out}
+		RouteDigest: res.in.routeDigest, Request: compactJSON(raw), Output: out}
 	// The record is written even if the client has gone: the plan was
 	// produced. A context without the request's deadline is used.
 	if ans.ID, err = s.store.add(context.WithoutCancel(r.Context()), rec); err != nil {

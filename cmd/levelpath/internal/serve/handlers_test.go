@@ -88,6 +88,9 @@ func TestPlanMatchesLibrary(t *testing.T) {
 	if d := rec.doc["weather_digests"].([]any)[0]; d != wantDigest {
 		t.Errorf("weather digest %v, want %s", d, wantDigest)
 	}
+	if d := rec.doc["route_digest"]; d != sha256File(t, filepath.Join(dir, "route-lakeport.geojson")) {
+		t.Errorf("route digest %v", d)
+	}
 	if rec.doc["aircraft_digest"] != "builtin:demo-regional" || rec.doc["program_version"] != "test" || rec.doc["kind"] != "plan" {
 		t.Errorf("record inputs: %v %v %v", rec.doc["aircraft_digest"], rec.doc["program_version"], rec.doc["kind"])
 	}

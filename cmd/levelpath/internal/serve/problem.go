@@ -2,6 +2,8 @@ package serve
 
 import (
 	"bytes"
+	"crypto/sha256"
+	"encoding/hex"
 	"encoding/json"
 	"fmt"
 	"math"
@@ -58,6 +60,7 @@ type inputs struct {
 	aircraftDigest string
 	weather        []string
 	weatherDigests []string
+	routeDigest    string   // SHA-256 of the route file, or "inline:" and that of the route as sent
 	warnings       []string // from reading the route and dates
 }
 
@@ -183,6 +186,8 @@ func (s *Server) track(req *planRequest, depart time.Time, in *inputs) (*route.T
 	var r *route.Route
 	var err error
 	raw := bytes.TrimSpace(req.Route)
+	sum := sha256.Sum256(raw)
+	in.routeDigest = "inline:" + hex.EncodeToString(sum[:])
 	switch raw[0] {
 	case '{':
 		r, err = route.ParseGeoJSON(raw, "inline GeoJSON")
@@ -197,6 +202,9 @@ func (s *Server) track(req *planRequest, depart time.Time, in *inputs) (*route.T
 			p, rerr := s.data.resolve(text)
 			if rerr != nil {
 				return nil, fieldErr("route", "route %v", rerr)
+			}
+			if in.routeDigest, rerr = fileDigest(p); rerr != nil {
+				return nil, rerr
 			}
 			r, err = route.Load(p)
 			if err != nil {

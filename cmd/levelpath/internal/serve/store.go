@@ -24,6 +24,7 @@ type Record struct {
 	AircraftDigest string          `json:"aircraft_digest"`
 	Weather        []string        `json:"weather"`
 	WeatherDigests []string        `json:"weather_digests"`
+	RouteDigest    string          `json:"route_digest"`
 	Request        json.RawMessage `json:"request"`
 	Output         json.RawMessage `json:"output"`
 }
@@ -47,6 +48,9 @@ var migrations = []string{
 		output TEXT NOT NULL
 	);
 	CREATE INDEX records_flight ON records(flight, id);`,
+	// 2: the route's digest (SHA-256 of the file named, or of the inline
+	// route as sent); records from before have "".
+	`ALTER TABLE records ADD COLUMN route_digest TEXT NOT NULL DEFAULT '';`,
 }
 
 // SchemaVersion is the schema version this program writes.
@@ -124,9 +128,9 @@ func (s *store) version() (int, error) {
 func (s *store) add(ctx context.Context, r *Record) (int64, error) {
 	w, _ := json.Marshal(nonNil(r.Weather))
 	wd, _ := json.Marshal(nonNil(r.WeatherDigests))
-	res, err := s.db.ExecContext(ctx, `INSERT INTO records(kind, flight, created_at, token, program_version, aircraft, aircraft_digest, weather, weather_digests, request, output)
-		VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
-		r.Kind, r.Flight, r.CreatedAt, r.Token, r.Version, r.Aircraft, r.AircraftDigest, string(w), string(wd), string(r.Request), string(r.Output))
+	res, err := s.db.ExecContext(ctx, `INSERT INTO records(kind, flight, created_at, token, program_version, aircraft, aircraft_digest, weather, weather_digests, route_digest, request, output)
+		VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
+		r.Kind, r.Flight, r.CreatedAt, r.Token, r.Version, r.Aircraft, r.AircraftDigest, string(w), string(wd), r.RouteDigest, string(r.Request), string(r.Output))
 	if err != nil {
 		return 0, err
 	}
@@ -140,12 +144,12 @@ func nonNil(s []string) []string {
 	return s
 }
 
-const recordCols = `id, kind, flight, created_at, token, program_version, aircraft, aircraft_digest, weather, weather_digests, request, output`
+const recordCols = `id, kind, flight, created_at, token, program_version, aircraft, aircraft_digest, weather, weather_digests, route_digest, request, output`
 
 func scanRecord(row interface{ Scan(...any) error }) (*Record, error) {
 	var r Record
 	var w, wd, req, out string
-	if err := row.Scan(&r.ID, &r.Kind, &r.Flight, &r.CreatedAt, &r.Token, &r.Version, &r.Aircraft, &r.AircraftDigest, &w, &wd, &req, &out); err != nil {
+	if err := row.Scan(&r.ID, &r.Kind, &r.Flight, &r.CreatedAt, &r.Token, &r.Version, &r.Aircraft, &r.AircraftDigest, &w, &wd, &r.RouteDigest, &req, &out); err != nil {
 		return nil, err
 	}
 	if err := json.Unmarshal([]byte(w), &r.Weather); err != nil {

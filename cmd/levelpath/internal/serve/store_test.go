@@ -152,3 +152,34 @@ func TestSchema(t *testing.T) {
 		t.Errorf("journal_mode %q %v", mode, err)
 	}
 }
+
+// TestMigrateFromV1: a database written at schema version 1 is brought
+// to the current version on open, its records kept.
+func TestMigrateFromV1(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "v1.db")
+	db, err := sql.Open("sqlite", "file:"+path+"?_pragma=journal_mode(WAL)")
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, q := range []string{`CREATE TABLE schema_migrations (version INTEGER PRIMARY KEY, applied_at TEXT NOT NULL)`, migrations[0],
+		`INSERT INTO schema_migrations VALUES (1, 'then')`,
+		`INSERT INTO records(kind, flight, created_at, token, program_version, aircraft, aircraft_digest, weather, weather_digests, request, output)
+		 VALUES ('plan', 'OLD1', 't', '', 'v1', 'a', 'd', '[]', '[]', '{}', '{"plan":{}}')`} {
+		if _, err := db.Exec(q); err != nil {
+			t.Fatal(err)
+		}
+	}
+	db.Close()
+	s, err := openStore(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer s.close()
+	if v, _ := s.version(); v != SchemaVersion || SchemaVersion < 2 {
+		t.Errorf("version %d, want %d", v, SchemaVersion)
+	}
+	r, err := s.get(context.Background(), 1)
+	if err != nil || r.Flight != "OLD1" || r.RouteDigest != "" {
+		t.Errorf("old record after the migration: %+v %v", r, err)
+	}
+}
