@@ -52,7 +52,7 @@ func TestOpenAPI(t *testing.T) {
 		}
 	}
 	schemas := a.doc["components"].(map[string]any)["schemas"].(map[string]any)
-	for name, typ := range map[string]reflect.Type{"PlanRequest": reflect.TypeOf(planBody{}), "AssessRequest": reflect.TypeOf(planRequest{}), "EnvelopeRequest": reflect.TypeOf(envelopeRequest{})} {
+	for name, typ := range map[string]reflect.Type{"PlanRequest": reflect.TypeOf(planBody{}), "AssessRequest": reflect.TypeOf(planRequest{}), "EnvelopeRequest": reflect.TypeOf(envelopeRequest{}), "Record": reflect.TypeOf(Record{})} {
 		props := schemas[name].(map[string]any)["properties"].(map[string]any)
 		var doc, code []string
 		for k := range props {
