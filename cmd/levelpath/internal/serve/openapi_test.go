@@ -1,0 +1,99 @@
+package serve
+
+import (
+	"encoding/json"
+	"reflect"
+	"sort"
+	"strings"
+	"testing"
+)
+
+// TestOpenAPI checks the OpenAPI 3 document against the handlers: every
+// documented operation is served and every served one documented, and
+// the request schemas list exactly the fields the handlers decode.
+func TestOpenAPI(t *testing.T) {
+	s := testServer(t, nil)
+	a := call(t, s.Handler(), "GET", "/v1/openapi.json", nil)
+	if a.code != 200 {
+		t.Fatalf("openapi.json: %d", a.code)
+	}
+	if v, _ := a.doc["openapi"].(string); !strings.HasPrefix(v, "3.") {
+		t.Fatalf("openapi %q, want 3.x", v)
+	}
+	var documented []string
+	for path, item := range a.doc["paths"].(map[string]any) {
+		for method, op := range item.(map[string]any) {
+			documented = append(documented, strings.ToUpper(method)+" "+path)
+			if _, ok := op.(map[string]any)["responses"].(map[string]any)["200"]; !ok {
+				t.Errorf("%s %s: no 200 response", method, path)
+			}
+		}
+	}
+	var served []string
+	for _, p := range s.Patterns {
+		served = append(served, strings.Replace(p, "{$}", "", 1))
+	}
+	sort.Strings(documented)
+	sort.Strings(served)
+	if !reflect.DeepEqual(documented, served) {
+		t.Errorf("documented %v\nserved     %v", documented, served)
+	}
+	// Every served pattern answers something other than the catch-all 404.
+	for _, p := range served {
+		method, path, _ := strings.Cut(p, " ")
+		path = strings.NewReplacer("{file}", "app.js", "{id}", "1").Replace(path)
+		var body any
+		if method == "POST" {
+			body = map[string]any{}
+		}
+		r := call(t, s.Handler(), method, path, body)
+		if e, _ := r.doc["error"].(string); strings.HasPrefix(e, "no such endpoint") {
+			t.Errorf("%s: not served", p)
+		}
+	}
+	schemas := a.doc["components"].(map[string]any)["schemas"].(map[string]any)
+	for name, typ := range map[string]reflect.Type{"PlanRequest": reflect.TypeOf(planBody{}), "AssessRequest": reflect.TypeOf(planRequest{}), "EnvelopeRequest": reflect.TypeOf(envelopeRequest{}), "Record": reflect.TypeOf(Record{})} {
+		props := schemas[name].(map[string]any)["properties"].(map[string]any)
+		var doc, code []string
+		for k := range props {
+			doc = append(doc, k)
+		}
+		code = jsonFields(typ)
+		if name == "PlanRequest" {
+			code = remove(code, "profile")
+		}
+		sort.Strings(doc)
+		sort.Strings(code)
+		if !reflect.DeepEqual(doc, code) {
+			t.Errorf("%s: documented %v\ndecoded %v", name, doc, code)
+		}
+	}
+	var check map[string]any
+	if err := json.Unmarshal(openapiDoc, &check); err != nil {
+		t.Fatal(err)
+	}
+}
+
+func jsonFields(t reflect.Type) []string {
+	var out []string
+	for i := 0; i < t.NumField(); i++ {
+		f := t.Field(i)
+		if f.Anonymous {
+			out = append(out, jsonFields(f.Type)...)
+			continue
+		}
+		name, _, _ := strings.Cut(f.Tag.Get("json"), ",")
+		out = append(out, name)
+	}
+	return out
+}
+
+func remove(s []string, x string) []string {
+	var out []string
+	for _, v := range s {
+		if v != x {
+			out = append(out, v)
+		}
+	}
+	return out
+}
