@@ -163,8 +163,15 @@ func TestAssessAndChart(t *testing.T) {
 	if !found {
 		t.Errorf("FL370 westbound: no level-rule violation in %s", v.raw)
 	}
-	if n := records(t, s); n != 3 {
-		t.Errorf("%d records, want 3", n)
+	// A level the aircraft cannot reach is priced as far as it climbs and
+	// listed, not refused (as the CLI's assess does).
+	req["profile"] = "FL450"
+	u := call(t, s.Handler(), "POST", "/v1/assess", req)
+	if u.code != 200 || len(u.doc["plan"].(map[string]any)["violations"].([]any)) == 0 {
+		t.Errorf("FL450: %d, want 200 with violations: %s", u.code, u.raw)
+	}
+	if n := records(t, s); n != 4 {
+		t.Errorf("%d records, want 4", n)
 	}
 }
 
@@ -229,7 +236,6 @@ func TestBadInput(t *testing.T) {
 		{"profile missing", "POST", "/v1/assess", shortFlight(), 400, "profile"},
 		{"profile malformed", "POST", "/v1/assess", with("profile", "FL350,FL370@abc"), 400, "profile"},
 		{"profile decreasing", "POST", "/v1/assess", with("profile", "FL350,FL370@900,FL390@500"), 400, "profile"},
-		{"profile unflyable", "POST", "/v1/assess", with("profile", "FL450"), 400, "profile"},
 		{"profile level", "POST", "/v1/assess", with("profile", "FL355"), 400, "profile"},
 		{"envelope no mass", "POST", "/v1/envelope", map[string]any{"aircraft": "demo-regional"}, 400, "mass"},
 		{"envelope unknown", "POST", "/v1/envelope", map[string]any{"aircraft": "demo-regional", "mass": 30000, "isa": 3}, 400, "isa"},
