@@ -175,3 +175,35 @@ func (w *wmmModel) field(lat, lon, altM float64) (x, y, z float64) {
 	z = xc*sd + zc*cd
 	return x, yc, z
 }
+
+// ClampDate moves a date outside WMM2025's validity (a replay of an older
+// reanalysis day, say) to the nearest valid date and returns a warning
+// saying so, or "" when d is valid: the variation drifts by a fraction of
+// a degree a year, which moves the semicircular level rule only on tracks
+// within that of north or south.
+func ClampDate(d time.Time) (time.Time, string) {
+	from, until := WMMValidity()
+	last := until.AddDate(0, 0, -1)
+	const day = "2006-01-02"
+	switch {
+	case d.Before(from):
+		return from, fmt.Sprintf("magnetic variation: %s is before WMM2025 (%s to %s); using %s", d.Format(day), from.Format(day), last.Format(day), from.Format(day))
+	case d.After(last):
+		return last, fmt.Sprintf("magnetic variation: %s is after WMM2025 (%s to %s); using %s", d.Format(day), from.Format(day), last.Format(day), last.Format(day))
+	}
+	return d, ""
+}
+
+// Open loads the route at arg (see Load) and builds its track with opt
+// (see Build), returning the warnings of both, the route's first.
+func Open(arg string, opt Options) (*Track, []string, error) {
+	r, err := Load(arg)
+	if err != nil {
+		return nil, nil, err
+	}
+	tr, err := Build(r, opt)
+	if err != nil {
+		return nil, nil, err
+	}
+	return tr, append(append([]string(nil), r.Warnings...), tr.Warnings...), nil
+}

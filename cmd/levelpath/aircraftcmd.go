@@ -7,7 +7,7 @@ import (
 
 	"github.com/spf13/cobra"
 
-	"levelpath/cmd/levelpath/internal/planout"
+	"levelpath/optimizer/planjson"
 	"levelpath/optimizer"
 	"levelpath/perf"
 )
@@ -52,7 +52,7 @@ func describeAircraft(a *perf.Aircraft, source string) (aircraftJSON, error) {
 	if err != nil {
 		return d, err
 	}
-	fl := func(x float64) *float64 { return planout.Number(perf.ReportFL(x)) }
+	fl := func(x float64) *float64 { return planjson.Number(perf.ReportFL(x)) }
 	d.RefMaxFLBuffet, d.RefMaxFLThrust, d.RefMaxFLHot, d.RefOptimumFL = fl(e.MaxFLBuffet), fl(e.MaxFLThrust), fl(hot.MaxFLThrust), fl(e.OptimumFL)
 	return d, nil
 }

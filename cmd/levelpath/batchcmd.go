@@ -10,10 +10,7 @@ import (
 	"os"
 	"os/signal"
 	"path/filepath"
-	"slices"
 	"strconv"
-	"strings"
-	"sync"
 	"syscall"
 	"text/tabwriter"
 	"time"
@@ -21,148 +18,15 @@ import (
 	"github.com/spf13/cobra"
 	"golang.org/x/term"
 
-	"levelpath/cmd/levelpath/internal/batch"
 	"levelpath/cmd/levelpath/internal/chart"
-	"levelpath/cmd/levelpath/internal/planout"
 	"levelpath/optimizer"
+	"levelpath/optimizer/batch"
 	"levelpath/perf"
-	"levelpath/route"
-	"levelpath/winds"
 )
 
 func init() { subcommands = append(subcommands, newBatchCmd) }
 
 const exitSomeFailed = 3
-
-// planner plans schedule rows with one shared weather field and caches
-// aircraft models and segmented routes (both read-only once built).
-type planner struct {
-	wx       *winds.Field
-	maxSegNM float64
-	steps    optimizer.StepRules
-	mu       sync.Mutex
-	aircraft map[string]*perf.Aircraft
-	tracks   map[string]trackEntry
-}
-
-// trackEntry is a segmented route and the warnings made building it.
-type trackEntry struct {
-	track    *route.Track
-	warnings []string
-}
-
-func (p *planner) aircraftFor(name string) (*perf.Aircraft, error) {
-	p.mu.Lock()
-	defer p.mu.Unlock()
-	if a, ok := p.aircraft[name]; ok {
-		return a, nil
-	}
-	a, err := perf.Load(name)
-	if err != nil {
-		return nil, err
-	}
-	p.aircraft[name] = a
-	return a, nil
-}
-
-func (p *planner) trackFor(path, levels string, dep time.Time) (trackEntry, error) {
-	key := path + "\x00" + levels + "\x00" + dep.UTC().Format("2006-01-02")
-	p.mu.Lock()
-	if t, ok := p.tracks[key]; ok {
-		p.mu.Unlock()
-		return t, nil
-	}
-	p.mu.Unlock()
-	var warn strings.Builder
-	t, err := buildTrack(path, levels, p.maxSegNM, "", dep, &warn)
-	if err != nil {
-		return trackEntry{}, err
-	}
-	e := trackEntry{track: t}
-	for _, l := range strings.Split(strings.TrimSpace(warn.String()), "\n") {
-		if l = strings.TrimSpace(strings.TrimPrefix(l, "levelpath: warning:")); l != "" {
-			e.warnings = append(e.warnings, l)
-		}
-	}
-	p.mu.Lock()
-	p.tracks[key] = e
-	p.mu.Unlock()
-	return e, nil
-}
-
-// plan is the batch.Planner.
-func (p *planner) plan(ctx context.Context, row batch.Row, ci float64) (batch.Result, error) {
-	var res batch.Result
-	if err := ctx.Err(); err != nil {
-		return res, err
-	}
-	a, err := p.aircraftFor(row.Aircraft)
-	if err != nil {
-		return res, err
-	}
-	te, err := p.trackFor(row.Route, row.Levels, row.Departure)
-	if err != nil {
-		return res, err
-	}
-	pr := &optimizer.Problem{Track: te.track, Aircraft: a, Weather: p.wx, Depart: row.Departure, CI: ci, Floor: row.Floor, Steps: p.steps}
-	// ReadSchedule sets TOW (from zfw_kg + fuel_kg where tow_kg is empty);
-	// with zfw_kg and fuel_kg, check them as the plan command does and let
-	// the plan flag a trip that burns more than the fuel on board.
-	if row.ZFW > 0 && row.Fuel > 0 {
-		if row.ZFW > a.MZFW {
-			return res, fmt.Errorf("zfw_kg %.0f is over MZFW %.0f kg of %s", row.ZFW, a.MZFW, a.Name)
-		}
-		if row.Fuel > a.FuelCapacity {
-			return res, fmt.Errorf("fuel_kg %.0f is over the fuel capacity %.0f kg of %s", row.Fuel, a.FuelCapacity, a.Name)
-		}
-		pr.ZFW = row.ZFW
-	}
-	if !(row.TOW > 0) {
-		return res, fmt.Errorf("no take-off mass: give tow_kg, or zfw_kg and fuel_kg")
-	}
-	pr.TakeoffMass = row.TOW
-	if row.Speed != "" {
-		sp, err := optimizer.ParseSpeed(row.Speed)
-		if err != nil {
-			return res, err
-		}
-		pr.Speed = sp
-	}
-	plan, err := optimizer.Solve(pr)
-	if err != nil {
-		return res, err
-	}
-	var buf strings.Builder
-	if err := planout.WriteJSON(&buf, plan, false); err != nil {
-		return res, err
-	}
-	res = batch.Result{Fuel: plan.Totals.Fuel, Time: plan.Totals.Time / 60, Cost: plan.Totals.Cost, CO2: plan.Totals.CO2,
-		InitialFL: plan.Profile.Initial, Steps: len(plan.Steps), MinMargin: plan.MinMargin(), CostSavingPct: math.NaN(),
-		LandingMass: plan.Totals.LandingMass, TakeoffMass: plan.TakeoffMass, ZFW: pr.ZFW, Distance: plan.Distance,
-		Floor: plan.Floor, Speed: row.Speed, Levels: row.Levels, Profile: plan.Profile.String(),
-		PlanJSON: []byte(buf.String())}
-	if res.Speed == "" {
-		res.Speed = "econ" // optimizer.Problem's zero Speed
-	}
-	if res.Levels == "" {
-		res.Levels = "odd-even-magnetic" // route.Options' zero rule
-	}
-	if plan.Baseline != nil {
-		res.CostSavingPct = plan.Baseline.SavingPct
-	}
-	if p.wx == nil {
-		res.Warnings = append(res.Warnings, stillAirWarning)
-	}
-	res.Warnings = append(res.Warnings, te.warnings...)
-	res.Warnings = append(res.Warnings, plan.Warnings...)
-	// Solve copies landing-mass and fuel violations into Warnings too:
-	// keep each once, as a violation.
-	for _, v := range plan.Violations {
-		res.Violations = append(res.Violations, v.Detail)
-		res.Warnings = slices.DeleteFunc(res.Warnings, func(w string) bool { return w == v.Detail })
-	}
-	return res, nil
-}
 
 func newBatchCmd() *cobra.Command {
 	var (
@@ -285,7 +149,10 @@ func newBatchCmd() *cobra.Command {
 		if wx == nil {
 			warnf(cmd.ErrOrStderr(), "%s", stillAirWarning)
 		}
-		pl := &planner{wx: wx, maxSegNM: maxSegNM, steps: steps, aircraft: map[string]*perf.Aircraft{}, tracks: map[string]trackEntry{}}
+		if !(maxSegNM >= 1 && maxSegNM <= 1000) {
+			return badInputf("--max-seg-nm %v: want 1..1000", maxSegNM)
+		}
+		pl := &batch.SchedulePlanner{Weather: wx, MaxSegment: maxSegNM * perf.NMToM, Steps: steps}
 		// From here a first SIGINT or SIGTERM stops the run cleanly
 		// (records kept, see batch.Run and Options.StopGrace); a second
 		// ends the process at once: stop() restores the default action
@@ -294,7 +161,7 @@ func newBatchCmd() *cobra.Command {
 		defer stop()
 		go func() { <-ctx.Done(); stop() }()
 		start := time.Now()
-		sum, err := batch.Run(ctx, rows, bad, pl.plan, opt)
+		sum, err := batch.Run(ctx, rows, bad, pl.Plan, opt)
 		if el := time.Since(start); err == nil && sum.Planned > sum.Skipped {
 			n := sum.Planned - sum.Skipped
 			fmt.Fprintf(cmd.ErrOrStderr(), "levelpath: %d plans in %.1f s (%.1f plans/s), peak memory %.0f MiB\n",
@@ -360,7 +227,7 @@ func newBatchMergeCmd() *cobra.Command {
 
 // stillAirWarning is printed, and put in every result's warnings, when a
 // batch runs without weather.
-const stillAirWarning = "no --weather given: every flight is planned in still air at ISA temperatures"
+const stillAirWarning = batch.StillAirWarning
 
 // batchError maps an error of batch.Run or batch.Merge to an exit code:
 // bad input (a schedule, shard, sweep, resume or lock problem, a corrupt

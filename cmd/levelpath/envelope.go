@@ -8,7 +8,7 @@ import (
 
 	"github.com/spf13/cobra"
 
-	"levelpath/cmd/levelpath/internal/planout"
+	"levelpath/optimizer/planjson"
 	"levelpath/optimizer"
 	"levelpath/perf"
 )
@@ -45,8 +45,8 @@ type envelopeJSON struct {
 
 func envelopeDoc(e perf.Envelope) envelopeJSON {
 	d := envelopeJSON{Caution: optimizer.Caution, Aircraft: e.Aircraft, MassKg: e.Mass, ISADevC: e.ISADev, FloorG: e.Floor,
-		MaxFLBuffet: planout.Number(e.MaxFLBuffet), MaxFLThrust: planout.Number(e.MaxFLThrust), MaxFLCertified: e.MaxFLCertified,
-		MaxFL: planout.Number(e.MaxFL), OptimumFL: planout.Number(e.OptimumFL), Rows: []envelopeRowJSON{}}
+		MaxFLBuffet: planjson.Number(e.MaxFLBuffet), MaxFLThrust: planjson.Number(e.MaxFLThrust), MaxFLCertified: e.MaxFLCertified,
+		MaxFL: planjson.Number(e.MaxFL), OptimumFL: planjson.Number(e.OptimumFL), Rows: []envelopeRowJSON{}}
 	for _, r := range e.Rows {
 		var rc *float64
 		if !math.IsNaN(r.ResidualClimb) {
@@ -54,9 +54,9 @@ func envelopeDoc(e perf.Envelope) envelopeJSON {
 			rc = &v
 		}
 		d.Rows = append(d.Rows, envelopeRowJSON{FL: r.FL, PressureHPa: r.Pressure / 100, OATC: r.OAT - 273.15,
-			SoundKt: r.SoundSpeed / perf.KtToMS, LowBuffetMach1g: planout.Number(r.LowBuffet1g), HighBuffetMach1g: planout.Number(r.HighBuffet1g),
-			LowBuffetMachFloor: planout.Number(r.LowBuffetFloor), HighBuffetMachFloor: planout.Number(r.HighBuffetFloor), MMO: r.MMO,
-			LRCMach: planout.Number(r.LRCMach), ResidualClimbFPM: rc})
+			SoundKt: r.SoundSpeed / perf.KtToMS, LowBuffetMach1g: planjson.Number(r.LowBuffet1g), HighBuffetMach1g: planjson.Number(r.HighBuffet1g),
+			LowBuffetMachFloor: planjson.Number(r.LowBuffetFloor), HighBuffetMachFloor: planjson.Number(r.HighBuffetFloor), MMO: r.MMO,
+			LRCMach: planjson.Number(r.LRCMach), ResidualClimbFPM: rc})
 	}
 	return d
 }
@@ -120,8 +120,8 @@ func newEnvelopeCmd() *cobra.Command {
 			w := csv.NewWriter(out)
 			w.Write([]string{"fl", "pressure_hpa", "oat_c", "sound_kt", "low_buffet_mach_1g", "high_buffet_mach_1g", "low_buffet_mach_floor", "high_buffet_mach_floor", "mmo", "lrc_mach", "residual_climb_fpm"})
 			for _, r := range d.Rows {
-				w.Write([]string{planout.CSVNumber(r.FL), planout.CSVNumber(r.PressureHPa), planout.CSVNumber(r.OATC), planout.CSVNumber(r.SoundKt), planout.CSVPointer(r.LowBuffetMach1g), planout.CSVPointer(r.HighBuffetMach1g),
-					planout.CSVPointer(r.LowBuffetMachFloor), planout.CSVPointer(r.HighBuffetMachFloor), planout.CSVNumber(r.MMO), planout.CSVPointer(r.LRCMach), planout.CSVPointer(r.ResidualClimbFPM)})
+				w.Write([]string{planjson.CSVNumber(r.FL), planjson.CSVNumber(r.PressureHPa), planjson.CSVNumber(r.OATC), planjson.CSVNumber(r.SoundKt), planjson.CSVPointer(r.LowBuffetMach1g), planjson.CSVPointer(r.HighBuffetMach1g),
+					planjson.CSVPointer(r.LowBuffetMachFloor), planjson.CSVPointer(r.HighBuffetMachFloor), planjson.CSVNumber(r.MMO), planjson.CSVPointer(r.LRCMach), planjson.CSVPointer(r.ResidualClimbFPM)})
 			}
 			w.Flush()
 			return w.Error()

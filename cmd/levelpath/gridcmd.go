@@ -10,7 +10,7 @@ import (
 
 	"github.com/spf13/cobra"
 
-	"levelpath/cmd/levelpath/internal/planout"
+	"levelpath/optimizer/planjson"
 	"levelpath/perf"
 	"levelpath/winds"
 )
@@ -74,7 +74,7 @@ func newGridInfoCmd() *cobra.Command {
 					ValidTime: validTime(m.ValidTime), Ni: m.Ni, Nj: m.Nj, Lat1: m.Lat1, Lon1: m.Lon1, Lat2: m.Lat2,
 					Lon2: m.Lon2, Grid: m.Grid, Packing: m.Packing, Ensemble: m.Ensemble, Kept: m.Param != "other"}
 				if m.LevelType == 100 {
-					j.LevelHPa = planout.Number(m.Level / 100)
+					j.LevelHPa = planjson.Number(m.Level / 100)
 				}
 				all = append(all, j)
 			}
@@ -184,7 +184,7 @@ func newGridSampleCmd() *cobra.Command {
 		if err != nil {
 			return badInput(err)
 		}
-		d := sampleJSON{Lat: lat, Lon: lon, HPa: p / 100, Time: t.UTC().Format(time.RFC3339), U: planout.Number(s.U), V: planout.Number(s.V), T: planout.Number(s.T), EDR: planout.Number(s.EDR)}
+		d := sampleJSON{Lat: lat, Lon: lon, HPa: p / 100, Time: t.UTC().Format(time.RFC3339), U: planjson.Number(s.U), V: planjson.Number(s.V), T: planjson.Number(s.T), EDR: planjson.Number(s.EDR)}
 		out := cmd.OutOrStdout()
 		if *format == "json" {
 			return writeJSON(out, d)

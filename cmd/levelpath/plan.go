@@ -7,7 +7,7 @@ import (
 
 	"github.com/spf13/cobra"
 
-	"levelpath/cmd/levelpath/internal/planout"
+	"levelpath/optimizer/planjson"
 	"levelpath/optimizer"
 )
 
@@ -16,11 +16,11 @@ func init() { subcommands = append(subcommands, newPlanCmd, newAssessCmd) }
 func writePlan(w io.Writer, format string, p *optimizer.Plan, assessed, brief bool) error {
 	switch format {
 	case "json":
-		return planout.WriteJSON(w, p, assessed)
+		return planjson.WriteJSON(w, p, assessed)
 	case "csv":
-		return planout.WriteCSV(w, p, assessed)
+		return planjson.WriteCSV(w, p, assessed)
 	}
-	return planout.WriteTableBrief(w, p, assessed, brief)
+	return planjson.WriteTableBrief(w, p, assessed, brief)
 }
 
 // planFlags are the flags of plan and assess beyond the problem's.

@@ -383,15 +383,9 @@ func planErr(err error) error {
 // the variation drifts by a fraction of a degree a year, which moves the
 // semicircular level rule only on tracks within that of north or south.
 func clampMagDate(d time.Time, stderr io.Writer) time.Time {
-	from, until := route.WMMValidity()
-	last := until.AddDate(0, 0, -1)
-	switch {
-	case d.Before(from):
-		warnf(stderr, "magnetic variation: %s is before WMM2025 (%s to %s); using %s", d.Format("2006-01-02"), from.Format("2006-01-02"), last.Format("2006-01-02"), from.Format("2006-01-02"))
-		return from
-	case d.After(last):
-		warnf(stderr, "magnetic variation: %s is after WMM2025 (%s to %s); using %s", d.Format("2006-01-02"), from.Format("2006-01-02"), last.Format("2006-01-02"), last.Format("2006-01-02"))
-		return last
+	d, w := route.ClampDate(d)
+	if w != "" {
+		warnf(stderr, "%s", w)
 	}
 	return d
 }

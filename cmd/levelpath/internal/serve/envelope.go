@@ -3,14 +3,14 @@ package serve
 import (
 	"math"
 
-	"levelpath/cmd/levelpath/internal/planout"
+	"levelpath/optimizer/planjson"
 	"levelpath/optimizer"
 	"levelpath/perf"
 )
 
 // The envelope document has the envelope command's JSON field names (the
 // command line's envelopeJSON, which lives in package main; the two
-// should become one in planout).
+// should become one in planjson).
 type envelopeRowJSON struct {
 	FL                  float64  `json:"fl"`
 	PressureHPa         float64  `json:"pressure_hpa"`
@@ -41,8 +41,8 @@ type envelopeJSON struct {
 
 func envelopeDoc(e perf.Envelope) envelopeJSON {
 	d := envelopeJSON{Caution: optimizer.Caution, Aircraft: e.Aircraft, MassKg: e.Mass, ISADevC: e.ISADev, FloorG: e.Floor,
-		MaxFLBuffet: planout.Number(e.MaxFLBuffet), MaxFLThrust: planout.Number(e.MaxFLThrust), MaxFLCertified: e.MaxFLCertified,
-		MaxFL: planout.Number(e.MaxFL), OptimumFL: planout.Number(e.OptimumFL), Rows: []envelopeRowJSON{}}
+		MaxFLBuffet: planjson.Number(e.MaxFLBuffet), MaxFLThrust: planjson.Number(e.MaxFLThrust), MaxFLCertified: e.MaxFLCertified,
+		MaxFL: planjson.Number(e.MaxFL), OptimumFL: planjson.Number(e.OptimumFL), Rows: []envelopeRowJSON{}}
 	for _, r := range e.Rows {
 		var rc *float64
 		if !math.IsNaN(r.ResidualClimb) {
@@ -50,9 +50,9 @@ func envelopeDoc(e perf.Envelope) envelopeJSON {
 			rc = &v
 		}
 		d.Rows = append(d.Rows, envelopeRowJSON{FL: r.FL, PressureHPa: r.Pressure / 100, OATC: r.OAT - 273.15,
-			SoundKt: r.SoundSpeed / perf.KtToMS, LowBuffetMach1g: planout.Number(r.LowBuffet1g), HighBuffetMach1g: planout.Number(r.HighBuffet1g),
-			LowBuffetMachFloor: planout.Number(r.LowBuffetFloor), HighBuffetMachFloor: planout.Number(r.HighBuffetFloor), MMO: r.MMO,
-			LRCMach: planout.Number(r.LRCMach), ResidualClimbFPM: rc})
+			SoundKt: r.SoundSpeed / perf.KtToMS, LowBuffetMach1g: planjson.Number(r.LowBuffet1g), HighBuffetMach1g: planjson.Number(r.HighBuffet1g),
+			LowBuffetMachFloor: planjson.Number(r.LowBuffetFloor), HighBuffetMachFloor: planjson.Number(r.HighBuffetFloor), MMO: r.MMO,
+			LRCMach: planjson.Number(r.LRCMach), ResidualClimbFPM: rc})
 	}
 	return d
 }

@@ -13,7 +13,7 @@ import (
 	"unicode"
 
 	"levelpath/cmd/levelpath/internal/chart"
-	"levelpath/cmd/levelpath/internal/planout"
+	"levelpath/optimizer/planjson"
 	"levelpath/optimizer"
 	"levelpath/perf"
 	"levelpath/route"
@@ -23,7 +23,7 @@ import (
 // the id is stored as the record's output.
 type planAnswer struct {
 	ID       int64         `json:"id"`
-	Plan     *planout.Doc  `json:"plan"`
+	Plan     *planjson.Doc  `json:"plan"`
 	ChartSVG string        `json:"chart_svg,omitempty"`
 	Record   *recordInputs `json:"record"`
 }
@@ -127,12 +127,12 @@ func (s *Server) priced(w http.ResponseWriter, r *http.Request, kind string) err
 	if err != nil {
 		return err
 	}
-	doc := planout.FromPlan(res.plan, kind == "assess")
+	doc := planjson.FromPlan(res.plan, kind == "assess")
 	doc.Warnings = append(append([]string{}, res.in.warnings...), doc.Warnings...)
 	ans := planAnswer{Plan: doc, ChartSVG: res.svg, Record: &recordInputs{Aircraft: res.in.aircraftName, AircraftDigest: res.in.aircraftDigest,
 		Weather: nonNil(res.in.weather), WeatherDigests: nonNil(res.in.weatherDigests), RouteDigest: res.in.routeDigest, Version: s.cfg.Version}}
 	out, err := json.Marshal(struct {
-		Plan     *planout.Doc `json:"plan"`
+		Plan     *planjson.Doc `json:"plan"`
 		ChartSVG string       `json:"chart_svg,omitempty"`
 	}{ans.Plan, ans.ChartSVG})
 	if err != nil {

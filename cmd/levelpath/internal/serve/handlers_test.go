@@ -14,7 +14,7 @@ import (
 	"testing"
 	"time"
 
-	"levelpath/cmd/levelpath/internal/planout"
+	"levelpath/optimizer/planjson"
 	"levelpath/optimizer"
 	"levelpath/perf"
 	"levelpath/route"
@@ -56,7 +56,7 @@ func TestPlanMatchesLibrary(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	want, _ := json.Marshal(planout.FromPlan(plan, false))
+	want, _ := json.Marshal(planjson.FromPlan(plan, false))
 	got, _ := json.Marshal(a.doc["plan"])
 	var w1, g1 any
 	json.Unmarshal(want, &w1)

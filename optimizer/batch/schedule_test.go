@@ -32,7 +32,7 @@ func TestReadScheduleGood(t *testing.T) {
 	// from zfw_kg + fuel_kg, optional columns and an offset time.
 	path := writeFile(t, dir, "schedule.csv", "# day 1\n"+
 		" CI ,Flight,aircraft,route,departure,tow_kg,zfw_kg,fuel_kg,floor_g,levels,speed\n"+
-		"12.5,AB1,TESTJET,routes/a.csv,2026-06-12T08:30:00+02:00,,50000,9000,1.3,FL300-FL400,M.78\n"+
+		"12.5,AB1,TESTJET,routes/a.csv,2026-06-12T08:30:00+02:00,,50000,9000,1.3,every-1000:FL300-FL400,M.78\n"+
 		",AB2,TESTJET,routes/a.csv,2026-06-12T09:00:00Z,61000,,,,,\n")
 	rows, bad, err := ReadSchedule(path)
 	if err != nil || len(bad) != 0 {
@@ -46,7 +46,7 @@ func TestReadScheduleGood(t *testing.T) {
 	wantDep := time.Date(2026, 6, 12, 6, 30, 0, 0, time.UTC)
 	if r.Line != 3 || r.Flight != "AB1" || !r.Departure.Equal(wantDep) || r.TOW != 59000 ||
 		r.ZFW != 50000 || r.Fuel != 9000 || r.CI != 12.5 || !r.HasCI || r.Floor != 1.3 ||
-		r.Levels != "FL300-FL400" || r.Speed != "M.78" || r.Aircraft != "TESTJET" {
+		r.Levels != "every-1000:FL300-FL400" || r.Speed != "M.78" || r.Aircraft != "TESTJET" {
 		t.Errorf("row 1 = %+v", r)
 	}
 	if r.RouteRaw != "routes/a.csv" || r.Route != filepath.Join(dir, "routes", "a.csv") || !filepath.IsAbs(r.Route) {

@@ -28,6 +28,9 @@ import (
 	"strings"
 	"time"
 	"unicode"
+
+	"levelpath/optimizer"
+	"levelpath/route"
 )
 
 // Row is one schedule line. Masses are in kg, CI in kg/min (cost = fuel_kg +
@@ -106,10 +109,6 @@ const (
 	// maxMassKg is a sanity bound on any mass cell (no aircraft weighs a
 	// thousand tonnes); it catches values typed in grams or pounds ×1000.
 	maxMassKg = 1e6
-	// maxFloorG bounds floor_g: a 2.5 g floor already excludes every cruise
-	// level of a transport aircraft (common practice: 1.3 g is the usual
-	// floor); 10 g is a typing error.
-	maxFloorG = 10.0
 	// maxTextCell bounds the levels and speed cells.
 	maxTextCell = 256
 	// maxScheduleBytes bounds the schedule file read into memory.
@@ -417,10 +416,8 @@ func parseRow(rec []string, col map[string]int, line int, file, dir string, rout
 		switch {
 		case err != nil && !errors.Is(err, strconv.ErrRange) || math.IsNaN(v):
 			fail("floor_g", "%q is not a number", excerpt(s))
-		case v <= 1:
-			fail("floor_g", "%s g: a buffet floor of 1 g or less gives no protection", excerpt(s))
-		case v > maxFloorG:
-			fail("floor_g", "%s g is above the largest buffet floor %g g", excerpt(s), maxFloorG)
+		case optimizer.CheckFloor(v) != nil:
+			fail("floor_g", "%v", optimizer.CheckFloor(v)) // the one floor range of every entry point
 		default:
 			row.Floor = v
 		}
@@ -432,6 +429,18 @@ func parseRow(rec []string, col map[string]int, line int, file, dir string, rout
 	for _, c := range []struct{ name, v string }{{"levels", row.Levels}, {"speed", row.Speed}} {
 		if len(c.v) > maxTextCell {
 			fail(c.name, "%d bytes, more than %d", len(c.v), maxTextCell)
+		}
+	}
+	// Levels and speed are read here, so that a bad one is a bad row as a
+	// bad floor is (the planner parses them again, cheaply).
+	if row.Levels != "" && len(row.Levels) <= maxTextCell {
+		if _, err := route.ParseLevelRule(row.Levels); err != nil {
+			fail("levels", "%v", err)
+		}
+	}
+	if row.Speed != "" && len(row.Speed) <= maxTextCell {
+		if _, err := optimizer.ParseSpeed(row.Speed); err != nil {
+			fail("speed", "%v", err)
 		}
 	}
 	return row, errs

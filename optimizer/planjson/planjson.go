@@ -1,7 +1,7 @@
-// Package planout renders optimizer plans for people and programs: the
+// Package planjson renders optimizer plans for people and programs: the
 // JSON document (snake_case fields with their unit as suffix), a CSV of
 // the legs and the dispatcher's table. Every form carries the caution.
-package planout
+package planjson
 
 import (
 	"encoding/json"

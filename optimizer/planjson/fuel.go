@@ -1,4 +1,4 @@
-package planout
+package planjson
 
 import (
 	"strconv"

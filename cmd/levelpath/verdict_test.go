@@ -1,0 +1,63 @@
+package main
+
+import (
+	"fmt"
+	"os"
+	"path/filepath"
+	"testing"
+)
+
+// TestSameVerdictEveryDoor runs the same flight inputs through levelpath
+// plan, a one-row levelpath batch schedule and the library's checks, and
+// asserts one verdict: planned by every door, or refused by every door
+// (plan exits 2; batch lists the row in errors.csv and exits 3).
+func TestSameVerdictEveryDoor(t *testing.T) {
+	fs := demoFiles(t)
+	route := fs.Routes[3] // the short regional route
+	type in struct {
+		tow, zfw, fuel, floor string
+		speed, levels         string
+	}
+	cases := []struct {
+		name string
+		in   in
+		ok   bool
+	}{
+		{"take-off mass", in{tow: "36000"}, true},
+		{"floor 1.0 g", in{tow: "36000", floor: "1.0"}, true},
+		{"floor 2.6 g", in{tow: "36000", floor: "2.6"}, false},
+		{"zfw and fuel", in{zfw: "30000", fuel: "5000"}, true},
+		{"all three agreeing", in{tow: "35000", zfw: "30000", fuel: "5000"}, true},
+		{"all three disagreeing", in{tow: "36000", zfw: "30000", fuel: "5000"}, false},
+		{"zfw over MZFW", in{zfw: "60000", fuel: "5000"}, false},
+		{"bad speed", in{tow: "36000", speed: "0.99"}, false},
+		{"bad levels", in{tow: "36000", levels: "every-1000:FL355-FL400"}, false},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			args := []string{"plan", "--route", route, "--aircraft", "demo-regional", "--depart", "2026-12-01T20:00:00Z"}
+			for _, f := range []struct{ flag, v string }{{"--mass", c.in.tow}, {"--zfw", c.in.zfw}, {"--fuel", c.in.fuel},
+				{"--floor", c.in.floor}, {"--speed", c.in.speed}, {"--levels", c.in.levels}} {
+				if f.v != "" {
+					args = append(args, f.flag, f.v)
+				}
+			}
+			planCode, _, planErr := runCLI(t, args...)
+			dir := t.TempDir()
+			sched := filepath.Join(dir, "s.csv")
+			row := fmt.Sprintf("flight,departure,route,aircraft,tow_kg,ci,zfw_kg,fuel_kg,floor_g,levels,speed\nV1,2026-12-01T20:00:00Z,%s,demo-regional,%s,0,%s,%s,%s,%s,%s\n",
+				route, c.in.tow, c.in.zfw, c.in.fuel, c.in.floor, c.in.levels, c.in.speed)
+			if err := os.WriteFile(sched, []byte(row), 0o644); err != nil {
+				t.Fatal(err)
+			}
+			batchCode, _, batchErr := runCLI(t, "batch", "--schedule", sched, "--out", filepath.Join(dir, "out"))
+			wantPlan, wantBatch := 0, 0
+			if !c.ok {
+				wantPlan, wantBatch = 2, 3
+			}
+			if planCode != wantPlan || batchCode != wantBatch {
+				t.Errorf("plan exit %d (want %d) %s; batch exit %d (want %d) %s", planCode, wantPlan, planErr, batchCode, wantBatch, batchErr)
+			}
+		})
+	}
+}

@@ -1,0 +1,171 @@
+package batch
+
+import (
+	"context"
+	"math"
+	"slices"
+	"strings"
+	"sync"
+	"time"
+
+	"levelpath/optimizer"
+	"levelpath/optimizer/planjson"
+	"levelpath/perf"
+	"levelpath/route"
+	"levelpath/winds"
+)
+
+// StillAirWarning is the warning every result of a run without weather
+// carries.
+const StillAirWarning = "no weather given: every flight is planned in still air at ISA temperatures"
+
+// SchedulePlanner turns schedule rows into optimizer problems, with the
+// same defaults and checks as levelpath plan, and plans them. Its Plan
+// method is a Planner for Run. It shares one decoded weather field and
+// caches aircraft models and segmented routes (read-only once built), so
+// one SchedulePlanner serves every worker of a run. A researcher's
+// program that uses it gets the same answer as the dispatch run.
+type SchedulePlanner struct {
+	Weather    *winds.Field        // nil: still air at ISA
+	MaxSegment float64             // m; 0: 50 NM
+	Steps      optimizer.StepRules // step rules of every flight
+	Exact      bool                // turn the search's approximations off
+
+	mu       sync.Mutex
+	aircraft map[string]*perf.Aircraft
+	tracks   map[string]trackEntry
+}
+
+// trackEntry is a segmented route and the warnings made building it.
+type trackEntry struct {
+	track    *route.Track
+	warnings []string
+}
+
+func (p *SchedulePlanner) aircraftFor(name string) (*perf.Aircraft, error) {
+	p.mu.Lock()
+	defer p.mu.Unlock()
+	if a, ok := p.aircraft[name]; ok {
+		return a, nil
+	}
+	a, err := perf.Load(name)
+	if err != nil {
+		return nil, err
+	}
+	if p.aircraft == nil {
+		p.aircraft = map[string]*perf.Aircraft{}
+	}
+	p.aircraft[name] = a
+	return a, nil
+}
+
+func (p *SchedulePlanner) trackFor(path, levels string, dep time.Time) (trackEntry, error) {
+	key := path + "\x00" + levels + "\x00" + dep.UTC().Format("2006-01-02")
+	p.mu.Lock()
+	if t, ok := p.tracks[key]; ok {
+		p.mu.Unlock()
+		return t, nil
+	}
+	p.mu.Unlock()
+	seg := p.MaxSegment
+	if seg == 0 {
+		seg = 50 * perf.NMToM
+	}
+	opt := route.Options{MaxSegment: seg}
+	if levels != "" { // else the zero rule: odd-even-magnetic
+		rule, err := route.ParseLevelRule(levels)
+		if err != nil {
+			return trackEntry{}, err
+		}
+		opt.Levels = rule
+	}
+	date, w := route.ClampDate(dep)
+	opt.Date = date
+	t, warns, err := route.Open(path, opt)
+	if err != nil {
+		return trackEntry{}, err
+	}
+	e := trackEntry{track: t, warnings: warns}
+	if w != "" {
+		e.warnings = append([]string{w}, e.warnings...)
+	}
+	p.mu.Lock()
+	if p.tracks == nil {
+		p.tracks = map[string]trackEntry{}
+	}
+	p.tracks[key] = e
+	p.mu.Unlock()
+	return e, nil
+}
+
+// Problem builds the optimizer problem of row at cost index ci, with the
+// warnings its route gave. The loading is checked by
+// optimizer.Loading.Resolve, as for levelpath plan.
+func (p *SchedulePlanner) Problem(row Row, ci float64) (*optimizer.Problem, []string, error) {
+	a, err := p.aircraftFor(row.Aircraft)
+	if err != nil {
+		return nil, nil, err
+	}
+	te, err := p.trackFor(row.Route, row.Levels, row.Departure)
+	if err != nil {
+		return nil, nil, err
+	}
+	pr := &optimizer.Problem{Track: te.track, Aircraft: a, Weather: p.Weather, Depart: row.Departure, CI: ci, Floor: row.Floor, Steps: p.Steps, Exact: p.Exact}
+	if pr.TakeoffMass, pr.ZFW, err = (optimizer.Loading{TakeoffMass: row.TOW, ZFW: row.ZFW, Fuel: row.Fuel}).Resolve(a); err != nil {
+		return nil, nil, err
+	}
+	if row.Speed != "" {
+		if pr.Speed, err = optimizer.ParseSpeed(row.Speed); err != nil {
+			return nil, nil, err
+		}
+	}
+	return pr, te.warnings, nil
+}
+
+// Plan is the Planner: it plans row at ci and fills the result's columns
+// and plan document.
+func (p *SchedulePlanner) Plan(ctx context.Context, row Row, ci float64) (Result, error) {
+	var res Result
+	if err := ctx.Err(); err != nil {
+		return res, err
+	}
+	pr, trackWarnings, err := p.Problem(row, ci)
+	if err != nil {
+		return res, err
+	}
+	plan, err := optimizer.Solve(pr)
+	if err != nil {
+		return res, err
+	}
+	var buf strings.Builder
+	if err := planjson.WriteJSON(&buf, plan, false); err != nil {
+		return res, err
+	}
+	res = Result{Fuel: plan.Totals.Fuel, Time: plan.Totals.Time / 60, Cost: plan.Totals.Cost, CO2: plan.Totals.CO2,
+		InitialFL: plan.Profile.Initial, Steps: len(plan.Steps), MinMargin: plan.MinMargin(), CostSavingPct: math.NaN(),
+		LandingMass: plan.Totals.LandingMass, TakeoffMass: plan.TakeoffMass, ZFW: pr.ZFW, Distance: plan.Distance,
+		Floor: plan.Floor, Speed: row.Speed, Levels: row.Levels, Profile: plan.Profile.String(),
+		PlanJSON: []byte(buf.String())}
+	if res.Speed == "" {
+		res.Speed = "econ" // optimizer.Problem's zero Speed
+	}
+	if res.Levels == "" {
+		res.Levels = "odd-even-magnetic" // route.Options' zero rule
+	}
+	if plan.Baseline != nil {
+		res.CostSavingPct = plan.Baseline.SavingPct
+	}
+	if p.Weather == nil {
+		res.Warnings = append(res.Warnings, StillAirWarning)
+	}
+	res.Warnings = append(res.Warnings, trackWarnings...)
+	res.Warnings = append(res.Warnings, plan.Warnings...)
+	// Keep each violation once, as a violation.
+	for _, v := range plan.Violations {
+		res.Violations = append(res.Violations, v.Detail)
+		res.Warnings = slices.DeleteFunc(res.Warnings, func(w string) bool { return w == v.Detail })
+	}
+	return res, nil
+}
+
+var _ Planner = (&SchedulePlanner{}).Plan
