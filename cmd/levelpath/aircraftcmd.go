@@ -7,8 +7,8 @@ import (
 
 	"github.com/spf13/cobra"
 
-	"levelpath/optimizer/planjson"
 	"levelpath/optimizer"
+	"levelpath/optimizer/planjson"
 	"levelpath/perf"
 )
 

@@ -3,8 +3,8 @@ package serve
 import (
 	"math"
 
-	"levelpath/optimizer/planjson"
 	"levelpath/optimizer"
+	"levelpath/optimizer/planjson"
 	"levelpath/perf"
 )
 

@@ -13,8 +13,8 @@ import (
 	"unicode"
 
 	"levelpath/cmd/levelpath/internal/chart"
-	"levelpath/optimizer/planjson"
 	"levelpath/optimizer"
+	"levelpath/optimizer/planjson"
 	"levelpath/perf"
 	"levelpath/route"
 )
@@ -23,7 +23,7 @@ import (
 // the id is stored as the record's output.
 type planAnswer struct {
 	ID       int64         `json:"id"`
-	Plan     *planjson.Doc  `json:"plan"`
+	Plan     *planjson.Doc `json:"plan"`
 	ChartSVG string        `json:"chart_svg,omitempty"`
 	Record   *recordInputs `json:"record"`
 }
@@ -133,7 +133,7 @@ func (s *Server) priced(w http.ResponseWriter, r *http.Request, kind string) err
 		Weather: nonNil(res.in.weather), WeatherDigests: nonNil(res.in.weatherDigests), RouteDigest: res.in.routeDigest, Version: s.cfg.Version}}
 	out, err := json.Marshal(struct {
 		Plan     *planjson.Doc `json:"plan"`
-		ChartSVG string       `json:"chart_svg,omitempty"`
+		ChartSVG string        `json:"chart_svg,omitempty"`
 	}{ans.Plan, ans.ChartSVG})
 	if err != nil {
 		return err

@@ -14,8 +14,8 @@ import (
 	"testing"
 	"time"
 
-	"levelpath/optimizer/planjson"
 	"levelpath/optimizer"
+	"levelpath/optimizer/planjson"
 	"levelpath/perf"
 	"levelpath/route"
 	"levelpath/winds"
