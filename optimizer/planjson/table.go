@@ -157,18 +157,15 @@ func writeViolations(bw *errWriter, d *Doc, assessed bool) {
 	}
 }
 
-// WriteCSV writes one row per leg, with the caution as a leading comment
-// line.
+// WriteCSV writes one row per leg, with the caution in a column of its own
+// (a plain CSV that pandas and DuckDB read with their defaults).
 func WriteCSV(w io.Writer, p *optimizer.Plan, assessed bool) error {
 	d := FromPlan(p, assessed)
-	if _, err := fmt.Fprintf(w, "# %s\n", optimizer.Caution); err != nil {
-		return err
-	}
 	cw := csv.NewWriter(w)
-	cw.Write([]string{"from_nm", "to_nm", "phase", "from_fl", "fl", "mach", "tas_kt", "wind_kt", "gs_kt", "isa_dev_c", "fuel_kg", "time_min", "mass_start_kg", "buffet_margin_g", "floor_g", "floor_reason"})
+	cw.Write([]string{"from_nm", "to_nm", "phase", "from_fl", "fl", "mach", "tas_kt", "wind_kt", "gs_kt", "isa_dev_c", "fuel_kg", "time_min", "mass_start_kg", "buffet_margin_g", "floor_g", "floor_reason", "caution"})
 	for _, l := range d.Legs {
 		cw.Write([]string{CSVNumber(l.FromNM), CSVNumber(l.ToNM), l.Phase, CSVNumber(l.FromFL), CSVNumber(l.FL), CSVNumber(l.Mach), CSVNumber(l.TASKt), CSVNumber(l.WindKt), CSVNumber(l.GSKt), CSVNumber(l.ISADevC),
-			CSVNumber(l.FuelKg), CSVNumber(l.TimeMin), CSVNumber(l.MassStartKg), CSVPointer(l.BuffetMarginG), CSVNumber(l.FloorG), l.FloorReason})
+			CSVNumber(l.FuelKg), CSVNumber(l.TimeMin), CSVNumber(l.MassStartKg), CSVPointer(l.BuffetMarginG), CSVNumber(l.FloorG), l.FloorReason, optimizer.Caution})
 	}
 	cw.Flush()
 	return cw.Error()
