@@ -82,7 +82,7 @@ func (s *sim) condAt(k, fl int) (cond, error) {
 	}
 	c := cond{wind: w, isaDev: s.q.isaDevOr(d), edr: e}
 	c.floor, c.why, c.closed = floorFor(s.q.Floor, e, s.q.Turbulence)
-	c.closedLim, c.closedWhy = "turbulence", c.why
+	c.closedLim, c.closedWhy = LimitTurbulence, c.why
 	return c, nil
 }
 
@@ -151,7 +151,7 @@ func (s *sim) run(pr Profile, total float64, detail bool) error {
 	}
 	ci := 0
 	if ci < len(pr.Changes) && pr.Changes[ci].AtDist < s.x-1e-6 {
-		s.violate("profile", (s.x-pr.Changes[ci].AtDist)/nmToM, "NM", fmt.Sprintf("change to FL%03d at %.0f NM begins before the top of climb (%.0f NM); taken there", pr.Changes[ci].FL, pr.Changes[ci].AtDist/nmToM, s.x/nmToM))
+		s.violate(LimitProfile, (s.x-pr.Changes[ci].AtDist)/nmToM, "NM", fmt.Sprintf("change to FL%03d at %.0f NM begins before the top of climb (%.0f NM); taken there", pr.Changes[ci].FL, pr.Changes[ci].AtDist/nmToM, s.x/nmToM))
 		pr.Changes[ci].AtDist = s.x
 	}
 	steps := 0
@@ -164,7 +164,7 @@ func (s *sim) run(pr Profile, total float64, detail bool) error {
 	}
 	for guard := 0; guard < 10*len(s.segs)+10*len(pr.Changes)+10; guard++ {
 		if s.x >= total-1e-6 {
-			s.violate("profile", 0, "", "the profile reaches the destination without a final descent")
+			s.violate(LimitProfile, 0, "", "the profile reaches the destination without a final descent")
 			return nil
 		}
 		k := s.segAt(s.x)
@@ -209,7 +209,7 @@ func (s *sim) run(pr Profile, total float64, detail bool) error {
 		}
 		if s.x >= tod-1e-6 || tod <= s.x {
 			for ; ci < len(pr.Changes); ci++ {
-				s.violate("profile", 0, "", fmt.Sprintf("change to FL%03d at %.0f NM lies past the top of descent (%.0f NM); ignored", pr.Changes[ci].FL, pr.Changes[ci].AtDist/nmToM, tod/nmToM))
+				s.violate(LimitProfile, 0, "", fmt.Sprintf("change to FL%03d at %.0f NM lies past the top of descent (%.0f NM); ignored", pr.Changes[ci].FL, pr.Changes[ci].AtDist/nmToM, tod/nmToM))
 			}
 			s.addTransLeg(PhaseDescent, s.segAt(s.x), float64(s.fl), q.EndAltitude/(100*perf.FtToM), total-s.x, de, cLast)
 			return nil
@@ -252,12 +252,12 @@ func (s *sim) initialClimb(endP float64) error {
 		if !ok || lf <= startFL {
 			return inputErrorf("profile", "initial climb to FL%03d at %.0f kg: %s", s.fl, s.m, cl.why)
 		}
-		s.violateLeg(0, "climb", float64(s.fl-lf)*100, "ft", fmt.Sprintf("initial climb to FL%03d cannot be completed at %.0f kg (%s): the aircraft levels off at FL%03d and climbs to FL%03d when it can", s.fl, s.m, cl.why, lf, s.fl))
+		s.violateLeg(0, LimitClimb, float64(s.fl-lf)*100, "ft", fmt.Sprintf("initial climb to FL%03d cannot be completed at %.0f kg (%s): the aircraft levels off at FL%03d and climbs to FL%03d when it can", s.fl, s.m, cl.why, lf, s.fl))
 		s.fl = lf
 		cl = transition(a, s.m, endP, perf.FLToPressure(float64(s.fl)), c0.isaDev, q.ClimbSchedule, true)
 	}
 	if s.target > q.MaxFL {
-		s.violateLeg(0, "certified", float64(s.target-q.MaxFL)*100, "ft", fmt.Sprintf("initial level FL%03d is above the highest usable level FL%03d", s.target, q.MaxFL))
+		s.violateLeg(0, LimitCertified, float64(s.target-q.MaxFL)*100, "ft", fmt.Sprintf("initial level FL%03d is above the highest usable level FL%03d", s.target, q.MaxFL))
 	}
 	g := cl.dist + 0.5*c0.wind*cl.time
 	s.addTransLeg(PhaseClimb, 0, q.EndAltitude/(100*perf.FtToM), float64(s.fl), g, cl, c0)
@@ -329,30 +329,30 @@ func (s *sim) cruise(k int, end float64, c cond, detail bool) {
 func (s *sim) checkLimits(seg *route.Segment, end float64, c cond, v cruiseVal) {
 	q, a := s.q, s.a
 	if c.closed {
-		s.violate("turbulence", c.edr, "m^(2/3)/s", fmt.Sprintf("FL%03d on segment %d: %s", s.fl, seg.Index, c.closedWhy))
+		s.violate(LimitTurbulence, c.edr, "m^(2/3)/s", fmt.Sprintf("FL%03d on segment %d: %s", s.fl, seg.Index, c.closedWhy))
 	}
 	if s.fl != s.target {
 		// Levelled off below the profile's level: the climb violation
 		// says so; the rule and blocks are judged at the level asked for.
 	} else if !containsInt(seg.Levels, s.fl) {
-		s.violate("level-rule", 0, "", fmt.Sprintf("FL%03d is not an allowed level on segment %d (course %.0f° magnetic)%s", s.fl, seg.Index, seg.MagCourse, s.nearestOpen(seg, end)))
+		s.violate(LimitLevelRule, 0, "", fmt.Sprintf("FL%03d is not an allowed level on segment %d (course %.0f° magnetic)%s", s.fl, seg.Index, seg.MagCourse, s.nearestOpen(seg, end)))
 	}
 	if s.fl == s.target && blocked(q.Blocked, s.x, end, s.fl) {
-		s.violate("blocked", 0, "", fmt.Sprintf("FL%03d is blocked on %.0f-%.0f NM%s", s.fl, s.x/nmToM, end/nmToM, s.nearestOpen(seg, end)))
+		s.violate(LimitBlocked, 0, "", fmt.Sprintf("FL%03d is blocked on %.0f-%.0f NM%s", s.fl, s.x/nmToM, end/nmToM, s.nearestOpen(seg, end)))
 	}
 	if s.fl > q.MaxFL {
-		s.violate("certified", float64(s.fl-q.MaxFL)*100, "ft", fmt.Sprintf("FL%03d is above the highest usable level FL%03d", s.fl, q.MaxFL))
+		s.violate(LimitCertified, float64(s.fl-q.MaxFL)*100, "ft", fmt.Sprintf("FL%03d is above the highest usable level FL%03d", s.fl, q.MaxFL))
 	}
 	if v.margin < c.floor-1e-9 {
-		s.violate("buffet", c.floor-v.margin, "g", fmt.Sprintf("buffet margin %.3f g under the %.2f g floor at FL%03d, %.0f kg", v.margin, c.floor, s.fl, s.m))
+		s.violate(LimitBuffet, c.floor-v.margin, "g", fmt.Sprintf("buffet margin %.3f g under the %.2f g floor at FL%03d, %.0f kg", v.margin, c.floor, s.fl, s.m))
 	}
 	if v.resid < fpm300 {
-		s.violate("thrust", (fpm300-v.resid)/0.3048*60, "fpm", fmt.Sprintf("residual climb %.0f ft/min under 300 ft/min at FL%03d", v.resid/0.3048*60, s.fl))
+		s.violate(LimitThrust, (fpm300-v.resid)/perf.FtToM*60, "fpm", fmt.Sprintf("residual climb %.0f ft/min under 300 ft/min at FL%03d", v.resid/perf.FtToM*60, s.fl))
 	}
 	if lo, hi, ok := a.MachBand(s.m, perf.FLToPressure(float64(s.fl)), c.isaDev, c.floor); !ok {
-		s.violate("mach-band", 0, "", fmt.Sprintf("no Mach band at %.2f g at FL%03d", c.floor, s.fl))
+		s.violate(LimitMachBand, 0, "", fmt.Sprintf("no Mach band at %.2f g at FL%03d", c.floor, s.fl))
 	} else if q.Speed.Kind == SpeedFixed && (q.Speed.Mach < lo-1e-9 || q.Speed.Mach > hi+1e-9) {
-		s.violate("mach-band", math.Max(lo-q.Speed.Mach, q.Speed.Mach-hi), "Mach", fmt.Sprintf("Mach %.3f outside the band %.3f-%.3f at FL%03d", q.Speed.Mach, lo, hi, s.fl))
+		s.violate(LimitMachBand, math.Max(lo-q.Speed.Mach, q.Speed.Mach-hi), "Mach", fmt.Sprintf("Mach %.3f outside the band %.3f-%.3f at FL%03d", q.Speed.Mach, lo, hi, s.fl))
 	}
 }
 

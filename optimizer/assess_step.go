@@ -19,23 +19,23 @@ func (s *sim) step(k int, ch Change, c cond, steps *int, lastStep *float64) erro
 	seg := &s.segs[k]
 	switch {
 	case q.Steps.NoSteps:
-		s.violate("step-rule", 0, "", fmt.Sprintf("change at %.0f NM: steps are not allowed", s.x/nmToM))
+		s.violate(LimitStepRule, 0, "", fmt.Sprintf("change at %.0f NM: steps are not allowed", s.x/nmToM))
 	case abs(to-from)*100 > q.Steps.MaxChange:
-		s.violate("step-rule", float64(abs(to-from)*100-q.Steps.MaxChange), "ft", fmt.Sprintf("change FL%03d to FL%03d exceeds the largest step %d ft", from, to, q.Steps.MaxChange))
+		s.violate(LimitStepRule, float64(abs(to-from)*100-q.Steps.MaxChange), "ft", fmt.Sprintf("change FL%03d to FL%03d exceeds the largest step %d ft", from, to, q.Steps.MaxChange))
 	case to < from && !q.Steps.AllowDescent && containsInt(seg.Levels, from) && !blocked(q.Blocked, seg.FromDist, seg.ToDist, from) && !c.closed:
 		// A step descent is forced (and allowed) where the level stops
 		// being available on the segment: the search's rule.
-		s.violate("step-rule", 0, "", fmt.Sprintf("step descent FL%03d to FL%03d at %.0f NM: step descents are not allowed", from, to, s.x/nmToM))
+		s.violate(LimitStepRule, 0, "", fmt.Sprintf("step descent FL%03d to FL%03d at %.0f NM: step descents are not allowed", from, to, s.x/nmToM))
 	}
 	if to > q.MaxFL {
 		s.violateLeg(len(s.plan.Legs), "certified", float64(to-q.MaxFL)*100, "ft", fmt.Sprintf("FL%03d asked at %.0f NM is above the highest usable level FL%03d", to, s.x/nmToM, q.MaxFL))
 	}
 	*steps++
 	if q.Steps.MaxSteps > 0 && *steps > q.Steps.MaxSteps {
-		s.violate("step-rule", float64(*steps-q.Steps.MaxSteps), "steps", fmt.Sprintf("step %d exceeds the limit of %d steps", *steps, q.Steps.MaxSteps))
+		s.violate(LimitStepRule, float64(*steps-q.Steps.MaxSteps), "steps", fmt.Sprintf("step %d exceeds the limit of %d steps", *steps, q.Steps.MaxSteps))
 	}
 	if d := s.x - *lastStep; q.Steps.MinDistance > 0 && d < q.Steps.MinDistance-1e-6 {
-		s.violate("step-rule", (q.Steps.MinDistance-d)/nmToM, "NM", fmt.Sprintf("step at %.0f NM is %.0f NM after the previous one (minimum %.0f NM)", s.x/nmToM, d/nmToM, q.Steps.MinDistance/nmToM))
+		s.violate(LimitStepRule, (q.Steps.MinDistance-d)/nmToM, "NM", fmt.Sprintf("step at %.0f NM is %.0f NM after the previous one (minimum %.0f NM)", s.x/nmToM, d/nmToM, q.Steps.MinDistance/nmToM))
 	}
 	*lastStep = s.x
 	cNew, err := s.condAt(k, to)
@@ -246,7 +246,7 @@ func addWarnings(p *Plan) {
 			}
 			near++
 		}
-		if l.ResidualClimb < fpm300+100*0.3048/60 {
+		if l.ResidualClimb < fpm300+100*perf.FtToM/60 {
 			if thrust == 0 {
 				firstThrust = l.FromDist
 			}

@@ -6,23 +6,22 @@ import (
 	"levelpath/perf"
 )
 
-const ktToMS = 1852.0 / 3600
-
 // bestClimbSchedule chooses the climb CAS for the initial climb: among the
 // aircraft's schedule CAS and 280 kt to VMO in 10 kt steps, the one that
-// minimises fuel + CI x time from the start of the climb to a common point
+// minimises fuel + CI x time from the start of the climb (endAlt, the
+// problem's end altitude) to a common point
 // at a reference cruise level (60 levels under the highest, at most
 // FL350), in still air at ISA at the take-off mass. The climb stays at
 // 250 kt below 10,000 ft and at the schedule's Mach above the crossover.
 // One schedule serves the whole plan, so Assess prices a profile the same
 // way.
-func bestClimbSchedule(a *perf.Aircraft, tow, ci float64, maxFL int, sp Speed, floor float64) perf.Schedule {
+func bestClimbSchedule(a *perf.Aircraft, tow, ci float64, maxFL int, sp Speed, floor, endAlt float64) perf.Schedule {
 	base := perf.DefaultSchedule(a)
 	ref := math.Min(350, float64(maxFL-60))
 	pRef := perf.FLToPressure(ref)
-	pStart := perf.PressureAt(1500 * 0.3048)
+	pStart := perf.PressureAt(endAlt) // where the plan's climb begins
 	cands := []float64{base.CAS}
-	for cas := 280 * ktToMS; cas <= a.VMO+1e-9; cas += 10 * ktToMS {
+	for cas := 280 * perf.KtToMS; cas <= a.VMO+1e-9; cas += 10 * perf.KtToMS {
 		cands = append(cands, cas)
 	}
 	type res struct {

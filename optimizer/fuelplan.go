@@ -475,13 +475,13 @@ func limits(req FuelRequest, fp *FuelPlan, hist []*fuelEval, clamped bool) {
 func fuelViolation(l string, fp *FuelPlan, a *perf.Aircraft) (Limit, float64, string) {
 	switch l {
 	case "MZFW":
-		return "mzfw", fp.ZFW - a.MZFW, fmt.Sprintf("zero-fuel mass %.0f kg over MZFW %.0f kg", fp.ZFW, a.MZFW)
+		return LimitMZFW, fp.ZFW - a.MZFW, fmt.Sprintf("zero-fuel mass %.0f kg over MZFW %.0f kg", fp.ZFW, a.MZFW)
 	case "MTOW":
-		return "mtow", fp.TakeoffMass - a.MTOW, fmt.Sprintf("take-off mass %.0f kg (ZFW %.0f + fuel %.0f) over MTOW %.0f kg; largest ZFW that fits %.0f kg", fp.TakeoffMass, fp.ZFW, fp.Block-fp.Taxi, a.MTOW, fp.MaxPayloadZFW)
+		return LimitMTOW, fp.TakeoffMass - a.MTOW, fmt.Sprintf("take-off mass %.0f kg (ZFW %.0f + fuel %.0f) over MTOW %.0f kg; largest ZFW that fits %.0f kg", fp.TakeoffMass, fp.ZFW, fp.Block-fp.Taxi, a.MTOW, fp.MaxPayloadZFW)
 	case "MLW":
-		return "landing-mass", fp.LandingMass - a.MLW, fmt.Sprintf("landing mass %.0f kg over MLW %.0f kg; largest ZFW that fits %.0f kg", fp.LandingMass, a.MLW, fp.MaxPayloadZFW)
+		return LimitLandingMass, fp.LandingMass - a.MLW, fmt.Sprintf("landing mass %.0f kg over MLW %.0f kg; largest ZFW that fits %.0f kg", fp.LandingMass, a.MLW, fp.MaxPayloadZFW)
 	}
-	return "fuel-capacity", fp.Block - a.FuelCapacity, fmt.Sprintf("block fuel %.0f kg over the fuel capacity %.0f kg: %.0f kg cannot be carried", fp.Block, a.FuelCapacity, fp.Block-a.FuelCapacity)
+	return LimitFuelCap, fp.Block - a.FuelCapacity, fmt.Sprintf("block fuel %.0f kg over the fuel capacity %.0f kg: %.0f kg cannot be carried", fp.Block, a.FuelCapacity, fp.Block-a.FuelCapacity)
 }
 
 // fuelEvalError wraps an error of the plan at one take-off mass.

@@ -10,7 +10,7 @@ import (
 // cruiseVal is cruise performance on one segment at one level and mass.
 type cruiseVal struct {
 	ok     bool
-	lim    string // limit broken when !ok: "buffet", "thrust", "mach-band", "turbulence", "weather"
+	lim    Limit // limit broken when !ok
 	why    string
 	mach   float64
 	tas    float64
@@ -69,7 +69,7 @@ func cruiseEval(a *perf.Aircraft, sp Speed, ci, m, p float64, c cond, explain bo
 	if c.closed {
 		lim := c.closedLim
 		if lim == "" {
-			lim = "turbulence"
+			lim = LimitTurbulence
 		}
 		return cruiseVal{lim: lim, why: c.closedWhy}
 	}
@@ -77,28 +77,28 @@ func cruiseEval(a *perf.Aircraft, sp Speed, ci, m, p float64, c cond, explain bo
 	if !ok && !explain {
 		// Which limit closed the band matters only to an explanation;
 		// the search asks often, so it is not worked out here.
-		return cruiseVal{lim: "mach-band"}
+		return cruiseVal{lim: LimitMachBand}
 	}
 	if !ok {
 		lo, hi, bok := a.BuffetMachs(m, p, c.floor)
 		if !bok || lo >= math.Min(hi, a.MMO) {
-			return cruiseVal{lim: "buffet", why: why("no Mach keeps %.2f g to buffet", c.floor)}
+			return cruiseVal{lim: LimitBuffet, why: why("no Mach keeps %.2f g to buffet", c.floor)}
 		}
 		if sp.Kind == SpeedFixed {
-			return cruiseVal{lim: "mach-band", why: why("Mach %.3f outside the band %.3f-%.3f at %.2f g, MMO and thrust", sp.Mach, lo, math.Min(hi, a.MMO), c.floor)}
+			return cruiseVal{lim: LimitMachBand, why: why("Mach %.3f outside the band %.3f-%.3f at %.2f g, MMO and thrust", sp.Mach, lo, math.Min(hi, a.MMO), c.floor)}
 		}
-		return cruiseVal{lim: "thrust", why: "drag exceeds maximum cruise thrust across the buffet band"}
+		return cruiseVal{lim: LimitThrust, why: "drag exceeds maximum cruise thrust across the buffet band"}
 	}
 	pt := a.Point(perf.State{Mass: m, Pressure: p, Mach: mach, ISADev: c.isaDev, LoadFactor: 1})
 	v := cruiseVal{mach: mach, tas: pt.TAS, ff: pt.FuelFlow, resid: pt.ResidualClimb, margin: pt.BuffetMargin,
 		cruise: pt.Drag > 0.9*pt.MaxCruiseThrust}
 	switch {
 	case pt.ThrustLimited:
-		v.lim, v.why = "thrust", "drag exceeds maximum cruise thrust"
+		v.lim, v.why = LimitThrust, "drag exceeds maximum cruise thrust"
 	case pt.ResidualClimb < fpm300:
-		v.lim, v.why = "thrust", why("residual climb %.0f ft/min under 300 ft/min", pt.ResidualClimb/0.3048*60)
+		v.lim, v.why = LimitThrust, why("residual climb %.0f ft/min under 300 ft/min", pt.ResidualClimb/perf.FtToM*60)
 	case pt.BuffetMargin < c.floor-1e-9:
-		v.lim, v.why = "buffet", why("buffet margin %.3f g under the %.2f g floor", pt.BuffetMargin, c.floor)
+		v.lim, v.why = LimitBuffet, why("buffet margin %.3f g under the %.2f g floor", pt.BuffetMargin, c.floor)
 	default:
 		v.ok = true
 	}
@@ -149,7 +149,7 @@ func transitionErr(a *perf.Aircraft, m, pFrom, pTo, isaDev float64, s perf.Sched
 // energy) instead of starting at that Mach.
 func machSchedule(a *perf.Aircraft, base perf.Schedule, mach, pLow float64) perf.Schedule {
 	cas := perf.MachToCAS(mach, pLow) * 1.001
-	if cas <= a.VMO && pLow < perf.PressureAt(10000*0.3048) {
+	if cas <= a.VMO && pLow < perf.PressureAt(10000*perf.FtToM) {
 		// The Mach's CAS is highest at the lower level and still under
 		// VMO there: Mach governs throughout, and no CAS limit is needed
 		// (perf: a zero field sets no limit).

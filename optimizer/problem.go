@@ -201,7 +201,7 @@ func IsInputError(err error) bool {
 // state space grows with it.
 const MaxStepsLimit = 60
 
-const fpm300 = 300 * 0.3048 / 60 // 300 ft/min in m/s (common practice)
+const fpm300 = 300 * perf.FtToM / 60 // 300 ft/min in m/s (common practice)
 
 // normalise checks the problem and fills defaults, returning warnings.
 func (p *Problem) normalise() ([]string, error) {
@@ -276,14 +276,17 @@ func (p *Problem) normalise() ([]string, error) {
 	if !(p.MassBucket > 0) {
 		return nil, inputErrorf("MassBucket", "mass bucket %v kg must be positive", p.MassBucket)
 	}
+	if p.EndAltitude == 0 {
+		p.EndAltitude = 1500 * perf.FtToM
+	}
+	if !(p.EndAltitude > 0 && p.EndAltitude <= 10000*perf.FtToM) {
+		return nil, inputErrorf("EndAltitude", "%v m: the climb starts and the descent ends between 0 and 10,000 ft", p.EndAltitude)
+	}
 	if p.ClimbSchedule == (perf.Schedule{}) {
-		p.ClimbSchedule = bestClimbSchedule(a, p.TakeoffMass, p.CI, p.MaxFL, p.Speed, p.Floor)
+		p.ClimbSchedule = bestClimbSchedule(a, p.TakeoffMass, p.CI, p.MaxFL, p.Speed, p.Floor, p.EndAltitude)
 	}
 	if p.DescentSchedule == (perf.Schedule{}) {
 		p.DescentSchedule = perf.DefaultSchedule(a)
-	}
-	if p.EndAltitude == 0 {
-		p.EndAltitude = 1500 * 0.3048
 	}
 	switch {
 	case !p.Depart.IsZero():

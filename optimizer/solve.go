@@ -2,7 +2,8 @@ package optimizer
 
 import (
 	"fmt"
-	"sort"
+	"maps"
+	"slices"
 	"strings"
 )
 
@@ -99,7 +100,7 @@ func (s *solver) infeasible() error {
 	var why = map[string]string{}
 	for li, fl := range s.levels {
 		if !s.allow[0][li] {
-			byLim["level-rule"] = append(byLim["level-rule"], fl)
+			byLim[string(LimitLevelRule)] = append(byLim[string(LimitLevelRule)], fl)
 			continue
 		}
 		v := explainCruise(s.a, s.p.Speed, s.p.CI, m, s.press[li], s.conds[0][li])
@@ -107,8 +108,8 @@ func (s *solver) infeasible() error {
 			c, g := s.initialClimb(li)
 			switch {
 			case !c.ok:
-				byLim["climb"] = append(byLim["climb"], fl)
-				why["climb"] = c.why
+				byLim[string(LimitClimb)] = append(byLim[string(LimitClimb)], fl)
+				why[string(LimitClimb)] = c.why
 			case g >= s.total/2:
 				byLim["route too short"] = append(byLim["route too short"], fl)
 			default:
@@ -116,18 +117,14 @@ func (s *solver) infeasible() error {
 			}
 			continue
 		}
-		byLim[v.lim] = append(byLim[v.lim], fl)
-		if why[v.lim] == "" {
-			why[v.lim] = v.why
+		k := string(v.lim)
+		byLim[k] = append(byLim[k], fl)
+		if why[k] == "" {
+			why[k] = v.why
 		}
 	}
 	var parts []string
-	keys := make([]string, 0, len(byLim))
-	for k := range byLim {
-		keys = append(keys, k)
-	}
-	sort.Strings(keys)
-	for _, k := range keys {
+	for _, k := range slices.Sorted(maps.Keys(byLim)) {
 		fls := byLim[k]
 		part := fmt.Sprintf("%s at %s", k, flRange(fls))
 		if why[k] != "" {

@@ -84,15 +84,15 @@ func (s *sim) checkLoading() {
 	q, a := s.q, s.a
 	trip := q.TakeoffMass - s.m
 	if trip > a.FuelCapacity {
-		s.violate("fuel-capacity", trip-a.FuelCapacity, "kg", fmt.Sprintf("trip fuel %.0f kg exceeds the fuel capacity %.0f kg of %s", trip, a.FuelCapacity, a.Name))
+		s.violate(LimitFuelCap, trip-a.FuelCapacity, "kg", fmt.Sprintf("trip fuel %.0f kg exceeds the fuel capacity %.0f kg of %s", trip, a.FuelCapacity, a.Name))
 	}
 	if s.m > a.MLW {
-		s.violate("landing-mass", s.m-a.MLW, "kg", fmt.Sprintf("landing mass %.0f kg over MLW %.0f kg", s.m, a.MLW))
+		s.violate(LimitLandingMass, s.m-a.MLW, "kg", fmt.Sprintf("landing mass %.0f kg over MLW %.0f kg", s.m, a.MLW))
 	}
 	if s.m < a.OEW {
-		s.violate("landing-mass", a.OEW-s.m, "kg", fmt.Sprintf("landing mass %.0f kg is under the operating empty mass %.0f kg: the trip burns more fuel than the take-off mass can hold", s.m, a.OEW))
+		s.violate(LimitLandingMass, a.OEW-s.m, "kg", fmt.Sprintf("landing mass %.0f kg is under the operating empty mass %.0f kg: the trip burns more fuel than the take-off mass can hold", s.m, a.OEW))
 	}
 	if q.ZFW > 0 && s.m < q.ZFW {
-		s.violate("fuel", q.ZFW-s.m, "kg", fmt.Sprintf("trip fuel %.0f kg exceeds the fuel on board %.0f kg by %.0f kg", trip, q.TakeoffMass-q.ZFW, q.ZFW-s.m))
+		s.violate(LimitFuel, q.ZFW-s.m, "kg", fmt.Sprintf("trip fuel %.0f kg exceeds the fuel on board %.0f kg by %.0f kg", trip, q.TakeoffMass-q.ZFW, q.ZFW-s.m))
 	}
 }

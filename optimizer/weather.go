@@ -22,7 +22,7 @@ type cond struct {
 	// closedWhy tells why a level is closed; closedLim is the limit's
 	// name ("turbulence", or "weather" outside the weather's levels).
 	closedWhy string
-	closedLim string
+	closedLim Limit
 }
 
 // weatherAt samples the weather at a point and returns the along-track wind
@@ -143,7 +143,7 @@ func buildConds(p *Problem, levels []int) ([][]cond, error) {
 			}
 			c.floor, c.why, c.closed = floorFor(p.Floor, e, p.Turbulence)
 			if c.closed {
-				c.closedLim, c.closedWhy = "turbulence", c.why
+				c.closedLim, c.closedWhy = LimitTurbulence, c.why
 			}
 			row[li] = c
 		}
