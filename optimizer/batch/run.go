@@ -438,7 +438,7 @@ func safePlan(ctx context.Context, plan Planner, j *job, prog *progress) (res Re
 // writeResult writes the plan JSON (if any) and then the record, so that a
 // record on disk implies its plan is there.
 func writeResult(out, name string, rec *record, planJSON []byte) error {
-	if rec.Status == statusOK && len(planJSON) > 0 {
+	if rec.Status != statusFailed && len(planJSON) > 0 { // ok, warning and infeasible plans are all kept
 		if err := atomicWrite(filepath.Join(out, plansDir), name, planJSON); err != nil {
 			return err
 		}
