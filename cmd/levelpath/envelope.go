@@ -15,52 +15,6 @@ import (
 
 func init() { subcommands = append(subcommands, newEnvelopeCmd) }
 
-type envelopeRowJSON struct {
-	FL                  float64  `json:"fl"`
-	PressureHPa         float64  `json:"pressure_hpa"`
-	OATC                float64  `json:"oat_c"`
-	SoundKt             float64  `json:"sound_kt"`
-	LowBuffetMach1g     *float64 `json:"low_buffet_mach_1g"`
-	HighBuffetMach1g    *float64 `json:"high_buffet_mach_1g"`
-	LowBuffetMachFloor  *float64 `json:"low_buffet_mach_floor"`
-	HighBuffetMachFloor *float64 `json:"high_buffet_mach_floor"`
-	MMO                 float64  `json:"mmo"`
-	LRCMach             *float64 `json:"lrc_mach"`
-	ResidualClimbFPM    *float64 `json:"residual_climb_fpm"`
-}
-
-type envelopeJSON struct {
-	Caution        string            `json:"caution"`
-	Aircraft       string            `json:"aircraft"`
-	MassKg         float64           `json:"mass_kg"`
-	ISADevC        float64           `json:"isa_dev_c"`
-	FloorG         float64           `json:"floor_g"`
-	MaxFLBuffet    *float64          `json:"max_fl_buffet"`
-	MaxFLThrust    *float64          `json:"max_fl_thrust"`
-	MaxFLCertified float64           `json:"max_fl_certified"`
-	MaxFL          *float64          `json:"max_fl"`
-	OptimumFL      *float64          `json:"optimum_fl"`
-	Rows           []envelopeRowJSON `json:"rows"`
-}
-
-func envelopeDoc(e perf.Envelope) envelopeJSON {
-	d := envelopeJSON{Caution: optimizer.Caution, Aircraft: e.Aircraft, MassKg: e.Mass, ISADevC: e.ISADev, FloorG: e.Floor,
-		MaxFLBuffet: planjson.Number(e.MaxFLBuffet), MaxFLThrust: planjson.Number(e.MaxFLThrust), MaxFLCertified: e.MaxFLCertified,
-		MaxFL: planjson.Number(e.MaxFL), OptimumFL: planjson.Number(e.OptimumFL), Rows: []envelopeRowJSON{}}
-	for _, r := range e.Rows {
-		var rc *float64
-		if !math.IsNaN(r.ResidualClimb) {
-			v := r.ResidualClimb / perf.FtToM * 60
-			rc = &v
-		}
-		d.Rows = append(d.Rows, envelopeRowJSON{FL: r.FL, PressureHPa: r.Pressure / 100, OATC: r.OAT - 273.15,
-			SoundKt: r.SoundSpeed / perf.KtToMS, LowBuffetMach1g: planjson.Number(r.LowBuffet1g), HighBuffetMach1g: planjson.Number(r.HighBuffet1g),
-			LowBuffetMachFloor: planjson.Number(r.LowBuffetFloor), HighBuffetMachFloor: planjson.Number(r.HighBuffetFloor), MMO: r.MMO,
-			LRCMach: planjson.Number(r.LRCMach), ResidualClimbFPM: rc})
-	}
-	return d
-}
-
 func newEnvelopeCmd() *cobra.Command {
 	var (
 		acName string
@@ -112,16 +66,17 @@ func newEnvelopeCmd() *cobra.Command {
 			}
 		}
 		out := cmd.OutOrStdout()
-		d := envelopeDoc(e)
+		d := planjson.FromEnvelope(e)
 		switch *format {
 		case "json":
 			return writeJSON(out, d)
 		case "csv":
 			w := csv.NewWriter(out)
-			w.Write([]string{"fl", "pressure_hpa", "oat_c", "sound_kt", "low_buffet_mach_1g", "high_buffet_mach_1g", "low_buffet_mach_floor", "high_buffet_mach_floor", "mmo", "lrc_mach", "residual_climb_fpm"})
+			w.Write([]string{"fl", "pressure_hpa", "oat_c", "sound_kt", "low_buffet_mach_1g", "high_buffet_mach_1g", "low_buffet_mach_floor", "high_buffet_mach_floor", "mmo", "vmo_mach", "band_low_mach", "band_high_mach", "band_low_limit", "band_high_limit", "lrc_mach", "residual_climb_fpm"})
 			for _, r := range d.Rows {
 				w.Write([]string{planjson.CSVNumber(r.FL), planjson.CSVNumber(r.PressureHPa), planjson.CSVNumber(r.OATC), planjson.CSVNumber(r.SoundKt), planjson.CSVPointer(r.LowBuffetMach1g), planjson.CSVPointer(r.HighBuffetMach1g),
-					planjson.CSVPointer(r.LowBuffetMachFloor), planjson.CSVPointer(r.HighBuffetMachFloor), planjson.CSVNumber(r.MMO), planjson.CSVPointer(r.LRCMach), planjson.CSVPointer(r.ResidualClimbFPM)})
+					planjson.CSVPointer(r.LowBuffetMachFloor), planjson.CSVPointer(r.HighBuffetMachFloor), planjson.CSVNumber(r.MMO), planjson.CSVPointer(r.VMOMach),
+					planjson.CSVPointer(r.BandLowMach), planjson.CSVPointer(r.BandHighMach), r.BandLowLimit, r.BandHighLimit, planjson.CSVPointer(r.LRCMach), planjson.CSVPointer(r.ResidualClimbFPM)})
 			}
 			w.Flush()
 			return w.Error()
@@ -130,13 +85,25 @@ func newEnvelopeCmd() *cobra.Command {
 		fmt.Fprintf(out, "Maximum level: buffet FL%s, thrust FL%s, certified FL%.0f -> FL%s; optimum FL%s\n\n",
 			flStr(d.MaxFLBuffet), flStr(d.MaxFLThrust), d.MaxFLCertified, flStr(d.MaxFL), flStr(d.OptimumFL))
 		tw := tabwriter.NewWriter(out, 0, 0, 1, ' ', tabwriter.AlignRight)
-		fmt.Fprintf(tw, "FL\thPa\tOAT C\tbuffet 1g\t\tbuffet %.2fg\t\tMMO\tLRC\tROC fpm\t\n", d.FloorG)
+		fmt.Fprintf(tw, "FL\thPa\tOAT C\tbuffet 1g\t\tbuffet %.2fg\t\tMMO\tVMO M\tusable band\t\tLRC\tROC fpm\t\n", d.FloorG)
+		beyond := false
 		for _, r := range d.Rows {
-			fmt.Fprintf(tw, "%.0f\t%.1f\t%.1f\t%s\t%s\t%s\t%s\t%.3f\t%s\t%s\t\n", r.FL, r.PressureHPa, r.OATC,
-				machStr(r.LowBuffetMach1g), machStr(r.HighBuffetMach1g), machStr(r.LowBuffetMachFloor), machStr(r.HighBuffetMachFloor),
-				r.MMO, machStr(r.LRCMach), fpmStr(r.ResidualClimbFPM))
+			hi1, hiF := machStr(r.HighBuffetMach1g), machStr(r.HighBuffetMachFloor)
+			if r.HighBuffet1gBeyondData && r.HighBuffetMach1g != nil {
+				hi1, beyond = ">"+hi1, true
+			}
+			if r.HighBuffetFloorBeyondData && r.HighBuffetMachFloor != nil {
+				hiF, beyond = ">"+hiF, true
+			}
+			fmt.Fprintf(tw, "%.0f\t%.1f\t%.1f\t%s\t%s\t%s\t%s\t%.3f\t%s\t%s\t%s\t%s\t%s\t\n", r.FL, r.PressureHPa, r.OATC,
+				machStr(r.LowBuffetMach1g), hi1, machStr(r.LowBuffetMachFloor), hiF,
+				r.MMO, machStr(r.VMOMach), bandEnd(r.BandLowMach, r.BandLowLimit), bandEnd(r.BandHighMach, r.BandHighLimit), machStr(r.LRCMach), fpmStr(r.ResidualClimbFPM))
 		}
 		tw.Flush()
+		if beyond {
+			fmt.Fprintf(out, "\n>: the buffet onset lies beyond the aircraft's buffet data (its table ends at that Mach)\n")
+		}
+		fmt.Fprintf(out, "Levels are rounded down to the whole FL (perf.ReportFL).\n")
 		fmt.Fprintf(out, "\n%s\n", "Caution: "+optimizer.Caution)
 		return nil
 	}
@@ -161,5 +128,13 @@ func flStr(x *float64) string {
 	if x == nil {
 		return "---"
 	}
-	return fmt.Sprintf("%03.0f", math.Floor(*x))
+	return fmt.Sprintf("%03.0f", perf.ReportFL(*x)) // the one rounding rule: down to the whole FL
+}
+
+// bandEnd prints one end of the usable band with the limit that sets it.
+func bandEnd(m *float64, limit string) string {
+	if m == nil {
+		return "-"
+	}
+	return fmt.Sprintf("%.3f %s", *m, limit)
 }

@@ -39,7 +39,7 @@ var charts = []struct {
 		"FL370 at 1100 NM", "FL390 at 2000 NM"}},
 	{"envelope", func(w io.Writer, f string) error { return Envelope(w, f, sampleEnvelope()) },
 		[]string{"buffet onset at 1 g", "buffet onset at 1.30 g (floor)", "MMO 0.82", "coffin corner at 1.30 g",
-			"max level FL398 (thrust limit)", "optimum level FL372", "Mach", "flight level"}},
+			"max level FL398 (thrust limit)", "optimum level FL371", "Mach", "flight level"}},
 	{"sweep", func(w io.Writer, f string) error { return Sweep(w, f, sampleSweep(), "Cost-index sweep") },
 		[]string{"CI 0", "CI 20", "CI 60", "CI 150", "total time (min)", "total fuel (kg)"}},
 }

@@ -1,6 +1,8 @@
 package chart
 
 import (
+	"levelpath/perf"
+
 	"fmt"
 	"image/color"
 
@@ -148,7 +150,8 @@ func labels(xys plotter.XYs, strs []string, sty text.Style, off vg.Point) *plott
 }
 
 // flName formats a flight level as "FL370".
-func flName(fl float64) string { return fmt.Sprintf("FL%03.0f", fl) }
+// flName prints a level by the one rounding rule, down to the whole FL.
+func flName(fl float64) string { return fmt.Sprintf("FL%03.0f", perf.ReportFL(fl)) }
 
 // placedLabels draws a label under each point, Gap below it and starting
 // just right of it (the side a climbing profile leaves free),
