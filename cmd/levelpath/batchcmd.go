@@ -128,7 +128,7 @@ func (p *planner) plan(ctx context.Context, row batch.Row, ci float64) (batch.Re
 		}
 		pr.Speed = sp
 	}
-	plan, err := optimizer.Solve(pr)
+	plan, err := optimizer.SolveContext(ctx, pr)
 	if err != nil {
 		return res, err
 	}
