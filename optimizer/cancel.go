@@ -6,10 +6,11 @@ import (
 )
 
 // cancelEvery is how many settled nodes the search runs between two looks
-// at its context: a power of two, so the test is a mask. A settled node
-// costs a few microseconds (its edges priced or read from the memo), so a
-// cancelled search stops within about a millisecond while the look itself,
-// a mutex, stays out of the profile.
+// at its context: a power of two, so the test is a mask. A whole plan of
+// the demo long-haul flight (3,231 settled nodes) takes about 28 ms in
+// BenchmarkPlanLongHaul on the 2-core test machine, some 9 us a node, so
+// a cancelled search stops within a few milliseconds while the look
+// itself, a mutex, stays out of the profile.
 const cancelEvery = 256
 
 // CancelledError is returned by SolveContext and AssessContext when their

@@ -9,7 +9,7 @@ import (
 )
 
 // cancelProblem is the demo long-haul flight of the benchmarks (50 NM segments,
-// FL290 to FL430 every 1,000 ft): a search of tens of thousands of nodes.
+// FL290 to FL430 every 1,000 ft): a search of a few thousand nodes.
 func cancelProblem(t testing.TB) *Problem {
 	wx, ref := demoWeather(t)
 	return &Problem{Track: track(t, longHaulRoute, "every-1000:290-430", 50), Aircraft: aircraft(t, "demo-widebody"),
