@@ -2,6 +2,7 @@ package optimizer
 
 import (
 	"cmp"
+	"context"
 	"math"
 	"slices"
 
@@ -50,7 +51,18 @@ type Alternative struct {
 // Complexity: Yen's algorithm runs O(K L) Dijkstra searches on the level
 // graph (L nodes on a path, K paths asked for); each node's edges are
 // priced once and kept.
+//
+// Alternatives is AlternativesContext with context.Background().
 func Alternatives(p *Problem, plan *Plan, k int) ([]Alternative, error) {
+	return AlternativesContext(context.Background(), p, plan, k)
+}
+
+// AlternativesContext is Alternatives, stopped when ctx is done: it looks
+// at ctx before Yen's search and before and during each exact pricing
+// (Yen's search itself, in gonum, runs to its end). A cancelled call
+// returns an error that wraps ctx.Err() (a *CancelledError) and no
+// alternatives.
+func AlternativesContext(ctx context.Context, p *Problem, plan *Plan, k int) ([]Alternative, error) {
 	if k <= 0 || plan == nil {
 		return nil, nil
 	}
@@ -59,6 +71,9 @@ func Alternatives(p *Problem, plan *Plan, k int) ([]Alternative, error) {
 	}
 	s, err := prepare(p)
 	if err != nil {
+		return nil, err
+	}
+	if err := ctxErr(ctx); err != nil {
 		return nil, err
 	}
 	g := newLevelGraph(s, plan)
@@ -72,7 +87,10 @@ func Alternatives(p *Problem, plan *Plan, k int) ([]Alternative, error) {
 			continue
 		}
 		seen[key] = true
-		alt, err := Assess(p, prof)
+		alt, err := AssessContext(ctx, p, prof)
+		if isCancelled(err) {
+			return nil, err
+		}
 		if err != nil || breaksProfileLimits(alt.Violations) {
 			continue // not flyable as the level graph priced it
 		}

@@ -1,6 +1,7 @@
 package optimizer
 
 import (
+	"context"
 	"fmt"
 	"math"
 	"time"
@@ -21,24 +22,40 @@ import (
 // Plan.BaselineNote says why not.
 //
 // Complexity: O(segments + changes) point evaluations.
+//
+// Assess is AssessContext with context.Background(): it is never
+// cancelled.
 func Assess(p *Problem, prof Profile) (*Plan, error) {
-	return assessProblem(p, prof, true)
+	return AssessContext(context.Background(), p, prof)
 }
 
-// assessProblem is Assess, with the baseline only when asked (a search:
-// tests that price thousands of profiles skip it).
-func assessProblem(p *Problem, prof Profile, baseline bool) (*Plan, error) {
+// AssessContext is Assess, stopped when ctx is done: the pricing checks
+// ctx at every piece of the profile, the baseline's search every 256
+// settled nodes. A cancelled call returns an error that wraps ctx.Err()
+// and no plan; a context that is never done gives exactly Assess's result.
+func AssessContext(ctx context.Context, p *Problem, prof Profile) (*Plan, error) {
+	return assessProblem(ctx, p, prof, true)
+}
+
+// assessProblem is AssessContext, with the baseline only when asked (a
+// search: tests that price thousands of profiles skip it).
+func assessProblem(ctx context.Context, p *Problem, prof Profile, baseline bool) (*Plan, error) {
+	if err := ctxErr(ctx); err != nil {
+		return nil, err
+	}
 	q := *p
 	warn, err := q.normalise()
 	if err != nil {
 		return nil, err
 	}
-	plan, err := assess(&q, prof, warn, q.LegCeilings)
+	plan, err := assess(ctx, &q, prof, warn, q.LegCeilings)
 	if err != nil {
 		return nil, err
 	}
 	if baseline {
-		assessBaseline(&q, plan)
+		if err := assessBaseline(ctx, &q, plan); err != nil {
+			return nil, err
+		}
 	} else {
 		plan.BaselineNote = "not computed"
 	}
@@ -58,7 +75,8 @@ type sim struct {
 	// while the aircraft cannot reach it (levelled off below).
 	target int
 	segs   []route.Segment
-	start  *InFlight // nil: from brake release; else in cruise from this state
+	start  *InFlight       // nil: from brake release; else in cruise from this state
+	ctx    context.Context // checked at every piece; nil: never done
 }
 
 func (s *sim) violate(limit Limit, by float64, unit, detail string) {
@@ -86,14 +104,15 @@ func (s *sim) condAt(k, fl int) (cond, error) {
 	return c, nil
 }
 
-func assess(q *Problem, prof Profile, warn []string, detail bool) (*Plan, error) {
-	return assessFrom(q, prof, warn, detail, nil)
+func assess(ctx context.Context, q *Problem, prof Profile, warn []string, detail bool) (*Plan, error) {
+	return assessFrom(ctx, q, prof, warn, detail, nil)
 }
 
 // assessFrom is assess from an in-flight state when start is not nil:
 // the profile's initial level is the level flown at start.Dist, and the
 // plan's take-off mass and departure are the state's mass and time.
-func assessFrom(q *Problem, prof Profile, warn []string, detail bool, start *InFlight) (*Plan, error) {
+// When ctx is done the pricing stops with ctxErr's error.
+func assessFrom(ctx context.Context, q *Problem, prof Profile, warn []string, detail bool, start *InFlight) (*Plan, error) {
 	if prof.Initial < 10 || !prof.sorted() {
 		return nil, inputErrorf("profile", "profile %s: needs an initial level and changes in increasing distance", prof)
 	}
@@ -114,7 +133,7 @@ func assessFrom(q *Problem, prof Profile, warn []string, detail bool, start *InF
 	plan := &Plan{Policy: policyOf(q), Aircraft: q.Aircraft.Name, CI: q.CI, Floor: q.Floor, Speed: q.Speed.String(), Depart: q.Depart,
 		TakeoffMass: q.TakeoffMass, Distance: total, Profile: pr, Warnings: append([]string(nil), warn...)}
 	plan.Warnings = append(plan.Warnings, edrLevelWarnings(q.Weather, pr)...)
-	s := &sim{q: q, a: q.Aircraft, plan: plan, m: q.TakeoffMass, fl: pr.Initial, target: pr.Initial, segs: segs, start: start}
+	s := &sim{q: q, a: q.Aircraft, plan: plan, m: q.TakeoffMass, fl: pr.Initial, target: pr.Initial, segs: segs, start: start, ctx: ctx}
 	if start != nil {
 		s.x = start.Dist
 	}
@@ -163,6 +182,9 @@ func (s *sim) run(pr Profile, total float64, detail bool) error {
 		lastStep = math.Inf(-1) // in flight: the next step may come at once
 	}
 	for guard := 0; guard < 10*len(s.segs)+10*len(pr.Changes)+10; guard++ {
+		if err := ctxErr(s.ctx); err != nil {
+			return err
+		}
 		if s.x >= total-1e-6 {
 			s.violate(LimitProfile, 0, "", "the profile reaches the destination without a final descent")
 			return nil

@@ -23,6 +23,10 @@
 // problems in connexion with graphs", Numerische Mathematik 1, 1959)
 // returns. See Solve for the deviations.
 //
+// SolveContext, AssessContext and AlternativesContext stop when their
+// context is done and return a *CancelledError wrapping ctx.Err(); Solve,
+// Assess and Alternatives are these with context.Background().
+//
 // Caution: this is a planning aid, not certified for operational use; the
 // approved flight manual and operator data, the operator's procedures, ATC
 // and the pilot-in-command govern.

@@ -1,6 +1,7 @@
 package optimizer
 
 import (
+	"context"
 	"math"
 	"testing"
 	"time"
@@ -129,7 +130,7 @@ func TestPlanIsCheapestAssessedProfile(t *testing.T) {
 					pr.Changes = append(pr.Changes, Change{AtDist: bounds[j-1], FL: prof[j]})
 				}
 			}
-			ap, err := assessProblem(p, pr, false) // no baseline search
+			ap, err := assessProblem(context.Background(), p, pr, false) // no baseline search
 			if err != nil || breaksProfileLimits(ap.Violations) {
 				rejected++
 				return

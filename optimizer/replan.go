@@ -1,6 +1,7 @@
 package optimizer
 
 import (
+	"context"
 	"fmt"
 	"math"
 	"time"
@@ -56,7 +57,7 @@ func Replan(p *Problem, st InFlight) (*Plan, error) {
 		return nil, inputErrorf("fl", "FL%03d is not allowed at %.0f NM (segment %d allows %s)", st.FL, st.Dist/nmToM, k, flRange(segs[k].Levels))
 	}
 	price := func(pr Profile) (*Plan, float64) {
-		pl, err := assessFrom(&q, pr, warn, false, &st)
+		pl, err := assessFrom(context.Background(), &q, pr, warn, false, &st)
 		if err != nil || breaksProfileLimits(pl.Violations) {
 			return pl, math.Inf(1)
 		}
@@ -102,14 +103,14 @@ func Replan(p *Problem, st InFlight) (*Plan, error) {
 		best, bestPlan, bestCost = cand, candPlan, candCost
 	}
 	if bestPlan == nil {
-		_, err := assessFrom(&q, best, warn, false, &st)
+		_, err := assessFrom(context.Background(), &q, best, warn, false, &st)
 		return nil, err
 	}
 	if math.IsInf(bestCost, 1) {
 		bestPlan.Warnings = append(bestPlan.Warnings, fmt.Sprintf("no profile from FL%03d keeps every limit: the constant level is shown with its violations", st.FL))
 	}
 	if q.LegCeilings {
-		if pl, err := assessFrom(&q, best, warn, true, &st); err == nil {
+		if pl, err := assessFrom(context.Background(), &q, best, warn, true, &st); err == nil {
 			bestPlan = pl
 		}
 	}

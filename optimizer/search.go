@@ -121,6 +121,9 @@ func (s *solver) search() (searchResult, bool) {
 		h = s.searchBound(s.guessCost())
 	}
 	s.reuse = h
+	if err := ctxErr(s.ctx); err != nil {
+		return searchResult{err: err}, false
+	}
 	res, ok := s.run(h)
 	for i := 0; i < 3 && ok && res.err == nil; i++ {
 		switch {
@@ -174,6 +177,11 @@ func (s *solver) run(h []float64) (searchResult, bool) {
 		}
 		x.settled = true
 		nodes++
+		if nodes&(cancelEvery-1) == 0 {
+			if err := ctxErr(s.ctx); err != nil {
+				return searchResult{nodes: nodes, err: err}, false
+			}
+		}
 		if x.id == sinkID {
 			return searchResult{path: trace(slots, it.slot), cost: x.cost, nodes: nodes, violations: viol}, true
 		}

@@ -1,6 +1,7 @@
 package optimizer
 
 import (
+	"context"
 	"fmt"
 	"maps"
 	"slices"
@@ -27,7 +28,22 @@ import (
 //
 // The baseline is the best constant-level profile (the same search with
 // steps forbidden), also priced by Assess.
+//
+// Solve is SolveContext with context.Background(): it is never cancelled.
 func Solve(p *Problem) (*Plan, error) {
+	return SolveContext(context.Background(), p)
+}
+
+// SolveContext is Solve, stopped when ctx is done: the search checks ctx
+// every 256 settled nodes, the exact pricing at every piece of the
+// profile, and the baseline's search and pricing likewise. A cancelled
+// call returns an error that wraps ctx.Err() (errors.Is(err,
+// context.Canceled) or context.DeadlineExceeded) and no plan. A context
+// that is never done gives exactly Solve's result.
+func SolveContext(ctx context.Context, p *Problem) (*Plan, error) {
+	if err := ctxErr(ctx); err != nil {
+		return nil, err
+	}
 	q := *p
 	warn, err := q.normalise()
 	if err != nil {
@@ -37,6 +53,7 @@ func Solve(p *Problem) (*Plan, error) {
 	if err != nil {
 		return nil, err
 	}
+	s.ctx = ctx
 	res, ok := s.search()
 	if res.err != nil {
 		return nil, res.err
@@ -45,7 +62,7 @@ func Solve(p *Problem) (*Plan, error) {
 		return nil, s.infeasible()
 	}
 	prof := s.profileOf(res.path)
-	plan, err := assess(&q, prof, warn, q.LegCeilings)
+	plan, err := assess(ctx, &q, prof, warn, q.LegCeilings)
 	if err != nil {
 		return nil, err
 	}
@@ -68,7 +85,9 @@ func Solve(p *Problem) (*Plan, error) {
 		plan.Warnings = append(plan.Warnings, fmt.Sprintf("exact pricing found %d limit(s) broken that the search did not see; first: %s", len(other), other[0].Detail))
 	}
 	// Baseline: the same problem with steps forbidden.
-	s.addBaseline(plan, res.cost)
+	if err := s.addBaseline(plan, res.cost); err != nil {
+		return nil, err
+	}
 	return plan, nil
 }
 

@@ -1,6 +1,7 @@
 package optimizer
 
 import (
+	"context"
 	"math"
 	"sort"
 
@@ -51,6 +52,8 @@ type solver struct {
 	fixed *boundParts // see bound.go
 	// overflowed is set when an arrival's mass bucket exceeds the node ID.
 	overflowed bool
+	// ctx stops the search when done (see ctxErr); nil: never done.
+	ctx context.Context
 }
 
 // newSolver prepares p (already normalised).

@@ -21,7 +21,7 @@ func newServeCmd() *cobra.Command {
 	var (
 		addr, data, tokens, cert, key, db string
 		timeout, queueWait, drain         time.Duration
-		workers                           int
+		workers, queue                    int
 	)
 	c := &cobra.Command{
 		Use:   "serve",
@@ -45,6 +45,7 @@ the service has no authentication and listens on loopback only.`,
 	fl.DurationVar(&timeout, "timeout", 30*time.Second, "time limit of one request")
 	fl.IntVar(&workers, "workers", 0, "plans computed at once (default: the number of CPUs)")
 	fl.DurationVar(&queueWait, "queue-wait", 2*time.Second, "longest wait for a free worker before 503")
+	fl.IntVar(&queue, "queue", 0, "requests waiting for a free worker at most, beyond which 429 at once (default: 2 x workers)")
 	fl.DurationVar(&drain, "drain", 30*time.Second, "on SIGTERM, longest wait for requests in flight")
 	c.RunE = func(cmd *cobra.Command, _ []string) error {
 		if data == "" {
@@ -58,15 +59,15 @@ the service has no authentication and listens on loopback only.`,
 				return badInputf("--tls-cert/--tls-key: %v", err)
 			}
 		}
-		if timeout <= 0 || workers < 0 || queueWait <= 0 || drain < 0 {
-			return badInputf("--timeout and --queue-wait must be positive, --workers and --drain not negative")
+		if timeout <= 0 || workers < 0 || queue < 0 || queueWait <= 0 || drain < 0 {
+			return badInputf("--timeout and --queue-wait must be positive, --workers, --queue and --drain not negative")
 		}
 		if db == "" {
 			db = filepath.Join(data, "levelpath-records.db")
 		}
 		logger := log.New(cmd.ErrOrStderr(), "levelpath serve: ", log.LstdFlags|log.LUTC)
 		s, err := serve.New(serve.Config{DataDir: data, DB: db, TokensFile: tokens, Version: version,
-			Timeout: timeout, Workers: workers, QueueWait: queueWait, Logger: logger})
+			Timeout: timeout, Workers: workers, Queue: queue, QueueWait: queueWait, Logger: logger})
 		if err != nil {
 			return badInput(err)
 		}

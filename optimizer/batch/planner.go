@@ -133,7 +133,7 @@ func (p *SchedulePlanner) Plan(ctx context.Context, row Row, ci float64) (Result
 	if err != nil {
 		return res, err
 	}
-	plan, err := optimizer.Solve(pr)
+	plan, err := optimizer.SolveContext(ctx, pr) // SIGTERM stops a running plan
 	if err != nil {
 		return res, err
 	}

@@ -92,7 +92,7 @@ func (s *Server) priced(w http.ResponseWriter, r *http.Request, kind string) err
 		plan *optimizer.Plan
 		svg  string
 	}
-	res, err := compute(s, r.Context(), func() (result, error) {
+	res, err := compute(s, r.Context(), func(ctx context.Context) (result, error) {
 		in, err := s.problem(req)
 		if err != nil {
 			return result{}, err
@@ -101,11 +101,11 @@ func (s *Server) priced(w http.ResponseWriter, r *http.Request, kind string) err
 		pr.LegCeilings = true
 		var plan *optimizer.Plan
 		if kind == "assess" {
-			plan, err = optimizer.Assess(pr, prof)
+			plan, err = optimizer.AssessContext(ctx, pr, prof)
 		} else {
-			plan, err = optimizer.Solve(pr)
+			plan, err = optimizer.SolveContext(ctx, pr)
 			if err == nil && body.Alternatives > 0 {
-				plan.Alternatives, err = optimizer.Alternatives(pr, plan, body.Alternatives)
+				plan.Alternatives, err = optimizer.AlternativesContext(ctx, pr, plan, body.Alternatives)
 				if err == nil && len(plan.Alternatives) < body.Alternatives {
 					plan.Warnings = append(plan.Warnings, fmt.Sprintf("%d alternative profile(s) found of the %d asked for", len(plan.Alternatives), body.Alternatives))
 				}
@@ -278,7 +278,7 @@ func (s *Server) envelope(w http.ResponseWriter, r *http.Request) error {
 		e   perf.Envelope
 		svg string
 	}
-	res, err := compute(s, r.Context(), func() (result, error) {
+	res, err := compute(s, r.Context(), func(context.Context) (result, error) {
 		e, err := a.Envelope(*req.Mass, req.ISADev, floor)
 		if err != nil {
 			return result{}, fieldErr("mass", "%v", err)
@@ -359,10 +359,10 @@ func (s *Server) weatherList(w http.ResponseWriter, r *http.Request) error {
 	}
 	out := []entry{}
 	for _, n := range s.data.list(".grib2", ".grb2", ".grib", ".grb", ".grib1", ".grb1") {
-		ws, err := compute(s, r.Context(), func() (*weatherSet, error) { return s.weather.get([]string{n}) })
+		ws, err := compute(s, r.Context(), func(context.Context) (*weatherSet, error) { return s.weather.get([]string{n}) })
 		if err != nil {
 			var ae *apiError
-			if errors.As(err, &ae) && ae.Status == http.StatusServiceUnavailable {
+			if errors.As(err, &ae) && (ae.Status == http.StatusServiceUnavailable || ae.Status == http.StatusTooManyRequests) {
 				return err
 			}
 			out = append(out, entry{Name: n, Times: []string{}, LevelsHPa: []int{}, Error: err.Error()})

@@ -70,13 +70,14 @@ func quantile(ds []time.Duration, q float64) time.Duration {
 // TestLoad sends plan requests from 8 clients over loopback and asserts
 // no errors and no lost records: every answered id is stored, under its
 // flight. By default 48 requests of the demo regional flight (a few
-// seconds); LEVELPATH_SERVE_LOAD=1 sends 200 of the long-haul flight.
+// seconds); LEVELPATH_SERVE_LOAD=1 sends 200 of the long-haul flight. The
+// queue holds all 8 clients, so none gets 429.
 func TestLoad(t *testing.T) {
 	total, body := 48, shortFlight()
 	if os.Getenv("LEVELPATH_SERVE_LOAD") == "1" {
 		total, body = 200, longFlight()
 	}
-	s := testServer(t, func(c *Config) { c.QueueWait = 5 * time.Minute; c.Timeout = 5 * time.Minute })
+	s := testServer(t, func(c *Config) { c.QueueWait = 5 * time.Minute; c.Timeout = 5 * time.Minute; c.Queue = 8 })
 	ts := httptest.NewServer(s.Handler())
 	defer ts.Close()
 	t0 := time.Now()
@@ -104,12 +105,12 @@ func TestLoad(t *testing.T) {
 }
 
 // BenchmarkPlanLongHaul measures the demo long-haul plan over loopback
-// with 1, 4 and 16 clients (queue wait and time limit raised so that
+// with 1, 4 and 16 clients (queue length, queue wait and time limit raised so that
 // every request is answered): requests per second and p99 latency.
 func BenchmarkPlanLongHaul(b *testing.B) {
 	for _, clients := range []int{1, 4, 16} {
 		b.Run("clients="+strconv.Itoa(clients), func(b *testing.B) {
-			s := testServer(b, func(c *Config) { c.QueueWait = 10 * time.Minute; c.Timeout = 10 * time.Minute })
+			s := testServer(b, func(c *Config) { c.QueueWait = 10 * time.Minute; c.Timeout = 10 * time.Minute; c.Queue = clients })
 			defer s.Close()
 			ts := httptest.NewServer(s.Handler())
 			defer ts.Close()

@@ -16,14 +16,16 @@ var latencyBuckets = []float64{0.005, 0.01, 0.025, 0.05, 0.1, 0.25, 0.5, 1, 2.5,
 // metrics holds counters and histograms written in the Prometheus text
 // exposition format (version 0.0.4) by hand.
 type metrics struct {
-	mu       sync.Mutex
-	requests map[[2]string]uint64 // {route, code} -> count
-	hist     map[string]*histogram
-	records  map[string]uint64 // kind -> stored
-	decodes  uint64
-	inFlight int64
-	rejected uint64 // 503 for a full queue
-	timeouts uint64
+	mu        sync.Mutex
+	requests  map[[2]string]uint64 // {route, code} -> count
+	hist      map[string]*histogram
+	records   map[string]uint64 // kind -> stored
+	decodes   uint64
+	inFlight  int64
+	rejected  uint64 // 503: no slot within the queue wait
+	queueFull uint64 // 429: too many requests waiting
+	cancelled uint64 // computations stopped through their context
+	timeouts  uint64
 }
 
 type histogram struct {
@@ -109,9 +111,15 @@ func (m *metrics) write(w io.Writer) {
 	fmt.Fprintln(w, "# HELP levelpath_weather_decodes_total Weather sets decoded (first use or a file changed).")
 	fmt.Fprintln(w, "# TYPE levelpath_weather_decodes_total counter")
 	fmt.Fprintf(w, "levelpath_weather_decodes_total %d\n", m.decodes)
-	fmt.Fprintln(w, "# HELP levelpath_rejected_total Requests refused with 503 because the queue was full.")
+	fmt.Fprintln(w, "# HELP levelpath_rejected_total Requests refused with 503 because no slot freed within the queue wait.")
 	fmt.Fprintln(w, "# TYPE levelpath_rejected_total counter")
 	fmt.Fprintf(w, "levelpath_rejected_total %d\n", m.rejected)
+	fmt.Fprintln(w, "# HELP levelpath_queue_full_total Requests refused with 429 because too many were waiting for a slot.")
+	fmt.Fprintln(w, "# TYPE levelpath_queue_full_total counter")
+	fmt.Fprintf(w, "levelpath_queue_full_total %d\n", m.queueFull)
+	fmt.Fprintln(w, "# HELP levelpath_cancelled_total Computations stopped through their context at the time limit.")
+	fmt.Fprintln(w, "# TYPE levelpath_cancelled_total counter")
+	fmt.Fprintf(w, "levelpath_cancelled_total %d\n", m.cancelled)
 	fmt.Fprintln(w, "# HELP levelpath_timeouts_total Computations that passed the request time limit.")
 	fmt.Fprintln(w, "# TYPE levelpath_timeouts_total counter")
 	fmt.Fprintf(w, "levelpath_timeouts_total %d\n", m.timeouts)

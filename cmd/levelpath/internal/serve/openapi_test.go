@@ -68,6 +68,21 @@ func TestOpenAPI(t *testing.T) {
 			t.Errorf("%s: documented %v\ndecoded %v", name, doc, code)
 		}
 	}
+	// The endpoints that compute in a slot document 429 and 503 with
+	// Retry-After (compute's errQueueFull, errBusy and timeoutErr).
+	busy := a.doc["components"].(map[string]any)["responses"].(map[string]any)["Busy"].(map[string]any)
+	if _, ok := busy["headers"].(map[string]any)["Retry-After"]; !ok {
+		t.Errorf("the Busy response documents no Retry-After header")
+	}
+	for _, op := range []string{"POST /v1/plan", "POST /v1/assess", "POST /v1/envelope", "GET /v1/weather"} {
+		method, path, _ := strings.Cut(op, " ")
+		resp := a.doc["paths"].(map[string]any)[path].(map[string]any)[strings.ToLower(method)].(map[string]any)["responses"].(map[string]any)
+		for _, code := range []string{"429", "503"} {
+			if r, _ := resp[code].(map[string]any); r["$ref"] != "#/components/responses/Busy" {
+				t.Errorf("%s: %s is not the Busy response: %v", op, code, resp[code])
+			}
+		}
+	}
 	var check map[string]any
 	if err := json.Unmarshal(openapiDoc, &check); err != nil {
 		t.Fatal(err)

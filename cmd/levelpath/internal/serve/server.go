@@ -3,11 +3,17 @@
 // at /, records of every plan and assessment in SQLite, and the limits a
 // shared service needs (bearer tokens, body size, time, concurrency).
 //
-// The optimizer takes no context: a computation runs in its own
-// goroutine holding one of Config.Workers slots. When the request's time
-// limit passes, the client gets 503 at once and nothing is stored, but
-// the computation runs on to its end in the background, still holding
-// its slot, so the number of computations at once stays bounded.
+// A computation runs in its own goroutine holding one of Config.Workers
+// slots, with the request's context (its time limit): when the limit
+// passes, the plan's search and pricing stop (optimizer.SolveContext,
+// AssessContext), the slot is given back, and the client gets 503 with
+// Retry-After; nothing is stored. The steps that do not look at the
+// context (decoding a weather file, an envelope, Yen's search for
+// alternatives) run on to their end, still holding the slot, so the number
+// of computations at once stays bounded. At most Config.Queue requests
+// wait for a slot; beyond that a request gets 429 with Retry-After at
+// once, and a waiting request that gets no slot within Config.QueueWait
+// gets 503.
 package serve
 
 import (
@@ -22,7 +28,10 @@ import (
 	"runtime"
 	"strconv"
 	"strings"
+	"sync/atomic"
 	"time"
+
+	"levelpath/optimizer"
 )
 
 // Config configures a Server.
@@ -34,6 +43,7 @@ type Config struct {
 	Timeout    time.Duration // per-request time limit (default 30 s)
 	Workers    int           // computations at once (default GOMAXPROCS)
 	QueueWait  time.Duration // longest wait for a slot before 503 (default 2 s)
+	Queue      int           // requests waiting for a slot at most, then 429 (default 2 x Workers)
 	BodyLimit  int64         // bytes (default 1 MiB)
 	Logger     *log.Logger
 }
@@ -46,6 +56,7 @@ type Server struct {
 	store   *store
 	tokens  []token // nil: no authentication
 	slots   chan struct{}
+	waiting atomic.Int64 // requests waiting for a slot
 	met     *metrics
 	mux     *http.ServeMux
 	log     *log.Logger
@@ -61,6 +72,9 @@ func New(cfg Config) (*Server, error) {
 	}
 	if cfg.Workers <= 0 {
 		cfg.Workers = runtime.GOMAXPROCS(0)
+	}
+	if cfg.Queue <= 0 {
+		cfg.Queue = 2 * cfg.Workers
 	}
 	if cfg.QueueWait <= 0 {
 		cfg.QueueWait = 2 * time.Second
@@ -194,20 +208,43 @@ func writeJSON(w http.ResponseWriter, code int, v any) {
 // errBusy is the answer when no slot frees within the queue wait.
 var errBusy = &apiError{Status: http.StatusServiceUnavailable, Msg: "busy: all planning slots in use; try again", RetryAfter: 2}
 
-// compute runs f in a slot: it waits at most QueueWait for one (then
-// 503), and at most until the request's deadline for f (then 503; f runs
-// on in the background holding its slot, see the package comment).
-func compute[T any](s *Server, ctx context.Context, f func() (T, error)) (T, error) {
+// errQueueFull is the answer when Config.Queue requests already wait.
+var errQueueFull = &apiError{Status: http.StatusTooManyRequests, Msg: "busy: too many requests waiting for a planning slot; try again", RetryAfter: 2}
+
+// cancelGrace is how long a timed-out request waits for its cancelled
+// computation to give its slot back before answering; a step that does
+// not look at the context may take longer, and keeps the slot meanwhile.
+const cancelGrace = 2 * time.Second
+
+// compute runs f in a slot with ctx, the request's context. A free slot
+// is taken at once; otherwise the request joins the queue, unless
+// Config.Queue requests already wait (then 429), and waits at most
+// QueueWait for a slot (then 503). When ctx is done before f returns the
+// answer is 503 (timeoutErr), given once f has stopped (it looks at ctx,
+// see the package comment) or after cancelGrace.
+func compute[T any](s *Server, ctx context.Context, f func(ctx context.Context) (T, error)) (T, error) {
 	var zero T
-	wait := time.NewTimer(s.cfg.QueueWait)
-	defer wait.Stop()
 	select {
 	case s.slots <- struct{}{}:
-	case <-wait.C:
-		s.met.add(func(m *metrics) { m.rejected++ })
-		return zero, errBusy
-	case <-ctx.Done():
-		return zero, timeoutErr(s)
+	default:
+		if s.waiting.Add(1) > int64(s.cfg.Queue) {
+			s.waiting.Add(-1)
+			s.met.add(func(m *metrics) { m.queueFull++ })
+			return zero, errQueueFull
+		}
+		wait := time.NewTimer(s.cfg.QueueWait)
+		defer wait.Stop()
+		select {
+		case s.slots <- struct{}{}:
+			s.waiting.Add(-1)
+		case <-wait.C:
+			s.waiting.Add(-1)
+			s.met.add(func(m *metrics) { m.rejected++ })
+			return zero, errBusy
+		case <-ctx.Done():
+			s.waiting.Add(-1)
+			return zero, timeoutErr(s)
+		}
 	}
 	type result struct {
 		v   T
@@ -216,20 +253,41 @@ func compute[T any](s *Server, ctx context.Context, f func() (T, error)) (T, err
 	done := make(chan result, 1)
 	s.met.add(func(m *metrics) { m.inFlight++ })
 	go func() {
-		defer func() {
-			if p := recover(); p != nil {
-				done <- result{err: fmt.Errorf("panic: %v", p)}
-			}
-			<-s.slots
-			s.met.add(func(m *metrics) { m.inFlight-- })
+		var r result
+		func() {
+			defer func() {
+				if p := recover(); p != nil {
+					r = result{err: fmt.Errorf("panic: %v", p)}
+				}
+			}()
+			r.v, r.err = f(ctx)
 		}()
-		v, err := f()
-		done <- result{v, err}
+		var ce *optimizer.CancelledError
+		stopped := errors.As(r.err, &ce)
+		// The slot is free, and the computation counted, before the
+		// answer is given.
+		<-s.slots
+		s.met.add(func(m *metrics) {
+			m.inFlight--
+			if stopped {
+				m.cancelled++
+			}
+		})
+		done <- r
 	}()
 	select {
 	case r := <-done:
+		if r.err != nil && ctx.Err() != nil {
+			return zero, timeoutErr(s) // stopped by the time limit
+		}
 		return r.v, r.err
 	case <-ctx.Done():
+		grace := time.NewTimer(cancelGrace)
+		defer grace.Stop()
+		select {
+		case <-done:
+		case <-grace.C:
+		}
 		return zero, timeoutErr(s)
 	}
 }
