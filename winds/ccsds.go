@@ -76,7 +76,6 @@ type aecDecoder struct {
 	a, b       float64
 	buf        [64]uint32
 	blockStart uint64 // bit offset of the current block, for errors
-	err        string
 }
 
 // aecError is a failed decode: what went wrong and the byte offset in data.

@@ -67,7 +67,10 @@ func FuzzParseShard(f *testing.F) {
 		if k < 0 || k >= n || n > MaxShards {
 			t.Fatalf("ParseShard(%q) = %d/%d", s, k, n)
 		}
-		InShard(s, k, n) // must not panic
+		_ = InShard(s, k, n) // must not panic
+		if !InShard(s, 0, 1) {
+			t.Fatalf("InShard(%q, 0, 1) = false: one shard holds every flight", s)
+		}
 	})
 }
 
