@@ -154,7 +154,7 @@ func regularFile(what, path string, fi os.FileInfo) error {
 // already decoded (shared by batch runs).
 func (f *problemFlags) problem(c *cobra.Command, wx *winds.Field, stderr io.Writer) (*optimizer.Problem, error) {
 	if !slices.Contains(perf.BuiltinNames(), f.aircraft) {
-		if fi, err := os.Stat(f.aircraft); err == nil {
+		if fi, err := os.Stat(f.aircraft); err == nil && !fi.IsDir() { // a directory holds operator tables
 			if err := regularFile("aircraft file", f.aircraft, fi); err != nil {
 				return nil, err
 			}
