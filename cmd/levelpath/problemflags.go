@@ -208,7 +208,7 @@ func (f *problemFlags) problem(c *cobra.Command, wx *winds.Field, stderr io.Writ
 		}
 		p.ZFW = f.zfw
 	case f.mass == 0 && (f.zfw > 0) != (f.fuel > 0) || f.mass == 0 && f.zfw == 0 && f.fuel == 0:
-		return nil, badInputf("--mass (kg) or both --zfw and --fuel are required")
+		return nil, badInputf("--mass (kg), --zfw alone (a fuel plan) or both --zfw and --fuel are required")
 	default:
 		if p.TakeoffMass, p.ZFW, err = (optimizer.Loading{TakeoffMass: f.mass, ZFW: f.zfw, Fuel: f.fuel}).Resolve(a); err != nil {
 			return nil, badInput(err)

@@ -100,8 +100,16 @@ func (s *Server) priced(w http.ResponseWriter, r *http.Request, kind string) err
 		pr := in.problem
 		pr.LegCeilings = true
 		var plan *optimizer.Plan
+		if kind == "assess" && in.fuelZFW > 0 {
+			return result{}, fieldErr("mass", "assess prices a given loading: give mass, or zfw with fuel")
+		}
 		if kind == "assess" {
 			plan, err = optimizer.AssessContext(ctx, pr, prof)
+		} else if in.fuelZFW > 0 {
+			// The dispatch fuel plan under the default policy (ICAO
+			// Annex 6 Part I 4.3.6.3 components), the final reserve held
+			// over the destination.
+			plan, err = optimizer.PlanFuel(optimizer.FuelRequest{Problem: pr, ZFW: in.fuelZFW, Policy: optimizer.DefaultFuelPolicy()})
 		} else {
 			plan, err = optimizer.SolveContext(ctx, pr)
 			if err == nil && body.Alternatives > 0 {

@@ -283,7 +283,7 @@ func TestCLIMessages(t *testing.T) {
 	s := testServer(t, nil)
 	m := shortFlight()
 	delete(m, "mass")
-	if a := call(t, s.Handler(), "POST", "/v1/plan", m); a.doc["error"] != "--mass (kg) or both --zfw and --fuel are required" {
+	if a := call(t, s.Handler(), "POST", "/v1/plan", m); a.doc["error"] != "--mass (kg), --zfw alone (a fuel plan) or both --zfw and --fuel are required" {
 		t.Errorf("got %q", a.doc["error"])
 	}
 	m = shortFlight()

@@ -62,6 +62,7 @@ type inputs struct {
 	weatherDigests []string
 	routeDigest    string   // SHA-256 of the route file, or "inline:" and that of the route as sent
 	warnings       []string // from reading the route and dates
+	fuelZFW        float64  // > 0: a fuel plan from this zero-fuel mass (zfw without mass or fuel)
 }
 
 // problem builds the optimizer problem as the command line's
@@ -89,13 +90,28 @@ func (s *Server) problem(req *planRequest) (*inputs, error) {
 			return nil, fieldErr("mass", "--mass %v: want a take-off mass in kg", mass)
 		}
 	}
+	fuelZFW := 0.0
+	if mass == 0 && req.ZFW > 0 && req.Fuel == 0 {
+		// A fuel plan: the take-off mass is solved from the ZFW (as
+		// levelpath plan --zfw does); the ZFW stands in until then.
+		if req.ZFW > a.MZFW {
+			return nil, fieldErr("zfw", "--zfw %.0f kg is over MZFW %.0f kg of %s", req.ZFW, a.MZFW, a.Name)
+		}
+		fuelZFW, mass = req.ZFW, req.ZFW
+		in.fuelZFW = fuelZFW
+	}
 	if mass == 0 && (req.ZFW > 0) != (req.Fuel > 0) || mass == 0 && req.ZFW == 0 && req.Fuel == 0 {
-		return nil, fieldErr("mass", "--mass (kg) or both --zfw and --fuel are required")
+		return nil, fieldErr("mass", "--mass (kg), --zfw alone (a fuel plan) or both --zfw and --fuel are required")
 	}
 	if err := optimizer.CheckFloor(floor); err != nil {
 		return nil, fieldErr("floor", "--floor: %v", err)
 	}
-	if p.TakeoffMass, p.ZFW, err = (optimizer.Loading{TakeoffMass: mass, ZFW: req.ZFW, Fuel: req.Fuel}).Resolve(a); err != nil {
+	if fuelZFW > 0 {
+		if p.TakeoffMass, _, err = (optimizer.Loading{TakeoffMass: mass}).Resolve(a); err != nil {
+			return nil, optimizerErr(err)
+		}
+		p.ZFW = fuelZFW
+	} else if p.TakeoffMass, p.ZFW, err = (optimizer.Loading{TakeoffMass: mass, ZFW: req.ZFW, Fuel: req.Fuel}).Resolve(a); err != nil {
 		return nil, optimizerErr(err)
 	}
 	if len(req.Weather) > 0 {

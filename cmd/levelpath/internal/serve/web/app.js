@@ -90,7 +90,7 @@ function show(ans, id) {
   const items = [
     ["Profile", p.profile], ["Aircraft", p.aircraft], ["Departure", p.depart],
     ["Take-off mass", f0(p.takeoff_mass_kg) + " kg"], ["Distance", f0(p.distance_nm) + " NM"],
-    ["Trip fuel", f0(p.totals.fuel_kg) + " kg"], ["Flight time", hm(p.totals.time_min)],
+    ["Trip fuel, 1,500 ft to 1,500 ft", f0(p.totals.fuel_kg) + " kg"], ["Flight time", hm(p.totals.time_min)],
     ["Cost (fuel + CI x time)", f0(p.totals.cost) + " kg"], ["CO2", f0(p.totals.co2_kg) + " kg"],
     ["Landing mass", f0(p.totals.landing_mass_kg) + " kg"], ["Least buffet margin", f2(p.min_margin_g) + " g"],
     ["Floor / CI / speed", f2(p.floor_g) + " g / " + p.ci + " / " + p.speed],
@@ -104,7 +104,26 @@ function show(ans, id) {
     div.append(dt, dd);
     dl.appendChild(div);
   }
-  $("summary").replaceChildren(dl);
+  const blocks = [dl];
+  if (p.fuel) {
+    // The dispatch fuel block (ICAO Annex 6 components), as levelpath plan --zfw prints it.
+    const f = p.fuel;
+    const h = document.createElement("h3"); h.textContent = "Fuel (policy " + f.policy + ")";
+    const t = document.createElement("table"); t.className = "fuel";
+    for (const [k, v] of [["Taxi", f.taxi_kg], ["Trip", f.trip_kg], ["Contingency (" + f.contingency_basis + ")", f.contingency_kg],
+      ["Alternate", f.alternate_kg], ["Final reserve", f.final_reserve_kg], ["Additional", f.additional_kg], ["Extra", f.extra_kg],
+      ["Block", f.block_kg], ["ZFW", f.zfw_kg], ["Take-off mass", f.takeoff_mass_kg], ["Landing mass", f.landing_mass_kg]]) {
+      const tr = document.createElement("tr");
+      const th = document.createElement("th"); th.scope = "row"; th.textContent = k;
+      const td = document.createElement("td"); td.textContent = f0(v) + " kg";
+      tr.append(th, td); t.appendChild(tr);
+    }
+    const lim = document.createElement("p");
+    lim.textContent = (f.limited_by ? "Limited by " + f.limited_by + ". " : "") +
+      (f.max_payload_zfw_kg != null ? "Largest ZFW that fits: " + f0(f.max_payload_zfw_kg) + " kg (" + f.binding_limit + " binds)." : "");
+    blocks.push(h, t, lim);
+  }
+  $("summary").replaceChildren(...blocks);
   const ul = document.createElement("ul");
   for (const w of p.warnings || []) { const li = document.createElement("li"); li.textContent = w; ul.appendChild(li); }
   for (const v of p.violations || []) {
