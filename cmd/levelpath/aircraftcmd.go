@@ -12,8 +12,6 @@ import (
 	"levelpath/perf"
 )
 
-func init() { subcommands = append(subcommands, newAircraftCmd) }
-
 // aircraftJSON describes one aircraft model: limits, engines and the
 // envelope at a reference mass (90 % of MTOW, ISA, 1.3 g floor).
 type aircraftJSON struct {

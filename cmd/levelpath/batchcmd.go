@@ -11,6 +11,7 @@ import (
 	"os/signal"
 	"path/filepath"
 	"strconv"
+	"strings"
 	"syscall"
 	"text/tabwriter"
 	"time"
@@ -23,8 +24,6 @@ import (
 	"levelpath/optimizer/batch"
 	"levelpath/perf"
 )
-
-func init() { subcommands = append(subcommands, newBatchCmd) }
 
 const exitSomeFailed = 3
 
@@ -237,6 +236,10 @@ func batchError(err error) error {
 	var ie *batch.InputError
 	var fe *batch.FormatError
 	if errors.As(err, &ie) || errors.As(err, &fe) || errors.Is(err, fs.ErrNotExist) {
+		// The library speaks of its options; say the flag a user types.
+		if msg := err.Error(); strings.Contains(msg, "Options.Resume") {
+			return badInputf("%s", strings.ReplaceAll(msg, "Options.Resume", "--resume"))
+		}
 		return badInput(err)
 	}
 	return err

@@ -9,8 +9,6 @@ import (
 	"levelpath/cmd/levelpath/internal/demo"
 )
 
-func init() { subcommands = append(subcommands, newDemoCmd) }
-
 func newDemoCmd() *cobra.Command {
 	var dir string
 	c := &cobra.Command{

@@ -13,8 +13,6 @@ import (
 	"levelpath/perf"
 )
 
-func init() { subcommands = append(subcommands, newEnvelopeCmd) }
-
 func newEnvelopeCmd() *cobra.Command {
 	var (
 		acName string

@@ -15,8 +15,6 @@ import (
 	"levelpath/winds"
 )
 
-func init() { subcommands = append(subcommands, newGridCmd) }
-
 func newGridCmd() *cobra.Command {
 	c := &cobra.Command{Use: "grid", Short: "Inspect and sample GRIB weather files"}
 	c.AddCommand(newGridInfoCmd(), newGridSampleCmd())

@@ -11,8 +11,6 @@ import (
 	"levelpath/optimizer/planjson"
 )
 
-func init() { subcommands = append(subcommands, newPlanCmd, newAssessCmd) }
-
 func writePlan(w io.Writer, format string, p *optimizer.Plan, assessed, brief bool) error {
 	switch format {
 	case "json":

@@ -107,9 +107,17 @@ func markRunErrors(c *cobra.Command) {
 	}
 }
 
-// subcommands lists constructors of the subcommands; each file that defines
-// one appends to it in an init function.
+// subcommands lists the constructors of every command (tests may append a
+// command of their own). It is filled in one place, init below, because
+// demo builds a root command of its own to plan the demo flight.
 var subcommands []func() *cobra.Command
+
+func init() {
+	subcommands = []func() *cobra.Command{
+		newDemoCmd, newPlanCmd, newAssessCmd, newEnvelopeCmd, newRouteCmd,
+		newGridCmd, newBatchCmd, newAircraftCmd, newServeCmd,
+	}
+}
 
 // run executes the command line and returns the process exit code.
 func run(args []string, stdout, stderr io.Writer) int {

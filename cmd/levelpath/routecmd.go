@@ -14,8 +14,6 @@ import (
 	"levelpath/route"
 )
 
-func init() { subcommands = append(subcommands, newRouteCmd) }
-
 type pointJSON struct {
 	Lat  float64 `json:"lat"`
 	Lon  float64 `json:"lon"`

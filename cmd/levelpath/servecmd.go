@@ -15,8 +15,6 @@ import (
 	"levelpath/cmd/levelpath/internal/serve"
 )
 
-func init() { subcommands = append(subcommands, newServeCmd) }
-
 func newServeCmd() *cobra.Command {
 	var (
 		addr, data, tokens, cert, key, db string

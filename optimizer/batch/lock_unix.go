@@ -29,7 +29,7 @@ func lockDir(dir string) (unlock func(), warning string, err error) {
 		f.Close()
 		switch {
 		case errors.Is(err, unix.EWOULDBLOCK):
-			return nil, "", inputErrorf("batch: output directory %s is in use by another levelpath run (it holds the lock on %s): wait for that run to end, or choose another --out", dir, lockName)
+			return nil, "", inputErrorf("batch: output directory %s is in use by another levelpath run (it holds the lock on %s): wait for that run to end, or choose another output directory", dir, lockName)
 		case errors.Is(err, unix.ENOLCK), errors.Is(err, unix.EOPNOTSUPP), errors.Is(err, unix.ENOSYS):
 			return func() {}, fmt.Sprintf("batch: warning: the file system of %s does not support locks (%v): two runs on it are not kept apart", dir, err), nil
 		}

@@ -133,7 +133,7 @@ func Merge(dirs []string, out string) (Summary, error) {
 		if rec.Plan != "" {
 			src := filepath.Join(dir, filepath.FromSlash(rec.Plan))
 			if d, err := fileDigest(context.Background(), src); err != nil || d != rec.PlanSHA256 {
-				return Summary{}, &FormatError{File: src, Msg: "plan file missing, unreadable or not matching the digest in its record: run that shard again with --resume"}
+				return Summary{}, &FormatError{File: src, Msg: "plan file missing, unreadable or not matching the digest in its record: resume that shard's run (Options.Resume)"}
 			}
 			if err := linkOrCopy(filepath.Join(dir, filepath.FromSlash(rec.Plan)), filepath.Join(out, filepath.FromSlash(rec.Plan))); err != nil {
 				return Summary{}, fmt.Errorf("merge: %w", err)

@@ -392,7 +392,7 @@ func readManifest(dir string) (manifest, error) {
 	data, err := os.ReadFile(filepath.Join(dir, manifestName))
 	if err != nil {
 		if os.IsNotExist(err) {
-			return m, fmt.Errorf("%s: no %s: the run there did not finish; complete it with --resume first", dir, manifestName)
+			return m, fmt.Errorf("%s: no %s: the run there did not finish; complete it first (resume it: Options.Resume)", dir, manifestName)
 		}
 		return m, err
 	}

@@ -107,7 +107,7 @@ func (p *progress) end(stopped bool, pending int) {
 		fmt.Fprintln(p.w)
 	}
 	if stopped {
-		fmt.Fprintf(p.w, "batch: stopped with %d plans not made; the records written are kept (rerun with --resume)\n", pending)
+		fmt.Fprintf(p.w, "batch: stopped with %d plans not made; the records written are kept (resume the run to finish)\n", pending)
 		return
 	}
 	fmt.Fprintf(p.w, "batch: %d plans made in %s, %d failed\n", p.done, now.Sub(p.start).Round(time.Millisecond), p.failed)

@@ -6,6 +6,7 @@ import (
 	"encoding/json"
 	"fmt"
 	"hash/fnv"
+	"io"
 	"math"
 	"os"
 	"path/filepath"
@@ -216,33 +217,12 @@ func resultRecord(row *Row, ci float64, res Result, planErr error) record {
 	return rec
 }
 
-// atomicWrite writes data to dir/name through a temporary file in the same
-// directory and a rename, so a reader (or a resumed run) sees the old file
-// or the whole new one, never a torn one. It does not fsync: a process kill
-// or Ctrl-C loses nothing, while after a power loss a record may be empty
-// and a resumed run then re-plans that flight (unreadable records count as
-// missing).
+// atomicWrite writes data to dir/name with WriteFileAtomic.
 func atomicWrite(dir, name string, data []byte) error {
-	f, err := os.CreateTemp(dir, tmpPrefix+"*")
-	if err != nil {
+	return WriteFileAtomic(filepath.Join(dir, name), func(w io.Writer) error {
+		_, err := w.Write(data)
 		return err
-	}
-	tmp := f.Name()
-	_, err = f.Write(data)
-	if err == nil {
-		err = f.Chmod(0o644)
-	}
-	if cerr := f.Close(); err == nil {
-		err = cerr
-	}
-	if err == nil {
-		err = os.Rename(tmp, filepath.Join(dir, name))
-	}
-	if err != nil {
-		os.Remove(tmp)
-		return fmt.Errorf("writing %s: %w", filepath.Join(dir, name), err)
-	}
-	return nil
+	})
 }
 
 // planPath is the Plan field of the record file name: the plan's path

@@ -305,7 +305,7 @@ func stopped(ctx context.Context, err error, pending, total int, out string) err
 	if ctx.Err() == nil {
 		return err
 	}
-	return fmt.Errorf("%w: %d of %d plans not made, records kept in %s (rerun with --resume): %w",
+	return fmt.Errorf("%w: %d of %d plans not made, records kept in %s (resume the run to finish): %w",
 		ErrStopped, pending, total, out, ctx.Err())
 }
 
@@ -476,7 +476,7 @@ func prepareOut(out string, resume bool) (int, error) {
 		}
 	}
 	if records > 0 && !resume {
-		return 0, inputErrorf("batch: output directory %s already holds %d records of an earlier run: pass --resume to continue it, or choose a fresh directory", out, records)
+		return 0, inputErrorf("batch: output directory %s already holds %d records of an earlier run: resume it (Options.Resume) to continue, or choose a fresh directory", out, records)
 	}
 	if err := os.Remove(filepath.Join(out, manifestName)); err != nil && !errors.Is(err, os.ErrNotExist) {
 		return 0, fmt.Errorf("batch: %w", err)

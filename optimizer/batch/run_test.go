@@ -80,7 +80,7 @@ func TestShardsMergeEqualWholeRun(t *testing.T) {
 
 	// Merging again into a directory that holds records is refused, as is
 	// an incomplete set of shards or a shard given twice.
-	if _, err := Merge(shardDirs, merged); err == nil || !strings.Contains(err.Error(), "--resume") {
+	if _, err := Merge(shardDirs, merged); err == nil || !strings.Contains(err.Error(), "Options.Resume") {
 		t.Errorf("merge into a used directory: err = %v, want one asking for --resume or a fresh directory", err)
 	}
 	var me *MergeError
@@ -179,7 +179,7 @@ func TestCancelledRunResumesToWholeRun(t *testing.T) {
 	}
 
 	// Without --resume the directory is refused.
-	if _, err := Run(context.Background(), rows, bad, fakePlan, Options{Out: out}); err == nil || !strings.Contains(err.Error(), "--resume") {
+	if _, err := Run(context.Background(), rows, bad, fakePlan, Options{Out: out}); err == nil || !strings.Contains(err.Error(), "Options.Resume") {
 		t.Fatalf("rerun without resume: err = %v, want a message naming --resume", err)
 	}
 

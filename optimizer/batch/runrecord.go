@@ -98,7 +98,7 @@ func checkResume(out string, want runRecord, records int) error {
 		return nil
 	}
 	if got.Shard != want.Shard || got.Shards != want.Shards {
-		return inputErrorf("batch: --resume: %s holds shard %d/%d, this run is shard %d/%d: give the same --shard (or --shard-count and array index), or another --out", out, got.Shard, got.Shards, want.Shard, want.Shards)
+		return inputErrorf("batch: resume: %s holds shard %d/%d, this run is shard %d/%d: give the same shard, or another output directory", out, got.Shard, got.Shards, want.Shard, want.Shards)
 	}
 	if got.Fingerprint != want.Fingerprint {
 		var diff []string
@@ -115,7 +115,7 @@ func checkResume(out string, want runRecord, records int) error {
 		if !slices.Equal(got.Sweep, want.Sweep) || (got.Sweep == nil) != (want.Sweep == nil) {
 			diff = append(diff, fmt.Sprintf("sweep %v, now %v", got.Sweep, want.Sweep))
 		}
-		return inputErrorf("batch: --resume: %s was planned with other inputs or options (%s): its results cannot be mixed with this run's; rerun without --resume into a fresh directory", out, strings.Join(diff, "; "))
+		return inputErrorf("batch: resume: %s was planned with other inputs or options (%s): its results cannot be mixed with this run's; plan afresh into another directory", out, strings.Join(diff, "; "))
 	}
 	return nil
 }

@@ -9,12 +9,11 @@
 package chart
 
 import (
-	"bufio"
 	"fmt"
 	"image/color"
 	"io"
+	"levelpath/optimizer/batch"
 	"math"
-	"os"
 	"path/filepath"
 	"strconv"
 	"strings"
@@ -110,37 +109,11 @@ func CheckReportPath(path string) error {
 	return UnsupportedError(fmt.Sprintf("%s: a report is HTML; name the file .html", path))
 }
 
-func writeAtomic(path, format string, draw func(w io.Writer, format string) error) (err error) {
-	dir, base := filepath.Split(path)
-	if dir == "" {
-		dir = "."
-	}
-	f, err := os.CreateTemp(dir, "."+base+".*.tmp")
-	if err != nil {
-		return fmt.Errorf("chart: %s: %w", path, err)
-	}
-	tmp := f.Name()
-	defer func() {
-		if err != nil {
-			f.Close()
-			os.Remove(tmp)
-		}
-	}()
-	bw := bufio.NewWriter(f)
-	if err = draw(bw, format); err != nil {
-		return fmt.Errorf("chart: %s: %w", path, err)
-	}
-	if err = bw.Flush(); err != nil {
-		return fmt.Errorf("chart: %s: %w", path, err)
-	}
-	if err = f.Chmod(0o644); err != nil {
-		return fmt.Errorf("chart: %s: %w", path, err)
-	}
-	if err = f.Close(); err != nil {
-		return fmt.Errorf("chart: %s: %w", path, err)
-	}
-	if err = os.Rename(tmp, path); err != nil {
-		return fmt.Errorf("chart: %s: %w", path, err)
+// writeAtomic draws into path with batch.WriteFileAtomic (synced, renamed
+// into place, never torn).
+func writeAtomic(path, format string, draw func(w io.Writer, format string) error) error {
+	if err := batch.WriteFileAtomic(path, func(w io.Writer) error { return draw(w, format) }); err != nil {
+		return fmt.Errorf("chart: %w", err)
 	}
 	return nil
 }
