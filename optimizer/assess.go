@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"math"
+	"slices"
 	"time"
 
 	"levelpath/perf"
@@ -404,10 +405,5 @@ func (s *sim) nearestOpen(seg *route.Segment, end float64) string {
 }
 
 func containsInt(xs []int, x int) bool {
-	for _, y := range xs {
-		if y == x {
-			return true
-		}
-	}
-	return false
+	return slices.Contains(xs, x)
 }

@@ -61,7 +61,7 @@ func randomProblem(t testing.TB, rng *rand.Rand) (*Problem, string) {
 func TestAStarMatchesDijkstra(t *testing.T) {
 	rng := rand.New(rand.NewSource(13))
 	n, fewer := 0, 0
-	for i := 0; i < 16; i++ {
+	for range 16 {
 		p, desc := randomProblem(t, rng)
 		for _, exact := range []bool{true, false} {
 			p.Exact = exact
@@ -154,7 +154,7 @@ func TestDefaultWithinExact(t *testing.T) {
 			Weather: wx, Depart: ref.Add(2 * time.Hour), TakeoffMass: 245000, CI: 40}},
 	}
 	rng := rand.New(rand.NewSource(17))
-	for i := 0; i < 8; i++ {
+	for range 8 {
 		p, desc := randomProblem(t, rng)
 		cases = append(cases, struct {
 			name string

@@ -96,7 +96,7 @@ const guessMargin = 1.11
 func (s *solver) guessCost() float64 {
 	stride := len(s.conds)/8 + 1
 	u := math.Inf(1)
-	for i := 0; i < 3; i++ {
+	for range 3 {
 		_, H := s.bound(u, stride)
 		if !(H[0] > 0) {
 			return math.Inf(1)

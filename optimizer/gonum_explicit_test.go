@@ -6,7 +6,7 @@ package optimizer
 
 import (
 	"math"
-	"sort"
+	"slices"
 
 	"gonum.org/v1/gonum/graph"
 	"gonum.org/v1/gonum/graph/path"
@@ -86,7 +86,7 @@ func buildExplicit(s *solver) *Explicit {
 	expand(sourceID)
 	for k := range layers {
 		ids := layers[k]
-		sort.Slice(ids, func(i, j int) bool { return ids[i] < ids[j] })
+		slices.Sort(ids)
 		for _, id := range ids {
 			expand(id)
 		}

@@ -3,6 +3,7 @@ package optimizer
 import (
 	"fmt"
 	"math"
+	"strings"
 	"testing"
 	"time"
 
@@ -22,15 +23,16 @@ func BenchmarkPlanLongHaulDefault(b *testing.B) {
 // heading 60 degrees true (across the Pacific in the invented weather),
 // cut into 10 NM segments, every 1,000 ft allowed from FL100.
 func scaleTrack(b testing.TB, nm float64) *route.Track {
-	pts := "35,140"
+	var pts strings.Builder
+	pts.WriteString("35,140")
 	for d := 2000.0; ; d += 2000 {
 		lat, lon, _ := route.Direct(35, 140, 60, math.Min(d, nm)*nmToM)
-		pts += fmt.Sprintf(" %.6f,%.6f", lat, route.NormalizeLon(lon))
+		pts.WriteString(fmt.Sprintf(" %.6f,%.6f", lat, route.NormalizeLon(lon)))
 		if d >= nm {
 			break
 		}
 	}
-	return track(b, pts, "every-1000", 10)
+	return track(b, pts.String(), "every-1000", 10)
 }
 
 // BenchmarkPlanScale plans routes of 500 to 8,000 NM with 10 NM segments

@@ -270,17 +270,11 @@ func (x *nodeIndex) cell(st state) *int32 {
 	r := &x.rows[st.k*x.levels+st.li]
 	per := x.nsteps * x.nsince
 	if r.cells == nil {
-		r.base = st.b - 2
-		if r.base < 0 {
-			r.base = 0
-		}
+		r.base = max(st.b-2, 0)
 		r.cells = fillEmpty(make([]int32, 8*per))
 	}
 	if st.b < r.base {
-		nb := st.b - 4
-		if nb < 0 {
-			nb = 0
-		}
+		nb := max(st.b-4, 0)
 		grown := fillEmpty(make([]int32, len(r.cells)+(r.base-nb)*per))
 		copy(grown[(r.base-nb)*per:], r.cells)
 		r.base, r.cells = nb, grown

@@ -3,6 +3,7 @@ package optimizer
 import (
 	"context"
 	"math"
+	"slices"
 	"sort"
 
 	"levelpath/perf"
@@ -113,10 +114,7 @@ func newSolver(p *Problem) (*solver, error) {
 		s.allow[k] = row
 	}
 	if p.Steps.MinDistance > 0 {
-		s.sinceCap = int(math.Ceil(p.Steps.MinDistance/minLen)) + 1
-		if s.sinceCap > 1000 {
-			s.sinceCap = 1000
-		}
+		s.sinceCap = min(int(math.Ceil(p.Steps.MinDistance/minLen))+1, 1000)
 	}
 	s.mergeSince = !p.Exact
 	s.machStep, s.devStep, s.bisect = machStep, devStep, 12
@@ -124,10 +122,7 @@ func newSolver(p *Problem) (*solver, error) {
 		s.bisect = 8
 		s.machStep, s.devStep = 2*machStep, 2*devStep
 	}
-	s.stepCap = p.Steps.MaxSteps
-	if s.stepCap > 60 {
-		s.stepCap = 60
-	}
+	s.stepCap = min(p.Steps.MaxSteps, 60)
 	conds, err := buildConds(p, s.levels)
 	if err != nil {
 		return nil, err
@@ -141,10 +136,8 @@ func newSolver(p *Problem) (*solver, error) {
 func blocked(bs []Block, from, to float64, fl int) bool {
 	for _, b := range bs {
 		if b.FromDist < to && b.ToDist > from {
-			for _, x := range b.Levels {
-				if x == fl {
-					return true
-				}
+			if slices.Contains(b.Levels, fl) {
+				return true
 			}
 		}
 	}

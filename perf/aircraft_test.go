@@ -150,8 +150,8 @@ func TestParseValidation(t *testing.T) {
 func TestParseShortBuffet(t *testing.T) {
 	base, _ := builtinFS.ReadFile("aircraft/demo-narrowbody.yaml")
 	src := string(base)
-	i := strings.Index(src, "buffet:\n")
-	data := src[:i] + "buffet:\n  - [0.5, 1.0]\n  - [0.9, 0.5]\n"
+	before, _, _ := strings.Cut(src, "buffet:\n")
+	data := before + "buffet:\n  - [0.5, 1.0]\n  - [0.9, 0.5]\n"
 	_, err := Parse([]byte(data), "short.yaml")
 	var fe *FieldError
 	if !errors.As(err, &fe) || fe.Field != "buffet" || !strings.Contains(fe.Reason, "at least 3") {

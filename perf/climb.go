@@ -137,10 +137,7 @@ func (a *Aircraft) transition(mass, fromP, toP, isaDev float64, s *Schedule, cli
 	}
 	for k := 0; k < np; k++ {
 		ha0, hb0 := pieces[k], pieces[k+1]
-		n := int(math.Ceil(math.Abs(hb0-ha0) / maxSubStep))
-		if n < 1 {
-			n = 1
-		}
+		n := max(int(math.Ceil(math.Abs(hb0-ha0)/maxSubStep)), 1)
 		dh := (hb0 - ha0) / float64(n)
 		for i := 0; i < n; i++ {
 			ha := ha0 + float64(i)*dh

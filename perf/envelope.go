@@ -83,7 +83,7 @@ func (a *Aircraft) Envelope(mass, isaDev, floor float64) (Envelope, error) {
 	env.Rows = make([]EnvelopeRow, 0, nrows)
 	bestRow, bestSR := -1, math.Inf(-1)
 	cosL := math.Cos(a.Sweep)
-	for i := 0; i < nrows; i++ {
+	for i := range nrows {
 		fl := envelopeLowFL + 10*float64(i)
 		p := FLToPressure(fl)
 		tisa := isaTemperatureAtPressure(p)

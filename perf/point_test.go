@@ -32,7 +32,7 @@ func TestBreguetCruiseClimb(t *testing.T) {
 	const steps = 4000
 	dm := (m1 - m2) / steps
 	var r float64
-	for i := 0; i < steps; i++ {
+	for i := range steps {
 		m := m1 - (float64(i)+0.5)*dm
 		pt := a.Point(State{Mass: m, Pressure: p1 * m / m1, Mach: mach})
 		if math.Abs(pt.CL-pt1.CL) > 1e-12 {

@@ -23,7 +23,7 @@ func brentMin(a, b, tol float64, f func(float64) float64) (xmin, fmin float64) {
 	fx := f(x)
 	fw, fv := fx, fx
 	var d, e float64
-	for iter := 0; iter < 200; iter++ {
+	for range 200 {
 		xm := 0.5 * (a + b)
 		if math.Abs(x-xm) <= tol2-0.5*(b-a) {
 			break

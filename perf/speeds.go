@@ -50,7 +50,7 @@ func (a *Aircraft) buffetMachs(mass, p, n float64) (lo, hi float64, beyond, ok b
 	}
 	// Peak of h(M) = M² CL(M).
 	peakM, peakH, peakSeg := machSearchMin, -1.0, 0
-	for j := 0; j < nseg; j++ {
+	for j := range nseg {
 		x0, y0, x1, y1 := seg(j)
 		if x1 <= x0 {
 			continue

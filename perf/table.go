@@ -77,7 +77,7 @@ func (g *Grid) At(x ...float64) (float64, error) {
 	var sum float64
 	for c := 0; c < 1<<n; c++ {
 		w, off := 1.0, 0
-		for i := 0; i < n; i++ {
+		for i := range n {
 			k := idx[i]
 			if c&(1<<i) != 0 {
 				if len(g.Axes[i].Values) == 1 {

@@ -81,7 +81,7 @@ func ParseLevelRule(s string) (LevelRule, error) {
 			return bad(s, "lists no levels; want list:FL,FL,...")
 		}
 		r.Min, r.Max = 0, 0
-		for _, f := range strings.Split(arg, ",") {
+		for f := range strings.SplitSeq(arg, ",") {
 			fl, err := ParseFL(f)
 			if err != nil {
 				return bad(f, err.Error())

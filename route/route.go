@@ -202,8 +202,8 @@ func ParseInline(s string) (*Route, error) {
 	pts := make([]Point, 0, len(fields))
 	for i, f := range fields {
 		name := ""
-		if k := strings.IndexByte(f, '='); k >= 0 {
-			name, f = f[:k], f[k+1:]
+		if before, after, ok := strings.Cut(f, "="); ok {
+			name, f = before, after
 		}
 		if name == "" {
 			name = "P" + strconv.Itoa(i+1)

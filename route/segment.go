@@ -192,7 +192,7 @@ func Build(r *Route, opt Options) (*Track, error) {
 		line.init(leg.From.Lat, leg.From.Lon, leg.InitialCourse)
 		step := leg.Length / float64(n)
 		start := leg.From
-		for k := 0; k < n; k++ {
+		for k := range n {
 			s0, s1 := float64(k)*step, float64(k+1)*step
 			end := leg.To
 			if k < n-1 {

@@ -223,7 +223,7 @@ func TestBuildPast85N(t *testing.T) {
 // the northern hemisphere (inputs only; no value below is a check value).
 func route100(t testing.TB) *Route {
 	var b strings.Builder
-	for k := 0; k < 100; k++ {
+	for k := range 100 {
 		lat := 45 + 15*math.Sin(float64(k)/6)
 		lon := -170 + 3.5*float64(k)
 		fmt.Fprintf(&b, "W%d=%.4f,%.4f ", k, lat, NormalizeLon(lon))

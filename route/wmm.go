@@ -133,7 +133,7 @@ func (w *wmmModel) field(lat, lon, altM float64) (x, y, z float64) {
 		p[n][n] = p[n-1][n-1] * s * k
 		dp[n][n] = (dp[n-1][n-1]*s + p[n-1][n-1]*c) * k
 	}
-	for m := 0; m < wmmN; m++ {
+	for m := range wmmN {
 		for n := max(m+1, 2); n <= wmmN; n++ {
 			a, b := wmmRoots.a[n][m], wmmRoots.b[n][m]
 			f := float64(2*n - 1)

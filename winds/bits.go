@@ -27,7 +27,7 @@ func (b *bitReader) read(n uint) uint32 {
 		return uint32((w << shift) >> (64 - n))
 	}
 	var w uint64
-	for i := uint64(0); i < 8; i++ {
+	for i := range uint64(8) {
 		w <<= 8
 		if byteOff+i < uint64(len(b.buf)) {
 			w |= uint64(b.buf[byteOff+i])

@@ -115,7 +115,7 @@ func (d *grib2Decoder) unpackComplex(data []byte, at int) ([]float32, error) {
 	xs := d.scratch.int64s(n)
 	k := 0
 	refMiss1 := uint32(1)<<uint(r.nbits) - 1
-	for g := 0; g < ng; g++ {
+	for g := range ng {
 		w, ref, l := uint(widths[g]), int64(refs[g]), int(lengths[g])
 		dst := xs[k : k+l]
 		k += l

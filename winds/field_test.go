@@ -30,8 +30,8 @@ func synthetic(p Param, levels []float64, hours []int, fn func(lat, lon, p float
 				ValidTime: t0.Add(time.Duration(h) * time.Hour), Ni: 36, Nj: 19, Lat1: 90, Lon1: 0,
 				Lat2: -90, Lon2: 350, Di: 10, Dj: 10, Ensemble: -1}
 			m.Values = make([]float32, 36*19)
-			for j := 0; j < 19; j++ {
-				for i := 0; i < 36; i++ {
+			for j := range 19 {
+				for i := range 36 {
 					m.Values[j*36+i] = float32(fn(90-10*float64(j), 10*float64(i), l, m.ValidTime))
 				}
 			}

@@ -569,7 +569,7 @@ func (s *decodeScratch) canonical(vals []float32, bm []byte, npoints, ni, nj, mo
 	}
 	iNeg, jPos, jCons, alt := mode&0x80 != 0, mode&0x40 != 0, mode&0x20 != 0, mode&0x10 != 0
 	if !jCons {
-		for j := 0; j < nj; j++ {
+		for j := range nj {
 			if iNeg != (alt && j%2 == 1) {
 				slices.Reverse(v[j*ni : (j+1)*ni])
 			}

@@ -2,6 +2,7 @@ package winds
 
 import (
 	"fmt"
+	"maps"
 	"math"
 	"sort"
 	"strings"
@@ -72,15 +73,13 @@ func layout(msgs []Message) (*Field, error) {
 	for s := slotT; s > slotU; s-- {
 		if r := leader[s]; r != s {
 			rawLevels[r] = append(rawLevels[r], rawLevels[s]...)
-			for k, v := range tset[s] {
-				tset[r][k] = v
-			}
+			maps.Copy(tset[r], tset[s])
 		}
 	}
 	for s := slotU; s <= slotT; s++ {
 		rawLevels[s], tset[s] = rawLevels[leader[s]], tset[leader[s]]
 	}
-	for s := 0; s < nslots; s++ {
+	for s := range nslots {
 		if first[s] == nil {
 			continue
 		}
@@ -126,7 +125,7 @@ func layout(msgs []Message) (*Field, error) {
 	// missing planes are NaN (no turbulence information there).
 	var missing []string
 	edrGaps := false
-	for s := 0; s < nslots; s++ {
+	for s := range nslots {
 		a := f.ax[s]
 		if a == nil {
 			continue
@@ -151,7 +150,7 @@ func layout(msgs []Message) (*Field, error) {
 		}
 		return nil, fmt.Errorf("winds: missing fields: %s%s", strings.Join(missing, "; "), more)
 	}
-	for s := 0; s < nslots; s++ {
+	for s := range nslots {
 		if a := f.ax[s]; a != nil {
 			f.vars[s] = make([]float32, len(a.times)*len(a.levels)*a.plane)
 		}

@@ -29,7 +29,7 @@ func BenchmarkOpenQuarterDegree(b *testing.B) {
 	levels := []float64{100000, 92500, 85000, 70000, 50000, 40000, 30000, 25000, 20000, 15000, 10000, 7000}
 	vals := make([]float32, ni*nj)
 	var paths []string
-	for h := 0; h < 5; h++ {
+	for h := range 5 {
 		p := filepath.Join(dir, fmt.Sprintf("t%d.grib2", h))
 		f, err := os.Create(p)
 		if err != nil {

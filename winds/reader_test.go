@@ -147,7 +147,7 @@ func TestConcatenated(t *testing.T) {
 	}
 	names = append(names, readerFixtures+"/g2_area.grib2", readerFixtures+"/g2_products.grib2")
 	rng := rand.New(rand.NewPCG(3, 4))
-	for trial := 0; trial < 4; trial++ {
+	for trial := range 4 {
 		rng.Shuffle(len(names), func(i, j int) { names[i], names[j] = names[j], names[i] })
 		var stream []byte
 		var want []Message

@@ -60,7 +60,7 @@ type loc struct {
 
 func (l *loc) interp(v []float32, plane int) float64 {
 	var acc float64
-	for q := 0; q < 4; q++ {
+	for q := range 4 {
 		pl := v[l.planes[q] : l.planes[q]+plane]
 		c := l.w[0]*float64(pl[l.o[0]]) + l.w[1]*float64(pl[l.o[1]]) + l.w[2]*float64(pl[l.o[2]]) + l.w[3]*float64(pl[l.o[3]])
 		acc += l.pw[q] * c

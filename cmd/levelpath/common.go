@@ -4,6 +4,7 @@ import (
 	"encoding/json"
 	"fmt"
 	"io"
+	"slices"
 	"strings"
 
 	"github.com/spf13/cobra"
@@ -20,10 +21,8 @@ func formatFlag(c *cobra.Command, allowed ...string) *string {
 
 // checkFormat validates a --format value.
 func checkFormat(got string, allowed ...string) error {
-	for _, a := range allowed {
-		if got == a {
-			return nil
-		}
+	if slices.Contains(allowed, got) {
+		return nil
 	}
 	return badInputf("--format %q: want one of %s", got, strings.Join(allowed, ", "))
 }

@@ -3,6 +3,7 @@ package main
 import (
 	"fmt"
 	"path/filepath"
+	"strings"
 
 	"github.com/spf13/cobra"
 
@@ -46,10 +47,10 @@ that made it. Everything in the scenario is invented.`,
 
 // shellJoin quotes arguments that need it.
 func shellJoin(args []string) string {
-	s := ""
+	var s strings.Builder
 	for i, a := range args {
 		if i > 0 {
-			s += " "
+			s.WriteString(" ")
 		}
 		q := false
 		for _, r := range a {
@@ -58,10 +59,10 @@ func shellJoin(args []string) string {
 			}
 		}
 		if q || a == "" {
-			s += "'" + a + "'"
+			s.WriteString("'" + a + "'")
 		} else {
-			s += a
+			s.WriteString(a)
 		}
 	}
-	return s
+	return s.String()
 }

@@ -30,7 +30,7 @@ func TestBatchKilledAndResumed(t *testing.T) {
 	fs := demoFiles(t)
 	var sb strings.Builder
 	sb.WriteString("flight,departure,route,aircraft,tow_kg,ci\n")
-	for i := 0; i < 40; i++ {
+	for i := range 40 {
 		fmt.Fprintf(&sb, "K%02d,2026-12-01T%02d:%02d:00Z,route-lakeport.geojson,demo-regional,%d,%d\n", i, 20+i/20, (i*3)%60, 34000+50*i, i%5*10)
 	}
 	sched := filepath.Join(fs.Dir, "sched-kill.csv")
@@ -128,7 +128,7 @@ func TestBatchFIFOInputsAndSIGTERM(t *testing.T) {
 
 	var sb strings.Builder
 	sb.WriteString("flight,departure,route,aircraft,tow_kg,ci\n")
-	for i := 0; i < 400; i++ {
+	for i := range 400 {
 		fmt.Fprintf(&sb, "S%03d,2026-12-01T20:%02d:00Z,route-lakeport.geojson,demo-regional,%d,10\n", i, i%60, 34000+10*i)
 	}
 	sched := filepath.Join(dir, "sched.csv")

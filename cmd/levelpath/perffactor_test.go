@@ -12,12 +12,12 @@ func TestPerfFactorAndISADevFlags(t *testing.T) {
 	fs := demoFiles(t)
 	args := []string{"plan", "--route", fs.Routes[2], "--aircraft", "demo-narrowbody", "--mass", "72000"}
 	d := planJSON(t, append(args, "--perf-factor", "3", "--isa-dev", "12")...)
-	warn := ""
+	var warn strings.Builder
 	for _, w := range d["warnings"].([]any) {
-		warn += w.(string) + "\n"
+		warn.WriteString(w.(string) + "\n")
 	}
-	if !strings.Contains(warn, "performance factor +3.0 %") || !strings.Contains(warn, "ISA+12") {
-		t.Errorf("warnings %q", warn)
+	if !strings.Contains(warn.String(), "performance factor +3.0 %") || !strings.Contains(warn.String(), "ISA+12") {
+		t.Errorf("warnings %q", warn.String())
 	}
 	for _, l := range d["legs"].([]any) {
 		if dev := l.(map[string]any)["isa_dev_c"].(float64); abs(dev-12) > 1e-9 {

@@ -334,7 +334,7 @@ func parseBlock(s string) (optimizer.Block, error) {
 		return b, badInputf("--block %q: distances must be numbers of NM with 0 <= FROM < TO <= %.0f", s, float64(maxBlockNM))
 	}
 	b.FromDist, b.ToDist = x*perf.NMToM, y*perf.NMToM
-	for _, l := range strings.Split(lv, ",") {
+	for l := range strings.SplitSeq(lv, ",") {
 		n, err := route.ParseFL(l)
 		if err != nil {
 			return b, badInputf("--block %q: level %q %v", s, l, err)
@@ -347,7 +347,7 @@ func parseBlock(s string) (optimizer.Block, error) {
 // parseTurbulence reads "0.20:1.5,0.45:closed".
 func parseTurbulence(s string) ([]optimizer.TurbulenceRule, error) {
 	var out []optimizer.TurbulenceRule
-	for _, part := range strings.Split(s, ",") {
+	for part := range strings.SplitSeq(s, ",") {
 		e, v, ok := strings.Cut(strings.TrimSpace(part), ":")
 		edr, err := strconv.ParseFloat(strings.TrimSpace(e), 64)
 		if !ok || err != nil || !(edr > 0) || math.IsInf(edr, 0) {

@@ -38,8 +38,8 @@ func readmeCommands(t *testing.T, path string) []string {
 			line = cur + " " + line
 			cur = ""
 		}
-		if strings.HasSuffix(line, `\`) {
-			cur = strings.TrimSpace(strings.TrimSuffix(line, `\`))
+		if before, ok := strings.CutSuffix(line, `\`); ok {
+			cur = strings.TrimSpace(before)
 			continue
 		}
 		if i := strings.Index(line, " #"); i >= 0 {
@@ -104,7 +104,7 @@ func TestReadmeCommands(t *testing.T) {
 	if code != 0 {
 		t.Fatalf("levelpath demo: exit %d: %s", code, errs)
 	}
-	for _, line := range strings.Split(errs, "\n") {
+	for line := range strings.SplitSeq(errs, "\n") {
 		if l := strings.TrimSpace(line); strings.HasPrefix(l, "levelpath ") {
 			cmds = append(cmds, l)
 		} else if i := strings.Index(l, ": levelpath "); i >= 0 {

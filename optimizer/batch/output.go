@@ -280,7 +280,7 @@ func resultsParquet(results []record, meta map[string]string) ([]byte, error) {
 		if p == nil {
 			return nil
 		}
-		return ptr(int64(*p))
+		return new(int64(*p))
 	}
 	rows := make([]parquetRow, len(results))
 	for i, r := range results {
@@ -294,7 +294,7 @@ func resultsParquet(results []record, meta map[string]string) ([]byte, error) {
 			if err != nil {
 				return nil, fmt.Errorf("record of flight %s: arrival %q: %w", r.Flight, r.Arrival, err)
 			}
-			arr = ptr(a.UnixMilli())
+			arr = new(a.UnixMilli())
 		}
 		rows[i] = parquetRow{Flight: r.Flight, CI: r.CI, Status: r.Status, Warnings: strings.Join(r.Warnings, warningSep),
 			Departure: dep.UnixMilli(), Arrival: arr, Aircraft: r.Aircraft, Row: int64(r.Row),

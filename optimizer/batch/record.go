@@ -133,7 +133,8 @@ func round(v float64, decimals int) float64 {
 	return r
 }
 
-func ptr[T any](v T) *T { return &v }
+//go:fix inline
+func ptr[T any](v T) *T { return new(v) }
 
 // finite reports whether v is neither NaN nor an infinity.
 func finite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
@@ -182,7 +183,7 @@ func resultRecord(row *Row, ci float64, res Result, planErr error) record {
 		if !finite(v) || v == 0 {
 			return nil
 		}
-		return ptr(v)
+		return new(v)
 	}
 	rec.Status = statusOK
 	switch {
@@ -192,10 +193,10 @@ func resultRecord(row *Row, ci float64, res Result, planErr error) record {
 		rec.Status = statusWarning
 	}
 	rec.Warnings = append(slices.Clone(res.Violations), res.Warnings...)
-	rec.FuelKg = ptr(res.Fuel)
-	rec.TimeMin = ptr(res.Time)
-	rec.Cost = ptr(res.Cost)
-	rec.CO2Kg = ptr(res.CO2)
+	rec.FuelKg = new(res.Fuel)
+	rec.TimeMin = new(res.Time)
+	rec.Cost = new(res.Cost)
+	rec.CO2Kg = new(res.CO2)
 	if d := time.Duration(math.Round(res.Time * 60e9)); finite(res.Time) && math.Abs(res.Time) < 1e6 {
 		rec.Arrival = row.Departure.UTC().Add(d).Format(time.RFC3339)
 	}
@@ -205,14 +206,14 @@ func resultRecord(row *Row, ci float64, res Result, planErr error) record {
 	rec.LandingMassKg = opt(res.LandingMass)
 	rec.FloorG = opt(res.Floor)
 	rec.Speed, rec.Levels = res.Speed, res.Levels
-	rec.InitialFL = ptr(res.InitialFL)
+	rec.InitialFL = new(res.InitialFL)
 	rec.Profile = res.Profile
-	rec.Steps = ptr(res.Steps)
+	rec.Steps = new(res.Steps)
 	if finite(res.MinMargin) {
-		rec.MinMarginG = ptr(res.MinMargin)
+		rec.MinMarginG = new(res.MinMargin)
 	}
 	if finite(res.CostSavingPct) {
-		rec.CostSavingPct = ptr(res.CostSavingPct)
+		rec.CostSavingPct = new(res.CostSavingPct)
 	}
 	return rec
 }

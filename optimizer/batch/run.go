@@ -152,10 +152,8 @@ func Run(ctx context.Context, rows []Row, bad []RowError, plan Planner, opt Opti
 		if msg := checkCI(ci); msg != "" {
 			return sum, inputErrorf("batch: sweep cost index %v %s", ci, msg)
 		}
-		for _, c := range opt.Sweep[:i] {
-			if c == ci {
-				return sum, inputErrorf("batch: sweep cost index %v appears twice", ci)
-			}
+		if slices.Contains(opt.Sweep[:i], ci) {
+			return sum, inputErrorf("batch: sweep cost index %v appears twice", ci)
 		}
 	}
 	if opt.Sweep != nil && len(opt.Sweep) == 0 {
@@ -373,9 +371,7 @@ func runPool(ctx context.Context, jobs []job, plan Planner, workers int, out str
 		wg       sync.WaitGroup
 	)
 	for range workers {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
+		wg.Go(func() {
 			for j := range ch {
 				if ctx.Err() != nil {
 					continue // drain: the feeder stops too
@@ -404,7 +400,7 @@ func runPool(ctx context.Context, jobs []job, plan Planner, workers int, out str
 					prog.step(rec.Status == statusFailed)
 				}
 			}
-		}()
+		})
 	}
 	done := make(chan struct{})
 	go func() { wg.Wait(); close(done) }()

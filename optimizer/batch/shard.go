@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 	"strconv"
 	"strings"
 	"unicode/utf8"
@@ -185,10 +186,8 @@ func ParseSweep(s string) ([]float64, error) {
 		if v == 0 {
 			v = 0 // -0 and 0 are one cost index
 		}
-		for _, w := range out {
-			if w == v {
-				return nil, inputErrorf("sweep: item %q appears twice", excerpt(item))
-			}
+		if slices.Contains(out, v) {
+			return nil, inputErrorf("sweep: item %q appears twice", excerpt(item))
 		}
 		out = append(out, v)
 	}

@@ -46,9 +46,9 @@ func Weather(ref time.Time) []winds.Message {
 			v := make([]float32, n)
 			t := make([]float32, n)
 			e := make([]float32, n)
-			for j := 0; j < synNj; j++ {
+			for j := range synNj {
 				lat := 90 - float64(j)*synStep
-				for i := 0; i < synNi; i++ {
+				for i := range synNi {
 					lon := float64(i) * synStep
 					uu, vv, tt, ee := Point(lat, lon, p, float64(h))
 					k := j*synNi + i

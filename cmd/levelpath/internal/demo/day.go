@@ -44,7 +44,7 @@ func Day(dir string, n int, seed int64) (schedule string, err error) {
 	rng := rand.New(rand.NewSource(seed))
 	var sb bytes.Buffer
 	sb.WriteString("flight,departure,route,aircraft,tow_kg,ci\n")
-	for i := 0; i < n; i++ {
+	for i := range n {
 		ty := dayTypes[i%len(dayTypes)]
 		a, err := perf.Builtin(ty.name)
 		if err != nil {

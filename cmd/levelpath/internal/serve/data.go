@@ -8,6 +8,7 @@ import (
 	"io"
 	"os"
 	"path/filepath"
+	"slices"
 	"sort"
 	"strings"
 	"sync"
@@ -57,7 +58,7 @@ func checkName(name string) error {
 	case strings.ContainsAny(name, "\\\x00"), filepath.IsAbs(name), strings.HasPrefix(name, "/"):
 		return fmt.Errorf("%q is a path, not a name of a file in the data directory", name)
 	}
-	for _, el := range strings.Split(name, "/") {
+	for el := range strings.SplitSeq(name, "/") {
 		if el == ".." || el == "." || el == "" {
 			return fmt.Errorf("%q is a path, not a name of a file in the data directory", name)
 		}
@@ -99,12 +100,9 @@ func (d *dataDir) list(exts ...string) []string {
 	var out []string
 	for _, e := range ents {
 		ext := strings.ToLower(filepath.Ext(e.Name()))
-		for _, x := range exts {
-			if ext == x {
-				if _, err := d.resolve(e.Name()); err == nil {
-					out = append(out, e.Name())
-				}
-				break
+		if slices.Contains(exts, ext) {
+			if _, err := d.resolve(e.Name()); err == nil {
+				out = append(out, e.Name())
 			}
 		}
 	}

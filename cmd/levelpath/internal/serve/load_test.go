@@ -7,7 +7,7 @@ import (
 	"net/http"
 	"net/http/httptest"
 	"os"
-	"sort"
+	"slices"
 	"strconv"
 	"sync"
 	"testing"
@@ -20,15 +20,13 @@ func load(url string, body map[string]any, clients, total int) (lat []time.Durat
 	b, _ := json.Marshal(body)
 	var mu sync.Mutex
 	next := make(chan int, total)
-	for i := 0; i < total; i++ {
+	for i := range total {
 		next <- i
 	}
 	close(next)
 	var wg sync.WaitGroup
-	for c := 0; c < clients; c++ {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
+	for range clients {
+		wg.Go(func() {
 			cl := &http.Client{Timeout: 120 * time.Second}
 			for range next {
 				t0 := time.Now()
@@ -53,7 +51,7 @@ func load(url string, body map[string]any, clients, total int) (lat []time.Durat
 				}
 				mu.Unlock()
 			}
-		}()
+		})
 	}
 	wg.Wait()
 	return lat, ids, errs
@@ -62,7 +60,7 @@ func load(url string, body map[string]any, clients, total int) (lat []time.Durat
 // quantile returns the q quantile of ds by the nearest-rank method.
 func quantile(ds []time.Duration, q float64) time.Duration {
 	s := append([]time.Duration(nil), ds...)
-	sort.Slice(s, func(i, j int) bool { return s[i] < s[j] })
+	slices.Sort(s)
 	k := int(q*float64(len(s))+0.999999) - 1
 	return s[max(0, min(k, len(s)-1))]
 }

@@ -52,7 +52,7 @@ func TestOpenAPI(t *testing.T) {
 		}
 	}
 	schemas := a.doc["components"].(map[string]any)["schemas"].(map[string]any)
-	for name, typ := range map[string]reflect.Type{"PlanRequest": reflect.TypeOf(planBody{}), "AssessRequest": reflect.TypeOf(planRequest{}), "EnvelopeRequest": reflect.TypeOf(envelopeRequest{}), "Record": reflect.TypeOf(Record{})} {
+	for name, typ := range map[string]reflect.Type{"PlanRequest": reflect.TypeFor[planBody](), "AssessRequest": reflect.TypeFor[planRequest](), "EnvelopeRequest": reflect.TypeFor[envelopeRequest](), "Record": reflect.TypeFor[Record]()} {
 		props := schemas[name].(map[string]any)["properties"].(map[string]any)
 		var doc, code []string
 		for k := range props {
@@ -91,8 +91,8 @@ func TestOpenAPI(t *testing.T) {
 
 func jsonFields(t reflect.Type) []string {
 	var out []string
-	for i := 0; i < t.NumField(); i++ {
-		f := t.Field(i)
+	for f := range t.Fields() {
+		f := f
 		if f.Anonymous {
 			out = append(out, jsonFields(f.Type)...)
 			continue

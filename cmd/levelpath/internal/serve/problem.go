@@ -325,7 +325,7 @@ func parseBlock(s string) (optimizer.Block, error) {
 		return b, fieldErr("block", "--block %q: distances must be numbers with FROM < TO", s)
 	}
 	b.FromDist, b.ToDist = x*perf.NMToM, y*perf.NMToM
-	for _, l := range strings.Split(lv, ",") {
+	for l := range strings.SplitSeq(lv, ",") {
 		n, err := route.ParseFL(l)
 		if err != nil {
 			return b, fieldErr("block", "--block %q: level %q %v", s, l, err)
@@ -338,7 +338,7 @@ func parseBlock(s string) (optimizer.Block, error) {
 // parseTurbulence reads "0.20:1.5,0.45:closed" as the command line does.
 func parseTurbulence(s string) ([]optimizer.TurbulenceRule, error) {
 	var out []optimizer.TurbulenceRule
-	for _, part := range strings.Split(s, ",") {
+	for part := range strings.SplitSeq(s, ",") {
 		e, v, ok := strings.Cut(strings.TrimSpace(part), ":")
 		edr, err := strconv.ParseFloat(e, 64)
 		if !ok || err != nil || !(edr > 0) {

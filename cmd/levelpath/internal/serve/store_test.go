@@ -49,7 +49,7 @@ func killChild(path string) int {
 func TestKilledWriter(t *testing.T) {
 	path := filepath.Join(t.TempDir(), "records.db")
 	committed := map[int64]string{}
-	for round := 0; round < 3; round++ {
+	for round := range 3 {
 		cmd := exec.Command(os.Args[0], "-test.run=^$")
 		cmd.Env = append(os.Environ(), childEnv+"="+path)
 		cmd.Stderr = os.Stderr
