@@ -52,6 +52,9 @@ func WriteTableBrief(w io.Writer, p *optimizer.Plan, assessed, brief bool) error
 			}
 		}
 		l := d.Legs[at]
+		if least < 0 && least > -5e-4 {
+			least = 0 // on the floor within the search's tolerance: not "-0.000"
+		}
 		bw.printf("Least buffet margin above its floor: %.3f g on leg %d (margin %.3f g, floor %.2f g there); least margin anywhere %.3f g\n", least, at, *l.BuffetMarginG, l.FloorG, *d.MinMarginG)
 	}
 	if b := d.Baseline; b != nil {
