@@ -133,9 +133,6 @@ func round(v float64, decimals int) float64 {
 	return r
 }
 
-//go:fix inline
-func ptr[T any](v T) *T { return new(v) }
-
 // finite reports whether v is neither NaN nor an infinity.
 func finite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
 
