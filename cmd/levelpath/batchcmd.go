@@ -2,6 +2,8 @@ package main
 
 import (
 	"context"
+	"crypto/sha256"
+	"encoding/hex"
 	"errors"
 	"fmt"
 	"io"
@@ -33,6 +35,7 @@ func newBatchCmd() *cobra.Command {
 		weather                                []string
 		workers, shardCount                    int
 		wxo                                    weatherOpts
+		policyPath                             string
 		resume                                 bool
 		maxSegNM                               float64
 		maxStepFt, maxSteps                    int
@@ -54,6 +57,7 @@ func newBatchCmd() *cobra.Command {
 	fl.StringArrayVar(&weather, "weather", nil, "GRIB2/GRIB1 weather file (repeatable), decoded once and shared")
 	fl.StringVar(&out, "out", "", "output directory")
 	weatherFlags(c, &wxo)
+	fl.StringVar(&policyPath, "policy", "", "fuel policy YAML for rows that give zfw_kg alone (a fuel plan; default: the documented default policy)")
 	fl.IntVar(&workers, "workers", 0, "parallel planners (default: one per CPU)")
 	fl.StringVar(&sweep, "ci-sweep", "", "plan every flight at each cost index, e.g. 0,20,50,100")
 	fl.StringVar(&shard, "shard", "", "plan only shard K/N of the flights (0-based K, N at most 1048576); or give --shard-count inside a cluster job")
@@ -152,6 +156,15 @@ func newBatchCmd() *cobra.Command {
 			return badInputf("--max-seg-nm %v: want 1..1000", maxSegNM)
 		}
 		pl := &batch.SchedulePlanner{Weather: wx, MaxSegment: maxSegNM * perf.NMToM, Steps: steps}
+		if policyPath != "" {
+			pol, err := readPolicy(policyPath)
+			if err != nil {
+				return err
+			}
+			pl.Policy = &pol
+			sum := sha256.Sum256([]byte(fmt.Sprintf("%+v", pol)))
+			opt.Meta["fuel_policy"] = hex.EncodeToString(sum[:]) // a resume with another policy is refused
+		}
 		// From here a first SIGINT or SIGTERM stops the run cleanly
 		// (records kept, see batch.Run and Options.StopGrace); a second
 		// ends the process at once: stop() restores the default action

@@ -62,19 +62,9 @@ func (f *fuelPlanFlags) build(c *cobra.Command, pf *problemFlags, p *optimizer.P
 	fs := c.Flags()
 	pol := optimizer.DefaultFuelPolicy()
 	if f.policy != "" {
-		fi, err := os.Stat(f.policy)
-		if err != nil {
-			return req, badInputf("--policy %s: %v", f.policy, err)
-		}
-		if fi.Size() > 1<<16 {
-			return req, badInputf("--policy %s: %d bytes, more than the 65536 allowed", f.policy, fi.Size())
-		}
-		data, err := os.ReadFile(f.policy)
-		if err != nil {
-			return req, badInputf("--policy %s: %v", f.policy, err)
-		}
-		if pol, err = optimizer.ParseFuelPolicy(data, f.policy); err != nil {
-			return req, badInput(err)
+		var err error
+		if pol, err = readPolicy(f.policy); err != nil {
+			return req, err
 		}
 	} else {
 		warnf(c.ErrOrStderr(), "no --policy: the default fuel policy (%s)", defaultPolicyText())
@@ -97,4 +87,24 @@ func (f *fuelPlanFlags) build(c *cobra.Command, pf *problemFlags, p *optimizer.P
 		warnf(c.ErrOrStderr(), "--block applies to the route, not to the alternate (%s)", strings.Join(pf.blocks, " "))
 	}
 	return req, nil
+}
+
+// readPolicy reads a fuel policy file (at most 64 KiB) for --policy.
+func readPolicy(path string) (optimizer.FuelPolicy, error) {
+	fi, err := os.Stat(path)
+	if err != nil {
+		return optimizer.FuelPolicy{}, badInputf("--policy %s: %v", path, err)
+	}
+	if !fi.Mode().IsRegular() || fi.Size() > 1<<16 {
+		return optimizer.FuelPolicy{}, badInputf("--policy %s: want a regular file of at most 65536 bytes", path)
+	}
+	data, err := os.ReadFile(path)
+	if err != nil {
+		return optimizer.FuelPolicy{}, badInputf("--policy %s: %v", path, err)
+	}
+	pol, err := optimizer.ParseFuelPolicy(data, path)
+	if err != nil {
+		return optimizer.FuelPolicy{}, badInput(err)
+	}
+	return pol, nil
 }

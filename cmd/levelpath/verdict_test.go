@@ -1,9 +1,11 @@
 package main
 
 import (
+	"encoding/csv"
 	"fmt"
 	"os"
 	"path/filepath"
+	"strconv"
 	"testing"
 )
 
@@ -59,5 +61,42 @@ func TestSameVerdictEveryDoor(t *testing.T) {
 				t.Errorf("plan exit %d (want %d) %s; batch exit %d (want %d) %s", planCode, wantPlan, planErr, batchCode, wantBatch, batchErr)
 			}
 		})
+	}
+}
+
+// TestBatchFuelPlanRow: a schedule row with zfw_kg alone gets the dispatch
+// fuel plan: results carry block_kg, and the take-off mass is the fixed
+// point ZFW + block - taxi, above the ZFW (ICAO Annex 6 Part I 4.3.6.3
+// structure; the components are checked in optimizer's fuel-plan tests).
+func TestBatchFuelPlanRow(t *testing.T) {
+	fs := demoFiles(t)
+	dir := t.TempDir()
+	sched := filepath.Join(dir, "s.csv")
+	row := "flight,departure,route,aircraft,tow_kg,ci,zfw_kg\nF1,2026-12-01T20:00:00Z," + fs.Routes[3] + ",demo-regional,,15,30000\n"
+	if err := os.WriteFile(sched, []byte(row), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	out := filepath.Join(dir, "out")
+	if code, _, errs := runCLI(t, "batch", "--schedule", sched, "--weather", fs.Weather, "--out", out); code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	f, err := os.Open(filepath.Join(out, "results.csv"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	recs, err := csv.NewReader(f).ReadAll()
+	if err != nil || len(recs) != 2 {
+		t.Fatalf("results %v %v", recs, err)
+	}
+	col := map[string]int{}
+	for i, c := range recs[0] {
+		col[c] = i
+	}
+	block, _ := strconv.ParseFloat(recs[1][col["block_kg"]], 64)
+	tow, _ := strconv.ParseFloat(recs[1][col["takeoff_mass_kg"]], 64)
+	fuel, _ := strconv.ParseFloat(recs[1][col["fuel_kg"]], 64)
+	if !(block > fuel && tow > 30000 && tow < 30000+block) {
+		t.Errorf("block %v kg, trip %v kg, take-off mass %v kg for ZFW 30000 kg", block, fuel, tow)
 	}
 }

@@ -71,7 +71,7 @@ func scheduleFingerprint(rows []Row, bad []RowError) string {
 var resultColumns = []string{"flight", "ci", "status", "warnings", "departure_utc", "arrival_utc",
 	"aircraft", "row", "distance_nm", "takeoff_mass_kg", "zfw_kg", "landing_mass_kg",
 	"fuel_kg", "time_min", "cost", "co2_kg", "floor_g", "speed", "levels",
-	"initial_fl", "steps", "min_margin_g", "cost_saving_pct", "profile", "error"}
+	"initial_fl", "steps", "min_margin_g", "cost_saving_pct", "profile", "block_kg", "limited_by", "error"}
 
 // parquetRow is one row of results.parquet: the same columns as
 // results.csv at full precision, times as UTC timestamps in milliseconds,
@@ -101,6 +101,8 @@ type parquetRow struct {
 	MinMarginG    *float64 `parquet:"min_margin_g,optional"`
 	CostSavingPct *float64 `parquet:"cost_saving_pct,optional"`
 	Profile       string   `parquet:"profile"`
+	BlockKg       *float64 `parquet:"block_kg,optional"`
+	LimitedBy     string   `parquet:"limited_by"`
 	Error         string   `parquet:"error"`
 }
 
@@ -267,7 +269,7 @@ func resultsCSV(results []record) ([]byte, error) {
 			fmtR(r.LandingMassKg, decKg), fmtR(r.FuelKg, decKg), fmtR(r.TimeMin, decMin), fmtR(r.Cost, decKg),
 			fmtR(r.CO2Kg, decKg), fmtR(r.FloorG, decG), safeCell(r.Speed), safeCell(r.Levels),
 			fmtI(r.InitialFL), fmtI(r.Steps), fmtR(r.MinMarginG, decG), fmtR(r.CostSavingPct, decPct),
-			safeCell(r.Profile), safeCell(r.Reason)})
+			safeCell(r.Profile), fmtR(r.BlockKg, decKg), safeCell(r.LimitedBy), safeCell(r.Reason)})
 	}
 	return writeCSV(recs)
 }
@@ -301,7 +303,7 @@ func resultsParquet(results []record, meta map[string]string) ([]byte, error) {
 			DistanceNM: r.DistanceNM, TakeoffMassKg: r.TakeoffMassKg, ZFWKg: r.ZFWKg, LandingMassKg: r.LandingMassKg,
 			FuelKg: r.FuelKg, TimeMin: r.TimeMin, Cost: r.Cost, CO2Kg: r.CO2Kg, FloorG: r.FloorG,
 			Speed: r.Speed, Levels: r.Levels, InitialFL: i64(r.InitialFL), Steps: i64(r.Steps),
-			MinMarginG: r.MinMarginG, CostSavingPct: r.CostSavingPct, Profile: r.Profile, Error: r.Reason}
+			MinMarginG: r.MinMarginG, CostSavingPct: r.CostSavingPct, Profile: r.Profile, BlockKg: r.BlockKg, LimitedBy: r.LimitedBy, Error: r.Reason}
 	}
 	keys := slices.Sorted(maps.Keys(meta))
 	var opts []parquet.WriterOption

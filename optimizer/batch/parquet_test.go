@@ -41,6 +41,8 @@ type readBack struct {
 	MinMarginG    *float64 `parquet:"min_margin_g,optional"`
 	CostSavingPct *float64 `parquet:"cost_saving_pct,optional"`
 	Profile       string   `parquet:"profile"`
+	BlockKg       *float64 `parquet:"block_kg,optional"`
+	LimitedBy     string   `parquet:"limited_by"`
 	Error         string   `parquet:"error"`
 }
 
@@ -127,7 +129,7 @@ func TestParquetMatchesCSV(t *testing.T) {
 		got := []string{p.Flight, strconv.FormatFloat(p.CI, 'f', -1, 64), p.Status, p.Warnings, ts(&p.Departure), ts(p.Arrival),
 			p.Aircraft, strconv.FormatInt(p.Row, 10), f(p.DistanceNM, 1), f(p.TakeoffMassKg, 1), f(p.ZFWKg, 1),
 			f(p.LandingMassKg, 1), f(p.FuelKg, 1), f(p.TimeMin, 2), f(p.Cost, 1), f(p.CO2Kg, 1), f(p.FloorG, 3),
-			p.Speed, p.Levels, i(p.InitialFL), i(p.Steps), f(p.MinMarginG, 3), f(p.CostSavingPct, 2), p.Profile, p.Error}
+			p.Speed, p.Levels, i(p.InitialFL), i(p.Steps), f(p.MinMarginG, 3), f(p.CostSavingPct, 2), p.Profile, f(p.BlockKg, 1), p.LimitedBy, p.Error}
 		var want []string
 		for _, name := range resultColumns {
 			want = append(want, c[col[name]])

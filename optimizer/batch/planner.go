@@ -2,6 +2,7 @@ package batch
 
 import (
 	"context"
+	"fmt"
 	"math"
 	"slices"
 	"strings"
@@ -30,6 +31,9 @@ type SchedulePlanner struct {
 	MaxSegment float64             // m; 0: 50 NM
 	Steps      optimizer.StepRules // step rules of every flight
 	Exact      bool                // turn the search's approximations off
+	// Policy is the fuel policy of fuel-plan rows (zfw_kg alone); nil:
+	// optimizer.DefaultFuelPolicy.
+	Policy *optimizer.FuelPolicy
 
 	mu       sync.Mutex
 	aircraft map[string]*perf.Aircraft
@@ -111,7 +115,16 @@ func (p *SchedulePlanner) Problem(row Row, ci float64) (*optimizer.Problem, []st
 		return nil, nil, err
 	}
 	pr := &optimizer.Problem{Track: te.track, Aircraft: a, Weather: p.Weather, Depart: row.Departure, CI: ci, Floor: row.Floor, Steps: p.Steps, Exact: p.Exact}
-	if pr.TakeoffMass, pr.ZFW, err = (optimizer.Loading{TakeoffMass: row.TOW, ZFW: row.ZFW, Fuel: row.Fuel}).Resolve(a); err != nil {
+	if row.FuelPlan {
+		// The fuel plan solves the take-off mass; the ZFW stands in.
+		if row.ZFW > a.MZFW {
+			return nil, nil, fmt.Errorf("zfw_kg %.0f is over MZFW %.0f kg of %s", row.ZFW, a.MZFW, a.Name)
+		}
+		if pr.TakeoffMass, _, err = (optimizer.Loading{TakeoffMass: row.ZFW}).Resolve(a); err != nil {
+			return nil, nil, err
+		}
+		pr.ZFW = row.ZFW
+	} else if pr.TakeoffMass, pr.ZFW, err = (optimizer.Loading{TakeoffMass: row.TOW, ZFW: row.ZFW, Fuel: row.Fuel}).Resolve(a); err != nil {
 		return nil, nil, err
 	}
 	if row.Speed != "" {
@@ -133,7 +146,16 @@ func (p *SchedulePlanner) Plan(ctx context.Context, row Row, ci float64) (Result
 	if err != nil {
 		return res, err
 	}
-	plan, err := optimizer.SolveContext(ctx, pr) // SIGTERM stops a running plan
+	var plan *optimizer.Plan
+	if row.FuelPlan {
+		pol := optimizer.DefaultFuelPolicy()
+		if p.Policy != nil {
+			pol = *p.Policy
+		}
+		plan, err = optimizer.PlanFuel(optimizer.FuelRequest{Problem: pr, ZFW: row.ZFW, Policy: pol})
+	} else {
+		plan, err = optimizer.SolveContext(ctx, pr) // SIGTERM stops a running plan
+	}
 	if err != nil {
 		return res, err
 	}
@@ -154,6 +176,10 @@ func (p *SchedulePlanner) Plan(ctx context.Context, row Row, ci float64) (Result
 	}
 	if plan.Baseline != nil {
 		res.CostSavingPct = plan.Baseline.SavingPct
+	}
+	if f := plan.Fuel; f != nil {
+		res.Block, res.LimitedBy = f.Block, strings.Join(f.LimitedBy, " ")
+		res.TakeoffMass = f.TakeoffMass
 	}
 	if p.Weather == nil {
 		res.Warnings = append(res.Warnings, StillAirWarning)

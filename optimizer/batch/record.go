@@ -61,6 +61,8 @@ type record struct {
 	MinMarginG    *float64   `json:"min_margin_g,omitempty"`
 	CostSavingPct *float64   `json:"cost_saving_pct,omitempty"`
 	Profile       string     `json:"profile,omitempty"`
+	BlockKg       *float64   `json:"block_kg,omitempty"`
+	LimitedBy     string     `json:"limited_by,omitempty"`
 	Reason        string     `json:"reason,omitempty"`
 	Errors        []RowError `json:"errors,omitempty"`      // bad rows only
 	Plan          string     `json:"plan,omitempty"`        // path relative to Out
@@ -199,6 +201,7 @@ func resultRecord(row *Row, ci float64, res Result, planErr error) record {
 	}
 	rec.DistanceNM = opt(res.Distance / nmToM)
 	rec.TakeoffMassKg = opt(res.TakeoffMass)
+	rec.BlockKg, rec.LimitedBy = opt(res.Block), res.LimitedBy
 	rec.ZFWKg = opt(res.ZFW)
 	rec.LandingMassKg = opt(res.LandingMass)
 	rec.FloorG = opt(res.Floor)

@@ -29,6 +29,8 @@ type Result struct {
 	LandingMass   float64  // kg
 	TakeoffMass   float64  // kg
 	ZFW           float64  // kg; 0 when not known
+	Block         float64  // block fuel of a fuel-plan row, kg; 0 otherwise
+	LimitedBy     string   // the limits a fuel plan's loading breaks (MTOW, MLW, ...), space-separated
 	Distance      float64  // route length, m
 	Floor         float64  // buffet protection floor applied, g
 	Speed         string   // speed policy used

@@ -43,7 +43,10 @@ type Row struct {
 	Route     string    // absolute path of the route file
 	RouteRaw  string    // route as written in the schedule
 	Aircraft  string
-	TOW       float64 // take-off mass; ZFW+Fuel when tow_kg was empty
+	TOW       float64 // take-off mass; ZFW+Fuel when tow_kg was empty; 0 for a fuel-plan row
+	// FuelPlan marks a row that gives zfw_kg alone: the planner makes the
+	// dispatch fuel plan and solves the take-off mass from it.
+	FuelPlan bool
 	ZFW, Fuel float64 // zero-fuel mass and fuel on board; 0 when not given
 	CI        float64
 	HasCI     bool // false when the ci cell was empty (a sweep supplies it)
@@ -389,10 +392,13 @@ func parseRow(rec []string, col map[string]int, line int, file, dir string, rout
 	fuel, hasFuel := mass("fuel_kg")
 	row.TOW, row.ZFW, row.Fuel = tow, zfw, fuel
 	if !hasTOW {
-		if hasZFW && hasFuel {
+		switch {
+		case hasZFW && hasFuel:
 			row.TOW = zfw + fuel
-		} else {
-			fail("tow_kg", "empty take-off mass and no zfw_kg and fuel_kg to add up")
+		case hasZFW:
+			row.FuelPlan = true // zfw_kg alone: a fuel plan
+		default:
+			fail("tow_kg", "empty take-off mass, and no zfw_kg (a fuel plan) or zfw_kg and fuel_kg to add up")
 		}
 	}
 
