@@ -153,9 +153,9 @@ func labels(xys plotter.XYs, strs []string, sty text.Style, off vg.Point) *plott
 // flName prints a level by the one rounding rule, down to the whole FL.
 func flName(fl float64) string { return fmt.Sprintf("FL%03.0f", perf.ReportFL(fl)) }
 
-// placedLabels draws a label under each point, Gap below it and starting
-// just right of it (the side a climbing profile leaves free),
-// kept inside the data area. A label that would overlap one already drawn
+// placedLabels draws a label under each point (above it when Above is
+// set), Gap below (above) it and starting just right of it (the side a
+// climbing profile leaves free), kept inside the data area. A label that would overlap one already drawn
 // moves down a line at a time, up to Rows lines; one that still overlaps
 // is left out (its point stays marked), so dense steps do not turn into
 // an unreadable heap. Cost O(n²) in the number of labels.
@@ -165,6 +165,7 @@ type placedLabels struct {
 	Text   text.Style // XAlign and YAlign are overridden
 	Gap    vg.Length
 	Rows   int
+	Above  bool
 }
 
 // Plot implements plot.Plotter.
@@ -183,6 +184,10 @@ func (l *placedLabels) Plot(c draw.Canvas, p *plot.Plot) {
 		x = max(c.Min.X, min(x, c.Max.X-w))
 		for row := 0; row < max(1, l.Rows); row++ {
 			y := ty(xy.Y) - l.Gap - lineH*vg.Length(row+1)
+			if l.Above {
+				y = ty(xy.Y) + l.Gap + lineH*vg.Length(row)
+			}
+			y = max(c.Min.Y, min(y, c.Max.Y-lineH))
 			r := vg.Rectangle{Min: vg.Point{X: x, Y: y}, Max: vg.Point{X: x + w, Y: y + lineH}}
 			clash := false
 			for _, q := range placed {

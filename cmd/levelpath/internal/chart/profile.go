@@ -58,7 +58,7 @@ func (in ProfileInput) title() string {
 	if in.Title != "" {
 		return in.Title
 	}
-	return fmt.Sprintf("Vertical profile: %s, CI %g kg/min, buffet floor %.2f g", in.Plan.Aircraft, in.Plan.CI, in.Plan.Floor)
+	return fmt.Sprintf("Vertical profile: %s, CI %g kg/min, buffet floor %s", in.Plan.Aircraft, in.Plan.CI, floorText(in.Plan, true))
 }
 
 // Profile draws the plan's vertical profile in format ("svg", "png" or
@@ -72,6 +72,12 @@ func (in ProfileInput) title() string {
 //   - middle: the along-track wind in kt (tailwind positive), per leg;
 //   - bottom: the buffet margin in g at each cruise leg's start against the
 //     protection floor that applied to the leg.
+//
+// Each violation (Plan.Violations) is marked in red on the top panel at
+// its leg, labelled "leg N: limit" (runs of one limit on consecutive legs
+// as "legs N-M: limit"), N the index into Plan.Legs that the report's and
+// the CLI's leg tables print. The legend's floor names the raised floors
+// of turbulence where legs had them.
 //
 // The chart is 1200 x 700 px. It returns a FormatError for a plan that
 // cannot be drawn and an UnsupportedError for an unknown format. Cost is
@@ -193,8 +199,25 @@ func profilePanels(in ProfileInput) (top, mid, bot *plot.Plot) {
 		top.Add(&placedLabels{XYs: at, Labels: names, Text: textStyle(9, stepText, text.XCenter, text.YTop), Gap: vg.Points(8), Rows: 4})
 		top.Legend.Add("level change (new level)", thumb)
 	}
+	if runs := violationRuns(pl); len(runs) > 0 {
+		var at plotter.XYs
+		var names []string
+		for _, r := range runs {
+			a, b := legs[r.first], legs[r.last]
+			y := 0.0
+			for _, l := range legs[r.first : r.last+1] {
+				y = math.Max(y, math.Max(l.FromFL, l.FL))
+			}
+			at = append(at, plotter.XY{X: (a.FromDist + b.ToDist) / 2 / mPerNM, Y: y})
+			names = append(names, r.where()+": "+string(r.limit))
+		}
+		marks := scatter(at, draw.GlyphStyle{Color: colViolation, Radius: vg.Points(5), Shape: boldCross{}})
+		top.Add(marks)
+		top.Add(&placedLabels{XYs: at, Labels: names, Text: textStyle(9, colViolation, text.XLeft, text.YBottom), Gap: vg.Points(7), Rows: 4, Above: true})
+		top.Legend.Add("limit broken (leg numbers of the leg table)", marks)
+	}
 	if bufLine != nil {
-		top.Legend.Add(fmt.Sprintf("buffet-limited max level (floor %.2f g)", pl.Floor), bufLine)
+		top.Legend.Add("buffet-limited max level (floor "+floorText(pl, true)+")", bufLine)
 	}
 	if thrLine != nil {
 		top.Legend.Add("thrust-limited max level (300 ft/min)", thrLine)

@@ -21,25 +21,54 @@ var reportTmpl = template.Must(template.New("report").Parse(reportSource))
 // reportView is what the report template shows, already formatted.
 type reportView struct {
 	Title, Caution string
-	Summary        [][2]string
-	Baseline       [][2]string
-	NoBaseline     bool
-	Steps          []string
-	Legs           [][]string
-	Warnings       []string
-	Violations     []string
-	SVG            template.HTML
+	// Status is the plan's status (optimizer.Plan.Status) and StatusText
+	// its explanation.
+	Status, StatusText string
+	Fuel               [][2]string // the fuel plan's components; nil without one
+	FuelTitle          string
+	Summary            [][2]string
+	Baseline           [][2]string
+	BaselineNote       string // why there is no baseline, when there is none
+	Steps              []string
+	Legs               []legRow
+	Warnings           []string
+	Violations         []violationItem
+	SVG                template.HTML
 }
+
+// legRow is one row of the numbered leg table.
+type legRow struct {
+	N        int  // index into Plan.Legs, as the CLI's leg table numbers it
+	Violated bool // a violation names this leg
+	Cells    []string
+}
+
+// violationItem is one violation, with the leg it names.
+type violationItem struct {
+	Leg  int // index into Plan.Legs; -1 when outside the leg table
+	Text string
+}
+
+// tripLabel defines the trip the plan prices: it does not hold taxi,
+// take-off, approach or reserves.
+const tripLabel = "Trip fuel (1,500 ft after take-off to 1,500 ft on approach)"
 
 // Report writes the flight report of in.Plan to w: one self-contained HTML
 // page (UTF-8, inline CSS, the profile chart as inline SVG; no scripts and
-// no external loads) holding the caution (optimizer.Caution) at the top,
-// a summary (aircraft, take-off mass, route distance, profile string,
-// totals, the constant-level baseline and the saving against it), the
-// chart, the step list, the leg table (NM, phase, FL, Mach, TAS, wind,
-// GS, ISA deviation, fuel, time, mass, buffet margin and floor), the
-// warnings and violations. Text from the plan is escaped by html/template.
-// Values that are NaN show as "–".
+// no external loads) holding, in this order: the caution
+// (optimizer.Caution); the plan's status, every violation (each naming
+// its leg by the number of the leg table, linked to its row) and every
+// warning; the fuel plan's components when Plan.Fuel is set (taxi, trip,
+// contingency, alternate, final reserve, additional, extra, block,
+// take-off and landing mass); a summary (aircraft, take-off mass, route
+// distance, profile string, the floor with the raised floors of
+// turbulence, the least buffet margin above each leg's own floor, totals
+// with the trip fuel defined as 1,500 ft to 1,500 ft, the constant-level
+// baseline and the saving against it); the chart; the step list; and the
+// leg table numbered 0.. as Plan.Legs (the CLI's numbering: NM, phase,
+// FL, Mach, TAS, wind, GS, ISA deviation, fuel, time, mass, buffet margin
+// and floor). Text from the plan is escaped by html/template. Values that
+// are NaN show as "–".
 //
 // It returns a FormatError for a plan that cannot be drawn (see Profile).
 func Report(w io.Writer, in ProfileInput) error {
@@ -59,13 +88,26 @@ func Report(w io.Writer, in ProfileInput) error {
 		Title:   in.title(),
 		Caution: optimizer.Caution,
 		// The SVG is this package's own output, its text escaped by vgsvg.
-		SVG: template.HTML(doc[i:]),
+		SVG:    template.HTML(doc[i:]),
+		Status: pl.Status(),
+	}
+	switch v.Status {
+	case optimizer.StatusImpossible:
+		v.StatusText = "IMPOSSIBLE: the flight cannot be flown as loaded (see the limits broken below)"
+	case optimizer.StatusViolations:
+		v.StatusText = fmt.Sprintf("VIOLATIONS: the profile breaks %d limit(s) (see below)", len(pl.Violations))
+	default:
+		v.StatusText = "ok: no limit broken"
 	}
 	depart := "–"
 	if !pl.Depart.IsZero() {
 		depart = pl.Depart.UTC().Format(time.RFC3339)
 	}
-	mm := pl.MinMargin()
+	least := "–"
+	if m, at := leastAboveFloor(pl); at >= 0 {
+		l := pl.Legs[at]
+		least = fmt.Sprintf("%s g on leg %d (margin %s g, floor %s g there)", num(m, 3), at, num(l.BuffetMargin, 3), num(l.Floor, 2))
+	}
 	v.Summary = [][2]string{
 		{"Aircraft", pl.Aircraft},
 		{"Departure (UTC)", depart},
@@ -74,14 +116,16 @@ func Report(w io.Writer, in ProfileInput) error {
 		{"Profile", pl.Profile.String()},
 		{"Cost index", num(pl.CI, 1) + " kg/min"},
 		{"Speed policy", pl.Speed},
-		{"Buffet protection floor", num(pl.Floor, 2) + " g"},
-		{"Least buffet margin", num(mm, 3) + " g"},
-		{"Trip fuel", num(pl.Totals.Fuel, 0) + " kg"},
+		{"Buffet protection floor", floorText(pl, false)},
+		{"Least buffet margin above its leg's floor", least},
+		{"Least buffet margin anywhere", num(pl.MinMargin(), 3) + " g"},
+		{tripLabel, num(pl.Totals.Fuel, 0) + " kg"},
 		{"Trip time", hm(pl.Totals.Time) + " (" + num(pl.Totals.Time/60, 1) + " min)"},
 		{"Cost (fuel + CI × time)", num(pl.Totals.Cost, 0)},
 		{"CO₂ (3.16 × fuel)", num(pl.Totals.CO2, 0) + " kg"},
 		{"Landing mass", num(pl.Totals.LandingMass, 0) + " kg"},
 	}
+	v.FuelTitle, v.Fuel = fuelRows(pl.Fuel)
 	if b := pl.Baseline; b != nil {
 		v.Baseline = [][2]string{
 			{"Best constant level", fmt.Sprintf("FL%03d", b.FL)},
@@ -91,8 +135,8 @@ func Report(w io.Writer, in ProfileInput) error {
 			{"Fuel saved", num(b.Totals.Fuel-pl.Totals.Fuel, 0) + " kg"},
 			{"Cost saving", num(b.SavingPct, 2) + " %"},
 		}
-	} else {
-		v.NoBaseline = true
+	} else if v.BaselineNote = pl.BaselineNote; v.BaselineNote == "" {
+		v.BaselineNote = "no constant level is feasible"
 	}
 	for _, s := range pl.Steps {
 		dir := "climb"
@@ -101,8 +145,24 @@ func Report(w io.Writer, in ProfileInput) error {
 		}
 		v.Steps = append(v.Steps, fmt.Sprintf("Step %s FL%03d → FL%03d at %s NM", dir, s.FromFL, s.ToFL, num(s.AtDist/mPerNM, 0)))
 	}
-	for _, l := range pl.Legs {
-		v.Legs = append(v.Legs, []string{
+	violated := map[int]bool{}
+	for _, x := range pl.Violations {
+		s := fmt.Sprintf("leg %d: %s", x.Leg, x.Limit)
+		if x.By != 0 && finite(x.By) {
+			s += fmt.Sprintf(" by %s %s", num(x.By, 2), x.Unit)
+		}
+		if x.Detail != "" {
+			s += ": " + x.Detail
+		}
+		leg := x.Leg
+		if leg < 0 || leg >= len(pl.Legs) {
+			leg = -1
+		}
+		violated[leg] = true
+		v.Violations = append(v.Violations, violationItem{Leg: leg, Text: s})
+	}
+	for i, l := range pl.Legs {
+		v.Legs = append(v.Legs, legRow{N: i, Violated: violated[i], Cells: []string{
 			num(l.FromDist/mPerNM, 0) + "–" + num(l.ToDist/mPerNM, 0),
 			string(l.Phase),
 			flRange(l.FromFL, l.FL),
@@ -116,20 +176,59 @@ func Report(w io.Writer, in ProfileInput) error {
 			num(l.MassStart, 0),
 			num(l.BuffetMargin, 3),
 			num(l.Floor, 2),
-		})
+		}})
 	}
 	v.Warnings = pl.Warnings
-	for _, x := range pl.Violations {
-		s := fmt.Sprintf("leg %d: %s", x.Leg, x.Limit)
-		if x.By != 0 && finite(x.By) {
-			s += fmt.Sprintf(" by %s %s", num(x.By, 2), x.Unit)
-		}
-		if x.Detail != "" {
-			s += ": " + x.Detail
-		}
-		v.Violations = append(v.Violations, s)
-	}
 	return reportTmpl.Execute(w, v)
+}
+
+// fuelRows formats the fuel plan's components (ICAO Annex 6 Part I
+// 4.3.6.3: taxi, trip, contingency, alternate, final reserve, additional,
+// discretionary) and the masses they give; nil for no fuel plan.
+func fuelRows(f *optimizer.FuelPlan) (string, [][2]string) {
+	if f == nil {
+		return "", nil
+	}
+	kg := func(x float64) string { return num(x, 0) + " kg" }
+	cont := kg(f.Contingency)
+	if f.ContingencyBasis != "" {
+		cont += " (" + f.ContingencyBasis + ")"
+	}
+	title := "Fuel plan"
+	trip := "Trip (1,500 ft after take-off to 1,500 ft on approach)"
+	block := "Block fuel"
+	if f.InFlight {
+		title = "Fuel from here (in-flight re-plan)"
+		trip = "Remaining trip (to 1,500 ft on approach)"
+		block = "Fuel required now"
+	}
+	rows := [][2]string{
+		{"Taxi", kg(f.Taxi)},
+		{trip, kg(f.Trip)},
+		{"Contingency", cont},
+		{"Alternate", kg(f.Alternate)},
+		{"Final reserve", kg(f.FinalReserve)},
+		{"Additional", kg(f.Additional)},
+		{"Extra (discretionary)", kg(f.Extra)},
+		{block, kg(f.Block)},
+	}
+	if f.InFlight {
+		rows = append(rows, [2]string{"Fuel on board", kg(f.FuelOnBoard)}, [2]string{"Expected at destination", kg(f.ExpectedAtDestination)})
+	}
+	rows = append(rows,
+		[2]string{"Zero-fuel mass", kg(f.ZFW)},
+		[2]string{"Take-off mass", kg(f.TakeoffMass)},
+		[2]string{"Landing mass", kg(f.LandingMass)})
+	if len(f.LimitedBy) > 0 {
+		rows = append(rows, [2]string{"Limited by", strings.Join(f.LimitedBy, ", ")})
+	}
+	if f.Binding != "" && finite(f.MaxPayloadZFW) && f.MaxPayloadZFW > 0 {
+		rows = append(rows, [2]string{"Largest zero-fuel mass (" + f.Binding + ")", kg(f.MaxPayloadZFW)})
+	}
+	if f.Iterations > 0 {
+		rows = append(rows, [2]string{"Take-off mass iterations", fmt.Sprint(f.Iterations)})
+	}
+	return title, rows
 }
 
 // num formats x with prec decimals, "–" for NaN or infinity.
