@@ -46,7 +46,7 @@ type Row struct {
 	TOW       float64 // take-off mass; ZFW+Fuel when tow_kg was empty; 0 for a fuel-plan row
 	// FuelPlan marks a row that gives zfw_kg alone: the planner makes the
 	// dispatch fuel plan and solves the take-off mass from it.
-	FuelPlan bool
+	FuelPlan  bool
 	ZFW, Fuel float64 // zero-fuel mass and fuel on board; 0 when not given
 	CI        float64
 	HasCI     bool // false when the ci cell was empty (a sweep supplies it)

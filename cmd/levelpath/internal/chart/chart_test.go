@@ -33,7 +33,7 @@ var charts = []struct {
 }{
 	{"profile", func(w io.Writer, f string) error {
 		return Profile(w, f, ProfileInput{Plan: samplePlan(), Levels: sampleLevels()})
-	}, []string{"planned profile", "level change (new level)", "buffet-limited max level (floor 1.30 g)",
+	}, []string{"planned profile", "level change (new level)", "buffet-limited max level (floor 1.30 g, 1.40 g in turbulence)",
 		"thrust-limited max level (300 ft/min)", "allowed levels", "along-track wind (tailwind +)",
 		"protection floor", "buffet margin at leg start", "distance from departure (NM)", "wind (kt)", "margin (g)",
 		"FL370 at 1100 NM", "FL390 at 2000 NM"}},

@@ -134,8 +134,8 @@ func TestReportWellFormed(t *testing.T) {
 	if legRows != len(pl.Legs) {
 		t.Errorf("%d leg rows, want %d", legRows, len(pl.Legs))
 	}
-	if headCells != 13 {
-		t.Errorf("%d leg table columns, want 13", headCells)
+	if headCells != 14 {
+		t.Errorf("%d leg table columns, want 14", headCells)
 	}
 	if stepItems != len(pl.Steps) {
 		t.Errorf("%d step items, want %d", stepItems, len(pl.Steps))
