@@ -72,7 +72,13 @@ func TestBatchFuelPlanRow(t *testing.T) {
 	fs := demoFiles(t)
 	dir := t.TempDir()
 	sched := filepath.Join(dir, "s.csv")
-	row := "flight,departure,route,aircraft,tow_kg,ci,zfw_kg\nF1,2026-12-01T20:00:00Z," + fs.Routes[3] + ",demo-regional,,15,30000\n"
+	// F2 is F1 with a policy file of its own that adds 1,000 kg of extra fuel.
+	if err := os.WriteFile(filepath.Join(dir, "extra.yaml"), []byte("extra_kg: 1000\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	row := "flight,departure,route,aircraft,tow_kg,ci,zfw_kg,policy\n" +
+		"F1,2026-12-01T20:00:00Z," + fs.Routes[3] + ",demo-regional,,15,30000,\n" +
+		"F2,2026-12-01T20:00:00Z," + fs.Routes[3] + ",demo-regional,,15,30000,extra.yaml\n"
 	if err := os.WriteFile(sched, []byte(row), 0o644); err != nil {
 		t.Fatal(err)
 	}
@@ -86,7 +92,7 @@ func TestBatchFuelPlanRow(t *testing.T) {
 	}
 	defer f.Close()
 	recs, err := csv.NewReader(f).ReadAll()
-	if err != nil || len(recs) != 2 {
+	if err != nil || len(recs) != 3 {
 		t.Fatalf("results %v %v", recs, err)
 	}
 	col := map[string]int{}
@@ -98,5 +104,9 @@ func TestBatchFuelPlanRow(t *testing.T) {
 	fuel, _ := strconv.ParseFloat(recs[1][col["fuel_kg"]], 64)
 	if !(block > fuel && tow > 30000 && tow < 30000+block) {
 		t.Errorf("block %v kg, trip %v kg, take-off mass %v kg for ZFW 30000 kg", block, fuel, tow)
+	}
+	block2, _ := strconv.ParseFloat(recs[2][col["block_kg"]], 64)
+	if d := block2 - block; d < 1000 || d > 1250 { // the extra fuel, plus the trip, contingency and reserve fuel a heavier aircraft burns
+		t.Errorf("with 1,000 kg extra: block %v kg against %v kg", block2, block)
 	}
 }

@@ -3,7 +3,9 @@ package batch
 import (
 	"context"
 	"fmt"
+	"io"
 	"math"
+	"path/filepath"
 	"slices"
 	"strings"
 	"sync"
@@ -31,13 +33,44 @@ type SchedulePlanner struct {
 	MaxSegment float64             // m; 0: 50 NM
 	Steps      optimizer.StepRules // step rules of every flight
 	Exact      bool                // turn the search's approximations off
-	// Policy is the fuel policy of fuel-plan rows (zfw_kg alone); nil:
-	// optimizer.DefaultFuelPolicy.
+	// Policy is the fuel policy of fuel-plan rows (zfw_kg alone) without
+	// a policy column of their own; nil: optimizer.DefaultFuelPolicy.
 	Policy *optimizer.FuelPolicy
 
 	mu       sync.Mutex
 	aircraft map[string]*perf.Aircraft
 	tracks   map[string]trackEntry
+	policies map[string]optimizer.FuelPolicy
+}
+
+// policyFor reads (once) the fuel policy file of a row's policy column.
+func (p *SchedulePlanner) policyFor(path string) (optimizer.FuelPolicy, error) {
+	p.mu.Lock()
+	defer p.mu.Unlock()
+	if pol, ok := p.policies[path]; ok {
+		return pol, nil
+	}
+	f, err := openRegular(path)
+	if err != nil {
+		return optimizer.FuelPolicy{}, err
+	}
+	defer f.Close()
+	data, err := io.ReadAll(io.LimitReader(f, 1<<16+1))
+	if err != nil {
+		return optimizer.FuelPolicy{}, err
+	}
+	if len(data) > 1<<16 {
+		return optimizer.FuelPolicy{}, fmt.Errorf("fuel policy %s: more than 65536 bytes", filepath.Base(path))
+	}
+	pol, err := optimizer.ParseFuelPolicy(data, filepath.Base(path))
+	if err != nil {
+		return optimizer.FuelPolicy{}, err
+	}
+	if p.policies == nil {
+		p.policies = map[string]optimizer.FuelPolicy{}
+	}
+	p.policies[path] = pol
+	return pol, nil
 }
 
 // trackEntry is a segmented route and the warnings made building it.
@@ -149,7 +182,12 @@ func (p *SchedulePlanner) Plan(ctx context.Context, row Row, ci float64) (Result
 	var plan *optimizer.Plan
 	if row.FuelPlan {
 		pol := optimizer.DefaultFuelPolicy()
-		if p.Policy != nil {
+		switch {
+		case row.Policy != "":
+			if pol, err = p.policyFor(row.Policy); err != nil {
+				return res, err
+			}
+		case p.Policy != nil:
 			pol = *p.Policy
 		}
 		plan, err = optimizer.PlanFuel(optimizer.FuelRequest{Problem: pr, ZFW: row.ZFW, Policy: pol})

@@ -157,6 +157,13 @@ func setDigests(ctx context.Context, rows []*Row) error {
 			}
 		}
 		r.digests = rd[:16] + "-" + ad
+		if r.Policy != "" {
+			pd, err := digest(r.Policy)
+			if err != nil {
+				return fmt.Errorf("batch: fuel policy of flight %s: %w", r.Flight, err)
+			}
+			r.digests += "-" + pd[:16]
+		}
 	}
 	return nil
 }

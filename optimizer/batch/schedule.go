@@ -46,7 +46,10 @@ type Row struct {
 	TOW       float64 // take-off mass; ZFW+Fuel when tow_kg was empty; 0 for a fuel-plan row
 	// FuelPlan marks a row that gives zfw_kg alone: the planner makes the
 	// dispatch fuel plan and solves the take-off mass from it.
-	FuelPlan  bool
+	FuelPlan bool
+	// Policy is the absolute path of the row's fuel policy file (column
+	// policy, relative to the schedule); empty: the planner's.
+	Policy    string
 	ZFW, Fuel float64 // zero-fuel mass and fuel on board; 0 when not given
 	CI        float64
 	HasCI     bool // false when the ci cell was empty (a sweep supplies it)
@@ -104,7 +107,7 @@ func (e *FormatError) Error() string {
 // Schedule columns. The required ones must all be in the header (any order).
 var (
 	requiredColumns = []string{"flight", "departure", "route", "aircraft", "tow_kg", "ci"}
-	optionalColumns = []string{"zfw_kg", "fuel_kg", "floor_g", "levels", "speed"}
+	optionalColumns = []string{"zfw_kg", "fuel_kg", "floor_g", "levels", "speed", "policy"}
 )
 
 const (
@@ -432,6 +435,15 @@ func parseRow(rec []string, col map[string]int, line int, file, dir string, rout
 	// is list:330,370.
 	row.Levels = strings.ReplaceAll(get("levels"), ";", ",")
 	row.Speed = get("speed")
+	if pol := get("policy"); pol != "" {
+		if !filepath.IsAbs(pol) {
+			pol = filepath.Join(dir, pol)
+		}
+		row.Policy = filepath.Clean(pol)
+		if err := checkRegular(row.Policy); err != nil {
+			fail("policy", "%v", err)
+		}
+	}
 	for _, c := range []struct{ name, v string }{{"levels", row.Levels}, {"speed", row.Speed}} {
 		if len(c.v) > maxTextCell {
 			fail(c.name, "%d bytes, more than %d", len(c.v), maxTextCell)
