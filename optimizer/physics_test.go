@@ -18,7 +18,7 @@ func longHaul(t testing.TB, rule string) *Problem {
 
 // TestStepsUpAsMassFalls: as fuel burns off the best level rises (at
 // constant CL and Mach the cruise pressure is proportional to mass,
-// testdata/REFERENCES.md isothermal hydrostatics), so in still air at ISA the
+// isothermal hydrostatics, H = R T11 / g), so in still air at ISA the
 // profile only steps up, and a 6,000 NM widebody flight steps at least
 // once (Ng, Sridhar and Grabbe 2014 find multiple cruise altitudes pay on
 // long flights).
@@ -129,7 +129,7 @@ func TestCostIndexOrdering(t *testing.T) {
 // from the same top-of-climb mass over the same distance. The cruise-climb
 // is integrated from dm/dx = -1/SR_max(m), SR_max at each mass from the
 // envelope's optimum level and its maximum-range Mach (the limit of the
-// Breguet range equation with the best L/D, testdata/REFERENCES.md).
+// Breguet range equation with the best L/D; e.g. Anderson, Aircraft Performance and Design, 1999).
 func TestBreguetLimit(t *testing.T) {
 	p := longHaul(t, "every-1000:290-430")
 	p.CI = 0

@@ -5,8 +5,8 @@ import (
 	"testing"
 )
 
-// M 0.80 at FL350 ISA is 271.9 kt CAS (NACA Report 1135 relations;
-// testdata/REFERENCES.md).
+// M 0.80 at FL350 ISA is 271.9 kt CAS (NACA Report 1135, "Equations, tables, and charts for compressible flow", 1953);
+// value computed from its isentropic relations.
 func TestMachToCASReference(t *testing.T) {
 	p := FLToPressure(350)
 	if kt := MachToCAS(0.80, p) / KtToMS; math.Abs(kt-271.9) > 0.05 {
@@ -56,8 +56,8 @@ func TestAirspeedRoundTrips(t *testing.T) {
 	}
 }
 
-// n = 1/cos(bank): 1.3 g is 39.7°, 1.5 g is 48.2° (level-turn relation,
-// testdata/REFERENCES.md).
+// n = 1/cos(bank): 1.3 g is 39.7°, 1.5 g is 48.2° (level-turn relation n = 1/cos(bank),
+// e.g. Anderson, Introduction to Flight).
 func TestLoadFactorBank(t *testing.T) {
 	for _, tc := range []struct{ n, deg float64 }{{1.3, 39.7}, {1.5, 48.2}, {2, 60}} {
 		if got := BankAngle(tc.n) * 180 / math.Pi; math.Abs(got-tc.deg) > 0.05 {

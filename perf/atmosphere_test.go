@@ -8,7 +8,7 @@ import (
 func relErr(got, want float64) float64 { return math.Abs(got-want) / math.Abs(want) }
 
 // Check values: U.S. Standard Atmosphere 1976 (NOAA/NASA/USAF, 1976),
-// as listed in testdata/REFERENCES.md; tolerance 0.01 %.
+// from U.S. Standard Atmosphere 1976 (NOAA/NASA/USAF) tables; tolerance 0.01 %.
 func TestISAReferenceValues(t *testing.T) {
 	tests := []struct {
 		name    string
@@ -42,13 +42,13 @@ func TestISAReferenceValues(t *testing.T) {
 			t.Errorf("%s: a = %.4f, want %.3f", tc.name, SpeedOfSound(tK), tc.soundMS)
 		}
 	}
-	// Sea-level speed of sound 661.48 kt (testdata/REFERENCES.md, USSA 1976).
+	// Sea-level speed of sound 661.48 kt (U.S. Standard Atmosphere 1976).
 	if kt := SpeedOfSound(T0) / KtToMS; math.Abs(kt-661.48) > 0.01 {
 		t.Errorf("a0 = %.3f kt, want 661.48", kt)
 	}
 }
 
-// FL350 238.42 hPa, FL390 196.77 hPa (ICAO Doc 7488 / USSA 1976, testdata/REFERENCES.md).
+// FL350 238.42 hPa, FL390 196.77 hPa (ICAO Doc 7488 / U.S. Standard Atmosphere 1976).
 func TestFlightLevelPressures(t *testing.T) {
 	for _, tc := range []struct{ fl, hPa float64 }{{350, 238.42}, {390, 196.77}} {
 		if got := FLToPressure(tc.fl) / 100; relErr(got, tc.hPa) > 1e-4 {

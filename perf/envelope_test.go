@@ -17,7 +17,7 @@ func mustEnvelope(tb testing.TB, a *Aircraft, mass, dev, floor float64) Envelope
 
 // Isothermal-layer hydrostatics: at constant CL and Mach the cruise
 // pressure is proportional to mass, so the optimum level rises by
-// H ln(m1/m2), H = R T11/g = 6341.6 m (20,806 ft) (testdata/REFERENCES.md).
+// H ln(m1/m2), H = R T11/g = 6341.6 m (20,806 ft) (isothermal hydrostatics; U.S. Standard Atmosphere 1976 T11 = 216.65 K).
 func TestOptimumLevelVsMass(t *testing.T) {
 	a := mustBuiltin(t, "demo-widebody")
 	const m1, m2 = 200000.0, 175000.0
@@ -39,7 +39,7 @@ func TestOptimumLevelVsMass(t *testing.T) {
 }
 
 // Envelope shape: physical consequences of CL = 2 n m g/(γ p M² S) and the
-// buffet boundary (testdata/REFERENCES.md, "Published relations"): the buffet band narrows with altitude, the
+// buffet boundary (lift equation; see perf/point.go): the buffet band narrows with altitude, the
 // floor band lies inside the 1 g band, more mass or a higher floor lowers
 // the buffet-limited level, and a hotter day does not raise the
 // thrust-limited level (thrust lapse and the hydrostatic T_ISA/T factor).

@@ -6,7 +6,7 @@ import (
 	"levelpath/perf"
 )
 
-// The ICAO standard atmosphere at FL350 (testdata/REFERENCES.md: 238.42 hPa,
+// The ICAO standard atmosphere at FL350 (ICAO Doc 7488: 238.42 hPa,
 // 218.81 K; U.S. Standard Atmosphere 1976) and the NACA Report 1135
 // airspeed relation: M 0.80 there is 271.9 kt CAS.
 func ExampleMachToCAS() {

@@ -17,7 +17,7 @@ func mustBuiltin(tb testing.TB, name string) *Aircraft {
 
 // Breguet range equation for jets, R = (V/(g TSFC)) (L/D) ln(m1/m2), is exact
 // for a cruise-climb at constant CL and Mach in the isothermal stratosphere
-// (constant TAS, TSFC and L/D; testdata/REFERENCES.md). Integrating the specific
+// (constant TAS, TSFC and L/D; Breguet range equation, e.g. Anderson, Aircraft Performance and Design, 1999). Integrating the specific
 // range of Point over small mass steps, with pressure proportional to mass
 // so CL stays constant, must match it to 0.1 %.
 func TestBreguetCruiseClimb(t *testing.T) {
@@ -52,7 +52,7 @@ func TestBreguetCruiseClimb(t *testing.T) {
 	}
 }
 
-// CL = 2 n m g/(γ p M² S) (testdata/REFERENCES.md, "Published relations"): the reported CL scales with n while
+// CL = 2 n m g/(γ p M² S) (the lift equation with load factor n = 1/cos(bank)): the reported CL scales with n while
 // drag and fuel stay at n = 1, and the buffet margin is BuffetCL/CL(n=1).
 func TestPointLoadFactor(t *testing.T) {
 	a := mustBuiltin(t, "demo-narrowbody")

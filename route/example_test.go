@@ -10,7 +10,7 @@ import (
 // The WGS-84 inverse problem, checked against GeographicLib's GeodSolve
 // 2.1.2 (`echo "40.6 -73.8 51.6 -0.5" | GeodSolve -i -p 6`: s12 =
 // 5551759.400319 m, azi1 = 51.198883°, azi2 = 107.821777°;
-// testdata/REFERENCES.md).
+// GeographicLib).
 func ExampleInverse() {
 	s12, azi1, azi2 := route.Inverse(40.6, -73.8, 51.6, -0.5)
 	fmt.Printf("%.6f m, %.6f°, %.6f°\n", s12, azi1, azi2)
@@ -18,8 +18,8 @@ func ExampleInverse() {
 }
 
 // The ICAO Annex 2 Appendix 3 semicircular rule: an eastbound course gets
-// the odd levels, a westbound one the even levels (testdata/REFERENCES.md,
-// "Cruising levels").
+// the odd levels, a westbound one the even levels (ICAO Annex 2,
+// Appendix 3).
 func ExampleLevelRule_Allowed() {
 	rule, err := route.ParseLevelRule("odd-even-magnetic:290-410")
 	if err != nil {

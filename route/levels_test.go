@@ -16,7 +16,7 @@ func seq(from, to, step int) []int {
 }
 
 // ICAO Annex 2, Appendix 3, table of cruising levels (RVSM), as quoted in
-// testdata/testdata/REFERENCES.md: track 000-179 odd levels FL290, 310, ..., 410, then
+// ICAO Annex 2, Appendix 3 (RVSM table): track 000-179 odd levels FL290, 310, ..., 410, then
 // 450, 490; 180-359 even levels FL300, ..., 400, then 430, 470, 510; below
 // FL290 odd thousands (FL..., 250, 270) and even thousands (FL..., 260, 280).
 var (

@@ -96,7 +96,7 @@ func checkTrack(t *testing.T, tr *Track, maxSeg float64) {
 	}
 }
 
-// TestBuildTwoWaypoints uses the testdata/REFERENCES.md worked example (GeodSolve
+// TestBuildTwoWaypoints uses a GeographicLib worked example (GeodSolve
 // 2.1.2: 5551759.400319 m, initial azimuth 51.198883).
 func TestBuildTwoWaypoints(t *testing.T) {
 	r, err := ParseInline("A=40.6,-73.8 B=51.6,-0.5")
@@ -116,7 +116,7 @@ func TestBuildTwoWaypoints(t *testing.T) {
 	}
 	checkTrack(t, tr, DefaultMaxSegment)
 	// The final segment's midpoint course is close to the final azimuth
-	// 107.821777 (testdata/REFERENCES.md) less the turn over half a segment.
+	// 107.821777 (GeodSolve 2.1.2) less the turn over half a segment.
 	if c := tr.Segments[59].TrueCourse; c < 106 || c > 107.821777 {
 		t.Errorf("last segment course %v", c)
 	}

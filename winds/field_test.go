@@ -55,7 +55,7 @@ func TestSampleMultilinear(t *testing.T) {
 		lat, lon, p float64
 		dt          time.Duration
 	}{
-		{51.5, 0.1, 23842, 150 * time.Minute}, // FL350 is 238.42 hPa (testdata/REFERENCES.md)
+		{51.5, 0.1, 23842, 150 * time.Minute}, // FL350 is 238.42 hPa (ICAO Doc 7488 / U.S. Standard Atmosphere 1976)
 		{-33.3, 151.2, 27000, 7 * time.Hour},
 		{0, 340, 30000, 0},
 		{90, 10, 20000, 12 * time.Hour},

@@ -355,7 +355,7 @@ func TestBatchCLI(t *testing.T) {
 
 // TestRouteCommand: JSON fields, the GeoJSON form, and a bad route naming
 // its point. The length is checked against GeographicLib (GeodSolve 2.1.2,
-// testdata/REFERENCES.md): (40.6, -73.8) -> (51.6, -0.5) is 5551759.400319 m.
+// GeographicLib GeodSolve 2.1.2): (40.6, -73.8) -> (51.6, -0.5) is 5551759.400319 m.
 func TestRouteCommand(t *testing.T) {
 	code, out, errs := runCLI(t, "route", "40.6,-73.8 51.6,-0.5", "--date", "2026-12-01", "--format", "json")
 	if code != 0 {
@@ -517,7 +517,7 @@ func TestBatchStepPolicy(t *testing.T) {
 }
 
 // TestExitCodeClasses: a command's own failure exits 1, its bad-input
-// error 2, and cobra's rejection of the command line 2 (README, "Commands"; testdata/REFERENCES.md, "Exit codes").
+// error 2, and cobra's rejection of the command line 2 (the exit codes the README documents under "Commands").
 func TestExitCodeClasses(t *testing.T) {
 	saved := subcommands
 	defer func() { subcommands = saved }()

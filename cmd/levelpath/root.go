@@ -16,7 +16,7 @@ import (
 // -ldflags "-X main.version=...".
 var version = "0.1.0-dev"
 
-// Exit codes shared by every command (README, "Commands"; testdata/REFERENCES.md, "Exit codes").
+// Exit codes shared by every command (documented in the README under "Commands").
 const (
 	exitOK       = 0
 	exitInternal = 1
