@@ -158,6 +158,14 @@ func Load(nameOrPath string) (*Aircraft, error) {
 		}
 		return nil, &UnsupportedError{Source: nameOrPath, Reason: fmt.Sprintf("the operator tables of %s are valid (%d cruise fuel-flow points), but planning from tables is not supported yet; use a performance model (built-in or YAML)", t.Name, len(t.CruiseFuelFlow.Values))}
 	}
+	if m := fi.Mode(); !m.IsRegular() {
+		// A FIFO would block the read and a device never end.
+		kind := "a device or socket"
+		if m&os.ModeNamedPipe != 0 {
+			kind = "a named pipe (FIFO)"
+		}
+		return nil, fmt.Errorf("perf: aircraft %q is %s, not a regular file: want a YAML file or a tables directory", nameOrPath, kind)
+	}
 	if fi.Size() > maxFileSize {
 		return nil, &FormatError{Source: nameOrPath, Reason: fmt.Sprintf("file is %d bytes, more than the %d allowed", fi.Size(), maxFileSize)}
 	}

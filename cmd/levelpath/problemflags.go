@@ -5,7 +5,6 @@ import (
 	"io"
 	"math"
 	"os"
-	"slices"
 	"strconv"
 	"strings"
 	"time"
@@ -116,12 +115,9 @@ func openWeather(paths []string, pLow, pHigh float64, o weatherOpts) (*winds.Fie
 		return nil, badInputf("--edr-param %d: want 28..31 (GRIB2 code table 4.2.0.19), or 0 for the default", o.edrParam)
 	}
 	for _, p := range paths {
-		fi, err := os.Stat(p)
-		if err != nil {
+		// winds refuses non-regular files itself; a missing one is named here.
+		if _, err := os.Stat(p); err != nil {
 			return nil, badInputf("weather file %s: %w", p, err)
-		}
-		if err := regularFile("weather file", p, fi); err != nil {
-			return nil, err
 		}
 	}
 	f, err := winds.Options{Budget: o.budgetMiB << 20, EDRParam: o.edrParam}.OpenBetween(pLow, pHigh, paths...)
@@ -131,35 +127,10 @@ func openWeather(paths []string, pLow, pHigh float64, o weatherOpts) (*winds.Fie
 	return f, nil
 }
 
-// regularFile refuses an input that is not a regular file (a FIFO would
-// block the read, a device never end, a directory hold no data) before
-// anything opens it.
-func regularFile(what, path string, fi os.FileInfo) error {
-	if fi.Mode().IsRegular() {
-		return nil
-	}
-	kind := "not a regular file"
-	switch m := fi.Mode(); {
-	case m.IsDir():
-		kind = "a directory"
-	case m&os.ModeNamedPipe != 0:
-		kind = "a named pipe (FIFO)"
-	case m&os.ModeDevice != 0:
-		kind = "a device"
-	}
-	return badInputf("%s %s is %s; want a regular file", what, path, kind)
-}
 
 // problem builds the optimizer problem from the flags, with weather
 // already decoded (shared by batch runs).
 func (f *problemFlags) problem(c *cobra.Command, wx *winds.Field, stderr io.Writer) (*optimizer.Problem, error) {
-	if !slices.Contains(perf.BuiltinNames(), f.aircraft) {
-		if fi, err := os.Stat(f.aircraft); err == nil && !fi.IsDir() { // a directory holds operator tables
-			if err := regularFile("aircraft file", f.aircraft, fi); err != nil {
-				return nil, err
-			}
-		}
-	}
 	a, err := loadAircraft(f.aircraft)
 	if err != nil {
 		return nil, err
