@@ -127,7 +127,6 @@ func openWeather(paths []string, pLow, pHigh float64, o weatherOpts) (*winds.Fie
 	return f, nil
 }
 
-
 // problem builds the optimizer problem from the flags, with weather
 // already decoded (shared by batch runs).
 func (f *problemFlags) problem(c *cobra.Command, wx *winds.Field, stderr io.Writer) (*optimizer.Problem, error) {
