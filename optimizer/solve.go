@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"maps"
+	"math"
 	"slices"
 	"strings"
 )
@@ -49,22 +50,49 @@ func SolveContext(ctx context.Context, p *Problem) (*Plan, error) {
 	if err != nil {
 		return nil, err
 	}
-	s, err := newSolver(&q)
-	if err != nil {
-		return nil, err
+	// The search samples the weather at a nominal time of passage and
+	// prices on a mass grid; exact pricing uses the true times and
+	// masses. Where the two disagree at a limit (a cruise leg exact
+	// pricing finds over the thrust or buffet limit), that level is
+	// closed on that segment for the search and it runs again, at most
+	// maxRecheck times, so that the plan keeps the limits it was asked to.
+	qs := q // the search's problem: q plus the levels exact pricing closed
+	var closed []string
+	var s *solver
+	var res searchResult
+	var plan *Plan
+	for round := 0; ; round++ {
+		if s, err = newSolver(&qs); err != nil {
+			return nil, err
+		}
+		s.ctx = ctx
+		var ok bool
+		res, ok = s.search()
+		if res.err != nil {
+			return nil, res.err
+		}
+		if !ok {
+			if round > 0 {
+				break // keep the last plan found: its violations are listed
+			}
+			return nil, s.infeasible()
+		}
+		next, err := assess(ctx, &q, s.profileOf(res.path), warn, q.LegCeilings)
+		if err != nil {
+			return nil, err
+		}
+		plan = next
+		blocks := recheckBlocks(&q, plan)
+		if len(blocks) == 0 || round == maxRecheck {
+			break
+		}
+		for _, b := range blocks {
+			closed = append(closed, fmt.Sprintf("FL%03d at %.0f-%.0f NM", b.Levels[0], b.FromDist/nmToM, b.ToDist/nmToM))
+		}
+		qs.Blocked = append(slices.Clip(qs.Blocked), blocks...)
 	}
-	s.ctx = ctx
-	res, ok := s.search()
-	if res.err != nil {
-		return nil, res.err
-	}
-	if !ok {
-		return nil, s.infeasible()
-	}
-	prof := s.profileOf(res.path)
-	plan, err := assess(ctx, &q, prof, warn, q.LegCeilings)
-	if err != nil {
-		return nil, err
+	if len(closed) > 0 {
+		plan.Warnings = append(plan.Warnings, "exact pricing found limits the search's nominal weather times did not: planned again without "+strings.Join(closed, ", "))
 	}
 	plan.SearchCost = res.cost
 	if res.violations > 0 {
@@ -89,6 +117,40 @@ func SolveContext(ctx context.Context, p *Problem) (*Plan, error) {
 		return nil, err
 	}
 	return plan, nil
+}
+
+// maxRecheck bounds the searches SolveContext runs again after exact
+// pricing closed a level.
+const maxRecheck = 3
+
+// recheckBlocks returns a block for each cruise leg of plan that exact
+// pricing found over the thrust, buffet or Mach-band limit: its level
+// over the inside of its segment.
+func recheckBlocks(q *Problem, plan *Plan) []Block {
+	var out []Block
+	seen := map[[2]int]bool{}
+	for _, v := range plan.Violations {
+		if v.Leg < 0 || v.Leg >= len(plan.Legs) {
+			continue
+		}
+		switch v.Limit {
+		case LimitThrust, LimitBuffet, LimitMachBand:
+		default:
+			continue
+		}
+		l := plan.Legs[v.Leg]
+		if l.Phase != PhaseCruise || l.Segment < 0 || l.Segment >= len(q.Track.Segments) {
+			continue
+		}
+		fl := int(math.Round(l.FL))
+		if seen[[2]int{l.Segment, fl}] {
+			continue
+		}
+		seen[[2]int{l.Segment, fl}] = true
+		seg := q.Track.Segments[l.Segment]
+		out = append(out, Block{FromDist: seg.FromDist + 1, ToDist: seg.ToDist - 1, Levels: []int{fl}})
+	}
+	return out
 }
 
 // profileOf turns a search path into a Profile.
