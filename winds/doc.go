@@ -53,6 +53,12 @@
 // (Options.EDRParam, DefaultEDRParam) and the rest reported by
 // Field.Warnings.
 //
+// Ensemble forecasts (product template 4.1, one perturbation number a
+// member) are read either one member at a time (Options.Member) or all
+// together (OpenEnsemble: one Field per member on the same grids, levels
+// and times; fields of no member are shared). A member not in the files,
+// or members on different grids, levels or times, is a *MemberError.
+//
 // Units inside the package are SI: Pa, K, m/s, EDR in m^(2/3)/s; angles in
 // degrees.
 package winds

@@ -3,6 +3,7 @@ package winds
 import (
 	"fmt"
 	"math"
+	"slices"
 	"sort"
 	"time"
 )
@@ -80,6 +81,7 @@ type Field struct {
 	prim     *axes // the axes of u (else v, T, EDR): Grid, Bounds, Levels, Times
 	vars     [nslots][]float32
 	warnings []Warning
+	member   int // ensemble member (perturbation number), -1 for none
 }
 
 // A Sample is the field interpolated at one point: wind components (m/s,
@@ -125,20 +127,79 @@ func (o Options) Open(paths ...string) (*Field, error) {
 }
 
 // OpenBetween is the package function OpenBetween with these options: the
-// EDR parameter is o.EDRParam (see selectEDR); the Field's size is
-// checked against o's budget from the headers, before anything is
-// allocated; files that are not regular files are refused before they
-// are opened; warnings go to o.Warn and Field.Warnings.
+// EDR parameter is o.EDRParam (see selectEDR); with o.Member set, only
+// that ensemble member (and fields that belong to no member) is kept;
+// the Field's size is checked against o's budget from the headers, before
+// anything is allocated; files that are not regular files are refused
+// before they are opened; warnings go to o.Warn and Field.Warnings.
 func (o Options) OpenBetween(pLow, pHigh float64, paths ...string) (*Field, error) {
+	r, err := o.prepare(pLow, pHigh, paths)
+	if err != nil {
+		return nil, err
+	}
+	if o.Member != nil {
+		if err := r.selectMember(*o.Member); err != nil {
+			return nil, err
+		}
+	}
+	if err := checkFieldBudget(r.kept, o.budget(), paths); err != nil {
+		return nil, err
+	}
+	fl, err := layout(r.kept)
+	if err != nil {
+		return nil, err
+	}
+	if err := r.fill(o, paths, func(m *Message) error {
+		if r.want(m) {
+			return fl.put(m)
+		}
+		return nil
+	}); err != nil {
+		return nil, err
+	}
+	fl.member = memberOf(r.kept)
+	fl.warnings = append(r.warns, fl.windSanity(r.kept)...)
+	if o.Warn != nil {
+		for _, w := range fl.warnings {
+			o.Warn(w)
+		}
+	}
+	return fl, nil
+}
+
+// aread is a read in progress: the headers of every file, the messages
+// kept (kept parameters on the pressure band, the chosen EDR) and the
+// warnings so far.
+type aread struct {
+	kept  []Message
+	warns []Warning
+	edr   int
+	keep  map[bandKey]bool
+	// member, when not nil, keeps only fields of that ensemble member
+	// and those of no member.
+	member *int
+}
+
+// want reports whether the read keeps message m.
+func (r *aread) want(m *Message) bool {
+	s := slotOf(m.Param)
+	if s < 0 || (s == slotEDR && m.Number != r.edr) || !r.keep[bandKey{s, m.Level}] {
+		return false
+	}
+	return r.member == nil || m.Ensemble < 0 || m.Ensemble == *r.member
+}
+
+// prepare scans the headers of paths and selects the messages kept.
+func (o Options) prepare(pLow, pHigh float64, paths []string) (*aread, error) {
 	if len(paths) == 0 {
 		return nil, fmt.Errorf("winds: Open: no files")
 	}
 	if !(pLow <= pHigh) {
 		return nil, fmt.Errorf("winds: Open: pressure band %g..%g Pa is empty", pLow, pHigh)
 	}
+	r := &aread{}
 	var heads []Message
-	var warns []Warning
-	scanOpts := Options{Budget: o.Budget, Warn: func(w Warning) { warns = append(warns, w) }}
+	scanOpts := Options{Budget: o.Budget, Warn: func(w Warning) { r.warns = append(r.warns, w) }}
 	for _, p := range paths {
 		f, err := openRegular(p)
 		if err != nil {
@@ -155,59 +216,43 @@ func (o Options) OpenBetween(pLow, pHigh float64, paths ...string) (*Field, erro
 	if err != nil {
 		return nil, err
 	}
-	warns = append(warns, edrWarns...)
-	keep := levelBand(heads, edr, pLow, pHigh)
-	want := func(m *Message) bool {
-		s := slotOf(m.Param)
-		return s >= 0 && (s != slotEDR || m.Number == edr) && keep[bandKey{s, m.Level}]
-	}
-	kept := heads[:0:0]
+	r.edr = edr
+	r.warns = append(r.warns, edrWarns...)
+	r.keep = levelBand(heads, edr, pLow, pHigh)
 	for i := range heads {
-		if want(&heads[i]) {
-			kept = append(kept, heads[i])
+		if r.want(&heads[i]) {
+			r.kept = append(r.kept, heads[i])
 		}
 	}
-	if err := unreadableGrid(kept); err != nil {
+	if err := unreadableGrid(r.kept); err != nil {
 		return nil, err
 	}
-	if err := checkFieldBudget(kept, o.budget(), paths); err != nil {
-		return nil, err
-	}
-	fl, err := layout(kept)
-	if err != nil {
-		return nil, err
-	}
+	return r, nil
+}
+
+// fill reads every file again, decoding each message into one reused
+// buffer, and gives it to put (which copies what it keeps).
+func (r *aread) fill(o Options, paths []string, put func(*Message) error) error {
 	// Every message is decoded into the same scratch buffers and copied
 	// into the field, so filling it makes no garbage.
 	scratch := &decodeScratch{reuse: true, budget: o.budget(), warn: func(w Warning) {
 		if w.Message == 0 {
 			return // padding: already warned by the header pass
 		}
-		warns = append(warns, w)
+		r.warns = append(r.warns, w)
 	}}
 	for _, p := range paths {
 		f, err := openRegular(p)
 		if err != nil {
-			return nil, err
+			return err
 		}
-		err = readMessages(f, p, true, scratch, func(m *Message) error {
-			if want(m) {
-				return fl.put(m)
-			}
-			return nil
-		})
+		err = readMessages(f, p, true, scratch, put)
 		f.Close()
 		if err != nil {
-			return nil, err
+			return err
 		}
 	}
-	fl.warnings = append(warns, fl.windSanity(kept)...)
-	if o.Warn != nil {
-		for _, w := range fl.warnings {
-			o.Warn(w)
-		}
-	}
-	return fl, nil
+	return nil
 }
 
 // NewField builds a Field from decoded messages with the default Options.
@@ -217,8 +262,8 @@ func NewField(msgs []Message) (*Field, error) { return NewFieldWith(Options{}, m
 // other are ignored, and EDR messages other than the chosen parameter (see
 // Options.EDRParam). All messages of one variable must share one grid;
 // u, v and temperature must be present at every combination of their
-// valid times and levels, once (select a single ensemble member
-// beforehand); EDR may lack some (NaN there). Missing or repeated
+// valid times and levels, once (of several ensemble members, choose one
+// with Options.Member, or use NewEnsemble); EDR may lack some (NaN there). Missing or repeated
 // combinations are an error naming them. Levels within LevelTolerance of
 // each other are one level.
 func NewFieldWith(o Options, msgs []Message) (*Field, error) {
@@ -232,11 +277,18 @@ func NewFieldWith(o Options, msgs []Message) (*Field, error) {
 			kept = append(kept, m)
 		}
 	}
+	if o.Member != nil {
+		if err := checkMember(*o.Member, kept); err != nil {
+			return nil, err
+		}
+		kept = slices.DeleteFunc(kept, func(m Message) bool { return m.Ensemble >= 0 && m.Ensemble != *o.Member })
+	}
 	f, err := layout(kept)
 	if err != nil {
 		return nil, err
 	}
 	f.warnings = warnings
+	f.member = memberOf(kept)
 	for i := range kept {
 		if err := f.put(&kept[i]); err != nil {
 			return nil, err

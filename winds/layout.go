@@ -114,7 +114,7 @@ func layout(msgs []Message) (*Field, error) {
 		if prev, dup := seen[k]; dup {
 			why := "the same field twice"
 			if m.Ensemble != prev.Ensemble {
-				why = fmt.Sprintf("ensemble members %d and %d; select one member", m.Ensemble, prev.Ensemble)
+				why = fmt.Sprintf("ensemble members %d and %d; choose one member (Options.Member) or open them as an ensemble (OpenEnsemble)", m.Ensemble, prev.Ensemble)
 			}
 			return nil, fmt.Errorf("winds: %s repeats %s (%s)", where(m), where(prev), why)
 		}

@@ -47,6 +47,14 @@ type Options struct {
 	// those they do. Scan and Decode return every EDR message whatever it
 	// is.
 	EDRParam int
+	// Member, when not nil, keeps one ensemble member: the fields whose
+	// perturbation number (GRIB2 product template 4.1) is *Member, and
+	// those of no member (deterministic fields, say EDR from a hazard
+	// file). A member the files do not hold is a *MemberError naming the
+	// members present. Nil keeps every field, and files with several
+	// members are then an error from Open (use OpenEnsemble). Scan and
+	// Decode return every member whatever it is.
+	Member *int
 }
 
 func (o Options) budget() int64 {
