@@ -164,6 +164,9 @@ type Plan struct {
 	// Alternatives are the next-cheapest distinct profiles, when asked
 	// for (see Alternatives); nil otherwise.
 	Alternatives []Alternative
+	// Ensemble is the profile's distribution over the members of an
+	// ensemble forecast (SolveEnsemble, AssessEnsemble); nil otherwise.
+	Ensemble *EnsembleReport
 }
 
 // MinMargin returns the least buffet margin over the cruise and step legs,

@@ -169,6 +169,10 @@ func (s *solver) run(h []float64) (searchResult, bool) {
 	sinkSlot := int32(-1)
 	nodes, viol := 0, 0
 	budget := s.stateBudget()
+	succ := s.successors
+	if s.expand != nil {
+		succ = s.expand // an ensemble's edges (ensemble_graph.go)
+	}
 	for len(hp) > 0 {
 		it := hp.pop()
 		x := &slots[it.slot]
@@ -190,7 +194,7 @@ func (s *solver) run(h []float64) (searchResult, bool) {
 		if cur.id != sourceID {
 			from = hk(stateOf(cur.id).k)
 		}
-		s.successors(cur.id, cur.mass, func(e edge) {
+		succ(cur.id, cur.mass, func(e edge) {
 			c := cur.cost + e.cost
 			hv := 0.0
 			var cell *int32

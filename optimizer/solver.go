@@ -55,6 +55,9 @@ type solver struct {
 	overflowed bool
 	// ctx stops the search when done (see ctxErr); nil: never done.
 	ctx context.Context
+	// expand, when not nil, replaces successors in the search (an
+	// ensemble's edges, priced on every member: ensemble_graph.go).
+	expand func(id int64, m float64, emit func(edge))
 }
 
 // newSolver prepares p (already normalised).

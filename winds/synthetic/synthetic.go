@@ -75,23 +75,50 @@ func Weather(ref time.Time) []winds.Message {
 // (m^(2/3)/s) at latitude, longitude (degrees), pressure p (Pa) and hours
 // after the reference time.
 func Point(lat, lon, p, hours float64) (u, v, t, edr float64) {
+	return PerturbedPoint(lat, lon, p, hours, Perturbation{})
+}
+
+// A Perturbation changes the invented weather as an ensemble member
+// would differ from the control: the jet axes moved north by JetShift
+// degrees and along by Phase degrees of longitude, the jets' strength
+// scaled by 1 + Strength, every temperature raised by TempDev K. The zero
+// value is the unperturbed weather (Point) exactly.
+type Perturbation struct {
+	JetShift, Phase, Strength, TempDev float64
+}
+
+// MemberPerturbation is the invented perturbation of ensemble member n:
+// none for the control (n = 0); otherwise a jet shift of up to 3 degrees,
+// a phase of up to 10 degrees, a strength change of up to 15 % and a
+// temperature change of up to 1.5 K, from fixed sines of n (reproducible).
+func MemberPerturbation(n int) Perturbation {
+	if n == 0 {
+		return Perturbation{}
+	}
+	k := float64(n)
+	return Perturbation{JetShift: 3 * math.Sin(2.4*k), Phase: 10 * math.Sin(0.9*k+0.5), Strength: 0.15 * math.Cos(1.7*k), TempDev: 1.5 * math.Cos(3.1*k)}
+}
+
+// PerturbedPoint is Point with the perturbation d.
+func PerturbedPoint(lat, lon, p, hours float64, d Perturbation) (u, v, t, edr float64) {
 	rad := math.Pi / 180
 	// Jet axes meander with longitude and drift eastward with time.
-	phase := (lon - 8*hours) * rad
-	jetN := 42 + 7*math.Sin(3*phase)
-	jetS := -45 + 5*math.Sin(2*phase+1)
+	phase := (lon - 8*hours - d.Phase) * rad
+	jetN := 42 + 7*math.Sin(3*phase) + d.JetShift
+	jetS := -45 + 5*math.Sin(2*phase+1) - d.JetShift
 	vert := math.Exp(-sq(math.Log(p/25000) / 0.45))
-	u = 8*math.Cos(lat*rad) + vert*(62*math.Exp(-sq((lat-jetN)/7))+45*math.Exp(-sq((lat-jetS)/7)))
+	g := 1 + d.Strength
+	u = 8*math.Cos(lat*rad) + vert*g*(62*math.Exp(-sq((lat-jetN)/7))+45*math.Exp(-sq((lat-jetS)/7)))
 	// Meridional wind follows the meander: the slope of the jet axis.
 	slopeN := 21 * math.Cos(3*phase)
-	v = vert * 62 * math.Exp(-sq((lat-jetN)/7)) * slopeN / 57.3 * 0.9
+	v = vert * g * 62 * math.Exp(-sq((lat-jetN)/7)) * slopeN / 57.3 * 0.9
 	// Temperature: ISA at the pressure level plus a latitude-dependent
 	// deviation, smaller above the tropopause.
 	dev := 9*math.Cos(2*lat*rad) - 2
 	if p < synTropopause {
 		dev *= 0.5
 	}
-	t = synISA(p) + dev
+	t = synISA(p) + dev + d.TempDev
 	// Turbulence: a patch over the northern ocean near the jet level.
 	edr = 0.04 + 0.36*vert*math.Exp(-sq((lat-59)/3))*math.Exp(-sq(angDiff(lon, 340)/8))
 	return u, v, t, edr
@@ -117,4 +144,58 @@ func synISA(p float64) float64 {
 func angDiff(a, b float64) float64 {
 	d := math.Mod(a-b+540, 360) - 180
 	return d
+}
+
+// Ensemble grid: global, 5 degrees; cruise levels only; a day at 6-hour
+// steps. Coarser than Weather's so that ten members stay small.
+const (
+	ensStep = 5.0
+	ensNi   = 72
+	ensNj   = 37
+)
+
+var (
+	ensLevels = [...]float64{40000, 30000, 25000, 20000, 15000}
+	ensHours  = [...]int{0, 6, 12, 18, 24}
+)
+
+// Ensemble returns an invented ensemble of members forecasts (members 0,
+// the control, to members-1) as GRIB messages with product template 4.1
+// (Message.Ensemble the member number): u, v and temperature of Point
+// perturbed by MemberPerturbation, on a global 5-degree grid at 400 to
+// 150 hPa, valid at ref plus 0 to 24 hours every 6. No EDR: turbulence
+// stays with the deterministic weather. Reproducible: no randomness.
+func Ensemble(ref time.Time, members int) []winds.Message {
+	var msgs []winds.Message
+	n := ensNi * ensNj
+	for k := range members {
+		d := MemberPerturbation(k)
+		for _, h := range ensHours {
+			vt := ref.Add(time.Duration(h) * time.Hour)
+			for _, p := range ensLevels {
+				u := make([]float32, n)
+				v := make([]float32, n)
+				t := make([]float32, n)
+				for j := range ensNj {
+					lat := 90 - float64(j)*ensStep
+					for i := range ensNi {
+						uu, vv, tt, _ := PerturbedPoint(lat, float64(i)*ensStep, p, float64(h), d)
+						u[j*ensNi+i], v[j*ensNi+i], t[j*ensNi+i] = float32(uu), float32(vv), float32(tt)
+					}
+				}
+				base := winds.Message{LevelType: 100, Level: p, RefTime: ref, ValidTime: vt, Ni: ensNi, Nj: ensNj,
+					Lat1: 90, Lon1: 0, Lat2: -90, Lon2: 360 - ensStep, Di: ensStep, Dj: ensStep, Ensemble: k}
+				for _, f := range []struct {
+					cat, num int
+					par      winds.Param
+					vals     []float32
+				}{{2, 2, "u", u}, {2, 3, "v", v}, {0, 0, "t", t}} {
+					m := base
+					m.Discipline, m.Category, m.Number, m.Param, m.Values = 0, f.cat, f.num, f.par, f.vals
+					msgs = append(msgs, m)
+				}
+			}
+		}
+	}
+	return msgs
 }
