@@ -20,8 +20,8 @@ func (s *sim) step(k int, ch Change, c cond, steps *int, lastStep *float64) erro
 	switch {
 	case q.Steps.NoSteps:
 		s.violate(LimitStepRule, 0, "", fmt.Sprintf("change at %.0f NM: steps are not allowed", s.x/nmToM))
-	case abs(to-from)*100 > q.Steps.MaxChange:
-		s.violate(LimitStepRule, float64(abs(to-from)*100-q.Steps.MaxChange), "ft", fmt.Sprintf("change FL%03d to FL%03d exceeds the largest step %d ft", from, to, q.Steps.MaxChange))
+	case abs(to-from)*100 > q.Steps.maxChangeFt():
+		s.violate(LimitStepRule, float64(abs(to-from)*100-q.Steps.maxChangeFt()), "ft", fmt.Sprintf("change FL%03d to FL%03d exceeds the largest step %d ft", from, to, q.Steps.maxChangeFt()))
 	case to < from && !q.Steps.AllowDescent && containsInt(seg.Levels, from) && !blocked(q.Blocked, seg.FromDist, seg.ToDist, from) && !c.closed:
 		// A step descent is forced (and allowed) where the level stops
 		// being available on the segment: the search's rule.
