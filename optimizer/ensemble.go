@@ -78,6 +78,11 @@ type EnsembleProblem struct {
 	// edge of the profile must keep its limits (the buffet floor among
 	// them): 1 (the default, for 0) asks for every member.
 	RobustShare float64
+	// MemberMach prices every member in the search at its own econ (or
+	// LRC) Mach with its own memo, as Solve would, instead of at the
+	// control's Mach (see ensSearch): members times the search's pricing
+	// work, for a check of the shared Mach.
+	MemberMach bool
 	// Regret asks for each member's own best profile (one more search a
 	// member) and its regret: what flying its own profile would have
 	// saved on that member.
@@ -174,13 +179,23 @@ func sameAxes(a, b *winds.Field) error {
 // planning considering wind uncertainty", 7th European Conference for
 // Aeronautics and Space Sciences (EUCASS), 2017: a shortest path over a
 // graph whose edges carry every ensemble member's price, minimising the
-// members' mean cost with Dijkstra's algorithm (here A* under the mean of
-// the members' bounds, which returns Dijkstra's result). Each edge is
-// priced on every member at the node's mass, in one search over one graph
-// (the control member's segments and levels), with each member's own
-// memo, so that N members cost N edge pricings but one search, not N
-// plans; the expected cost of a path is then the sum of its edges' mean
-// costs, exactly (linearity of the mean). Deviations:
+// members' mean cost with Dijkstra's algorithm. Each edge is priced on
+// every member at the node's mass, in one search over one graph (the
+// control member's segments and levels); the expected cost of a path is
+// then the sum of its edges' mean costs, exactly (linearity of the mean).
+// Deviations:
+//
+//   - Shared work: the control prices each edge with Solve's model; every
+//     other member flies the control's Mach on it with its own wind,
+//     temperature and floor (one aircraft point instead of a Mach
+//     optimisation: second order in the Mach difference at the econ Mach,
+//     see ensSearch), or takes the control's price where its weather is
+//     the control's; EnsembleProblem.MemberMach prices each member with
+//     its own econ Mach instead. The priced results below fly each
+//     member's own econ Mach.
+//   - Plain Dijkstra, not A*: a bound of the members' mean cost would be
+//     the mean of one bound a member, which costs about what the shared
+//     pricing saves.
 //
 //   - One mass per node: the members' masses are collapsed to their mean
 //     (the mean fuel of each edge), so an edge is priced on every member
@@ -226,9 +241,11 @@ func sameAxes(a, b *winds.Field) error {
 // with Plan.Ensemble holding the distribution over every member.
 //
 // An ensemble whose members are all equal gives exactly Solve's plan of
-// one of them (with the Ensemble report added).
+// one of them (with the Ensemble report added; Nodes and Edges count the
+// ensemble's Dijkstra search, not Solve's A*).
 //
-// Complexity: one search over the graph with members x edges pricings,
+// Complexity: one search over the graph with members x edges pricings
+// (one aircraft point each, the control's a Mach optimisation),
 // plus members exact pricings of each profile compared, plus one
 // deterministic search (the control's own profile), plus one a member
 // with Regret.
@@ -255,7 +272,7 @@ func SolveEnsemble(ctx context.Context, ep *EnsembleProblem) (*Plan, error) {
 			}
 			ss[i].ctx = ctx
 		}
-		es := &ensSearch{members: ss, need: need, obj: e.Objective}
+		es := &ensSearch{members: ss, need: need, obj: e.Objective, memberMach: e.MemberMach}
 		ss[0].expand = es.successors
 		var ok bool
 		res, ok = es.search(ss[0])

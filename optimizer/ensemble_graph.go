@@ -3,23 +3,39 @@ package optimizer
 import (
 	"math"
 	"slices"
+
+	"levelpath/perf"
 )
 
 // ensSearch prices the edges of one search graph on every member of an
 // ensemble: the graph (boundaries, levels, step rules) is the control
-// member's, each edge is priced by each member's own solver (its own
-// winds, temperatures, econ Mach and memo) at the node's mass, and the
-// members' prices are combined into one edge (combine). Where the members
-// would place a piece of the profile differently (the top of climb's
-// segment, the top of descent's segment, whether a step fits in the next
-// segment's ground), the control member decides and every member prices
-// that piece from its own ground distances.
+// member's, each edge is priced on each member at the node's mass, and
+// the members' prices are combined into one edge (combine). Where the
+// members would place a piece of the profile differently (the top of
+// climb's segment, the top of descent's segment), the control member
+// decides and every member prices that piece from its own ground
+// distances.
+//
+// Work shared across members: the control prices every edge with the
+// search's own model (econ Mach and memo, as Solve does); a member whose
+// weather on the edge's segment and levels equals the control's takes
+// the control's price; any other member flies the control's Mach
+// (sharedMach): one aircraft point per mass with the member's own wind,
+// temperature and floor, instead of a Mach optimisation. At the econ Mach
+// the cost's derivative in Mach is zero, so flying the control's econ
+// Mach instead of the member's own costs the member only a second-order
+// amount in the Mach difference (the envelope theorem); the exact pricing
+// afterwards flies each member's own econ Mach. Steps are priced from the
+// control's step memo at the member's mean temperature deviation (the
+// memo's key); with memberMach every member is priced with its own econ
+// Mach and memo instead (members times the control's work).
 type ensSearch struct {
-	members []*solver // members[0] is the control
-	need    int       // members an edge must be feasible in
-	obj     Objective
-	costs   []float64 // scratch: the feasible members' costs
-	fuels   []float64
+	members    []*solver // members[0] is the control
+	need       int       // members an edge must be feasible in
+	obj        Objective
+	memberMach bool
+	costs      []float64 // scratch: the feasible members' costs
+	fuels      []float64
 }
 
 // memberPrice is one member's price of an edge: fuel (kg), time (s), and
@@ -30,12 +46,28 @@ type memberPrice func(s *solver) (fuel, t float64, ok bool)
 // infeasible when it is feasible in fewer than need members; otherwise
 // the mean fuel of the feasible members (the mass the search carries on)
 // and, for the objective, the mean (or the q-quantile) of their costs.
-// The mean is taken as x0 + sum(xi - x0)/n, so that identical members
-// give x0 exactly. Time O(members); the quantile O(members log members).
-func (e *ensSearch) combine(price memberPrice) (fuel, cost float64, ok bool) {
+// ctrl is the search's own price (the control's, and every member's with
+// memberMach), shared the shared-Mach price (see ensSearch); keys are the
+// (segment, level) pairs whose weather the edge depends on. The mean is
+// taken as x0 + sum(xi - x0)/n, so that identical members give x0
+// exactly. Time O(members); the quantile O(members log members).
+func (e *ensSearch) combine(ctrl, shared memberPrice, keys ...[2]int) (fuel, cost float64, ok bool) {
 	e.costs, e.fuels = e.costs[:0], e.fuels[:0]
+	c := e.members[0]
+	f0, t0, ok0 := ctrl(c)
 	for i, s := range e.members {
-		f, t, ok := price(s)
+		var f, t float64
+		var ok bool
+		switch {
+		case i == 0:
+			f, t, ok = f0, t0, ok0
+		case e.memberMach:
+			f, t, ok = ctrl(s)
+		case sameConds(c, s, keys):
+			f, t, ok = f0, t0, ok0
+		default:
+			f, t, ok = shared(s)
+		}
 		if ok {
 			e.costs = append(e.costs, s.costOf(f, t))
 			e.fuels = append(e.fuels, f)
@@ -51,6 +83,108 @@ func (e *ensSearch) combine(price memberPrice) (fuel, cost float64, ok bool) {
 		return fuel, quantile7(e.costs, e.obj.Quantile), true
 	}
 	return fuel, meanRel(e.costs), true
+}
+
+// sameConds reports whether member s has the control's weather at every
+// (segment, level) of keys.
+func sameConds(c, s *solver, keys [][2]int) bool {
+	for _, k := range keys {
+		if c.conds[k[0]][k[1]] != s.conds[k[0]][k[1]] {
+			return false
+		}
+	}
+	return true
+}
+
+// sharedCruise is cruiseLeg for member s at the control's Mach at mass m
+// (its own econ Mach where the control has none): the member's wind,
+// temperature and floor at the start of the leg, where feasibility is
+// decided; over the leg, fuel flow and true airspeed change from the
+// start by the control's own ratios between its start and mid-leg masses
+// (the mass effect; the member's own temperature and wind scale both
+// ends alike). A member whose temperature, floor and closure equal the
+// control's flies the control's aircraft point itself (only the ground
+// speed differs): no aircraft point is evaluated for it.
+func (e *ensSearch) sharedCruise(s *solver, k, li int, m, d float64) (fuel, t float64, ok bool) {
+	c0 := e.members[0]
+	v0 := c0.cruiseAt(k, li, m)
+	if !v0.ok {
+		f, t, v := s.cruiseLeg(k, li, m, d)
+		return f, t, v.ok
+	}
+	c, cc := s.conds[k][li], c0.conds[k][li]
+	v := v0
+	if c.isaDev != cc.isaDev || c.floor != cc.floor || c.closed != cc.closed {
+		if v = cruiseAtMach(s, li, m, v0.mach, c); !v.ok {
+			return 0, 0, false
+		}
+	}
+	gs := v.tas + c.wind
+	if gs < 50 {
+		return 0, 0, false
+	}
+	vm := c0.cruiseAt(k, li, m-v.ff*d/gs/2)
+	ff, tas := v.ff, v.tas
+	if vm.ok {
+		ff, tas = v.ff*(vm.ff/v0.ff), v.tas*(vm.tas/v0.tas)
+	}
+	t = d / (tas + c.wind)
+	return ff * t, t, true
+}
+
+// cruiseAtMach is cruise at level li, mass m and the given Mach in
+// conditions c: one aircraft point and the limits cruiseEval checks
+// (closed level, thrust, residual climb, buffet floor) and the Mach band
+// a fixed Mach keeps (buffet Machs at the floor, MMO: a Mach the control
+// flies at the same mass and level is inside them unless the member's
+// floor is higher).
+func cruiseAtMach(s *solver, li int, m, mach float64, c cond) cruiseVal {
+	if c.closed {
+		return cruiseVal{lim: LimitTurbulence}
+	}
+	pt := s.a.Point(perf.State{Mass: m, Pressure: s.press[li], Mach: mach, ISADev: c.isaDev, LoadFactor: 1})
+	v := cruiseVal{mach: mach, tas: pt.TAS, ff: pt.FuelFlow, resid: pt.ResidualClimb, margin: pt.BuffetMargin}
+	switch {
+	case pt.ThrustLimited:
+		v.lim = LimitThrust
+	case pt.ResidualClimb < fpm300:
+		v.lim = LimitThrust
+	case pt.BuffetMargin < c.floor-1e-9:
+		v.lim = LimitBuffet
+	case mach > s.a.MMO+1e-9:
+		v.lim = LimitMachBand
+	default:
+		v.ok = true
+	}
+	return v
+}
+
+// sharedStep prices member s's step from level li to lj on segment k at
+// mass m at the control's Mach (as transAt chooses it) and the member's
+// mean temperature deviation, from the control's step memo.
+func (e *ensSearch) sharedStep(s *solver, k, li, lj int, m float64) transVal {
+	c := e.members[0]
+	v := c.cruiseAt(k, lj, m)
+	if !v.ok {
+		v = c.cruiseAt(k, li, m)
+	}
+	if !v.ok {
+		return s.transAt(k, li, lj, m)
+	}
+	dev := (s.conds[k][li].isaDev + s.conds[k][lj].isaDev) / 2
+	mi := int(math.Round(v.mach / c.machStep))
+	di := int(math.Round(dev/c.devStep)) + 200
+	if di < 0 || di > 400 {
+		return c.transExact(li, lj, m, v.mach, dev)
+	}
+	g := int(math.Floor(m / c.grid))
+	v0, v1 := c.transGrid(li, lj, g, mi, di)
+	if !v0.ok || !v1.ok {
+		return c.transExact(li, lj, m, float64(mi)*c.machStep, float64(di-200)*c.devStep)
+	}
+	t := (m - float64(g)*c.grid) / c.grid
+	l := func(a, b float64) float64 { return a + (b-a)*t }
+	return transVal{ok: true, fuel: l(v0.fuel, v1.fuel), time: l(v0.time, v1.time), dist: l(v0.dist, v1.dist), mach: v0.mach}
 }
 
 // meanRel is the mean of xs as xs[0] + sum(xi - xs[0])/n (exact when all
@@ -119,6 +253,7 @@ func (e *ensSearch) descentEdge(st state, m float64, emit func(edge)) {
 		return
 	}
 	c.edges++
+	last := len(c.conds) - 1
 	fuel, cost, ok := e.combine(func(s *solver) (float64, float64, bool) {
 		d, dg := s.descentGround(li, m)
 		if !d.ok {
@@ -126,7 +261,14 @@ func (e *ensSearch) descentEdge(st state, m float64, emit func(edge)) {
 		}
 		f, t, v := s.cruiseLeg(k, li, m, s.total-dg-s.bounds[k])
 		return f + d.fuel, t + d.time, v.ok && f+d.fuel > 0 && t+d.time > 0
-	})
+	}, func(s *solver) (float64, float64, bool) {
+		d, dg := s.descentGround(li, m)
+		if !d.ok {
+			return 0, 0, false
+		}
+		f, t, ok := e.sharedCruise(s, k, li, m, s.total-dg-s.bounds[k])
+		return f + d.fuel, t + d.time, ok && f+d.fuel > 0 && t+d.time > 0
+	}, [2]int{k, li}, [2]int{last, li})
 	if ok {
 		emit(edge{to: sinkID, fuel: fuel, cost: cost})
 	}
@@ -145,7 +287,9 @@ func (e *ensSearch) cruiseEdge(st, next state, m float64, emit func(edge)) {
 	fuel, cost, ok := e.combine(func(s *solver) (float64, float64, bool) {
 		f, t, v := s.cruiseLeg(k, li, m, segLen)
 		return f, t, v.ok
-	})
+	}, func(s *solver) (float64, float64, bool) {
+		return e.sharedCruise(s, k, li, m, segLen)
+	}, [2]int{k, li})
 	if !ok || !c.beforeTOD(li, m-fuel, k+1) {
 		return
 	}
@@ -164,7 +308,7 @@ func (e *ensSearch) stepEdges(st, next state, m float64, emit func(edge)) {
 	k, li := st.k, st.li
 	K := len(c.conds)
 	segLen := c.bounds[k+1] - c.bounds[k]
-	maxD := c.p.Steps.MaxChange / 100
+	maxD := c.p.Steps.maxChangeFt() / 100
 	for lj := range c.levels {
 		dfl := c.levels[lj] - c.levels[li]
 		if dfl == 0 || dfl > maxD || -dfl > maxD || !c.allow[k][lj] {
@@ -174,8 +318,7 @@ func (e *ensSearch) stepEdges(st, next state, m float64, emit func(edge)) {
 			continue
 		}
 		c.edges++
-		fuel, cost, ok := e.combine(func(s *solver) (float64, float64, bool) {
-			tr := s.transAt(k, li, lj, m)
+		step := func(s *solver, tr transVal, cruise func(s *solver, m, d float64) (float64, float64, bool)) (float64, float64, bool) {
 			if !tr.ok {
 				return 0, 0, false
 			}
@@ -184,11 +327,21 @@ func (e *ensSearch) stepEdges(st, next state, m float64, emit func(edge)) {
 			if k+1 < K && rem < -(s.bounds[k+2]-s.bounds[k+1]) || k+1 == K && rem < 0 {
 				return 0, 0, false
 			}
-			f, t, v := s.cruiseLeg(k, lj, m-tr.fuel, rem)
+			f, t, ok := cruise(s, m-tr.fuel, rem)
 			f += tr.fuel
 			t += tr.time
-			return f, t, v.ok && f > 0 && t > 0
-		})
+			return f, t, ok && f > 0 && t > 0
+		}
+		fuel, cost, ok := e.combine(func(s *solver) (float64, float64, bool) {
+			return step(s, s.transAt(k, li, lj, m), func(s *solver, m, d float64) (float64, float64, bool) {
+				f, t, v := s.cruiseLeg(k, lj, m, d)
+				return f, t, v.ok
+			})
+		}, func(s *solver) (float64, float64, bool) {
+			return step(s, e.sharedStep(s, k, li, lj, m), func(s *solver, m, d float64) (float64, float64, bool) {
+				return e.sharedCruise(s, k, lj, m, d)
+			})
+		}, [2]int{k, li}, [2]int{k, lj})
 		if !ok || !c.beforeTOD(lj, m-fuel, k+1) {
 			continue
 		}
@@ -224,16 +377,24 @@ func (e *ensSearch) climbEdges(emit func(edge)) {
 		if !c.allow[j][li] {
 			continue
 		}
-		fuel, cost, ok := e.combine(func(s *solver) (float64, float64, bool) {
+		climb := func(s *solver, cruise func(s *solver, m, d float64) (float64, float64, bool)) (float64, float64, bool) {
 			cl, ground := s.initialClimb(li)
 			if !cl.ok || ground >= s.total {
 				return 0, 0, false
 			}
-			f, t, v := s.cruiseLeg(j, li, tow-cl.fuel, s.bounds[j+1]-ground)
+			f, t, ok := cruise(s, tow-cl.fuel, s.bounds[j+1]-ground)
 			f += cl.fuel
 			t += cl.time
-			return f, t, v.ok && f > 0 && t > 0
-		})
+			return f, t, ok && f > 0 && t > 0
+		}
+		fuel, cost, ok := e.combine(func(s *solver) (float64, float64, bool) {
+			return climb(s, func(s *solver, m, d float64) (float64, float64, bool) {
+				f, t, v := s.cruiseLeg(j, li, m, d)
+				return f, t, v.ok
+			})
+		}, func(s *solver) (float64, float64, bool) {
+			return climb(s, func(s *solver, m, d float64) (float64, float64, bool) { return e.sharedCruise(s, j, li, m, d) })
+		}, [2]int{0, li}, [2]int{j, li})
 		if !ok || !c.beforeTOD(li, tow-fuel, j+1) {
 			continue
 		}
@@ -249,54 +410,10 @@ func (e *ensSearch) climbEdges(emit func(edge)) {
 	}
 }
 
-// search is solver.search on the ensemble: A* under the members' mean
-// bound (mean of each member's searchBound at the same assumed cost; for
-// the mean objective each member's bound is consistent on its own edge
-// prices, so their mean is on the mean's, up to the mass the members
-// share, see SolveEnsemble), with solver.search's reruns: from the cost
-// found when it passes the assumed cost, and plain Dijkstra when an edge's
-// reduced cost is negative. The quantile objective is searched by plain
-// Dijkstra (a quantile of sums is no sum of quantiles, so no bound of the
-// members' is one of the objective).
+// search runs the ensemble's search: plain Dijkstra (no A* bound; the
+// members' bounds, one per member, would cost about what the cheaper
+// member pricing saves, and plain Dijkstra settles only about half as
+// many nodes again on the demo long haul). Any objective works with it.
 func (e *ensSearch) search(d *solver) (searchResult, bool) {
-	if e.obj.Quantile > 0 || d.dijkstra {
-		return d.run(nil)
-	}
-	bound := func(u float64) []float64 {
-		hs := make([][]float64, len(e.members))
-		for i, s := range e.members {
-			hs[i] = s.searchBound(u)
-		}
-		h := make([]float64, len(hs[0]))
-		col := make([]float64, len(hs))
-		for k := range h {
-			for i := range hs {
-				col[i] = hs[i][k]
-			}
-			h[k] = meanRel(col)
-		}
-		d.boundCost = u
-		return h
-	}
-	h := bound(e.members[0].guessCost())
-	if err := ctxErr(d.ctx); err != nil {
-		return searchResult{err: err}, false
-	}
-	res, ok := d.run(h)
-	for i := 0; i < 3 && ok && res.err == nil; i++ {
-		switch {
-		case res.cost > d.boundCost*(1+1e-12):
-			h = bound(res.cost)
-			r, ok2 := d.run(h)
-			r.reruns = res.reruns + 1
-			res, ok = r, ok2
-		case res.violations > 0:
-			r, ok2 := d.run(nil)
-			r.violations, r.reruns = res.violations, res.reruns+1
-			return r, ok2
-		default:
-			return res, ok
-		}
-	}
-	return res, ok
+	return d.run(nil)
 }

