@@ -193,6 +193,7 @@ func sameAxes(a, b *winds.Field) error {
 //     the control's; EnsembleProblem.MemberMach prices each member with
 //     its own econ Mach instead. The priced results below fly each
 //     member's own econ Mach.
+//
 //   - Plain Dijkstra, not A*: a bound of the members' mean cost would be
 //     the mean of one bound a member, which costs about what the shared
 //     pricing saves.
@@ -204,13 +205,16 @@ func sameAxes(a, b *winds.Field) error {
 //     trip fuels differ by a few hundred kilograms on a long haul);
 //     the chosen profile is then priced on each member exactly, with the
 //     member's own mass (Assess), and those prices are what is reported.
+//
 //   - Where members would place a piece of the profile in different
 //     segments (top of climb, top of descent, whether a step ends within
 //     the next segment), the control member decides and each member
 //     prices the piece from its own ground distances.
+//
 //   - RobustShare below 1 allows an edge that keeps its limits in that
 //     share of members; its cost is the mean (or quantile) over those
 //     members only.
+//
 //   - The quantile objective (Objective.Quantile) is a heuristic: each
 //     edge costs the q-quantile of its members' costs, and the search is
 //     plain Dijkstra on those. The quantile of a sum is not the sum of
