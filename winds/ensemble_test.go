@@ -238,7 +238,7 @@ func TestEnsembleBadInput(t *testing.T) {
 	if _, err := (Options{Member: &n}).OpenEnsemble(all); !errors.As(err, &me) || me.Member != 5 {
 		t.Errorf("OpenEnsemble member 5: %v", err)
 	}
-	if _, err := Open(all); err == nil || !strings.Contains(err.Error(), "ensemble members") || !strings.Contains(err.Error(), "Options.Member") {
+	if _, err := Open(all); !errors.As(err, &me) || me.Member != 1 || !strings.Contains(err.Error(), "ensemble member") || !strings.Contains(err.Error(), "Options.Member") {
 		t.Errorf("several members, none chosen: %v", err)
 	}
 	det := filepath.Join(dir, "det.grib2")

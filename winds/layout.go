@@ -112,11 +112,11 @@ func layout(msgs []Message) (*Field, error) {
 		s := slotOf(m.Param)
 		k := fieldKey{s, m.ValidTime.Unix(), levelIndex(f.ax[s].levels, m.Level)}
 		if prev, dup := seen[k]; dup {
-			why := "the same field twice"
 			if m.Ensemble != prev.Ensemble {
-				why = fmt.Sprintf("ensemble members %d and %d; choose one member (Options.Member) or open them as an ensemble (OpenEnsemble)", m.Ensemble, prev.Ensemble)
+				return nil, &MemberError{Source: m.Source, Member: m.Ensemble, What: fmt.Sprintf("%s repeats %s as another ensemble member (members %d and %d): choose one member (Options.Member) or open them all as an ensemble (OpenEnsemble)",
+					strings.TrimPrefix(where(m), m.Source+" "), where(prev), m.Ensemble, prev.Ensemble)}
 			}
-			return nil, fmt.Errorf("winds: %s repeats %s (%s)", where(m), where(prev), why)
+			return nil, fmt.Errorf("winds: %s repeats %s (the same field twice)", where(m), where(prev))
 		}
 		seen[k] = m
 	}

@@ -9,6 +9,7 @@ import (
 
 	"levelpath/optimizer"
 	"levelpath/optimizer/planjson"
+	"levelpath/winds"
 )
 
 func writePlan(w io.Writer, format string, p *optimizer.Plan, assessed, brief bool) error {
@@ -30,6 +31,7 @@ type planFlags struct {
 	brief                  bool
 	fuelPlan               fuelPlanFlags
 	inFlight               inFlightFlags
+	ens                    ensembleFlags
 }
 
 func (f *planFlags) register(c *cobra.Command) {
@@ -38,6 +40,7 @@ func (f *planFlags) register(c *cobra.Command) {
 	c.Flags().StringVar(&f.chart, "chart", "", "also draw the profile chart to FILE (.svg, .png or .pdf)")
 	c.Flags().StringVar(&f.report, "report", "", "also write a self-contained HTML flight report to FILE (.html)")
 	c.Flags().BoolVar(&f.brief, "brief", false, "table: one screen, without the waypoint and leg tables")
+	f.ens.register(c)
 }
 
 // run builds the problem, prices it with price and writes the outputs.
@@ -48,7 +51,17 @@ func (f *planFlags) run(cmd *cobra.Command, assessed bool, price func(*optimizer
 	if err := checkOutputs(f.chart, f.report); err != nil {
 		return err
 	}
-	wx, err := loadWeather(f.weather, f.wx)
+	if err := f.ens.check(cmd, f.weather); err != nil {
+		return err
+	}
+	var wx *winds.Field
+	var err error
+	if f.ens.ensemble {
+		wx, err = f.ens.open(f.weather, f.wx)
+	} else {
+		wx, err = loadWeather(f.weather, f.ens.weatherOpts(cmd, f.wx))
+		err = memberHint(err)
+	}
 	if err != nil {
 		return err
 	}
@@ -119,6 +132,9 @@ func newPlanCmd() *cobra.Command {
 			return badInputf("--alternatives %d: want 0..20", f.alternatives)
 		}
 		return f.run(cmd, false, func(p *optimizer.Problem) (*optimizer.Plan, error) {
+			if f.ens.ensemble {
+				return f.ens.solve(p)
+			}
 			plan, err := optimizer.Solve(p)
 			if err != nil || f.alternatives == 0 {
 				return plan, err
@@ -152,7 +168,12 @@ func newAssessCmd() *cobra.Command {
 		if err != nil {
 			return badInputf("--profile: %v", err)
 		}
-		return f.run(cmd, true, func(p *optimizer.Problem) (*optimizer.Plan, error) { return optimizer.Assess(p, prof) })
+		return f.run(cmd, true, func(p *optimizer.Problem) (*optimizer.Plan, error) {
+			if f.ens.ensemble {
+				return f.ens.assess(p, prof)
+			}
+			return optimizer.Assess(p, prof)
+		})
 	}
 	return c
 }

@@ -94,6 +94,7 @@ func loadWeather(paths []string, o weatherOpts) (*winds.Field, error) {
 type weatherOpts struct {
 	budgetMiB int64
 	edrParam  int
+	member    *int // --member: one ensemble member (nil: all fields)
 }
 
 // weatherFlags registers --weather-budget-mib and --edr-param on c.
@@ -118,7 +119,7 @@ func openWeather(paths []string, pLow, pHigh float64, o weatherOpts) (*winds.Fie
 			return nil, badInputf("weather file %s: %w", p, err)
 		}
 	}
-	f, err := winds.Options{Budget: o.budgetMiB << 20, EDRParam: o.edrParam}.OpenBetween(pLow, pHigh, paths...)
+	f, err := winds.Options{Budget: o.budgetMiB << 20, EDRParam: o.edrParam, Member: o.member}.OpenBetween(pLow, pHigh, paths...)
 	if err != nil {
 		return nil, badInput(err)
 	}

@@ -50,6 +50,8 @@ type Doc struct {
 	// Alternatives are present when they were asked for (plan
 	// --alternatives K).
 	Alternatives []Alternative `json:"alternatives,omitempty"`
+	// Ensemble is present for a plan against an ensemble forecast.
+	Ensemble *Ensemble `json:"ensemble,omitempty"`
 	// Policy is the resolved policy the plan was made under.
 	Policy Policy `json:"policy"`
 }
@@ -233,6 +235,7 @@ func FromPlan(p *optimizer.Plan, assessed bool) *Doc {
 			FuelKg: a.Totals.Fuel, TimeMin: a.Totals.Time / 60, Cost: a.Totals.Cost, MinMarginG: Number(a.MinMargin),
 			InitialFL: a.Profile.Initial, StepsCount: len(a.Profile.Changes), LandingMass: a.Totals.LandingMass})
 	}
+	d.Ensemble = ensembleDoc(p.Ensemble)
 	if !assessed {
 		d.SearchCost = Number(p.SearchCost)
 		d.SearchNodes, d.SearchEdges = p.Nodes, p.Edges

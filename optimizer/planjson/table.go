@@ -96,6 +96,7 @@ func WriteTableBrief(w io.Writer, p *optimizer.Plan, assessed, brief bool) error
 			bw.printf("  %d. %s: cost %+.1f, fuel %.0f kg, time %s, least margin %s\n", i+1, a.Profile, a.CostDelta, a.FuelKg, hhmm(a.TimeMin), margin)
 		}
 	}
+	writeEnsemble(bw, d.Ensemble)
 	if brief {
 		bw.printf("\n(waypoints and legs: without --brief)\n\n%s\n", optimizer.Caution)
 		return bw.err

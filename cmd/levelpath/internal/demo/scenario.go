@@ -103,9 +103,16 @@ func RouteGeoJSON(r RouteFile) ([]byte, error) {
 	return json.MarshalIndent(fc, "", "  ")
 }
 
+// EnsembleMembers is the size of the invented ensemble Write writes: the
+// control and nine perturbed members.
+const EnsembleMembers = 10
+
 // Files lists what Write produced.
 type Files struct {
 	Dir, Route, Weather, Schedule string
+	// Ensemble is the invented ensemble forecast (EnsembleMembers
+	// members, synthetic.Ensemble).
+	Ensemble string
 	Routes                        []string
 }
 
@@ -133,6 +140,19 @@ func Write(dir string) (Files, error) {
 	}
 	fs.Weather = filepath.Join(dir, "weather.grib2")
 	if err := os.WriteFile(fs.Weather, buf.Bytes(), 0o644); err != nil {
+		return fs, err
+	}
+	buf.Reset()
+	if err := winds.WriteGRIB2(&buf, synthetic.Ensemble(Ref(), EnsembleMembers)); err != nil {
+		return fs, err
+	}
+	// In a folder of its own: a directory of forecasts (the service's
+	// data directory) holds one forecast a file.
+	if err := os.MkdirAll(filepath.Join(dir, "ensemble"), 0o755); err != nil {
+		return fs, err
+	}
+	fs.Ensemble = filepath.Join(dir, "ensemble", "members.grib2")
+	if err := os.WriteFile(fs.Ensemble, buf.Bytes(), 0o644); err != nil {
 		return fs, err
 	}
 	var sb bytes.Buffer
