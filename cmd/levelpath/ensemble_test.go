@@ -1,0 +1,117 @@
+package main
+
+import (
+	"bytes"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+	"time"
+
+	"levelpath/cmd/levelpath/internal/demo"
+	"levelpath/winds"
+	"levelpath/winds/synthetic"
+)
+
+// TestEnsembleCLI plans and assesses the demo long haul on the invented
+// ensemble: the JSON ensemble section is there with every member; with
+// robust share 1 every member's least margin above the floor is not
+// negative; assessing the plan's profile gives the plan's spread; one
+// member alone (--member) plans like that member's share of the
+// ensemble.
+func TestEnsembleCLI(t *testing.T) {
+	fs := demoFiles(t)
+	f := demo.Schedule()[0]
+	args := []string{"--route", fs.Route, "--aircraft", f.Aircraft, "--mass", "245000", "--weather", fs.Ensemble,
+		"--depart", "2026-12-01T20:00:00Z", "--ci", "40"}
+	d := planJSON(t, append([]string{"plan", "--ensemble"}, args...)...)
+	e, ok := d["ensemble"].(map[string]any)
+	if !ok {
+		t.Fatalf("plan --ensemble JSON has no ensemble section: %v", d["warnings"])
+	}
+	per := e["per_member"].([]any)
+	if len(per) != demo.EnsembleMembers || e["members"].(float64) != demo.EnsembleMembers || e["objective"] != "mean" {
+		t.Fatalf("ensemble section: %d members, %v", len(per), e["objective"])
+	}
+	for _, m := range per {
+		mm := m.(map[string]any)
+		if a := mm["min_margin_above_floor_g"].(float64); a < -1e-9 {
+			t.Errorf("member %v: least margin %.4f g under its floor with robust share 1", mm["member"], a)
+		}
+		if mm["regret"] == nil {
+			t.Errorf("member %v: no regret", mm["member"])
+		}
+	}
+	fuel := e["profile"].(map[string]any)["fuel_kg"].(map[string]any)
+	if !(fuel["min"].(float64) <= fuel["p10"].(float64) && fuel["p10"].(float64) <= fuel["p50"].(float64) &&
+		fuel["p50"].(float64) <= fuel["p90"].(float64) && fuel["p90"].(float64) <= fuel["max"].(float64)) {
+		t.Errorf("fuel spread out of order: %v", fuel)
+	}
+	a := planJSON(t, append([]string{"assess", "--ensemble", "--profile", d["profile"].(string)}, args...)...)
+	ae := a["ensemble"].(map[string]any)
+	if ae["chosen"] != "assessed" || ae["profile"].(map[string]any)["mean_cost"].(float64) != e["profile"].(map[string]any)["mean_cost"].(float64) {
+		t.Errorf("assess --ensemble of the plan's profile: mean cost %v, the plan's %v", ae["profile"].(map[string]any)["mean_cost"], e["profile"].(map[string]any)["mean_cost"])
+	}
+	m3 := planJSON(t, append([]string{"assess", "--member", "3", "--profile", d["profile"].(string)}, args...)...)
+	if got, want := m3["totals"].(map[string]any)["cost"].(float64), per[3].(map[string]any)["cost"].(float64); abs(got-want) > 1e-9*want {
+		t.Errorf("member 3 alone prices the profile at %v, its share of the ensemble at %v", got, want)
+	}
+	code, out, _ := runCLI(t, append([]string{"plan", "--ensemble", "--brief"}, args...)...)
+	if code != 0 || !strings.Contains(out, "Ensemble (10 members") || !strings.Contains(out, "regret") || !strings.Contains(out, "not certified") {
+		t.Errorf("table: exit %d\n%s", code, out)
+	}
+}
+
+// TestEnsembleCLIBadInput: a member not in the file, members on
+// different grids or times, a robust share outside (0, 1]: exit 2 with a
+// message naming the value.
+func TestEnsembleCLIBadInput(t *testing.T) {
+	fs := demoFiles(t)
+	base := []string{"plan", "--route", fs.Route, "--aircraft", "demo-widebody", "--mass", "245000", "--weather", fs.Ensemble, "--ci", "40"}
+	dir := t.TempDir()
+	// Member 12 on the deterministic demo grid (2 degrees, not 5).
+	other := filepath.Join(dir, "member12.grib2")
+	msgs := synthetic.Weather(demo.Ref())
+	var kept []winds.Message
+	for _, m := range msgs {
+		if m.Param != winds.ParamEDR && m.Level <= 40000 && m.Level >= 15000 && m.ValidTime.Sub(demo.Ref()) <= 24*time.Hour {
+			m.Ensemble = 12
+			kept = append(kept, m)
+		}
+	}
+	var buf bytes.Buffer
+	if err := winds.WriteGRIB2(&buf, kept); err != nil {
+		t.Fatal(err)
+	}
+	os.WriteFile(other, buf.Bytes(), 0o644)
+	// Member 13 on the members' grid at other times (a day later).
+	late := filepath.Join(dir, "member13.grib2")
+	ms := synthetic.Ensemble(demo.Ref().Add(24*time.Hour), 1)
+	for i := range ms {
+		ms[i].Ensemble = 13
+	}
+	buf.Reset()
+	winds.WriteGRIB2(&buf, ms)
+	os.WriteFile(late, buf.Bytes(), 0o644)
+	for _, c := range []struct {
+		args []string
+		want string
+	}{
+		{[]string{"--member", "42"}, "member 42"},
+		{[]string{"--member", "42"}, "members present: 0-9"},
+		{[]string{"--ensemble", "--robust-share", "1.5"}, "--robust-share 1.5"},
+		{[]string{"--ensemble", "--robust-share", "0"}, "--robust-share 0"},
+		{[]string{"--ensemble", "--objective", "quantile:1.2"}, "quantile:1.2"},
+		{[]string{"--ensemble", "--weather", other}, "member 12"},
+		{[]string{"--ensemble", "--weather", other}, other},
+		{[]string{"--ensemble", "--weather", late}, "member 13"},
+		{[]string{"--ensemble", "--weather", late}, "valid times"},
+		{nil, "--member N, or --ensemble"},
+		{[]string{"--robust-share", "0.5"}, "needs --ensemble"},
+	} {
+		code, _, errs := runCLI(t, append(append([]string(nil), base...), c.args...)...)
+		if code != 2 || !strings.Contains(errs, c.want) {
+			t.Errorf("%v: exit %d, want 2 naming %q: %s", c.args, code, c.want, errs)
+		}
+	}
+}
