@@ -25,6 +25,7 @@ import (
 	"levelpath/optimizer"
 	"levelpath/optimizer/batch"
 	"levelpath/perf"
+	"levelpath/winds"
 )
 
 const exitSomeFailed = 3
@@ -35,6 +36,7 @@ func newBatchCmd() *cobra.Command {
 		weather                                []string
 		workers, shardCount                    int
 		wxo                                    weatherOpts
+		ens                                    ensembleFlags
 		policyPath                             string
 		resume                                 bool
 		maxSegNM                               float64
@@ -57,6 +59,7 @@ func newBatchCmd() *cobra.Command {
 	fl.StringArrayVar(&weather, "weather", nil, "GRIB2/GRIB1 weather file (repeatable), decoded once and shared")
 	fl.StringVar(&out, "out", "", "output directory")
 	weatherFlags(c, &wxo)
+	ens.registerBatch(c)
 	fl.StringVar(&policyPath, "policy", "", "fuel policy YAML for rows that give zfw_kg alone (a fuel plan; default: the documented default policy)")
 	fl.IntVar(&workers, "workers", 0, "parallel planners (default: one per CPU)")
 	fl.StringVar(&sweep, "ci-sweep", "", "plan every flight at each cost index, e.g. 0,20,50,100")
@@ -145,7 +148,17 @@ func newBatchCmd() *cobra.Command {
 		if opt.Meta, err = batchMeta(cmd.Context(), weather, wxo.edrParam, maxSegNM, steps); err != nil {
 			return err
 		}
-		wx, err := loadWeather(weather, wxo)
+		if err := ens.check(cmd, weather); err != nil {
+			return err
+		}
+		var wx *winds.Field
+		if ens.ensemble {
+			wx, err = ens.open(weather, wxo)
+			opt.Meta["ensemble"] = fmt.Sprintf("%d members, objective %s, robust share %g", len(ens.members), ens.obj, ens.robustShare)
+		} else {
+			wx, err = loadWeather(weather, wxo)
+			err = memberHint(err)
+		}
 		if err != nil {
 			return err
 		}
@@ -156,6 +169,9 @@ func newBatchCmd() *cobra.Command {
 			return badInputf("--max-seg-nm %v: want 1..1000", maxSegNM)
 		}
 		pl := &batch.SchedulePlanner{Weather: wx, MaxSegment: maxSegNM * perf.NMToM, Steps: steps}
+		if ens.ensemble {
+			pl.Ensemble, pl.EnsembleObjective, pl.EnsembleShare = ens.members, ens.obj, ens.robustShare
+		}
 		if policyPath != "" {
 			pol, err := readPolicy(policyPath)
 			if err != nil {

@@ -2,8 +2,10 @@ package main
 
 import (
 	"bytes"
+	"encoding/csv"
 	"os"
 	"path/filepath"
+	"strconv"
 	"strings"
 	"testing"
 	"time"
@@ -112,6 +114,57 @@ func TestEnsembleCLIBadInput(t *testing.T) {
 		code, _, errs := runCLI(t, append(append([]string(nil), base...), c.args...)...)
 		if code != 2 || !strings.Contains(errs, c.want) {
 			t.Errorf("%v: exit %d, want 2 naming %q: %s", c.args, code, c.want, errs)
+		}
+	}
+}
+
+// TestEnsembleBatch: batch --ensemble adds fuel_p10_kg, fuel_p90_kg and
+// min_margin_all_members_g; P10 <= P90, and the least margin over every
+// member is at most the control's (min_margin_g); a run without
+// --ensemble has none of them.
+func TestEnsembleBatch(t *testing.T) {
+	fs := demoFiles(t)
+	for _, ens := range []bool{true, false} {
+		out := filepath.Join(t.TempDir(), "day")
+		args := []string{"batch", "--schedule", fs.Schedule, "--weather", fs.Weather, "--out", out}
+		if ens {
+			args[4] = fs.Ensemble
+			args = append(args, "--ensemble")
+		}
+		code, _, errs := runCLI(t, args...)
+		if code != 0 {
+			t.Fatalf("%v: exit %d: %s", args, code, errs)
+		}
+		b, err := os.ReadFile(filepath.Join(out, "results.csv"))
+		if err != nil {
+			t.Fatal(err)
+		}
+		rows, err := csv.NewReader(bytes.NewReader(b)).ReadAll()
+		if err != nil {
+			t.Fatal(err)
+		}
+		col := map[string]int{}
+		for i, n := range rows[0] {
+			col[n] = i
+		}
+		_, has := col["fuel_p10_kg"]
+		if has != ens || ens && (col["fuel_p90_kg"] == 0 || col["min_margin_all_members_g"] == 0) {
+			t.Fatalf("ensemble %v: columns %v", ens, rows[0])
+		}
+		if !ens {
+			continue
+		}
+		for _, r := range rows[1:] {
+			num := func(n string) float64 {
+				v, err := strconv.ParseFloat(r[col[n]], 64)
+				if err != nil {
+					t.Fatalf("%s %s: %q", r[0], n, r[col[n]])
+				}
+				return v
+			}
+			if num("fuel_p10_kg") > num("fuel_p90_kg") || num("min_margin_all_members_g") > num("min_margin_g") {
+				t.Errorf("%s: P10 %v P90 %v, least margin of all %v above the control's %v", r[0], num("fuel_p10_kg"), num("fuel_p90_kg"), num("min_margin_all_members_g"), num("min_margin_g"))
+			}
 		}
 	}
 }

@@ -261,15 +261,24 @@ func writeCSV(records [][]string) ([]byte, error) {
 const warningSep = "; "
 
 func resultsCSV(results []record) ([]byte, error) {
-	recs := [][]string{resultColumns}
+	ens := hasEnsemble(results)
+	head := resultColumns
+	if ens {
+		head = ensembleColumns()
+	}
+	recs := [][]string{head}
 	for _, r := range results {
-		recs = append(recs, []string{safeCell(r.Flight), ciText(r.CI), r.Status,
+		row := []string{safeCell(r.Flight), ciText(r.CI), r.Status,
 			safeCell(strings.Join(r.Warnings, warningSep)), r.Departure, r.Arrival, safeCell(r.Aircraft),
 			strconv.Itoa(r.Row), fmtR(r.DistanceNM, decNM), fmtR(r.TakeoffMassKg, decKg), fmtR(r.ZFWKg, decKg),
 			fmtR(r.LandingMassKg, decKg), fmtR(r.FuelKg, decKg), fmtR(r.TimeMin, decMin), fmtR(r.Cost, decKg),
 			fmtR(r.CO2Kg, decKg), fmtR(r.FloorG, decG), safeCell(r.Speed), safeCell(r.Levels),
 			fmtI(r.InitialFL), fmtI(r.Steps), fmtR(r.MinMarginG, decG), fmtR(r.CostSavingPct, decPct),
-			safeCell(r.Profile), fmtR(r.BlockKg, decKg), safeCell(r.LimitedBy), safeCell(r.Reason)})
+			safeCell(r.Profile), fmtR(r.BlockKg, decKg), safeCell(r.LimitedBy), safeCell(r.Reason)}
+		if ens {
+			row = ensembleCells(row, r)
+		}
+		recs = append(recs, row)
 	}
 	return writeCSV(recs)
 }
@@ -304,6 +313,9 @@ func resultsParquet(results []record, meta map[string]string) ([]byte, error) {
 			FuelKg: r.FuelKg, TimeMin: r.TimeMin, Cost: r.Cost, CO2Kg: r.CO2Kg, FloorG: r.FloorG,
 			Speed: r.Speed, Levels: r.Levels, InitialFL: i64(r.InitialFL), Steps: i64(r.Steps),
 			MinMarginG: r.MinMarginG, CostSavingPct: r.CostSavingPct, Profile: r.Profile, BlockKg: r.BlockKg, LimitedBy: r.LimitedBy, Error: r.Reason}
+	}
+	if hasEnsemble(results) {
+		return ensembleParquet(rows, results, meta)
 	}
 	keys := slices.Sorted(maps.Keys(meta))
 	var opts []parquet.WriterOption

@@ -36,6 +36,14 @@ type SchedulePlanner struct {
 	// Policy is the fuel policy of fuel-plan rows (zfw_kg alone) without
 	// a policy column of their own; nil: optimizer.DefaultFuelPolicy.
 	Policy *optimizer.FuelPolicy
+	// Ensemble, when not empty, plans every flight (but fuel-plan rows,
+	// which are refused) on these members (Weather is then the control's,
+	// Ensemble[0]) with EnsembleObjective and EnsembleShare (see
+	// optimizer.EnsembleProblem); the results gain the members' fuel
+	// percentiles and least margin.
+	Ensemble          []optimizer.Member
+	EnsembleObjective optimizer.Objective
+	EnsembleShare     float64
 
 	mu       sync.Mutex
 	aircraft map[string]*perf.Aircraft
@@ -180,6 +188,9 @@ func (p *SchedulePlanner) Plan(ctx context.Context, row Row, ci float64) (Result
 		return res, err
 	}
 	var plan *optimizer.Plan
+	if row.FuelPlan && len(p.Ensemble) > 0 {
+		return res, fmt.Errorf("zfw_kg without tow_kg asks for a fuel plan, which is made on one forecast: not with an ensemble (give tow_kg, or plan without --ensemble)")
+	}
 	if row.FuelPlan {
 		pol := optimizer.DefaultFuelPolicy()
 		switch {
@@ -191,6 +202,9 @@ func (p *SchedulePlanner) Plan(ctx context.Context, row Row, ci float64) (Result
 			pol = *p.Policy
 		}
 		plan, err = optimizer.PlanFuel(optimizer.FuelRequest{Problem: pr, ZFW: row.ZFW, Policy: pol})
+	} else if len(p.Ensemble) > 0 {
+		plan, err = optimizer.SolveEnsemble(ctx, &optimizer.EnsembleProblem{Problem: *pr, Members: p.Ensemble,
+			Objective: p.EnsembleObjective, RobustShare: p.EnsembleShare})
 	} else {
 		plan, err = optimizer.SolveContext(ctx, pr) // SIGTERM stops a running plan
 	}
@@ -214,6 +228,11 @@ func (p *SchedulePlanner) Plan(ctx context.Context, row Row, ci float64) (Result
 	}
 	if plan.Baseline != nil {
 		res.CostSavingPct = plan.Baseline.SavingPct
+	}
+	if e := plan.Ensemble; e != nil {
+		res.Ensemble = true
+		res.FuelP10, res.FuelP90 = e.Profile.Fuel.P10, e.Profile.Fuel.P90
+		res.MinMarginAll = e.Profile.Margin.Min
 	}
 	if f := plan.Fuel; f != nil {
 		res.Block, res.LimitedBy = f.Block, strings.Join(f.LimitedBy, " ")

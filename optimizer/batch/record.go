@@ -63,6 +63,10 @@ type record struct {
 	Profile       string     `json:"profile,omitempty"`
 	BlockKg       *float64   `json:"block_kg,omitempty"`
 	LimitedBy     string     `json:"limited_by,omitempty"`
+	// Ensemble plans only (omitted otherwise).
+	FuelP10Kg     *float64 `json:"fuel_p10_kg,omitempty"`
+	FuelP90Kg     *float64 `json:"fuel_p90_kg,omitempty"`
+	MinMarginAllG *float64 `json:"min_margin_all_members_g,omitempty"`
 	Reason        string     `json:"reason,omitempty"`
 	Errors        []RowError `json:"errors,omitempty"`      // bad rows only
 	Plan          string     `json:"plan,omitempty"`        // path relative to Out
@@ -214,6 +218,12 @@ func resultRecord(row *Row, ci float64, res Result, planErr error) record {
 	}
 	if finite(res.CostSavingPct) {
 		rec.CostSavingPct = new(res.CostSavingPct)
+	}
+	if res.Ensemble {
+		rec.FuelP10Kg, rec.FuelP90Kg = opt(res.FuelP10), opt(res.FuelP90)
+		if finite(res.MinMarginAll) {
+			rec.MinMarginAllG = new(res.MinMarginAll)
+		}
 	}
 	return rec
 }

@@ -38,6 +38,12 @@ type Result struct {
 	Warnings      []string // the plan's warnings
 	Violations    []string // limits the plan breaks (fuel, landing mass, ...): makes it infeasible
 	Profile       string   // e.g. "FL350,FL370@1250"
+	// Ensemble is set for a flight planned on an ensemble forecast
+	// (SchedulePlanner.Ensemble): FuelP10 and FuelP90 are the 10th and
+	// 90th percentiles of the members' trip fuel (kg), MinMarginAll the
+	// least buffet margin over every member (g; NaN if none).
+	Ensemble                        bool
+	FuelP10, FuelP90, MinMarginAll float64
 	PlanJSON      []byte   // full plan document, written to plans/
 }
 
