@@ -42,9 +42,9 @@ type Result struct {
 	// (SchedulePlanner.Ensemble): FuelP10 and FuelP90 are the 10th and
 	// 90th percentiles of the members' trip fuel (kg), MinMarginAll the
 	// least buffet margin over every member (g; NaN if none).
-	Ensemble                        bool
+	Ensemble                       bool
 	FuelP10, FuelP90, MinMarginAll float64
-	PlanJSON      []byte   // full plan document, written to plans/
+	PlanJSON                       []byte // full plan document, written to plans/
 }
 
 // Planner plans one flight at cost index ci. It is called from several

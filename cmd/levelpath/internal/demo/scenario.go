@@ -113,7 +113,7 @@ type Files struct {
 	// Ensemble is the invented ensemble forecast (EnsembleMembers
 	// members, synthetic.Ensemble).
 	Ensemble string
-	Routes                        []string
+	Routes   []string
 }
 
 // Write writes the scenario into dir.
