@@ -58,7 +58,18 @@ func TestEnsembleCLI(t *testing.T) {
 	if got, want := m3["totals"].(map[string]any)["cost"].(float64), per[3].(map[string]any)["cost"].(float64); abs(got-want) > 1e-9*want {
 		t.Errorf("member 3 alone prices the profile at %v, its share of the ensemble at %v", got, want)
 	}
-	code, out, _ := runCLI(t, append([]string{"plan", "--ensemble", "--brief"}, args...)...)
+	svg := filepath.Join(t.TempDir(), "ensemble.svg")
+	code, out, _ := runCLI(t, append([]string{"plan", "--ensemble", "--brief", "--chart", svg}, args...)...)
+	if b, err := os.ReadFile(svg); err != nil || !bytes.Contains(b, []byte("P10-P90")) {
+		t.Errorf("the ensemble chart has no P10-P90 band legend (%v)", err)
+	}
+	det := filepath.Join(t.TempDir(), "member.svg")
+	if c, _, errs := runCLI(t, append([]string{"plan", "--member", "0", "--brief", "--chart", det}, args...)...); c != 0 {
+		t.Fatalf("--member 0: %s", errs)
+	}
+	if b, _ := os.ReadFile(det); bytes.Contains(b, []byte("P10-P90")) {
+		t.Errorf("a one-member chart has the ensemble band")
+	}
 	if code != 0 || !strings.Contains(out, "Ensemble (10 members") || !strings.Contains(out, "regret") || !strings.Contains(out, "not certified") {
 		t.Errorf("table: exit %d\n%s", code, out)
 	}

@@ -107,9 +107,16 @@ func Profile(w io.Writer, format string, in ProfileInput) error {
 		return err
 	}
 	top, mid, bot := profilePanels(in)
+	plots, weights := []*plot.Plot{top, mid, bot}, []float64{0.58, 0.19, 0.23}
+	if fuel := fuelPanel(in.Plan, bot.X.Max); fuel != nil {
+		// An ensemble plan: the members' fuel band below the margin.
+		bot.X.Tick.Marker = blankLabels{niceTicks{N: 10}}
+		bot.X.Label.Text = ""
+		plots, weights = append(plots, fuel), []float64{0.5, 0.16, 0.17, 0.17}
+	}
 	return render(w, format, func(dc draw.Canvas) {
 		dc = draw.Crop(dc, vg.Points(8), -vg.Points(44), vg.Points(6), -vg.Points(8))
-		stack(dc, []*plot.Plot{top, mid, bot}, []float64{0.58, 0.19, 0.23}, vg.Points(20))
+		stack(dc, plots, weights, vg.Points(20))
 	})
 }
 
