@@ -201,3 +201,53 @@ func TestSpreadAgainstPython(t *testing.T) {
 		t.Errorf("min %v max %v", s.Min, s.Max)
 	}
 }
+
+// TestEnsembleSharedMach compares the default search (members at the
+// control's Mach) with MemberMach (each member at its own econ Mach, as
+// Solve prices it): the envelope theorem makes the shared Mach's error
+// second order, so the two profiles' expected costs, priced exactly on
+// every member, must agree within 0.02 % (the search's documented
+// approximation), and MemberMach's must not be lower by more.
+func TestEnsembleSharedMach(t *testing.T) {
+	ms := ensembleMembers(t, 5)
+	p := ensembleFlight(t)
+	shared, err := SolveEnsemble(context.Background(), &EnsembleProblem{Problem: p, Members: ms})
+	if err != nil {
+		t.Fatal(err)
+	}
+	own, err := SolveEnsemble(context.Background(), &EnsembleProblem{Problem: p, Members: ms, MemberMach: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	a, b := shared.Ensemble.Profile.MeanCost, own.Ensemble.Profile.MeanCost
+	if a > b*(1+2e-4) {
+		t.Errorf("shared Mach %s mean cost %.2f, member Mach %s %.2f: %.4f %% apart", shared.Profile, a, own.Profile, b, 100*(a-b)/b)
+	}
+	t.Logf("shared Mach %s %.2f (%d edges), member Mach %s %.2f (%d edges)", shared.Profile, a, shared.Edges, own.Profile, b, own.Edges)
+}
+
+// TestEnsembleRobustShare: with RobustShare 0.6 of 6 members an edge needs
+// 4 members (ceil(3.6)); the chosen profile, priced on every member,
+// breaks a limit in at most 2; the quantile objective's value is the
+// Hyndman-Fan quantile of the members' priced costs.
+func TestEnsembleRobustShare(t *testing.T) {
+	ms := ensembleMembers(t, 6)
+	p := ensembleFlight(t)
+	p.Floor = 1.45 // near the ceiling: members differ in what they allow
+	plan, err := SolveEnsemble(context.Background(), &EnsembleProblem{Problem: p, Members: ms, RobustShare: 0.6, Objective: Objective{Quantile: 0.8}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	r := plan.Ensemble
+	if r.Need != 4 || r.Profile.Breaking > 2 || len(r.Approximations) < 2 {
+		t.Errorf("need %d, breaking %d, approximations %q", r.Need, r.Profile.Breaking, r.Approximations)
+	}
+	costs := make([]float64, len(r.PerMember))
+	for i, m := range r.PerMember {
+		costs[i] = m.Cost
+	}
+	if q := quantile7(costs, 0.8); math.Abs(q-r.Profile.Objective) > 1e-9*q {
+		t.Errorf("objective %.3f, quantile of the members' costs %.3f", r.Profile.Objective, q)
+	}
+	t.Logf("floor 1.45: %s, breaking in %d members, chosen %s", plan.Profile, r.Profile.Breaking, r.Chosen)
+}
