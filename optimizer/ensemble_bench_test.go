@@ -18,7 +18,9 @@ func benchEnsemble(b *testing.B, n int) *EnsembleProblem {
 
 // BenchmarkEnsemble compares one ensemble plan (one search pricing every
 // member, each member's exact pricing, the control's own plan and
-// baseline) with a deterministic plan of every member (Solve each).
+// baseline; without the regrets) with a deterministic plan of every
+// member (Solve each); ensemble-member-mach prices every member at its
+// own econ Mach in the search.
 func BenchmarkEnsemble(b *testing.B) {
 	for _, n := range []int{10, 50} {
 		ep := benchEnsemble(b, n)
@@ -33,6 +35,18 @@ func BenchmarkEnsemble(b *testing.B) {
 			}
 			b.ReportMetric(float64(plan.Nodes), "nodes")
 		})
+		if n == 10 {
+			b.Run(fmt.Sprintf("ensemble-member-mach-%d", n), func(b *testing.B) {
+				b.ReportAllocs()
+				e := *ep
+				e.MemberMach = true
+				for b.Loop() {
+					if _, err := SolveEnsemble(context.Background(), &e); err != nil {
+						b.Fatal(err)
+					}
+				}
+			})
+		}
 		b.Run(fmt.Sprintf("deterministic-%d", n), func(b *testing.B) {
 			b.ReportAllocs()
 			for b.Loop() {
