@@ -3,6 +3,7 @@ package main
 import (
 	"fmt"
 	"math"
+	"slices"
 	"strconv"
 	"strings"
 	"text/tabwriter"
@@ -85,7 +86,13 @@ func newGridInfoCmd() *cobra.Command {
 			return writeJSON(out, all)
 		}
 		tw := tabwriter.NewWriter(out, 0, 0, 1, ' ', 0)
-		fmt.Fprintln(tw, "file\tmsg\ted\tparam\t(d.c.n)\tlevel hPa\tref time\tvalid time\tgrid\tni x nj\tarea\tpacking\t")
+		// A member column only for ensemble files (others print as before).
+		members := slices.ContainsFunc(all, func(m gridMsgJSON) bool { return m.Ensemble >= 0 })
+		head := "file\tmsg\ted\tparam\t(d.c.n)\tlevel hPa\tref time\tvalid time\tgrid\tni x nj\tarea\tpacking\t"
+		if members {
+			head += "member\t"
+		}
+		fmt.Fprintln(tw, head)
 		for _, m := range all {
 			lv := "-"
 			if m.LevelHPa != nil {
@@ -95,8 +102,16 @@ func newGridInfoCmd() *cobra.Command {
 			if !m.Kept {
 				name += " (skipped)"
 			}
-			fmt.Fprintf(tw, "%s\t%d\t%d\t%s\t%d.%d.%d\t%s\t%s\t%s\t%d\t%dx%d\t%g,%g..%g,%g\t%d\t\n", m.File, m.Message, m.Edition, name,
+			fmt.Fprintf(tw, "%s\t%d\t%d\t%s\t%d.%d.%d\t%s\t%s\t%s\t%d\t%dx%d\t%g,%g..%g,%g\t%d\t", m.File, m.Message, m.Edition, name,
 				m.Discipline, m.Category, m.Number, lv, m.RefTime, m.ValidTime, m.Grid, m.Ni, m.Nj, m.Lat1, m.Lon1, m.Lat2, m.Lon2, m.Packing)
+			if members {
+				member := "-"
+				if m.Ensemble >= 0 {
+					member = strconv.Itoa(m.Ensemble)
+				}
+				fmt.Fprintf(tw, "%s\t", member)
+			}
+			fmt.Fprintln(tw)
 		}
 		return tw.Flush()
 	}
@@ -136,6 +151,8 @@ func newGridSampleCmd() *cobra.Command {
 	format := formatFlag(c, "table", "json")
 	c.Flags().StringVar(&at, "at", "", "point LAT,LON in degrees")
 	weatherFlags(c, &wxo)
+	var member int
+	c.Flags().IntVar(&member, "member", 0, "of an ensemble forecast, sample member N (GRIB2 perturbation number)")
 	c.Flags().Float64Var(&hpa, "hpa", 0, "pressure level, hPa")
 	c.Flags().Float64Var(&fl, "fl", 0, "flight level (converted with the ICAO standard atmosphere)")
 	c.Flags().StringVar(&tm, "time", "", "valid time, RFC3339 (default: the first valid time)")
@@ -165,7 +182,14 @@ func newGridSampleCmd() *cobra.Command {
 			}
 			p = perf.FLToPressure(fl)
 		}
+		if cmd.Flags().Changed("member") {
+			if member < 0 {
+				return badInputf("--member %d: a member is a perturbation number, 0 or more", member)
+			}
+			wxo.member = &member
+		}
 		field, err := openWeather(args, 0, math.Inf(1), wxo) // every level, not only the cruise band
+		err = memberHint(err)
 		if err != nil {
 			return err
 		}
