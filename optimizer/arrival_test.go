@@ -65,7 +65,6 @@ func TestSolveArriveBy(t *testing.T) {
 	}
 }
 
-
 // arrivalCase is a flight for the arrival-window properties: several
 // routes, aircraft and masses, in still air and in the synthetic weather.
 type arrivalCase struct {
