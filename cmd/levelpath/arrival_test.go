@@ -84,6 +84,14 @@ func TestPlanArriveBy(t *testing.T) {
 	if arr.Before(mustTime(t, "2026-12-01T21:25:00Z")) || arr.After(mustTime(t, "2026-12-01T21:29:00Z")) {
 		t.Errorf("departure + trip time = %s, outside 21:25-21:29", arr)
 	}
+	// The fuel plan (--zfw alone) is searched over the CI the same way.
+	fuelBase := []string{"plan", "--route", fs.Routes[3], "--aircraft", "demo-regional", "--zfw", "30000", "--depart", "2026-12-01T20:00:00Z"}
+	code, out, errs = runCLI(t, append(fuelBase, "--arrive-by", "2026-12-01T21:27:00Z", "--arrive-window", "-2m,+2m", "--format", "json")...)
+	fd := parseDoc(t, out)
+	farr := mustTime(t, fd.Depart).Add(time.Duration(fd.Totals.TimeMin * float64(time.Minute)))
+	if code != 0 || fd.Arrival == nil || !fd.Arrival.Met || farr.Before(mustTime(t, "2026-12-01T21:25:00Z")) || farr.After(mustTime(t, "2026-12-01T21:29:00Z")) {
+		t.Errorf("fuel plan: exit %d %s, arrival %+v, departure + trip time %s", code, errs, fd.Arrival, farr)
+	}
 	code, out, _ = runCLI(t, append(base, "--arrive-by", "2026-12-01T21:27:00Z", "--arrive-window", "-2m,+2m")...)
 	if code != 0 || !strings.Contains(out, "Arrival  target 2026-12-01T21:27:00Z, window -2m..+2m") || !strings.Contains(out, "planned arrival") {
 		t.Errorf("table: exit %d\n%s", code, out)

@@ -64,7 +64,11 @@ func (f *planFlags) run(cmd *cobra.Command, assessed bool, price func(*optimizer
 		if err != nil {
 			return err
 		}
-		price = func(*optimizer.Problem) (*optimizer.Plan, error) { return optimizer.PlanFuel(req) }
+		price = func(q *optimizer.Problem) (*optimizer.Plan, error) {
+			r := req
+			r.Problem = q // the problem priced: an arrival search varies its CI
+			return optimizer.PlanFuel(r)
+		}
 	}
 	if !assessed && inFlightAsked(cmd) {
 		if price, err = f.inFlight.pricer(cmd, &f.problemFlags, &f.fuelPlan, pr); err != nil {

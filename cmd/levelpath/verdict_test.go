@@ -39,6 +39,7 @@ func TestSameVerdictEveryDoor(t *testing.T) {
 		// Arrival targets (departure 20:00Z; the flight takes about 83 to
 		// 90 minutes between CI 500 and CI 0 in still air).
 		{"arrive-by inside the speed range", in{tow: "36000", arriveBy: "2026-12-01T21:27:00Z", window: "-2m,+2m"}, true},
+		{"fuel plan with arrive-by", in{zfw: "30000", arriveBy: "2026-12-01T21:27:00Z", window: "-2m,+2m"}, true},
 		{"arrive-by alone, any earlier arrival on time", in{tow: "36000", arriveBy: "2026-12-01T21:45:00Z"}, true},
 		{"arrive-by before departure", in{tow: "36000", arriveBy: "2026-12-01T19:00:00Z"}, false},
 		{"arrive-by at departure", in{tow: "36000", arriveBy: "2026-12-01T20:00:00Z"}, false},
