@@ -223,3 +223,23 @@ func TestParseArrivalWindow(t *testing.T) {
 		}
 	}
 }
+
+// TestArriveByDepartureFromWeather: with no departure time the plan
+// departs at the weather's first valid time, and a target not after it is
+// refused as input, for the window and the delay-cost search alike.
+func TestArriveByDepartureFromWeather(t *testing.T) {
+	wx, ref := demoWeather(t)
+	p := &Problem{Track: track(t, "45.0,-73.0 40.0,-40.0", "odd-even-true", 50), Aircraft: aircraft(t, "demo-narrowbody"), Weather: wx, TakeoffMass: 72000}
+	if _, _, err := SolveArriveBy(p, ArrivalTarget{At: ref.Add(-time.Hour)}); !IsInputError(err) {
+		t.Errorf("window: %v, want an input error", err)
+	}
+	cost := DelayCost{Minutes: []float64{0}, Cost: []float64{0}}
+	if _, _, err := SolveDelayCost(p, ref.Add(-time.Hour), cost, []float64{0}); !IsInputError(err) {
+		t.Errorf("delay cost: %v, want an input error", err)
+	}
+	lrc := *p
+	lrc.Speed = Speed{Kind: SpeedLRC}
+	if _, _, err := SolveArriveBy(&lrc, ArrivalTarget{At: ref.Add(10 * time.Hour)}); !IsInputError(err) {
+		t.Errorf("lrc: %v, want an input error", err)
+	}
+}

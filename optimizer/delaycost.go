@@ -237,6 +237,9 @@ func (e *delayEval) at(ci float64) (delayPoint, error) {
 	if err != nil {
 		return delayPoint{}, err
 	}
+	if !e.sched.After(pl.Depart) { // the departure was taken from the weather
+		return delayPoint{}, inputErrorf("DelaySearch.Scheduled", "scheduled arrival %s is not after the departure %s", e.sched.UTC().Format(time.RFC3339), pl.Depart.UTC().Format(time.RFC3339))
+	}
 	a := arrivalOf(pl)
 	late := a.Sub(e.sched).Minutes()
 	dc := e.cost.At(late)
