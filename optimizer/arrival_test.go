@@ -243,3 +243,44 @@ func TestArriveByDepartureFromWeather(t *testing.T) {
 		t.Errorf("lrc: %v, want an input error", err)
 	}
 }
+
+// BenchmarkArriveByLongHaul is the arrival search on the long-haul bench
+// flight for a target 10 minutes before its CI-40 arrival (a bisection
+// upward from CI 40); "plans" is the number of plans it made.
+func BenchmarkArriveByLongHaul(b *testing.B) {
+	p := benchProblem(b)
+	pl, err := Solve(p)
+	if err != nil {
+		b.Fatal(err)
+	}
+	at := arrivalOf(pl).Add(-10 * time.Minute)
+	b.ReportAllocs()
+	b.ResetTimer()
+	var res ArrivalResult
+	for i := 0; i < b.N; i++ {
+		if _, res, err = SolveArriveBy(p, ArrivalTarget{At: at, Early: -5 * time.Minute, Late: 5 * time.Minute}); err != nil {
+			b.Fatal(err)
+		}
+	}
+	b.ReportMetric(float64(res.Tries), "plans")
+}
+
+// BenchmarkDelayCostLongHaul is the delay-cost search (grid every 16
+// kg/min to 500, compass refinement to 1) on the same flight.
+func BenchmarkDelayCostLongHaul(b *testing.B) {
+	p := benchProblem(b)
+	pl, err := Solve(p)
+	if err != nil {
+		b.Fatal(err)
+	}
+	s := DelaySearch{Scheduled: arrivalOf(pl).Add(-10 * time.Minute), Cost: DelayCost{Minutes: []float64{0, 5, 30, 90}, Cost: []float64{0, 0, 2500, 15000}}}
+	b.ReportAllocs()
+	b.ResetTimer()
+	var c DelayChoice
+	for i := 0; i < b.N; i++ {
+		if _, c, err = SearchDelayCost(p, s); err != nil {
+			b.Fatal(err)
+		}
+	}
+	b.ReportMetric(float64(c.Tries), "plans")
+}
