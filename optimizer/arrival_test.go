@@ -284,3 +284,25 @@ func BenchmarkDelayCostLongHaul(b *testing.B) {
 	}
 	b.ReportMetric(float64(c.Tries), "plans")
 }
+
+// FuzzParseArrivalWindow: a window that parses has its early end not
+// after its late end, both within MaxArrivalWindow, and parses again from
+// its printed form to the same ends.
+func FuzzParseArrivalWindow(f *testing.F) {
+	for _, s := range []string{"-5m,+10m", "-1h;0s", "+10m,-5m", "5m", "NaN,1m", "-24h,24h"} {
+		f.Add(s)
+	}
+	f.Fuzz(func(t *testing.T, s string) {
+		e, l, err := ParseArrivalWindow(s)
+		if err != nil {
+			return
+		}
+		if e > l || e < -MaxArrivalWindow || l > MaxArrivalWindow {
+			t.Fatalf("%q: window %v,%v", s, e, l)
+		}
+		e2, l2, err := ParseArrivalWindow(e.String() + "," + l.String())
+		if err != nil || e2 != e || l2 != l {
+			t.Fatalf("%q: %v,%v printed does not read back: %v,%v %v", s, e, l, e2, l2, err)
+		}
+	})
+}

@@ -159,3 +159,33 @@ func TestSearchDelayCostBruteForce(t *testing.T) {
 			c.name, ch.CI, ch.LateMin, ch.DelayCost, ch.Total, ch.Tries, bestCI, best, 100*(got-best)/best)
 	}
 }
+
+// FuzzParseDelayCost: any input either fails with a *DelayCostError or
+// gives a delay cost that passes Check and whose At is finite and
+// non-decreasing in lateness (the property the file format promises).
+func FuzzParseDelayCost(f *testing.F) {
+	for _, s := range []string{"minutes_late,cost_kg\n0,0\n15,0\n60,4500\n", "minutes_late,cost_kg\n-5,1\n", "minutes_late,cost_kg\n0,NaN\n", "x\n", "minutes_late,cost_kg\n\"1\",2\n"} {
+		f.Add([]byte(s))
+	}
+	f.Fuzz(func(t *testing.T, data []byte) {
+		d, err := ParseDelayCost(data, "f.csv")
+		if err != nil {
+			var de *DelayCostError
+			if !errors.As(err, &de) {
+				t.Fatalf("error %T %v, want a *DelayCostError", err, err)
+			}
+			return
+		}
+		if err := d.Check(); err != nil {
+			t.Fatalf("parsed %+v fails Check: %v", d, err)
+		}
+		prev := math.Inf(-1)
+		for _, m := range []float64{-1e4, -60, 0, 1, 30, 90, 1e3, 1e4} {
+			c := d.At(m)
+			if !finite(c) || c < prev-1e-9*math.Abs(c) {
+				t.Fatalf("%+v: At(%v) = %v after %v", d, m, c, prev)
+			}
+			prev = c
+		}
+	})
+}
