@@ -112,7 +112,7 @@ func TestSearchDelayCostBruteForce(t *testing.T) {
 		{Minutes: []float64{0, 5, 30, 120}, Cost: []float64{0, 0, 3000, 20000}},
 		{Minutes: []float64{0, 1}, Cost: []float64{0, 400}},
 	}
-	for i, c := range arrivalCases()[:3] {
+	for i, c := range arrivalCases() {
 		p := c.p(t)
 		p.CI = 20
 		ref := arrivalAt(solve(t, p))
