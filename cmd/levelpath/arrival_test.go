@@ -245,8 +245,12 @@ func TestBatchArrivalColumns(t *testing.T) {
 		t.Fatal(err)
 	}
 	out := filepath.Join(dir, "out")
-	if code, _, errs := runCLI(t, "batch", "--schedule", sched, "--out", out); code != 0 {
+	code, table, errs := runCLI(t, "batch", "--schedule", sched, "--out", out)
+	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errs)
+	}
+	if !strings.Contains(table, "Arrival targets: 2/2 (100 %)") {
+		t.Errorf("batch table does not count the flights on time:\n%s", table)
 	}
 	res := readCSVFile(t, filepath.Join(out, "results.csv"))
 	windows := map[string][2]time.Duration{"A1": {-2 * time.Minute, 2 * time.Minute}, "A2": {-100 * time.Minute, 0}}

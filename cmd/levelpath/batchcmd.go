@@ -352,6 +352,13 @@ func printBatchSummary(w io.Writer, format string, s batch.Summary) error {
 		return nil
 	}
 	fmt.Fprintf(w, "Planned %d, infeasible %d, failed %d, reused %d, bad schedule rows %d\n", d.Planned, d.Infeasible, d.Failed, d.Skipped, d.BadRows)
+	if s.Targets && !s.Sweep {
+		on, of := 0, 0
+		for _, b := range s.ByCI {
+			on, of = on+b.OnTime, of+b.WithTarget
+		}
+		fmt.Fprintf(w, "Arrival targets: %s of the flights with arrive_by arrive in their window\n", onTimeText(on, of))
+	}
 	if s.Sweep { // without a sweep a per-CI table says nothing the files do not
 		tw := tabwriter.NewWriter(w, 0, 0, 1, ' ', tabwriter.AlignRight)
 		head := "CI\tflights\tinfeasible\tfailed\tfuel kg\ttime h:mm\tcost\tCO2 t\t"
