@@ -167,6 +167,12 @@ type Plan struct {
 	// Ensemble is the profile's distribution over the members of an
 	// ensemble forecast (SolveEnsemble, AssessEnsemble); nil otherwise.
 	Ensemble *EnsembleReport
+	// Arrival is how the plan meets its arrival window (SolveArriveBy);
+	// nil when none was asked for.
+	Arrival *ArrivalResult
+	// Delay is how the plan was chosen against a cost of lateness
+	// (SearchDelayCost, SolveDelayCost); nil when none was asked for.
+	Delay *DelayChoice
 }
 
 // MinMargin returns the least buffet margin over the cruise and step legs,

@@ -52,6 +52,11 @@ type Doc struct {
 	Alternatives []Alternative `json:"alternatives,omitempty"`
 	// Ensemble is present for a plan against an ensemble forecast.
 	Ensemble *Ensemble `json:"ensemble,omitempty"`
+	// Arrival is present for a plan made for an arrival window (plan
+	// --arrive-by), Delay for one chosen against a delay cost (plan
+	// --delay-cost).
+	Arrival *Arrival `json:"arrival,omitempty"`
+	Delay   *Delay   `json:"delay_cost,omitempty"`
 	// Policy is the resolved policy the plan was made under.
 	Policy Policy `json:"policy"`
 }
@@ -236,6 +241,7 @@ func FromPlan(p *optimizer.Plan, assessed bool) *Doc {
 			InitialFL: a.Profile.Initial, StepsCount: len(a.Profile.Changes), LandingMass: a.Totals.LandingMass})
 	}
 	d.Ensemble = ensembleDoc(p.Ensemble)
+	d.Arrival, d.Delay = arrivalDoc(p.Arrival), delayDoc(p.Delay)
 	if !assessed {
 		d.SearchCost = Number(p.SearchCost)
 		d.SearchNodes, d.SearchEdges = p.Nodes, p.Edges
