@@ -157,7 +157,10 @@ func newBatchCmd() *cobra.Command {
 			wx, err = ens.open(weather, wxo)
 			opt.Meta["ensemble"] = fmt.Sprintf("%d members, objective %s, robust share %g", len(ens.members), ens.obj, ens.robustShare)
 		} else {
-			wx, err = loadWeather(weather, wxo)
+			if cmd.Flags().Changed("member") {
+				opt.Meta["member"] = strconv.Itoa(ens.member) // a resume on another member is refused
+			}
+			wx, err = loadWeather(weather, ens.weatherOpts(cmd, wxo))
 			err = memberHint(err)
 		}
 		if err != nil {

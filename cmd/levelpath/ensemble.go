@@ -37,10 +37,11 @@ func (e *ensembleFlags) register(c *cobra.Command) {
 	fl.BoolVar(&e.memberMach, "member-mach", false, "with --ensemble: price each member at its own econ Mach in the search too (slower; default: the control's Mach, each member's own in the priced results)")
 }
 
-// registerBatch registers batch's ensemble flags: --ensemble,
+// registerBatch registers batch's ensemble flags: --member, --ensemble,
 // --objective and --robust-share.
 func (e *ensembleFlags) registerBatch(c *cobra.Command) {
 	fl := c.Flags()
+	fl.IntVar(&e.member, "member", 0, "of an ensemble forecast in --weather, plan on member N only (GRIB2 perturbation number; 0 is the control)")
 	fl.BoolVar(&e.ensemble, "ensemble", false, "plan each flight's one profile for every member of the ensemble forecast in --weather; results gain fuel_p10_kg, fuel_p90_kg and min_margin_all_members_g")
 	fl.StringVar(&e.objective, "objective", "mean", "with --ensemble: minimise the members' mean cost, or quantile:Q of their costs (a heuristic)")
 	fl.Float64Var(&e.robustShare, "robust-share", 1, "with --ensemble: share of members, in (0, 1], in which every leg must keep its limits")
