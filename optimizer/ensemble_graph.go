@@ -36,6 +36,39 @@ type ensSearch struct {
 	memberMach bool
 	costs      []float64 // scratch: the feasible members' costs
 	fuels      []float64
+	last       ctrlLeg // the control's last leg (members ask in turn)
+}
+
+// ctrlLeg is the control's cruise over distance d on segment k at level
+// li from mass m: its start point v0 and the ratios of fuel flow and true
+// airspeed at its mid-leg mass to the start's.
+type ctrlLeg struct {
+	k, li      int
+	m, d       float64
+	v0         cruiseVal
+	rFF, rTAS  float64
+	ok, cached bool
+}
+
+// ctrlLegAt returns the control's leg (see ctrlLeg), computed once for
+// the members that ask one after another.
+func (e *ensSearch) ctrlLegAt(k, li int, m, d float64) *ctrlLeg {
+	l := &e.last
+	if l.cached && l.k == k && l.li == li && l.m == m && l.d == d {
+		return l
+	}
+	c := e.members[0]
+	*l = ctrlLeg{k: k, li: li, m: m, d: d, rFF: 1, rTAS: 1, cached: true}
+	l.v0 = c.cruiseAt(k, li, m)
+	if l.ok = l.v0.ok; !l.ok {
+		return l
+	}
+	if gs := l.v0.tas + c.conds[k][li].wind; gs >= 50 {
+		if vm := c.cruiseAt(k, li, m-l.v0.ff*d/gs/2); vm.ok {
+			l.rFF, l.rTAS = vm.ff/l.v0.ff, vm.tas/l.v0.tas
+		}
+	}
+	return l
 }
 
 // memberPrice is one member's price of an edge: fuel (kg), time (s), and
@@ -101,35 +134,29 @@ func sameConds(c, s *solver, keys [][2]int) bool {
 // temperature and floor at the start of the leg, where feasibility is
 // decided; over the leg, fuel flow and true airspeed change from the
 // start by the control's own ratios between its start and mid-leg masses
-// (the mass effect; the member's own temperature and wind scale both
-// ends alike). A member whose temperature, floor and closure equal the
-// control's flies the control's aircraft point itself (only the ground
-// speed differs): no aircraft point is evaluated for it.
+// (the mass effect: the members' mid-leg masses differ from the control's
+// by half their difference in the leg's fuel, a few tens of kilograms).
+// A member whose temperature, floor and closure equal the control's flies
+// the control's aircraft point itself (only the ground speed differs): no
+// aircraft point is evaluated for it.
 func (e *ensSearch) sharedCruise(s *solver, k, li int, m, d float64) (fuel, t float64, ok bool) {
-	c0 := e.members[0]
-	v0 := c0.cruiseAt(k, li, m)
-	if !v0.ok {
+	l := e.ctrlLegAt(k, li, m, d)
+	if !l.ok {
 		f, t, v := s.cruiseLeg(k, li, m, d)
 		return f, t, v.ok
 	}
-	c, cc := s.conds[k][li], c0.conds[k][li]
-	v := v0
+	c, cc := s.conds[k][li], e.members[0].conds[k][li]
+	v := l.v0
 	if c.isaDev != cc.isaDev || c.floor != cc.floor || c.closed != cc.closed {
-		if v = cruiseAtMach(s, li, m, v0.mach, c); !v.ok {
+		if v = cruiseAtMach(s, li, m, l.v0.mach, c); !v.ok {
 			return 0, 0, false
 		}
 	}
-	gs := v.tas + c.wind
-	if gs < 50 {
+	if v.tas+c.wind < 50 {
 		return 0, 0, false
 	}
-	vm := c0.cruiseAt(k, li, m-v.ff*d/gs/2)
-	ff, tas := v.ff, v.tas
-	if vm.ok {
-		ff, tas = v.ff*(vm.ff/v0.ff), v.tas*(vm.tas/v0.tas)
-	}
-	t = d / (tas + c.wind)
-	return ff * t, t, true
+	t = d / (v.tas*l.rTAS + c.wind)
+	return v.ff * l.rFF * t, t, true
 }
 
 // cruiseAtMach is cruise at level li, mass m and the given Mach in
