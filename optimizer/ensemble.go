@@ -122,7 +122,7 @@ func (ep *EnsembleProblem) prepare() ([]Problem, []string, error) {
 		return nil, nil, inputErrorf("Objective", "quantile %v must lie in (0, 1]", q)
 	}
 	qs := make([]Problem, len(ep.Members))
-	var warn []string
+	var warn, extra []string
 	f0 := ep.Members[0].Weather
 	for i, m := range ep.Members {
 		if m.Weather == nil {
@@ -143,10 +143,17 @@ func (ep *EnsembleProblem) prepare() ([]Problem, []string, error) {
 		}
 		if i == 0 {
 			warn = w
+		} else {
+			// A member's own warnings (its weather's, say) are named.
+			for _, x := range w {
+				if !slices.Contains(qs[0].Notes, x) && !slices.Contains(warn, x) {
+					extra = append(extra, fmt.Sprintf("member %d: %s", m.Number, x))
+				}
+			}
 		}
 		qs[i] = q
 	}
-	return qs, warn, nil
+	return qs, append(warn, extra...), nil
 }
 
 // sameAxes reports how two members' fields differ in grid, levels or
