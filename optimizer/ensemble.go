@@ -207,10 +207,11 @@ func sameAxes(a, b *winds.Field) error {
 //
 //   - One mass per node: the members' masses are collapsed to their mean
 //     (the mean fuel of each edge), so an edge is priced on every member
-//     at that mean mass, not the member's own. Its effect is second order
-//     (fuel flow changes by about 1 % for 1 % of mass, while the members'
-//     trip fuels differ by a few hundred kilograms on a long haul);
-//     the chosen profile is then priced on each member exactly, with the
+//     at that mean mass, not the member's own. The members' masses at a
+//     node differ only by the spread of the fuel they have burnt so far
+//     (about 1.5 t over the whole demo long haul, under 1 % of the mass),
+//     and prices change smoothly with mass, so the error is small; the
+//     chosen profile is then priced on each member exactly, with the
 //     member's own mass (Assess), and those prices are what is reported.
 //
 //   - Where members would place a piece of the profile in different
@@ -225,10 +226,13 @@ func sameAxes(a, b *winds.Field) error {
 //   - The quantile objective (Objective.Quantile) is a heuristic: each
 //     edge costs the q-quantile of its members' costs, and the search is
 //     plain Dijkstra on those. The quantile of a sum is not the sum of
-//     quantiles, but the two agree when the same members are dearest on
-//     every edge (comonotone costs, as with a jet stream shifted as a
-//     whole); the profile's true quantile over the members is what the
-//     report gives.
+//     quantiles, but the two agree when the members' costs are ranked the
+//     same on every edge (comonotone costs, as with a jet stream shifted
+//     as a whole: quantiles add for comonotonic variables, Dhaene, Denuit,
+//     Goovaerts, Kaas and Vyncke, Insurance: Mathematics and Economics 31,
+//     2002, from memory; for sample quantiles of definition 7 the order
+//     statistics add, and so do their interpolations); the profile's true
+//     quantile over the members is what the report gives.
 //
 // Garcia-Heras, Soler and Gonzalez-Arribas, "Characterization and
 // enhancement of flight planning predictability under wind uncertainty",
