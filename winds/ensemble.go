@@ -183,22 +183,30 @@ func (o Options) OpenEnsembleBetween(pLow, pHigh float64, paths ...string) (*Ens
 		j, _ := slices.BinarySearch(ns, m.Ensemble)
 		groups[j] = append(groups[j], *m)
 	}
-	var all []Message
 	for j := range groups {
 		groups[j] = append(groups[j], shared...)
-		all = append(all, groups[j]...)
 	}
-	if err := checkFieldBudget(all, o.budget(), paths); err != nil {
-		return nil, err
-	}
-	// checkFieldBudget counts levels and times over all members together:
-	// a bound of the sum only when they agree, so check layouts first,
-	// from the headers, without allocating values.
+	// Layouts first, from the headers (members that disagree are an
+	// error of their own), then the budget of every member's Field
+	// together, before anything is allocated.
 	e := &Ensemble{Members: ns, Fields: make([]*Field, len(ns))}
 	for j := range groups {
 		if err := sameLayout(groups[0], groups[j], ns[0], ns[j]); err != nil {
 			return nil, err
 		}
+	}
+	need, what := 0.0, ""
+	for j := range groups {
+		b, w := fieldNeed(groups[j])
+		need, what = need+b, w
+	}
+	if budget := o.budget(); need > float64(budget) {
+		n := uint64(math.MaxUint64)
+		if need < 1<<63 {
+			n = uint64(need)
+		}
+		return nil, &BudgetError{Source: strings.Join(paths, ", "), Need: n, Budget: uint64(budget),
+			What: fmt.Sprintf("%d ensemble members, each %s", len(ns), what)}
 	}
 	for j := range groups {
 		f, err := layout(groups[j])

@@ -314,3 +314,18 @@ func TestEnsembleSharedEDR(t *testing.T) {
 		}
 	}
 }
+
+// TestEnsembleBudget: the budget covers every member together, checked
+// from the headers: three members of 36x19 points, 3 variables, 2 levels
+// and 2 times need 3 x 3 x 2 x 2 x 684 x 4 bytes = 98,496 bytes.
+func TestEnsembleBudget(t *testing.T) {
+	dir := t.TempDir()
+	files := writeMembers(t, dir, ensembleBase([]int{0, 6}), 0, 1, 2)
+	var be *BudgetError
+	if _, err := (Options{Budget: 98495}).OpenEnsemble(files...); !errors.As(err, &be) || be.Need != 98496 {
+		t.Errorf("budget one byte short: %v", err)
+	}
+	if _, err := (Options{Budget: 98496 + 1<<16}).OpenEnsemble(files...); err != nil {
+		t.Errorf("budget enough: %v", err)
+	}
+}

@@ -22,6 +22,20 @@ func (f *Field) Warnings() []Warning { return append([]Warning(nil), f.warnings.
 // upper bound when they do not). The count is done in float64 so that no
 // product of header numbers can wrap. Time O(n log n) in len(heads).
 func checkFieldBudget(heads []Message, budget int64, paths []string) error {
+	need, what := fieldNeed(heads)
+	if need <= float64(budget) {
+		return nil
+	}
+	n := uint64(math.MaxUint64)
+	if need < 1<<63 {
+		n = uint64(need)
+	}
+	return &BudgetError{Source: strings.Join(paths, ", "), Need: n, Budget: uint64(budget), What: what}
+}
+
+// fieldNeed returns the bytes of the Field that heads lay out (see
+// checkFieldBudget) and a description of them.
+func fieldNeed(heads []Message) (float64, string) {
 	var times [2]map[int64]bool // winds and temperature; EDR
 	var levels [2][]float64
 	for g := range times {
@@ -65,15 +79,7 @@ func checkFieldBudget(heads []Message, budget int64, paths []string) error {
 		}
 		maxPts = math.Max(maxPts, p)
 	}
-	if need <= float64(budget) {
-		return nil
-	}
-	n := uint64(math.MaxUint64)
-	if need < 1<<63 {
-		n = uint64(need)
-	}
-	return &BudgetError{Source: strings.Join(paths, ", "), Need: n, Budget: uint64(budget),
-		What: fmt.Sprintf("a field of %.0f variables x up to %d levels x up to %d valid times x up to %.0f grid points x 4 bytes", nvars, maxLev, maxTimes, maxPts)}
+	return need, fmt.Sprintf("a field of %.0f variables x up to %d levels x up to %d valid times x up to %.0f grid points x 4 bytes", nvars, maxLev, maxTimes, maxPts)
 }
 
 // windSanity warns, once for each pair of u and v fields, about points

@@ -3,6 +3,7 @@ package main
 import (
 	"bytes"
 	"encoding/csv"
+	"fmt"
 	"os"
 	"path/filepath"
 	"strconv"
@@ -177,5 +178,37 @@ func TestEnsembleBatch(t *testing.T) {
 				t.Errorf("%s: P10 %v P90 %v, least margin of all %v above the control's %v", r[0], num("fuel_p10_kg"), num("fuel_p90_kg"), num("min_margin_all_members_g"), num("min_margin_g"))
 			}
 		}
+	}
+}
+
+// TestEnsembleCLIIdentical: an ensemble file whose three members are one
+// forecast plans, on the command line, what that forecast alone plans
+// (profile, totals, legs), and its spread is nil.
+func TestEnsembleCLIIdentical(t *testing.T) {
+	fs := demoFiles(t)
+	one := synthetic.Ensemble(demo.Ref(), 1)
+	var msgs []winds.Message
+	for n := range 3 {
+		for _, m := range one {
+			m.Ensemble = n
+			msgs = append(msgs, m)
+		}
+	}
+	var buf bytes.Buffer
+	if err := winds.WriteGRIB2(&buf, msgs); err != nil {
+		t.Fatal(err)
+	}
+	path := filepath.Join(t.TempDir(), "same.grib2")
+	os.WriteFile(path, buf.Bytes(), 0o644)
+	args := []string{"--route", fs.Route, "--aircraft", "demo-widebody", "--mass", "245000", "--weather", path,
+		"--depart", "2026-12-01T20:00:00Z", "--ci", "40"}
+	e := planJSON(t, append([]string{"plan", "--ensemble"}, args...)...)
+	d := planJSON(t, append([]string{"plan", "--member", "1"}, args...)...)
+	if e["profile"] != d["profile"] || fmt.Sprint(e["totals"]) != fmt.Sprint(d["totals"]) || fmt.Sprint(e["legs"]) != fmt.Sprint(d["legs"]) {
+		t.Errorf("identical members: ensemble %v %v, one member %v %v", e["profile"], e["totals"], d["profile"], d["totals"])
+	}
+	f := e["ensemble"].(map[string]any)["profile"].(map[string]any)["fuel_kg"].(map[string]any)
+	if f["min"] != f["max"] {
+		t.Errorf("identical members: fuel spread %v", f)
 	}
 }
