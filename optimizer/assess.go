@@ -336,8 +336,8 @@ func (s *sim) cruise(k int, end float64, c cond, detail bool) {
 	leg.BuffetMargin = v.margin
 	leg.ResidualClimb = v.resid
 	if detail {
-		leg.MaxFLBuffet = maxFLBuffet(a, s.m, c.floor)
-		leg.MaxFLThrust = maxFLThrust(a, s.m, c.isaDev, c.floor)
+		leg.MaxFLBuffet = a.MaxFLBuffet(s.m, c.floor)
+		leg.MaxFLThrust = a.MaxFLThrust(s.m, c.isaDev)
 	} else {
 		leg.MaxFLBuffet, leg.MaxFLThrust = nan, nan
 	}
