@@ -23,6 +23,9 @@ const (
 	ContrailPersistent ContrailClass = "persistent"  // met in air at or above the persistence threshold over ice
 )
 
+// ContrailCaution goes with every contrail figure a plan output shows.
+const ContrailCaution = "Contrail prediction from forecast humidity is uncertain (ice supersaturation is poorly forecast): contrail figures are for planning studies, not a guarantee of avoidance."
+
 // DefaultContrailRHi is the relative humidity over ice (%) at or above
 // which a contrail persists when Problem.ContrailRHiPct is 0: ice
 // saturation, the usual threshold (Schumann 1996, section 2; Teoh et al.,

@@ -47,6 +47,7 @@ type problemFlags struct {
 	date        string
 	perfFactor  float64
 	isaDev      float64
+	contrail    contrailFlags
 	wx          weatherOpts
 }
 
@@ -79,6 +80,7 @@ func (f *problemFlags) register(c *cobra.Command) {
 	fl.StringVar(&f.date, "date", "", "date for magnetic variation, YYYY-MM-DD (default: departure date)")
 	fl.Float64Var(&f.perfFactor, "perf-factor", 0, "performance factor, percent: every fuel flow multiplied by 1 + PCT/100 (per tail, e.g. 2.5)")
 	fl.Float64Var(&f.isaDev, "isa-dev", 0, "temperature deviation from ISA, °C, where there is no forecast temperature (no --weather: still air at ISA+DEV)")
+	f.contrail.register(c)
 	weatherFlags(c, &f.wx)
 }
 
@@ -153,6 +155,10 @@ func (f *problemFlags) problem(c *cobra.Command, wx *winds.Field, stderr io.Writ
 	}
 	p := &optimizer.Problem{Aircraft: a, Weather: wx, CI: f.ci, Floor: f.floor, MinFL: f.minFL, MaxFL: f.maxFL, MassBucket: f.bucketKg, Exact: f.exact,
 		PerfFactorPct: f.perfFactor, ISADev: f.isaDev}
+	if err := f.contrail.check(f.weather, wx); err != nil {
+		return nil, err
+	}
+	p.ContrailCost, p.ContrailRHiPct = f.contrail.cost, f.contrail.rhi
 	if !(f.perfFactor >= perf.MinPerfFactorPct && f.perfFactor <= perf.MaxPerfFactorPct) {
 		return nil, badInputf("--perf-factor %v: want %g..%g percent", f.perfFactor, perf.MinPerfFactorPct, perf.MaxPerfFactorPct)
 	}

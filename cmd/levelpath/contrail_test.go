@@ -1,0 +1,118 @@
+package main
+
+import (
+	"bytes"
+	"encoding/csv"
+	"encoding/json"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"levelpath/cmd/levelpath/internal/demo"
+	"levelpath/winds"
+	"levelpath/winds/synthetic"
+)
+
+// dryWeatherFile writes the demo weather without its humidity.
+func dryWeatherFile(t *testing.T) string {
+	t.Helper()
+	var msgs []winds.Message
+	for _, m := range synthetic.Weather(demo.Ref()) {
+		if m.Param != winds.ParamRH {
+			msgs = append(msgs, m)
+		}
+	}
+	var buf bytes.Buffer
+	if err := winds.WriteGRIB2(&buf, msgs); err != nil {
+		t.Fatal(err)
+	}
+	p := filepath.Join(t.TempDir(), "dry.grib2")
+	if err := os.WriteFile(p, buf.Bytes(), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	return p
+}
+
+// --contrail-cost 0 prints exactly what no option prints, in every
+// format, for plan and assess; a positive cost changes the profile on the
+// demo flight through an invented ice-supersaturated layer and lowers its
+// persistent-contrail distance; legs carry their contrail class in JSON,
+// the table and the CSV.
+func TestContrailCostCLI(t *testing.T) {
+	fs := demoFiles(t)
+	args := []string{"--route", fs.Routes[2], "--aircraft", "demo-narrowbody", "--mass", "70000", "--weather", fs.Weather,
+		"--depart", "2026-12-01T21:00:00Z", "--ci", "0"}
+	for _, cmd := range [][]string{{"plan"}, {"assess", "--profile", "FL340,FL360@194"}} {
+		for _, f := range []string{"table", "json", "csv"} {
+			base := append(append(append([]string{}, cmd...), args...), "--format", f)
+			c1, o1, e1 := runCLI(t, base...)
+			c2, o2, _ := runCLI(t, append(base, "--contrail-cost", "0")...)
+			if c1 != 0 || c2 != 0 || o1 != o2 {
+				t.Errorf("%s --format %s: --contrail-cost 0 differs (exit %d, %d) %s", cmd[0], f, c1, c2, e1)
+			}
+		}
+	}
+	get := func(extra ...string) map[string]any {
+		return planJSON(t, append(append([]string{"plan"}, args...), extra...)...)
+	}
+	zero, cost := get(), get("--contrail-cost", "20")
+	zc, cc := zero["contrail"].(map[string]any), cost["contrail"].(map[string]any)
+	if !(cc["persistent_contrail_nm"].(float64) < zc["persistent_contrail_nm"].(float64)) || zero["profile"] == cost["profile"] {
+		t.Errorf("--contrail-cost 20: %v, %v NM; without %v, %v NM", cost["profile"], cc["persistent_contrail_nm"], zero["profile"], zc["persistent_contrail_nm"])
+	}
+	if !strings.Contains(zc["caution"].(string), "not a guarantee of avoidance") {
+		t.Errorf("contrail caution %q", zc["caution"])
+	}
+	classes := map[string]int{}
+	for _, l := range zero["legs"].([]any) {
+		leg := l.(map[string]any)
+		c, _ := leg["contrail"].(string)
+		if (leg["phase"] == "cruise") != (c != "") {
+			t.Errorf("%s leg with contrail %q", leg["phase"], c)
+		}
+		classes[c]++
+	}
+	if classes["persistent"] == 0 {
+		t.Errorf("classes %v: no persistent leg on the demo flight", classes)
+	}
+	_, out, _ := runCLI(t, append(append([]string{"plan"}, args...), "--format", "csv")...)
+	rows, err := csv.NewReader(strings.NewReader(out)).ReadAll()
+	if err != nil || len(rows) < 3 || rows[0][17] != "contrail" || rows[2][17] == "" {
+		t.Errorf("CSV contrail column: %v %v", err, rows[:min(3, len(rows))])
+	}
+	_, out, _ = runCLI(t, append([]string{"plan"}, args...)...)
+	if !strings.Contains(out, "Contrails persistent") || !strings.Contains(out, "persistent\n") && !strings.Contains(out, " persistent ") {
+		t.Errorf("table lacks the contrail summary or column:\n%s", out)
+	}
+}
+
+// Bad contrail costs exit 2 naming the value; a cost with weather that
+// has no humidity names the file; without weather says so.
+func TestContrailCostBadCLI(t *testing.T) {
+	fs := demoFiles(t)
+	base := []string{"plan", "--route", fs.Routes[3], "--aircraft", "demo-regional", "--mass", "36000", "--depart", "2026-12-01T21:00:00Z"}
+	dry := dryWeatherFile(t)
+	for _, c := range []struct {
+		extra []string
+		want  string
+	}{
+		{[]string{"--weather", fs.Weather, "--contrail-cost", "-1"}, "--contrail-cost -1"},
+		{[]string{"--weather", fs.Weather, "--contrail-cost", "NaN"}, "--contrail-cost NaN"},
+		{[]string{"--weather", fs.Weather, "--contrail-cost", "Inf"}, "--contrail-cost +Inf"},
+		{[]string{"--weather", fs.Weather, "--contrail-cost", "5", "--contrail-rhi", "300"}, "--contrail-rhi 300"},
+		{[]string{"--weather", dry, "--contrail-cost", "5"}, "dry.grib2 holds no humidity"},
+		{[]string{"--contrail-cost", "5"}, "needs --weather"},
+	} {
+		code, _, errs := runCLI(t, append(append([]string{}, base...), c.extra...)...)
+		if code != 2 || !strings.Contains(errs, c.want) {
+			t.Errorf("%v: exit %d, %q; want 2 naming %q", c.extra, code, errs, c.want)
+		}
+	}
+	// The dry weather without a cost plans as before, without contrail figures.
+	code, out, errs := runCLI(t, append(append([]string{}, base...), "--weather", dry, "--format", "json")...)
+	var d map[string]any
+	if code != 0 || json.Unmarshal([]byte(out), &d) != nil || d["contrail"] != nil {
+		t.Errorf("dry weather: exit %d %s, contrail %v", code, errs, d["contrail"])
+	}
+}
