@@ -41,6 +41,8 @@ func newBatchCmd() *cobra.Command {
 		maxStepFt, maxSteps                    int
 		minStepNM                              float64
 		stepDescents, noSteps                  bool
+		con                                    contrailFlags
+		contrailSweep                          string
 	)
 	c := &cobra.Command{
 		Use:   "batch",
@@ -70,6 +72,8 @@ func newBatchCmd() *cobra.Command {
 	fl.Float64Var(&minStepNM, "min-step-nm", 100, "step rule for every flight: least distance between steps, NM (0: none)")
 	fl.IntVar(&maxSteps, "max-steps", 0, "step rule for every flight: most steps (0: no limit)")
 	fl.BoolVar(&noSteps, "no-steps", false, "step rule for every flight: one constant level")
+	con.register(c)
+	fl.StringVar(&contrailSweep, "contrail-sweep", "", "plan every flight at each contrail cost (kg/NM), e.g. 0,5,20,100, each run in OUT/contrail-COST; prints fuel, CO2, persistent contrail NM and the share of flights changed per cost")
 	c.RunE = func(cmd *cobra.Command, _ []string) error {
 		if err := checkFormat(*format, "table", "json", "csv"); err != nil {
 			return err
@@ -91,9 +95,24 @@ func newBatchCmd() *cobra.Command {
 			}
 			opt.Sweep = s
 		}
+		var costs []float64
+		if contrailSweep != "" {
+			var err error
+			if costs, err = parseContrailSweep(contrailSweep); err != nil {
+				return err
+			}
+			switch {
+			case cmd.Flags().Changed("contrail-cost"):
+				return badInputf("give --contrail-sweep or --contrail-cost, not both")
+			case opt.Sweep != nil:
+				return badInputf("--contrail-sweep and --ci-sweep cannot be combined: run one sweep at a time")
+			case shard != "" || shardCount != 0:
+				return badInputf("--contrail-sweep plans whole schedules: it cannot be combined with --shard or --shard-count")
+			}
+		}
 		if chartPath != "" {
-			if opt.Sweep == nil {
-				return badInputf("--chart needs --ci-sweep")
+			if opt.Sweep == nil && costs == nil {
+				return badInputf("--chart needs --ci-sweep or --contrail-sweep")
 			}
 			if _, err := chart.FormatOf(chartPath); err != nil {
 				return badInputf("--chart: %v", err)
@@ -149,20 +168,36 @@ func newBatchCmd() *cobra.Command {
 		if err != nil {
 			return err
 		}
+		if err := con.check(weather, wx); err != nil {
+			return err
+		}
+		for _, v := range costs {
+			if err := checkContrail(v, con.rhi, weather, wx, "--contrail-sweep item"); err != nil {
+				return err
+			}
+		}
+		if con.cost != 0 {
+			opt.Meta["contrail_cost"] = strconv.FormatFloat(con.cost, 'g', -1, 64) // a resume with another cost is refused
+		}
+		if con.rhi != 0 {
+			opt.Meta["contrail_rhi"] = strconv.FormatFloat(con.rhi, 'g', -1, 64)
+		}
 		if wx == nil {
 			warnf(cmd.ErrOrStderr(), "%s", stillAirWarning)
 		}
 		if !(maxSegNM >= 1 && maxSegNM <= 1000) {
 			return badInputf("--max-seg-nm %v: want 1..1000", maxSegNM)
 		}
-		pl := &batch.SchedulePlanner{Weather: wx, MaxSegment: maxSegNM * perf.NMToM, Steps: steps}
+		pl := &batch.SchedulePlanner{Weather: wx, MaxSegment: maxSegNM * perf.NMToM, Steps: steps, ContrailCost: con.cost, ContrailRHiPct: con.rhi}
+		var pol *optimizer.FuelPolicy
 		if policyPath != "" {
-			pol, err := readPolicy(policyPath)
+			p, err := readPolicy(policyPath)
 			if err != nil {
 				return err
 			}
-			pl.Policy = &pol
-			sum := sha256.Sum256([]byte(fmt.Sprintf("%+v", pol)))
+			pol = &p
+			pl.Policy = pol
+			sum := sha256.Sum256([]byte(fmt.Sprintf("%+v", *pol)))
 			opt.Meta["fuel_policy"] = hex.EncodeToString(sum[:]) // a resume with another policy is refused
 		}
 		// From here a first SIGINT or SIGTERM stops the run cleanly
@@ -172,6 +207,33 @@ func newBatchCmd() *cobra.Command {
 		ctx, stop := signal.NotifyContext(cmd.Context(), os.Interrupt, syscall.SIGTERM)
 		defer stop()
 		go func() { <-ctx.Done(); stop() }()
+		if costs != nil {
+			plannerFor := func(cost float64) batch.Planner {
+				return (&batch.SchedulePlanner{Weather: wx, MaxSegment: pl.MaxSegment, Steps: steps, Policy: pol, ContrailCost: cost, ContrailRHiPct: con.rhi}).Plan
+			}
+			lines, someFailed, err := runContrailSweep(ctx, rows, bad, costs, opt, plannerFor)
+			if err != nil {
+				if errors.Is(err, batch.ErrStopped) {
+					return &exitError{code: exitInternal, msg: err.Error() + "; rerun with --resume to finish"}
+				}
+				return batchError(err)
+			}
+			if err := writeContrailSweepFile(filepath.Join(out, "contrail_sweep.csv"), lines); err != nil {
+				return err
+			}
+			if err := printContrailSweep(cmd.OutOrStdout(), *format, lines); err != nil {
+				return err
+			}
+			if chartPath != "" {
+				if err := contrailChart(chartPath, lines); err != nil {
+					return err
+				}
+			}
+			if someFailed {
+				return &exitError{code: exitSomeFailed, msg: fmt.Sprintf("some plans failed, were infeasible or had bad schedule rows: see %s/contrail-*/errors.csv", out)}
+			}
+			return nil
+		}
 		start := time.Now()
 		sum, err := batch.Run(ctx, rows, bad, pl.Plan, opt)
 		if el := time.Since(start); err == nil && sum.Planned > sum.Skipped {

@@ -116,3 +116,79 @@ func TestContrailCostBadCLI(t *testing.T) {
 		t.Errorf("dry weather: exit %d %s, contrail %v", code, errs, d["contrail"])
 	}
 }
+
+// batch: --contrail-cost 0 writes the same results.csv and summary as no
+// option; --contrail-sweep prints a line per cost whose persistent
+// distance never rises and fuel never falls with the cost, with CO2 3.16
+// x fuel (ICAO Carbon Emissions Calculator Methodology), day + night =
+// persistent, a changed share within 0..100 % and 0 at the reference; it
+// writes contrail_sweep.csv and the trade-off chart. Bad sweeps exit 2.
+func TestBatchContrail(t *testing.T) {
+	fs := demoFiles(t)
+	sched := filepath.Join(fs.Dir, "sched-contrail.csv")
+	os.WriteFile(sched, []byte("flight,departure,route,aircraft,tow_kg,ci\n"+
+		"C1,2026-12-01T21:00:00Z,route-sunhaven.geojson,demo-narrowbody,70000,0\n"+
+		"C2,2026-12-01T20:00:00Z,route.geojson,demo-widebody,230000,0\n"+
+		"C3,2026-12-01T21:00:00Z,route-lakeport.geojson,demo-regional,36000,10\n"), 0o644)
+	dir := t.TempDir()
+	run := func(out string, extra ...string) (int, string, string) {
+		return runCLI(t, append([]string{"batch", "--schedule", sched, "--weather", fs.Weather, "--out", filepath.Join(dir, out)}, extra...)...)
+	}
+	c1, o1, e1 := run("a")
+	c2, o2, _ := run("b", "--contrail-cost", "0")
+	r1, _ := os.ReadFile(filepath.Join(dir, "a", "results.csv"))
+	r2, _ := os.ReadFile(filepath.Join(dir, "b", "results.csv"))
+	if c1 != 0 || c2 != 0 || o1 != o2 || !bytes.Equal(r1, r2) || len(r1) == 0 {
+		t.Fatalf("--contrail-cost 0: exit %d/%d %s; outputs equal %v, results equal %v", c1, c2, e1, o1 == o2, bytes.Equal(r1, r2))
+	}
+	code, out, errs := run("s", "--contrail-sweep", "0,2,20,100", "--format", "json", "--chart", filepath.Join(dir, "tradeoff.svg"))
+	if code != 0 {
+		t.Fatalf("sweep: exit %d %s", code, errs)
+	}
+	var doc struct {
+		Sweep []contrailLine `json:"contrail_sweep"`
+	}
+	if err := json.Unmarshal([]byte(out), &doc); err != nil || len(doc.Sweep) != 4 {
+		t.Fatalf("sweep JSON: %v\n%s", err, out)
+	}
+	for i, l := range doc.Sweep {
+		if l.Flights != 3 || abs(l.CO2Kg-3.16*l.FuelKg) > 1e-6*l.FuelKg || abs(l.DayNM+l.NightNM-l.PersistentNM) > 1e-6 {
+			t.Errorf("line %d: %+v", i, l)
+		}
+		if l.ChangedPct == nil || *l.ChangedPct < 0 || *l.ChangedPct > 100 || i == 0 && *l.ChangedPct != 0 {
+			t.Errorf("line %d: changed %v", i, l.ChangedPct)
+		}
+		if i > 0 && (l.PersistentNM > doc.Sweep[i-1].PersistentNM+1e-9 || l.FuelKg < doc.Sweep[i-1].FuelKg-1e-9) {
+			t.Errorf("cost %v: persistent %.1f NM, fuel %.1f kg after %.1f NM, %.1f kg", l.CostPerNM, l.PersistentNM, l.FuelKg, doc.Sweep[i-1].PersistentNM, doc.Sweep[i-1].FuelKg)
+		}
+	}
+	if last := doc.Sweep[3]; !(last.PersistentNM < doc.Sweep[0].PersistentNM) || *last.ChangedPct == 0 {
+		t.Errorf("the sweep avoided nothing: %+v", doc.Sweep)
+	}
+	for _, f := range []string{"s/contrail_sweep.csv", "s/contrail-0/results.csv", "s/contrail-100/results.csv", "tradeoff.svg"} {
+		if st, err := os.Stat(filepath.Join(dir, f)); err != nil || st.Size() == 0 {
+			t.Errorf("%s: %v", f, err)
+		}
+	}
+	dry := dryWeatherFile(t)
+	for _, c := range []struct {
+		args []string
+		want string
+	}{
+		{[]string{"--contrail-sweep", "0,-5"}, `"-5"`},
+		{[]string{"--contrail-sweep", "0,5,5"}, "twice"},
+		{[]string{"--contrail-sweep", "0,5", "--ci-sweep", "0,10"}, "--ci-sweep"},
+		{[]string{"--contrail-sweep", "0,5", "--contrail-cost", "5"}, "not both"},
+		{[]string{"--contrail-cost", "-2"}, "--contrail-cost -2"},
+		{[]string{"--contrail-sweep", "0,5"}, "dry.grib2 holds no humidity"},
+	} {
+		weather := fs.Weather
+		if strings.Contains(c.want, "dry") {
+			weather = dry
+		}
+		code, _, errs := runCLI(t, append([]string{"batch", "--schedule", sched, "--weather", weather, "--out", filepath.Join(dir, "bad")}, c.args...)...)
+		if code != 2 || !strings.Contains(errs, c.want) {
+			t.Errorf("%v: exit %d %q, want 2 naming %q", c.args, code, errs, c.want)
+		}
+	}
+}

@@ -36,38 +36,42 @@ const (
 // at full precision (results.parquet holds them so; results.csv rounds them
 // for reading, see csvDecimals).
 type record struct {
-	Kind          string     `json:"kind"` // recordKind or badKind
-	Flight        string     `json:"flight"`
-	CI            float64    `json:"ci"`
-	Status        string     `json:"status,omitempty"` // statusOK, statusWarning, statusInfeasible or statusFailed
-	Warnings      []string   `json:"warnings,omitempty"`
-	Row           int        `json:"row"`
-	Departure     string     `json:"departure,omitempty"` // RFC 3339, UTC
-	Arrival       string     `json:"arrival,omitempty"`   // departure + time_min, RFC 3339, UTC
-	Aircraft      string     `json:"aircraft,omitempty"`
-	DistanceNM    *float64   `json:"distance_nm,omitempty"`
-	TakeoffMassKg *float64   `json:"takeoff_mass_kg,omitempty"`
-	ZFWKg         *float64   `json:"zfw_kg,omitempty"`
-	LandingMassKg *float64   `json:"landing_mass_kg,omitempty"`
-	FuelKg        *float64   `json:"fuel_kg,omitempty"`
-	TimeMin       *float64   `json:"time_min,omitempty"`
-	Cost          *float64   `json:"cost,omitempty"`
-	CO2Kg         *float64   `json:"co2_kg,omitempty"`
-	FloorG        *float64   `json:"floor_g,omitempty"`
-	Speed         string     `json:"speed,omitempty"`
-	Levels        string     `json:"levels,omitempty"`
-	InitialFL     *int       `json:"initial_fl,omitempty"`
-	Steps         *int       `json:"steps,omitempty"`
-	MinMarginG    *float64   `json:"min_margin_g,omitempty"`
-	CostSavingPct *float64   `json:"cost_saving_pct,omitempty"`
-	Profile       string     `json:"profile,omitempty"`
-	BlockKg       *float64   `json:"block_kg,omitempty"`
-	LimitedBy     string     `json:"limited_by,omitempty"`
-	Reason        string     `json:"reason,omitempty"`
-	Errors        []RowError `json:"errors,omitempty"`      // bad rows only
-	Plan          string     `json:"plan,omitempty"`        // path relative to Out
-	PlanSHA256    string     `json:"plan_sha256,omitempty"` // digest of the plan file, checked on resume
-	Input         string     `json:"input"`                 // fingerprint of what was planned
+	Kind          string   `json:"kind"` // recordKind or badKind
+	Flight        string   `json:"flight"`
+	CI            float64  `json:"ci"`
+	Status        string   `json:"status,omitempty"` // statusOK, statusWarning, statusInfeasible or statusFailed
+	Warnings      []string `json:"warnings,omitempty"`
+	Row           int      `json:"row"`
+	Departure     string   `json:"departure,omitempty"` // RFC 3339, UTC
+	Arrival       string   `json:"arrival,omitempty"`   // departure + time_min, RFC 3339, UTC
+	Aircraft      string   `json:"aircraft,omitempty"`
+	DistanceNM    *float64 `json:"distance_nm,omitempty"`
+	TakeoffMassKg *float64 `json:"takeoff_mass_kg,omitempty"`
+	ZFWKg         *float64 `json:"zfw_kg,omitempty"`
+	LandingMassKg *float64 `json:"landing_mass_kg,omitempty"`
+	FuelKg        *float64 `json:"fuel_kg,omitempty"`
+	TimeMin       *float64 `json:"time_min,omitempty"`
+	Cost          *float64 `json:"cost,omitempty"`
+	CO2Kg         *float64 `json:"co2_kg,omitempty"`
+	FloorG        *float64 `json:"floor_g,omitempty"`
+	Speed         string   `json:"speed,omitempty"`
+	Levels        string   `json:"levels,omitempty"`
+	InitialFL     *int     `json:"initial_fl,omitempty"`
+	Steps         *int     `json:"steps,omitempty"`
+	MinMarginG    *float64 `json:"min_margin_g,omitempty"`
+	CostSavingPct *float64 `json:"cost_saving_pct,omitempty"`
+	Profile       string   `json:"profile,omitempty"`
+	BlockKg       *float64 `json:"block_kg,omitempty"`
+	LimitedBy     string   `json:"limited_by,omitempty"`
+	// Persistent-contrail distances, NM, when the weather holds humidity.
+	PersistentNM      *float64   `json:"persistent_contrail_nm,omitempty"`
+	PersistentDayNM   *float64   `json:"persistent_contrail_day_nm,omitempty"`
+	PersistentNightNM *float64   `json:"persistent_contrail_night_nm,omitempty"`
+	Reason            string     `json:"reason,omitempty"`
+	Errors            []RowError `json:"errors,omitempty"`      // bad rows only
+	Plan              string     `json:"plan,omitempty"`        // path relative to Out
+	PlanSHA256        string     `json:"plan_sha256,omitempty"` // digest of the plan file, checked on resume
+	Input             string     `json:"input"`                 // fingerprint of what was planned
 }
 
 // ciText formats a cost index for file names and CSV: shortest exact form.
@@ -214,6 +218,9 @@ func resultRecord(row *Row, ci float64, res Result, planErr error) record {
 	}
 	if finite(res.CostSavingPct) {
 		rec.CostSavingPct = new(res.CostSavingPct)
+	}
+	if res.Contrail && finite(res.PersistentNM) && finite(res.PersistentDayNM) && finite(res.PersistentNightNM) {
+		rec.PersistentNM, rec.PersistentDayNM, rec.PersistentNightNM = new(res.PersistentNM), new(res.PersistentDayNM), new(res.PersistentNightNM)
 	}
 	return rec
 }
