@@ -185,3 +185,39 @@ func TestContrailCostBad(t *testing.T) {
 		}
 	}
 }
+
+// The cross-section agrees with the plan's own legs: every cruise leg
+// classified persistent lies in a cell of its segment at its level, since
+// both judge a segment the same way; dry weather gives no cells.
+func TestContrailSection(t *testing.T) {
+	wx, ref := demoWeather(t)
+	c := contrailInstances[0]
+	p := c.problem(t, wx, ref, 0)
+	plan := solve(t, p)
+	cells, err := ContrailSection(p, plan)
+	if err != nil {
+		t.Fatal(err)
+	}
+	in := map[[2]int]bool{}
+	for _, cell := range cells {
+		k := segmentIndex(p.Track.Segments, cell.FromDist+1)
+		in[[2]int{k, cell.FL}] = true
+	}
+	found := 0
+	for i, l := range plan.Legs {
+		if l.Contrail != ContrailPersistent || l.FromDist != p.Track.Segments[l.Segment].FromDist {
+			continue // judged at the leg's own start time: only legs that start on a boundary are comparable
+		}
+		found++
+		if !in[[2]int{l.Segment, int(l.FL)}] {
+			t.Errorf("leg %d (segment %d, FL%.0f) persistent but not in the cross-section", i, l.Segment, l.FL)
+		}
+	}
+	if found == 0 || len(cells) == 0 {
+		t.Errorf("%d persistent legs, %d cells: the demo weather should give both", found, len(cells))
+	}
+	dp := c.problem(t, dryWeather(t, ref), ref, 0)
+	if cells, err := ContrailSection(dp, solve(t, dp)); err != nil || cells != nil {
+		t.Errorf("dry weather: %d cells, %v", len(cells), err)
+	}
+}

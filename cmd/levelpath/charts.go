@@ -24,7 +24,14 @@ func profileInput(plan *optimizer.Plan, pr *optimizer.Problem) chart.ProfileInpu
 			}
 		}
 	}
-	return chart.ProfileInput{Plan: plan, Levels: levels, Title: plan.Aircraft + " " + plan.Profile.String()}
+	in := chart.ProfileInput{Plan: plan, Levels: levels, Title: plan.Aircraft + " " + plan.Profile.String()}
+	if plan.Contrail != nil {
+		// The shading is a view of the plan's own inputs: a problem the
+		// optimizer just planned normalises again, so an error here is
+		// impossible in practice; without shading the chart still draws.
+		in.Contrail, _ = optimizer.ContrailSection(pr, plan)
+	}
+	return in
 }
 
 // checkOutputs checks the --chart and --report file names before any

@@ -192,3 +192,33 @@ func TestBatchContrail(t *testing.T) {
 		}
 	}
 }
+
+// The profile chart shades persistent-contrail conditions and the report
+// lists the contrail legs with the contrail caution, when the weather
+// holds humidity; with dry weather neither appears.
+func TestContrailChartAndReport(t *testing.T) {
+	fs := demoFiles(t)
+	dir := t.TempDir()
+	dry := dryWeatherFile(t)
+	for _, c := range []struct {
+		weather string
+		want    bool
+	}{{fs.Weather, true}, {dry, false}} {
+		svg, html := filepath.Join(dir, "p.svg"), filepath.Join(dir, "r.html")
+		code, _, errs := runCLI(t, "plan", "--route", fs.Routes[0], "--aircraft", "demo-widebody", "--mass", "245000", "--weather", c.weather,
+			"--depart", "2026-12-01T20:00:00Z", "--ci", "40", "--chart", svg, "--report", html)
+		if code != 0 {
+			t.Fatalf("exit %d: %s", code, errs)
+		}
+		s, _ := os.ReadFile(svg)
+		h, _ := os.ReadFile(html)
+		if got := strings.Contains(string(s), "persistent contrail conditions"); got != c.want {
+			t.Errorf("%s: chart shading legend %v, want %v", c.weather, got, c.want)
+		}
+		for _, w := range []string{"<h2>Contrails</h2>", "not a guarantee of avoidance", "persistent (RHi", `href="#leg-`} {
+			if got := strings.Contains(string(h), w); got != c.want && !(w == `href="#leg-` && !c.want) {
+				t.Errorf("%s: report has %q: %v, want %v", c.weather, w, got, c.want)
+			}
+		}
+	}
+}

@@ -20,6 +20,10 @@ type ProfileInput struct {
 	Plan   *optimizer.Plan
 	Levels []int  // allowed flight levels, drawn as faint guides
 	Title  string // chart and page title; a default names the aircraft and CI
+	// Contrail is the cross-section of persistent-contrail conditions
+	// (optimizer.ContrailSection), shaded on the profile panel; nil: none
+	// shown.
+	Contrail []optimizer.ContrailCell
 }
 
 // checkPlan returns a FormatError for a plan that cannot be drawn: nil, no
@@ -65,7 +69,9 @@ func (in ProfileInput) title() string {
 // "pdf") to w: three panels sharing the distance axis (NM from departure).
 //
 //   - top: flight level of the planned profile (each leg from FromFL at
-//     FromDist to FL at ToDist), the step climbs and descents marked and
+//     FromDist to FL at ToDist) over the shaded persistent-contrail
+//     conditions of in.Contrail (each cell FL-5..FL+5 over its
+//     distances), the step climbs and descents marked and
 //     labelled with their new level, the buffet-limited and thrust-limited
 //     maximum levels at each cruise leg's start mass (NaN values skipped),
 //     and the allowed levels as faint guides labelled at the right;
@@ -147,6 +153,10 @@ func profilePanels(in ProfileInput) (top, mid, bot *plot.Plot) {
 		guides.Labels = append(guides.Labels, lab)
 	}
 	top.Add(newGrid(false))
+	if shade := contrailShade(in.Contrail); shade != nil {
+		top.Add(shade)
+		top.Legend.Add("persistent contrail conditions (forecast humidity; uncertain)", shade)
+	}
 	if len(guides.Ys) > 0 {
 		top.Add(guides)
 	}
