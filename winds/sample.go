@@ -28,10 +28,7 @@ const tol = 1e-9
 // not allocate unless it returns an error.
 func (f *Field) Sample(lat, lon, p float64, t time.Time) (Sample, error) {
 	nan := math.NaN()
-	var res [nslots]float64
-	for s := range res {
-		res[s] = nan
-	}
+	res := [nslots]float64{nan, nan, nan, nan, nan, nan}
 	lnp := math.Log(p)
 	ts := float64(t.Unix()) + float64(t.Nanosecond())*1e-9
 	for _, a := range f.uniq[:f.nuniq] {
