@@ -26,6 +26,31 @@ type ProfileInput struct {
 	Contrail []optimizer.ContrailCell
 }
 
+// ProfileFor is what the command line and the service draw for plan on
+// problem pr: the levels the route allows from FL250 up as guides, and the
+// aircraft and profile as title; when the plan has contrail figures, the
+// persistent-contrail cross-section (optimizer.ContrailSection) to shade.
+func ProfileFor(plan *optimizer.Plan, pr *optimizer.Problem) ProfileInput {
+	set := map[int]bool{}
+	var levels []int
+	for _, s := range pr.Track.Segments {
+		for _, l := range s.Levels {
+			if !set[l] && l >= 250 {
+				set[l] = true
+				levels = append(levels, l)
+			}
+		}
+	}
+	in := ProfileInput{Plan: plan, Levels: levels, Title: plan.Aircraft + " " + plan.Profile.String()}
+	if plan.Contrail != nil {
+		// A view of the plan's own inputs: the problem was just planned,
+		// so it normalises again and the section cannot fail in
+		// practice; if it did, the chart draws without shading.
+		in.Contrail, _ = optimizer.ContrailSection(pr, plan)
+	}
+	return in
+}
+
 // checkPlan returns a FormatError for a plan that cannot be drawn: nil, no
 // legs, a leg with a non-finite or decreasing distance or level, or a level
 // guide outside FL000..FL999.
