@@ -221,3 +221,35 @@ func TestContrailSection(t *testing.T) {
 		t.Errorf("dry weather: %d cells, %v", len(cells), err)
 	}
 }
+
+// Day and night split the persistent distance by the sun's elevation at
+// each persistent leg's midpoint in distance and time (perf/contrail's
+// SunElevation, checked there against the solstice and the equinox): the
+// sums agree with the legs, and a long flight through dusk has both.
+func TestContrailDayNight(t *testing.T) {
+	wx, ref := demoWeather(t)
+	c := contrailInstance{"route.geojson", "demo-widebody", 230000, 16 * time.Hour}
+	p := c.problem(t, wx, ref, 0)
+	plan := solve(t, p)
+	var day, night float64
+	el := 0.0
+	for _, l := range plan.Legs {
+		start := el
+		el += l.Time
+		if l.Contrail != ContrailPersistent {
+			continue
+		}
+		mid, _ := p.Track.PointAt((l.FromDist + l.ToDist) / 2)
+		tm := plan.Depart.Add(time.Duration((start + l.Time/2) * float64(time.Second)))
+		nm := (l.ToDist - l.FromDist) / nmToM
+		if contrail.SunElevation(mid.Lat, mid.Lon, tm) > 0 {
+			day += nm
+		} else {
+			night += nm
+		}
+	}
+	ct := plan.Contrail
+	if math.Abs(day-ct.DayNM) > 1e-6 || math.Abs(night-ct.NightNM) > 1e-6 || !(day > 0 && night > 0) {
+		t.Errorf("legs give day %.2f, night %.2f NM; totals day %.2f, night %.2f NM", day, night, ct.DayNM, ct.NightNM)
+	}
+}
