@@ -368,14 +368,25 @@ type ciLineJSON struct {
 	TimeMin    float64 `json:"time_min"`
 	Cost       float64 `json:"cost"`
 	CO2Kg      float64 `json:"co2_kg"`
+	// Persistent-contrail distances, NM, over the plans that have them
+	// (weather with humidity); absent otherwise.
+	PersistentNM      *float64 `json:"persistent_contrail_nm,omitempty"`
+	PersistentDayNM   *float64 `json:"persistent_contrail_day_nm,omitempty"`
+	PersistentNightNM *float64 `json:"persistent_contrail_night_nm,omitempty"`
 }
 
 func printBatchSummary(w io.Writer, format string, s batch.Summary) error {
 	d := batchSummaryJSON{Planned: s.Planned, Failed: s.Failed, Infeasible: s.Infeasible, Skipped: s.Skipped, BadRows: s.BadRows, ByCI: []ciLineJSON{}}
 	r := func(v float64, dec int) float64 { p := math.Pow10(dec); return math.Round(v*p) / p }
+	contrails := false
 	for _, b := range s.ByCI {
-		d.ByCI = append(d.ByCI, ciLineJSON{CI: b.CI, Flights: b.Flights, Failed: b.Failed, Infeasible: b.Infeasible,
-			FuelKg: r(b.Fuel, 1), TimeMin: r(b.Time, 2), Cost: r(b.Cost, 1), CO2Kg: r(b.CO2, 1)})
+		l := ciLineJSON{CI: b.CI, Flights: b.Flights, Failed: b.Failed, Infeasible: b.Infeasible,
+			FuelKg: r(b.Fuel, 1), TimeMin: r(b.Time, 2), Cost: r(b.Cost, 1), CO2Kg: r(b.CO2, 1)}
+		if b.ContrailFlights > 0 {
+			contrails = true
+			l.PersistentNM, l.PersistentDayNM, l.PersistentNightNM = new(r(b.PersistentNM, 1)), new(r(b.DayNM, 1)), new(r(b.NightNM, 1))
+		}
+		d.ByCI = append(d.ByCI, l)
 	}
 	switch format {
 	case "json":
@@ -388,6 +399,15 @@ func printBatchSummary(w io.Writer, format string, s batch.Summary) error {
 		return nil
 	}
 	fmt.Fprintf(w, "Planned %d, infeasible %d, failed %d, reused %d, bad schedule rows %d\n", d.Planned, d.Infeasible, d.Failed, d.Skipped, d.BadRows)
+	if contrails {
+		var nm, day, night float64
+		for _, b := range d.ByCI {
+			if b.PersistentNM != nil {
+				nm, day, night = nm+*b.PersistentNM, day+*b.PersistentDayNM, night+*b.PersistentNightNM
+			}
+		}
+		fmt.Fprintf(w, "Persistent contrail conditions %.0f NM (day %.0f, night %.0f) over the successful plans\n%s\n", nm, day, night, optimizer.ContrailCaution)
+	}
 	if s.Sweep { // without a sweep a per-CI table says nothing the files do not
 		tw := tabwriter.NewWriter(w, 0, 0, 1, ' ', tabwriter.AlignRight)
 		fmt.Fprintln(tw, "CI\tflights\tinfeasible\tfailed\tfuel kg\ttime h:mm\tcost\tCO2 t\t")
