@@ -182,6 +182,9 @@ func newBatchCmd() *cobra.Command {
 		if con.rhi != 0 {
 			opt.Meta["contrail_rhi"] = strconv.FormatFloat(con.rhi, 'g', -1, 64)
 		}
+		if wxo.rhRef != "" && wxo.rhRef != "auto" {
+			opt.Meta["rh_reference"] = wxo.rhRef // it changes the humidity, so the contrail figures
+		}
 		if wx == nil {
 			warnf(cmd.ErrOrStderr(), "%s", stillAirWarning)
 		}
