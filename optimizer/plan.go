@@ -173,6 +173,12 @@ type Plan struct {
 	// Contrail sums the cruise legs by contrail class; nil when the
 	// weather holds no humidity.
 	Contrail *ContrailTotals
+	// Arrival is how the plan meets its arrival window (SolveArriveBy);
+	// nil when none was asked for.
+	Arrival *ArrivalResult
+	// Delay is how the plan was chosen against a cost of lateness
+	// (SearchDelayCost, SolveDelayCost); nil when none was asked for.
+	Delay *DelayChoice
 }
 
 // MinMargin returns the least buffet margin over the cruise and step legs,

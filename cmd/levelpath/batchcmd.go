@@ -35,7 +35,7 @@ func newBatchCmd() *cobra.Command {
 		weather                                []string
 		workers, shardCount                    int
 		wxo                                    weatherOpts
-		policyPath                             string
+		policyPath, delayPath                  string
 		resume                                 bool
 		maxSegNM                               float64
 		maxStepFt, maxSteps                    int
@@ -55,11 +55,12 @@ func newBatchCmd() *cobra.Command {
 	}
 	format := formatFlag(c, "table", "json", "csv")
 	fl := c.Flags()
-	fl.StringVar(&schedule, "schedule", "", "schedule CSV: flight,departure,route,aircraft,tow_kg,ci (+ zfw_kg,fuel_kg,floor_g,levels,speed)")
+	fl.StringVar(&schedule, "schedule", "", "schedule CSV: flight,departure,route,aircraft,tow_kg,ci (+ zfw_kg,fuel_kg,floor_g,levels,speed,policy,arrive_by,arrive_window)")
 	fl.StringArrayVar(&weather, "weather", nil, "GRIB2/GRIB1 weather file (repeatable), decoded once and shared")
 	fl.StringVar(&out, "out", "", "output directory")
 	weatherFlags(c, &wxo)
 	fl.StringVar(&policyPath, "policy", "", "fuel policy YAML for rows that give zfw_kg alone (a fuel plan; default: the documented default policy)")
+	fl.StringVar(&delayPath, "delay-cost", "", "cost of lateness (CSV minutes_late,cost_kg) for rows with arrive_by: each flies the cost index minimising fuel + its ci x time + delay cost, instead of the least-cost one in its arrive_window")
 	fl.IntVar(&workers, "workers", 0, "parallel planners (default: one per CPU)")
 	fl.StringVar(&sweep, "ci-sweep", "", "plan every flight at each cost index, e.g. 0,20,50,100")
 	fl.StringVar(&shard, "shard", "", "plan only shard K/N of the flights (0-based K, N at most 1048576); or give --shard-count inside a cluster job")
@@ -191,7 +192,16 @@ func newBatchCmd() *cobra.Command {
 		if !(maxSegNM >= 1 && maxSegNM <= 1000) {
 			return badInputf("--max-seg-nm %v: want 1..1000", maxSegNM)
 		}
-		pl := &batch.SchedulePlanner{Weather: wx, MaxSegment: maxSegNM * perf.NMToM, Steps: steps, ContrailCost: con.cost, ContrailRHiPct: con.rhi}
+		pl := &batch.SchedulePlanner{Weather: wx, MaxSegment: maxSegNM * perf.NMToM, Steps: steps, Sweep: opt.Sweep != nil, ContrailCost: con.cost, ContrailRHiPct: con.rhi}
+		if delayPath != "" {
+			dc, err := readDelayCost(delayPath, "--delay-cost")
+			if err != nil {
+				return err
+			}
+			pl.DelayCost = &dc
+			sum := sha256.Sum256([]byte(fmt.Sprintf("%+v", dc)))
+			opt.Meta["delay_cost"] = hex.EncodeToString(sum[:]) // a resume with another delay cost is refused
+		}
 		var pol *optimizer.FuelPolicy
 		if policyPath != "" {
 			p, err := readPolicy(policyPath)
@@ -212,7 +222,8 @@ func newBatchCmd() *cobra.Command {
 		go func() { <-ctx.Done(); stop() }()
 		if costs != nil {
 			plannerFor := func(cost float64) batch.Planner {
-				return (&batch.SchedulePlanner{Weather: wx, MaxSegment: pl.MaxSegment, Steps: steps, Policy: pol, ContrailCost: cost, ContrailRHiPct: con.rhi}).Plan
+				return (&batch.SchedulePlanner{Weather: wx, MaxSegment: pl.MaxSegment, Steps: steps, Policy: pol, DelayCost: pl.DelayCost, Sweep: pl.Sweep,
+					ContrailCost: cost, ContrailRHiPct: con.rhi}).Plan
 			}
 			lines, someFailed, err := runContrailSweep(ctx, rows, bad, costs, opt, plannerFor)
 			if err != nil {
@@ -376,6 +387,10 @@ type ciLineJSON struct {
 	PersistentNM      *float64 `json:"persistent_contrail_nm,omitempty"`
 	PersistentDayNM   *float64 `json:"persistent_contrail_day_nm,omitempty"`
 	PersistentNightNM *float64 `json:"persistent_contrail_night_nm,omitempty"`
+	// With arrival targets: the plans of flights with arrive_by at this
+	// CI, and those arriving in their window.
+	WithArriveBy *int `json:"with_arrive_by,omitempty"`
+	OnTime       *int `json:"on_time,omitempty"`
 }
 
 func printBatchSummary(w io.Writer, format string, s batch.Summary) error {
@@ -383,21 +398,32 @@ func printBatchSummary(w io.Writer, format string, s batch.Summary) error {
 	r := func(v float64, dec int) float64 { p := math.Pow10(dec); return math.Round(v*p) / p }
 	contrails := false
 	for _, b := range s.ByCI {
-		l := ciLineJSON{CI: b.CI, Flights: b.Flights, Failed: b.Failed, Infeasible: b.Infeasible,
+		line := ciLineJSON{CI: b.CI, Flights: b.Flights, Failed: b.Failed, Infeasible: b.Infeasible,
 			FuelKg: r(b.Fuel, 1), TimeMin: r(b.Time, 2), Cost: r(b.Cost, 1), CO2Kg: r(b.CO2, 1)}
+		if s.Targets {
+			line.WithArriveBy, line.OnTime = new(b.WithTarget), new(b.OnTime)
+		}
 		if b.ContrailFlights > 0 {
 			contrails = true
-			l.PersistentNM, l.PersistentDayNM, l.PersistentNightNM = new(r(b.PersistentNM, 1)), new(r(b.DayNM, 1)), new(r(b.NightNM, 1))
+			line.PersistentNM, line.PersistentDayNM, line.PersistentNightNM = new(r(b.PersistentNM, 1)), new(r(b.DayNM, 1)), new(r(b.NightNM, 1))
 		}
-		d.ByCI = append(d.ByCI, l)
+		d.ByCI = append(d.ByCI, line)
 	}
 	switch format {
 	case "json":
 		return writeJSON(w, d)
 	case "csv":
-		fmt.Fprintln(w, "ci,flights,failed,infeasible,fuel_kg,time_min,cost,co2_kg")
+		head := "ci,flights,failed,infeasible,fuel_kg,time_min,cost,co2_kg"
+		if s.Targets {
+			head += ",with_arrive_by,on_time"
+		}
+		fmt.Fprintln(w, head)
 		for _, b := range d.ByCI {
-			fmt.Fprintf(w, "%g,%d,%d,%d,%g,%g,%g,%g\n", b.CI, b.Flights, b.Failed, b.Infeasible, b.FuelKg, b.TimeMin, b.Cost, b.CO2Kg)
+			fmt.Fprintf(w, "%g,%d,%d,%d,%g,%g,%g,%g", b.CI, b.Flights, b.Failed, b.Infeasible, b.FuelKg, b.TimeMin, b.Cost, b.CO2Kg)
+			if s.Targets {
+				fmt.Fprintf(w, ",%d,%d", *b.WithArriveBy, *b.OnTime)
+			}
+			fmt.Fprintln(w)
 		}
 		return nil
 	}
@@ -411,16 +437,39 @@ func printBatchSummary(w io.Writer, format string, s batch.Summary) error {
 		}
 		fmt.Fprintf(w, "Persistent contrail conditions %.0f NM (day %.0f, night %.0f) over the successful plans\n%s\n", nm, day, night, optimizer.ContrailCaution)
 	}
+	if s.Targets && !s.Sweep {
+		on, of := 0, 0
+		for _, b := range s.ByCI {
+			on, of = on+b.OnTime, of+b.WithTarget
+		}
+		fmt.Fprintf(w, "Arrival targets: %s of the flights with arrive_by arrive in their window\n", onTimeText(on, of))
+	}
 	if s.Sweep { // without a sweep a per-CI table says nothing the files do not
 		tw := tabwriter.NewWriter(w, 0, 0, 1, ' ', tabwriter.AlignRight)
-		fmt.Fprintln(tw, "CI\tflights\tinfeasible\tfailed\tfuel kg\ttime h:mm\tcost\tCO2 t\t")
+		head := "CI\tflights\tinfeasible\tfailed\tfuel kg\ttime h:mm\tcost\tCO2 t\t"
+		if s.Targets {
+			head += "on time\t"
+		}
+		fmt.Fprintln(tw, head)
 		for _, b := range d.ByCI {
-			fmt.Fprintf(tw, "%g\t%d\t%d\t%d\t%.0f\t%s\t%.0f\t%.1f\t\n", b.CI, b.Flights, b.Infeasible, b.Failed, b.FuelKg, hmm(b.TimeMin), b.Cost, b.CO2Kg/1000)
+			fmt.Fprintf(tw, "%g\t%d\t%d\t%d\t%.0f\t%s\t%.0f\t%.1f\t", b.CI, b.Flights, b.Infeasible, b.Failed, b.FuelKg, hmm(b.TimeMin), b.Cost, b.CO2Kg/1000)
+			if s.Targets {
+				fmt.Fprintf(tw, "%s\t", onTimeText(*b.OnTime, *b.WithArriveBy))
+			}
+			fmt.Fprintln(tw)
 		}
 		tw.Flush()
 	}
 	fmt.Fprintf(w, "\n%s\n", "Caution: "+optimizer.Caution)
 	return nil
+}
+
+// onTimeText is "n/m (p %)" of the flights with arrive_by on time.
+func onTimeText(on, of int) string {
+	if of == 0 {
+		return "-"
+	}
+	return fmt.Sprintf("%d/%d (%.0f %%)", on, of, 100*float64(on)/float64(of))
 }
 
 // hmm formats minutes as h:mm (rounded to the minute), the one time format

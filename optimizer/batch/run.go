@@ -45,6 +45,19 @@ type Result struct {
 	// night), NM.
 	Contrail                                         bool
 	PersistentNM, PersistentDayNM, PersistentNightNM float64
+	// Arrival is filled for a row with an arrival target (arrive_by);
+	// nil otherwise.
+	Arrival *ArrivalResult
+}
+
+// ArrivalResult is how a flight with an arrival target came out.
+type ArrivalResult struct {
+	CIUsed   float64 // the cost index flown, kg/min
+	DelayMin float64 // arrival minus arrive_by, minutes (negative: early)
+	OnTime   bool    // the arrival lies in the row's window
+	// DelayCost is the delay cost of the arrival, kg fuel-equivalent,
+	// when the run has one (SchedulePlanner.DelayCost); NaN otherwise.
+	DelayCost float64
 }
 
 // Planner plans one flight at cost index ci. It is called from several
@@ -90,6 +103,7 @@ type Summary struct {
 	Replanned                int      // reused records whose plan file was missing or damaged
 	Sweep                    bool     // the run had a CI sweep (ByCI is a per-CI table)
 	Warnings                 []string // e.g. Merge's output directory could not be locked
+	Targets                  bool     // some flight had an arrive_by time (ByCI counts on-time plans)
 	ByCI                     []CISummary
 }
 
@@ -105,6 +119,9 @@ type CISummary struct {
 	// are summed in PersistentNM, DayNM and NightNM.
 	ContrailFlights              int
 	PersistentNM, DayNM, NightNM float64
+	// WithTarget counts the plans (any status but failed) of flights with
+	// an arrive_by time, OnTime those of them arriving in their window.
+	WithTarget, OnTime int
 }
 
 type job struct {

@@ -74,6 +74,7 @@ func WriteTableBrief(w io.Writer, p *optimizer.Plan, assessed, brief bool) error
 		}
 		bw.printf("\n         %s\n", c.Caution)
 	}
+	writeArrival(bw, d)
 	bw.printf("Status   %s\n", statusText(d))
 	writeFuel(bw, d)
 	writeViolations(bw, d, assessed)
@@ -189,14 +190,20 @@ func writeViolations(bw *errWriter, d *Doc, assessed bool) {
 func WriteCSV(w io.Writer, p *optimizer.Plan, assessed bool) error {
 	d := FromPlan(p, assessed)
 	cw := csv.NewWriter(w)
-	head := []string{"from_nm", "to_nm", "phase", "from_fl", "fl", "mach", "tas_kt", "wind_kt", "gs_kt", "isa_dev_c", "fuel_kg", "time_min", "mass_start_kg", "buffet_margin_g", "floor_g", "floor_reason", "caution"}
+	// A plan made for an arrival window or a delay cost repeats its
+	// target and choice on every row, before the caution; the contrail
+	// columns follow it when the weather holds humidity.
+	extraHead, extra := arrivalCSV(d)
+	head := []string{"from_nm", "to_nm", "phase", "from_fl", "fl", "mach", "tas_kt", "wind_kt", "gs_kt", "isa_dev_c", "fuel_kg", "time_min", "mass_start_kg", "buffet_margin_g", "floor_g", "floor_reason"}
+	head = append(append(head, extraHead...), "caution")
 	if d.Contrail != nil {
 		head = append(head, "contrail", "rhi_pct", "contrail_caution")
 	}
 	cw.Write(head)
 	for _, l := range d.Legs {
 		row := []string{CSVNumber(l.FromNM), CSVNumber(l.ToNM), l.Phase, CSVNumber(l.FromFL), CSVNumber(l.FL), CSVNumber(l.Mach), CSVNumber(l.TASKt), CSVNumber(l.WindKt), CSVNumber(l.GSKt), CSVNumber(l.ISADevC),
-			CSVNumber(l.FuelKg), CSVNumber(l.TimeMin), CSVNumber(l.MassStartKg), CSVPointer(l.BuffetMarginG), CSVNumber(l.FloorG), l.FloorReason, optimizer.Caution}
+			CSVNumber(l.FuelKg), CSVNumber(l.TimeMin), CSVNumber(l.MassStartKg), CSVPointer(l.BuffetMarginG), CSVNumber(l.FloorG), l.FloorReason}
+		row = append(append(row, extra...), optimizer.Caution)
 		if d.Contrail != nil {
 			row = append(row, l.Contrail, CSVPointer(l.RHiPct), optimizer.ContrailCaution)
 		}
