@@ -213,6 +213,9 @@ func (o Options) OpenEnsembleBetween(pLow, pHigh float64, paths ...string) (*Ens
 		if err != nil {
 			return nil, fmt.Errorf("member %d: %w", ns[j], err)
 		}
+		if f.rhRef, err = rhReference(o.RHReference, groups[j]); err != nil {
+			return nil, err
+		}
 		f.member = ns[j]
 		e.Fields[j] = f
 	}

@@ -47,6 +47,10 @@ type Options struct {
 	// those they do. Scan and Decode return every EDR message whatever it
 	// is.
 	EDRParam int
+	// RHReference is what relative humidity in the files is relative to
+	// (see RHReference); RHAuto, the zero value, decides by the
+	// originating centre.
+	RHReference RHReference
 	// Member, when not nil, keeps one ensemble member: the fields whose
 	// perturbation number (GRIB2 product template 4.1) is *Member, and
 	// those of no member (deterministic fields, say EDR from a hazard
@@ -203,6 +207,8 @@ func sanity(m *Message) (Warning, bool) {
 		lo, hi = -MaxWindSpeed, MaxWindSpeed
 	case ParamT:
 		lo, hi, unit = MinTemperature, MaxTemperature, "K"
+	case ParamQ:
+		lo, hi, unit = 0, MaxQ, "kg/kg"
 	default:
 		return Warning{}, false
 	}
