@@ -71,9 +71,33 @@ func (e *ensSearch) ctrlLegAt(k, li int, m, d float64) *ctrlLeg {
 	return l
 }
 
-// memberPrice is one member's price of an edge: fuel (kg), time (s), and
+// legPrice is one member's price of an edge: fuel (kg), time (s), the
+// cost beyond fuel and time (the contrail cost, Problem.ContrailCost), and
 // whether the edge is feasible in that member.
-type memberPrice func(s *solver) (fuel, t float64, ok bool)
+type legPrice struct {
+	fuel, time, extra float64
+	ok                bool
+}
+
+// plus adds a transition's fuel and time to a leg; the sum must be
+// positive (a step overlapping the next segment must not price below
+// zero).
+func (p legPrice) plus(fuel, t float64) legPrice {
+	p.fuel += fuel
+	p.time += t
+	p.ok = p.ok && p.fuel > 0 && p.time > 0
+	return p
+}
+
+// memberPrice prices an edge on one member.
+type memberPrice func(s *solver) legPrice
+
+// ownCruise is solver.cruiseLeg with the contrail cost, as Solve prices
+// level flight.
+func ownCruise(s *solver, k, li int, m, d float64) legPrice {
+	f, t, v := s.cruiseLeg(k, li, m, d)
+	return legPrice{fuel: f, time: t, extra: s.contrailCost(k, li, m, v, d), ok: v.ok}
+}
 
 // combine prices an edge on every member and returns its fuel and cost:
 // infeasible when it is feasible in fewer than need members; otherwise
@@ -87,23 +111,22 @@ type memberPrice func(s *solver) (fuel, t float64, ok bool)
 func (e *ensSearch) combine(ctrl, shared memberPrice, keys ...[2]int) (fuel, cost float64, ok bool) {
 	e.costs, e.fuels = e.costs[:0], e.fuels[:0]
 	c := e.members[0]
-	f0, t0, ok0 := ctrl(c)
+	p0 := ctrl(c)
 	for i, s := range e.members {
-		var f, t float64
-		var ok bool
+		var p legPrice
 		switch {
 		case i == 0:
-			f, t, ok = f0, t0, ok0
+			p = p0
 		case e.memberMach:
-			f, t, ok = ctrl(s)
+			p = ctrl(s)
 		case sameConds(c, s, keys):
-			f, t, ok = f0, t0, ok0
+			p = p0
 		default:
-			f, t, ok = shared(s)
+			p = shared(s)
 		}
-		if ok {
-			e.costs = append(e.costs, s.costOf(f, t))
-			e.fuels = append(e.fuels, f)
+		if p.ok {
+			e.costs = append(e.costs, s.costOf(p.fuel, p.time)+p.extra)
+			e.fuels = append(e.fuels, p.fuel)
 		} else if len(e.members)-i-1 < e.need-len(e.costs) {
 			return 0, 0, false // too few members left to reach need
 		}
@@ -119,10 +142,13 @@ func (e *ensSearch) combine(ctrl, shared memberPrice, keys ...[2]int) (fuel, cos
 }
 
 // sameConds reports whether member s has the control's weather at every
-// (segment, level) of keys.
+// (segment, level) of keys (contrail conditions compared by value).
 func sameConds(c, s *solver, keys [][2]int) bool {
 	for _, k := range keys {
-		if c.conds[k[0]][k[1]] != s.conds[k[0]][k[1]] {
+		a, b := c.conds[k[0]][k[1]], s.conds[k[0]][k[1]]
+		ca, cb := a.con, b.con
+		a.con, b.con = nil, nil
+		if a != b || (ca == nil) != (cb == nil) || ca != nil && *ca != *cb {
 			return false
 		}
 	}
@@ -139,24 +165,23 @@ func sameConds(c, s *solver, keys [][2]int) bool {
 // A member whose temperature, floor and closure equal the control's flies
 // the control's aircraft point itself (only the ground speed differs): no
 // aircraft point is evaluated for it.
-func (e *ensSearch) sharedCruise(s *solver, k, li int, m, d float64) (fuel, t float64, ok bool) {
+func (e *ensSearch) sharedCruise(s *solver, k, li int, m, d float64) legPrice {
 	l := e.ctrlLegAt(k, li, m, d)
 	if !l.ok {
-		f, t, v := s.cruiseLeg(k, li, m, d)
-		return f, t, v.ok
+		return ownCruise(s, k, li, m, d)
 	}
 	c, cc := s.conds[k][li], e.members[0].conds[k][li]
 	v := l.v0
 	if c.isaDev != cc.isaDev || c.floor != cc.floor || c.closed != cc.closed {
 		if v = cruiseAtMach(s, li, m, l.v0.mach, c); !v.ok {
-			return 0, 0, false
+			return legPrice{}
 		}
 	}
 	if v.tas+c.wind < 50 {
-		return 0, 0, false
+		return legPrice{}
 	}
-	t = d / (v.tas*l.rTAS + c.wind)
-	return v.ff * l.rFF * t, t, true
+	t := d / (v.tas*l.rTAS + c.wind)
+	return legPrice{fuel: v.ff * l.rFF * t, time: t, extra: s.contrailCost(k, li, m, v, d), ok: true}
 }
 
 // cruiseAtMach is cruise at level li, mass m and the given Mach in
@@ -281,20 +306,17 @@ func (e *ensSearch) descentEdge(st state, m float64, emit func(edge)) {
 	}
 	c.edges++
 	last := len(c.conds) - 1
-	fuel, cost, ok := e.combine(func(s *solver) (float64, float64, bool) {
+	descend := func(s *solver, cruise func(s *solver, d float64) legPrice) legPrice {
 		d, dg := s.descentGround(li, m)
 		if !d.ok {
-			return 0, 0, false
+			return legPrice{}
 		}
-		f, t, v := s.cruiseLeg(k, li, m, s.total-dg-s.bounds[k])
-		return f + d.fuel, t + d.time, v.ok && f+d.fuel > 0 && t+d.time > 0
-	}, func(s *solver) (float64, float64, bool) {
-		d, dg := s.descentGround(li, m)
-		if !d.ok {
-			return 0, 0, false
-		}
-		f, t, ok := e.sharedCruise(s, k, li, m, s.total-dg-s.bounds[k])
-		return f + d.fuel, t + d.time, ok && f+d.fuel > 0 && t+d.time > 0
+		return cruise(s, s.total-dg-s.bounds[k]).plus(d.fuel, d.time)
+	}
+	fuel, cost, ok := e.combine(func(s *solver) legPrice {
+		return descend(s, func(s *solver, d float64) legPrice { return ownCruise(s, k, li, m, d) })
+	}, func(s *solver) legPrice {
+		return descend(s, func(s *solver, d float64) legPrice { return e.sharedCruise(s, k, li, m, d) })
 	}, [2]int{k, li}, [2]int{last, li})
 	if ok {
 		emit(edge{to: sinkID, fuel: fuel, cost: cost})
@@ -311,10 +333,9 @@ func (e *ensSearch) cruiseEdge(st, next state, m float64, emit func(edge)) {
 	}
 	c.edges++
 	segLen := c.bounds[k+1] - c.bounds[k]
-	fuel, cost, ok := e.combine(func(s *solver) (float64, float64, bool) {
-		f, t, v := s.cruiseLeg(k, li, m, segLen)
-		return f, t, v.ok
-	}, func(s *solver) (float64, float64, bool) {
+	fuel, cost, ok := e.combine(func(s *solver) legPrice {
+		return ownCruise(s, k, li, m, segLen)
+	}, func(s *solver) legPrice {
 		return e.sharedCruise(s, k, li, m, segLen)
 	}, [2]int{k, li})
 	if !ok || !c.beforeTOD(li, m-fuel, k+1) {
@@ -345,29 +366,21 @@ func (e *ensSearch) stepEdges(st, next state, m float64, emit func(edge)) {
 			continue
 		}
 		c.edges++
-		step := func(s *solver, tr transVal, cruise func(s *solver, m, d float64) (float64, float64, bool)) (float64, float64, bool) {
+		step := func(s *solver, tr transVal, cruise func(s *solver, m, d float64) legPrice) legPrice {
 			if !tr.ok {
-				return 0, 0, false
+				return legPrice{}
 			}
 			w := 0.5 * (s.conds[k][li].wind + s.conds[k][lj].wind)
 			rem := segLen - (tr.dist + w*tr.time)
 			if k+1 < K && rem < -(s.bounds[k+2]-s.bounds[k+1]) || k+1 == K && rem < 0 {
-				return 0, 0, false
+				return legPrice{}
 			}
-			f, t, ok := cruise(s, m-tr.fuel, rem)
-			f += tr.fuel
-			t += tr.time
-			return f, t, ok && f > 0 && t > 0
+			return cruise(s, m-tr.fuel, rem).plus(tr.fuel, tr.time)
 		}
-		fuel, cost, ok := e.combine(func(s *solver) (float64, float64, bool) {
-			return step(s, s.transAt(k, li, lj, m), func(s *solver, m, d float64) (float64, float64, bool) {
-				f, t, v := s.cruiseLeg(k, lj, m, d)
-				return f, t, v.ok
-			})
-		}, func(s *solver) (float64, float64, bool) {
-			return step(s, e.sharedStep(s, k, li, lj, m), func(s *solver, m, d float64) (float64, float64, bool) {
-				return e.sharedCruise(s, k, lj, m, d)
-			})
+		fuel, cost, ok := e.combine(func(s *solver) legPrice {
+			return step(s, s.transAt(k, li, lj, m), func(s *solver, m, d float64) legPrice { return ownCruise(s, k, lj, m, d) })
+		}, func(s *solver) legPrice {
+			return step(s, e.sharedStep(s, k, li, lj, m), func(s *solver, m, d float64) legPrice { return e.sharedCruise(s, k, lj, m, d) })
 		}, [2]int{k, li}, [2]int{k, lj})
 		if !ok || !c.beforeTOD(lj, m-fuel, k+1) {
 			continue
@@ -404,23 +417,17 @@ func (e *ensSearch) climbEdges(emit func(edge)) {
 		if !c.allow[j][li] {
 			continue
 		}
-		climb := func(s *solver, cruise func(s *solver, m, d float64) (float64, float64, bool)) (float64, float64, bool) {
+		climb := func(s *solver, cruise func(s *solver, m, d float64) legPrice) legPrice {
 			cl, ground := s.initialClimb(li)
 			if !cl.ok || ground >= s.total {
-				return 0, 0, false
+				return legPrice{}
 			}
-			f, t, ok := cruise(s, tow-cl.fuel, s.bounds[j+1]-ground)
-			f += cl.fuel
-			t += cl.time
-			return f, t, ok && f > 0 && t > 0
+			return cruise(s, tow-cl.fuel, s.bounds[j+1]-ground).plus(cl.fuel, cl.time)
 		}
-		fuel, cost, ok := e.combine(func(s *solver) (float64, float64, bool) {
-			return climb(s, func(s *solver, m, d float64) (float64, float64, bool) {
-				f, t, v := s.cruiseLeg(j, li, m, d)
-				return f, t, v.ok
-			})
-		}, func(s *solver) (float64, float64, bool) {
-			return climb(s, func(s *solver, m, d float64) (float64, float64, bool) { return e.sharedCruise(s, j, li, m, d) })
+		fuel, cost, ok := e.combine(func(s *solver) legPrice {
+			return climb(s, func(s *solver, m, d float64) legPrice { return ownCruise(s, j, li, m, d) })
+		}, func(s *solver) legPrice {
+			return climb(s, func(s *solver, m, d float64) legPrice { return e.sharedCruise(s, j, li, m, d) })
 		}, [2]int{0, li}, [2]int{j, li})
 		if !ok || !c.beforeTOD(li, tow-fuel, j+1) {
 			continue

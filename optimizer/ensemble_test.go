@@ -42,11 +42,19 @@ func ensembleFlight(t testing.TB) Problem {
 
 // TestEnsembleIdenticalMembers: an ensemble whose members are all one
 // forecast has, on every edge, the mean of equal costs, so its plan must
-// be Solve's plan of that forecast, exactly (every field of the plan).
+// be Solve's plan of that forecast, exactly (every field of the plan),
+// without and with a contrail cost.
 func TestEnsembleIdenticalMembers(t *testing.T) {
 	wx, ref := demoWeather(t)
 	p := Problem{Track: track(t, longHaulRoute, "every-1000:290-430", 100), Aircraft: aircraft(t, "demo-widebody"),
 		Weather: wx, Depart: ref.Add(2 * time.Hour), TakeoffMass: 245000, CI: 40}
+	for _, cc := range []float64{0, 20} { // with a contrail cost the search prices contrails too
+		p.ContrailCost = cc
+		identicalMembers(t, p, wx)
+	}
+}
+
+func identicalMembers(t *testing.T, p Problem, wx *winds.Field) {
 	want := solve(t, &p)
 	for _, obj := range []Objective{{}, {Quantile: 0.9}} {
 		ms := []Member{{0, wx}, {1, wx}, {2, wx}, {3, wx}}
