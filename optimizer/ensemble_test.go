@@ -50,13 +50,34 @@ func TestEnsembleIdenticalMembers(t *testing.T) {
 		Weather: wx, Depart: ref.Add(2 * time.Hour), TakeoffMass: 245000, CI: 40}
 	for _, cc := range []float64{0, 20} { // with a contrail cost the search prices contrails too
 		p.ContrailCost = cc
-		identicalMembers(t, p, wx)
+		identicalMembers(t, p, wx, true)
+	}
+	// Other policies and routes, so that the ensemble's edges (a copy of
+	// the solver's, priced on every member) cannot drift from Solve's.
+	variants := []func(q *Problem){
+		func(q *Problem) { q.Exact = true },
+		func(q *Problem) { q.Speed = Speed{Kind: SpeedLRC} },
+		func(q *Problem) { q.Steps.AllowDescent, q.Steps.MaxSteps = true, 2 },
+		func(q *Problem) { q.Steps.NoSteps = true },
+		func(q *Problem) {
+			q.Track, q.Aircraft, q.TakeoffMass = track(t, "../testdata/demo/route-sunhaven.geojson", "odd-even-magnetic", 50), aircraft(t, "demo-narrowbody"), 72000
+		},
+	}
+	for i, v := range variants {
+		q := p
+		q.ContrailCost = 0
+		v(&q)
+		t.Run(strconv.Itoa(i), func(t *testing.T) { identicalMembers(t, q, wx, false) })
 	}
 }
 
-func identicalMembers(t *testing.T, p Problem, wx *winds.Field) {
+func identicalMembers(t *testing.T, p Problem, wx *winds.Field, quantile bool) {
 	want := solve(t, &p)
-	for _, obj := range []Objective{{}, {Quantile: 0.9}} {
+	objs := []Objective{{}}
+	if quantile {
+		objs = append(objs, Objective{Quantile: 0.9})
+	}
+	for _, obj := range objs {
 		ms := []Member{{0, wx}, {1, wx}, {2, wx}, {3, wx}}
 		got, err := SolveEnsemble(context.Background(), &EnsembleProblem{Problem: p, Members: ms, Objective: obj})
 		if err != nil {
