@@ -83,7 +83,7 @@ func (e *ensembleFlags) check(cmd *cobra.Command, weather []string) error {
 	if err := optimizer.CheckRobustShare(e.robustShare); err != nil {
 		return badInputf("--robust-share %v: %v", e.robustShare, err)
 	}
-	for _, n := range []string{"alternatives", "from-nm", "from-waypoint", "fuel", "zfw"} {
+	for _, n := range []string{"alternatives", "from-nm", "from-waypoint"} {
 		if cmd.Flags().Lookup(n) != nil && ch(n) {
 			return badInputf("--ensemble does not combine with --%s (plan one member with --member N for that)", n)
 		}

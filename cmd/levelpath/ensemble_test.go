@@ -122,11 +122,17 @@ func TestEnsembleCLIBadInput(t *testing.T) {
 		{[]string{"--ensemble", "--weather", late}, "valid times"},
 		{nil, "--member N, or --ensemble"},
 		{[]string{"--robust-share", "0.5"}, "needs --ensemble"},
+		{[]string{"--ensemble", "--alternatives", "2"}, "--alternatives"},
 	} {
 		code, _, errs := runCLI(t, append(append([]string(nil), base...), c.args...)...)
 		if code != 2 || !strings.Contains(errs, c.want) {
 			t.Errorf("%v: exit %d, want 2 naming %q: %s", c.args, code, c.want, errs)
 		}
+	}
+	// The fuel plan (--zfw alone) is made on one forecast.
+	code, _, errs := runCLI(t, "plan", "--route", fs.Route, "--aircraft", "demo-widebody", "--zfw", "170000", "--weather", fs.Ensemble, "--ci", "40", "--ensemble")
+	if code != 2 || !strings.Contains(errs, "fuel plan") {
+		t.Errorf("--zfw alone with --ensemble: exit %d: %s", code, errs)
 	}
 }
 

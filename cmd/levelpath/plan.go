@@ -72,6 +72,9 @@ func (f *planFlags) run(cmd *cobra.Command, assessed bool, price func(*optimizer
 		return err
 	}
 	pr.LegCeilings = assessed || f.chart != "" || f.report != "" || *f.format != "table"
+	if fp := &f.fuelPlan; fp.active(cmd) && f.ens.ensemble {
+		return badInputf("--ensemble does not combine with the fuel plan (--zfw without --mass or --fuel): plan one member with --member N for that")
+	}
 	if fp := &f.fuelPlan; fp.active(cmd) {
 		req, err := fp.request(cmd, &f.problemFlags, pr)
 		if err != nil {
