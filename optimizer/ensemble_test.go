@@ -125,7 +125,7 @@ func memberProblem(p Problem, m Member) *Problem {
 // Solve member by member (not from the report): the chosen profile's
 // expected cost is not above the control member's own plan priced on
 // every member; each member's own plan is not beaten on that member
-// (beyond the search's documented approximations, 0.05 %); with
+// (beyond the search's documented approximations, 0.02 %); with
 // RobustShare 1 every member's priced legs keep the floor.
 func TestEnsembleMeanAndRegret(t *testing.T) {
 	ms := ensembleMembers(t, 6)
@@ -149,7 +149,7 @@ func TestEnsembleMeanAndRegret(t *testing.T) {
 		chosenMean += on.Totals.Cost / float64(len(ms))
 		ctrlMean += c.Totals.Cost / float64(len(ms))
 		own := solve(t, q)
-		if own.Totals.Cost > on.Totals.Cost*(1+5e-4) {
+		if own.Totals.Cost > on.Totals.Cost*(1+2e-4) {
 			t.Errorf("member %d: its own plan %s costs %.1f, the ensemble's %s only %.1f on it", m.Number, own.Profile, own.Totals.Cost, plan.Profile, on.Totals.Cost)
 		}
 		if r := plan.Ensemble.PerMember[i]; math.Abs(r.Cost-on.Totals.Cost) > 1e-6*on.Totals.Cost || math.Abs(r.Regret-(on.Totals.Cost-own.Totals.Cost)) > 1e-3*on.Totals.Cost {
@@ -171,8 +171,8 @@ func TestEnsembleMeanAndRegret(t *testing.T) {
 	if r.Members != 6 || r.Need != 6 || r.Control == nil || r.Regret == nil || math.Abs(r.Profile.MeanCost-chosenMean) > 1e-6*chosenMean {
 		t.Errorf("report: members %d need %d control %v regret %v mean %.2f (Assess %.2f)", r.Members, r.Need, r.Control != nil, r.Regret, r.Profile.MeanCost, chosenMean)
 	}
-	t.Logf("ensemble %s mean %.1f (chosen: %s); control's own %s mean %.1f; fuel P10-P90 %.0f-%.0f kg; regret P50 %.1f max %.1f",
-		plan.Profile, chosenMean, r.Chosen, ctrlOwn.Profile, ctrlMean, r.Profile.Fuel.P10, r.Profile.Fuel.P90, r.Regret.P50, r.Regret.Max)
+	t.Logf("ensemble %s mean %.1f (chosen: %s); control's own %s mean %.1f; fuel P10-P90 %.0f-%.0f kg; regret min %.1f P50 %.1f max %.1f",
+		plan.Profile, chosenMean, r.Chosen, ctrlOwn.Profile, ctrlMean, r.Profile.Fuel.P10, r.Profile.Fuel.P90, r.Regret.Min, r.Regret.P50, r.Regret.Max)
 }
 
 // TestEnsembleBadInput: a robust share outside (0, 1], members on
