@@ -221,6 +221,9 @@ func newBatchCmd() *cobra.Command {
 		if ens.ensemble {
 			pl.Ensemble, pl.EnsembleObjective, pl.EnsembleShare = ens.members, ens.obj, ens.robustShare
 		}
+		if cmd.Flags().Changed("member") {
+			pl.WeatherNote = fmt.Sprintf("weather: ensemble member %d of the files given (--member)", ens.member)
+		}
 		var pol *optimizer.FuelPolicy
 		if policyPath != "" {
 			p, err := readPolicy(policyPath)

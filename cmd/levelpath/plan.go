@@ -101,6 +101,9 @@ func (f *planFlags) run(cmd *cobra.Command, assessed bool, price func(*optimizer
 		return planErr(err)
 	}
 	plan.Warnings = append(plan.Warnings, pr.Track.Warnings...) // e.g. the polar level-rule fallback
+	if cmd.Flags().Changed("member") {
+		plan.Warnings = append(plan.Warnings, fmt.Sprintf("weather: ensemble member %d of the files given (--member)", f.ens.member))
+	}
 	if err := writeCharts(f.chart, f.report, plan, pr); err != nil {
 		return err
 	}

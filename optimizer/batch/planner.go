@@ -41,6 +41,9 @@ type SchedulePlanner struct {
 	// Ensemble[0]) with EnsembleObjective and EnsembleShare (see
 	// optimizer.EnsembleProblem); the results gain the members' fuel
 	// percentiles and least margin.
+	// WeatherNote, when not empty, is a warning every result carries
+	// about the weather (the ensemble member chosen, say).
+	WeatherNote       string
 	Ensemble          []optimizer.Member
 	EnsembleObjective optimizer.Objective
 	EnsembleShare     float64
@@ -279,6 +282,9 @@ func (p *SchedulePlanner) Plan(ctx context.Context, row Row, ci float64) (Result
 	}
 	if p.Weather == nil {
 		res.Warnings = append(res.Warnings, StillAirWarning)
+	}
+	if p.WeatherNote != "" {
+		res.Warnings = append(res.Warnings, p.WeatherNote)
 	}
 	res.Warnings = append(res.Warnings, trackWarnings...)
 	res.Warnings = append(res.Warnings, plan.Warnings...)
