@@ -38,8 +38,8 @@ type Spread struct {
 // EnsembleProfile is one profile priced on every member.
 type EnsembleProfile struct {
 	Profile          string  `json:"profile"`
-	Objective        float64 `json:"objective"`
-	MeanCost         float64 `json:"mean_cost"`
+	Objective        *float64 `json:"objective"`
+	MeanCost         *float64 `json:"mean_cost"`
 	FuelKg           Spread  `json:"fuel_kg"`
 	TimeMin          Spread  `json:"time_min"`
 	Cost             Spread  `json:"cost"`
@@ -51,9 +51,9 @@ type EnsembleProfile struct {
 // MemberResult is the chosen profile on one member.
 type MemberResult struct {
 	Member           int      `json:"member"`
-	FuelKg           float64  `json:"fuel_kg"`
-	TimeMin          float64  `json:"time_min"`
-	Cost             float64  `json:"cost"`
+	FuelKg           *float64 `json:"fuel_kg"`
+	TimeMin          *float64 `json:"time_min"`
+	Cost             *float64 `json:"cost"`
 	MinMarginG       *float64 `json:"min_margin_g"`
 	MarginAboveFloor *float64 `json:"min_margin_above_floor_g"`
 	Violations       int      `json:"violations"`
@@ -77,7 +77,7 @@ func minutes(s optimizer.Spread) optimizer.Spread {
 }
 
 func ensembleProfile(p *optimizer.EnsembleProfile) EnsembleProfile {
-	return EnsembleProfile{Profile: p.Profile.String(), Objective: p.Objective, MeanCost: p.MeanCost,
+	return EnsembleProfile{Profile: p.Profile.String(), Objective: Number(p.Objective), MeanCost: Number(p.MeanCost),
 		FuelKg: spread(p.Fuel), TimeMin: spread(minutes(p.Time)), Cost: spread(p.Cost), MarginG: spread(p.Margin),
 		MarginAboveFloor: spread(p.MarginAboveFloor), Breaking: p.Breaking}
 }
@@ -94,7 +94,7 @@ func ensembleDoc(r *optimizer.EnsembleReport) *Ensemble {
 		e.Control = &c
 	}
 	for _, m := range r.PerMember {
-		mr := MemberResult{Member: m.Member, FuelKg: m.Fuel, TimeMin: m.Time / 60, Cost: m.Cost, MinMarginG: Number(m.MinMargin),
+		mr := MemberResult{Member: m.Member, FuelKg: Number(m.Fuel), TimeMin: Number(m.Time / 60), Cost: Number(m.Cost), MinMarginG: Number(m.MinMargin),
 			MarginAboveFloor: Number(m.MarginAboveFloor), Violations: m.Violations, OwnCost: Number(m.OwnCost), Regret: Number(m.Regret)}
 		if m.OwnProfile != nil {
 			mr.OwnProfile = m.OwnProfile.String()
@@ -120,7 +120,11 @@ func writeEnsemble(bw *errWriter, e *Ensemble) {
 	}
 	bw.printf("\nEnsemble (%d members, objective %s, limits kept in %d of %d members; profile from the %s)\n", e.Members, e.Objective, e.Need, e.Members, e.Chosen)
 	row := func(name string, p *EnsembleProfile) {
-		bw.printf("  %s %s: mean cost %.0f, members breaking a limit: %d\n", name, p.Profile, p.MeanCost, p.Breaking)
+		mean := "-"
+		if p.MeanCost != nil {
+			mean = fmt.Sprintf("%.0f", *p.MeanCost)
+		}
+		bw.printf("  %s %s: mean cost %s, members breaking a limit: %d\n", name, p.Profile, mean, p.Breaking)
 		bw.printf("    %-9s %s\n", "", "      min       P10       P50       P90       max")
 		bw.printf("    %-9s %s\n", "fuel kg", spreadText(p.FuelKg, "%9.0f"))
 		bw.printf("    %-9s %s\n", "time min", spreadText(p.TimeMin, "%9.1f"))

@@ -128,3 +128,34 @@ func TestViolationGroups(t *testing.T) {
 		t.Errorf("table:\n%s", buf.String())
 	}
 }
+
+// TestEnsembleSectionNaN: an ensemble report whose members have no
+// cruise leg (no margin) and no regret writes nulls, not invalid JSON,
+// and the table still prints.
+func TestEnsembleSectionNaN(t *testing.T) {
+	nan := math.NaN()
+	none := optimizer.SpreadOf([]float64{nan, nan})
+	p := &optimizer.Plan{Ensemble: &optimizer.EnsembleReport{Members: 2, Numbers: []int{0, 1}, Objective: "mean", RobustShare: 1, Need: 2,
+		Chosen: "assessed", Profile: &optimizer.EnsembleProfile{Objective: nan, MeanCost: 10, Fuel: optimizer.SpreadOf([]float64{1, 3}), Margin: none, MarginAboveFloor: none},
+		PerMember: []optimizer.MemberResult{{Member: 0, Fuel: 1, MinMargin: nan, MarginAboveFloor: nan, OwnCost: nan, Regret: nan}}}}
+	var buf bytes.Buffer
+	if err := WriteJSON(&buf, p, true); err != nil {
+		t.Fatal(err)
+	}
+	var d struct {
+		Ensemble struct {
+			Profile struct {
+				Objective *float64           `json:"objective"`
+				Fuel      map[string]float64 `json:"fuel_kg"`
+				Margin    map[string]*float64 `json:"min_margin_g"`
+			} `json:"profile"`
+		} `json:"ensemble"`
+	}
+	if err := json.Unmarshal(buf.Bytes(), &d); err != nil {
+		t.Fatal(err)
+	}
+	// The median of {1, 3} is 2 (any definition); the margins are null.
+	if d.Ensemble.Profile.Objective != nil || d.Ensemble.Profile.Fuel["p50"] != 2 || d.Ensemble.Profile.Margin["min"] != nil {
+		t.Errorf("ensemble section: %s", buf.String())
+	}
+}
