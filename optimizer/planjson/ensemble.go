@@ -37,15 +37,15 @@ type Spread struct {
 
 // EnsembleProfile is one profile priced on every member.
 type EnsembleProfile struct {
-	Profile          string  `json:"profile"`
+	Profile          string   `json:"profile"`
 	Objective        *float64 `json:"objective"`
 	MeanCost         *float64 `json:"mean_cost"`
-	FuelKg           Spread  `json:"fuel_kg"`
-	TimeMin          Spread  `json:"time_min"`
-	Cost             Spread  `json:"cost"`
-	MarginG          Spread  `json:"min_margin_g"`
-	MarginAboveFloor Spread  `json:"min_margin_above_floor_g"`
-	Breaking         int     `json:"members_breaking_limits"`
+	FuelKg           Spread   `json:"fuel_kg"`
+	TimeMin          Spread   `json:"time_min"`
+	Cost             Spread   `json:"cost"`
+	MarginG          Spread   `json:"min_margin_g"`
+	MarginAboveFloor Spread   `json:"min_margin_above_floor_g"`
+	Breaking         int      `json:"members_breaking_limits"`
 }
 
 // MemberResult is the chosen profile on one member.

@@ -145,8 +145,8 @@ func TestEnsembleSectionNaN(t *testing.T) {
 	var d struct {
 		Ensemble struct {
 			Profile struct {
-				Objective *float64           `json:"objective"`
-				Fuel      map[string]float64 `json:"fuel_kg"`
+				Objective *float64            `json:"objective"`
+				Fuel      map[string]float64  `json:"fuel_kg"`
 				Margin    map[string]*float64 `json:"min_margin_g"`
 			} `json:"profile"`
 		} `json:"ensemble"`
