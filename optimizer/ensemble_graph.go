@@ -36,29 +36,36 @@ type ensSearch struct {
 	memberMach bool
 	costs      []float64 // scratch: the feasible members' costs
 	fuels      []float64
-	last       ctrlLeg // the control's last leg (members ask in turn)
+	// epoch counts the edges combined; the control's leg and step Mach
+	// are worked out once an edge, by the first member that asks.
+	epoch     int
+	last      ctrlLeg
+	stepMach  cruiseVal
+	stepEpoch int
 }
 
 // ctrlLeg is the control's cruise over distance d on segment k at level
 // li from mass m: its start point v0 and the ratios of fuel flow and true
 // airspeed at its mid-leg mass to the start's.
 type ctrlLeg struct {
-	k, li      int
-	m, d       float64
-	v0         cruiseVal
-	rFF, rTAS  float64
-	ok, cached bool
+	k, li, epoch int
+	v0           cruiseVal
+	rFF, rTAS    float64
+	ok           bool
 }
 
-// ctrlLegAt returns the control's leg (see ctrlLeg), computed once for
-// the members that ask one after another.
+// ctrlLegAt returns the control's leg on segment k at level li (see
+// ctrlLeg), worked out once an edge at the mass m and distance d of the
+// first member that asks (a step's members start their level flight at
+// masses and distances a few kilograms and metres apart; the leg gives
+// them the Mach and the mass effect only).
 func (e *ensSearch) ctrlLegAt(k, li int, m, d float64) *ctrlLeg {
 	l := &e.last
-	if l.cached && l.k == k && l.li == li && l.m == m && l.d == d {
+	if l.epoch == e.epoch && l.k == k && l.li == li {
 		return l
 	}
 	c := e.members[0]
-	*l = ctrlLeg{k: k, li: li, m: m, d: d, rFF: 1, rTAS: 1, cached: true}
+	*l = ctrlLeg{k: k, li: li, epoch: e.epoch, rFF: 1, rTAS: 1}
 	l.v0 = c.cruiseAt(k, li, m)
 	if l.ok = l.v0.ok; !l.ok {
 		return l
@@ -110,6 +117,7 @@ func ownCruise(s *solver, k, li int, m, d float64) legPrice {
 // exactly. Time O(members); the quantile O(members log members).
 func (e *ensSearch) combine(ctrl, shared memberPrice, keys ...[2]int) (fuel, cost float64, ok bool) {
 	e.costs, e.fuels = e.costs[:0], e.fuels[:0]
+	e.epoch++
 	c := e.members[0]
 	p0 := ctrl(c)
 	for i, s := range e.members {
@@ -216,10 +224,13 @@ func cruiseAtMach(s *solver, li int, m, mach float64, c cond) cruiseVal {
 // mean temperature deviation, from the control's step memo.
 func (e *ensSearch) sharedStep(s *solver, k, li, lj int, m float64) transVal {
 	c := e.members[0]
-	v := c.cruiseAt(k, lj, m)
-	if !v.ok {
-		v = c.cruiseAt(k, li, m)
+	if e.stepEpoch != e.epoch { // the Mach is the edge's, at the node's mass
+		e.stepMach, e.stepEpoch = c.cruiseAt(k, lj, m), e.epoch
+		if !e.stepMach.ok {
+			e.stepMach = c.cruiseAt(k, li, m)
+		}
 	}
+	v := e.stepMach
 	if !v.ok {
 		return s.transAt(k, li, lj, m)
 	}
