@@ -42,6 +42,11 @@ type ensSearch struct {
 	last      ctrlLeg
 	stepMach  cruiseVal
 	stepEpoch int
+	// stepTr is the last step priced from the memo this edge, for the
+	// members whose rounded temperature deviation (the memo's key) is
+	// the same.
+	stepTr              transVal
+	stepDi, stepTrEpoch int
 }
 
 // ctrlLeg is the control's cruise over distance d on segment k at level
@@ -240,14 +245,21 @@ func (e *ensSearch) sharedStep(s *solver, k, li, lj int, m float64) transVal {
 	if di < 0 || di > 400 {
 		return c.transExact(li, lj, m, v.mach, dev)
 	}
+	if e.stepTrEpoch == e.epoch && e.stepDi == di {
+		return e.stepTr // same Mach (the edge's) and key: the same price
+	}
 	g := int(math.Floor(m / c.grid))
 	v0, v1 := c.transGrid(li, lj, g, mi, di)
+	var tr transVal
 	if !v0.ok || !v1.ok {
-		return c.transExact(li, lj, m, float64(mi)*c.machStep, float64(di-200)*c.devStep)
+		tr = c.transExact(li, lj, m, float64(mi)*c.machStep, float64(di-200)*c.devStep)
+	} else {
+		t := (m - float64(g)*c.grid) / c.grid
+		l := func(a, b float64) float64 { return a + (b-a)*t }
+		tr = transVal{ok: true, fuel: l(v0.fuel, v1.fuel), time: l(v0.time, v1.time), dist: l(v0.dist, v1.dist), mach: v0.mach}
 	}
-	t := (m - float64(g)*c.grid) / c.grid
-	l := func(a, b float64) float64 { return a + (b-a)*t }
-	return transVal{ok: true, fuel: l(v0.fuel, v1.fuel), time: l(v0.time, v1.time), dist: l(v0.dist, v1.dist), mach: v0.mach}
+	e.stepTr, e.stepDi, e.stepTrEpoch = tr, di, e.epoch
+	return tr
 }
 
 // meanRel is the mean of xs as xs[0] + sum(xi - xs[0])/n (exact when all
