@@ -196,7 +196,7 @@ func (s *solver) leastCostPerMetre(k int, mu float64, from int) float64 {
 		if g := int(math.Round(m / s.grid)); s.p.Speed.Kind == SpeedEcon && float64(g)*s.grid == m {
 			v = s.cruiseGrid(k, li, g) // the search's own memo
 		} else {
-			v = cruisePoint(s.a, econ, s.p.CI, m, s.press[li], c)
+			v = s.priceCruise(econ, m, k, li)
 		}
 		if !v.ok {
 			continue // infeasible here is infeasible at every heavier mass

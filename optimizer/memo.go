@@ -48,7 +48,7 @@ func (s *solver) gridEntry(k, li, g int) *gridVal {
 	i := row[g-s.gLo]
 	if i < 0 {
 		i = int32(len(m.cruisePool))
-		v := cruisePoint(s.a, s.p.Speed, s.p.CI, float64(g)*s.grid, s.press[li], s.conds[k][li])
+		v := s.priceCruise(s.p.Speed, float64(g)*s.grid, k, li)
 		m.cruisePool = append(m.cruisePool, gridVal{v: v, done: true})
 		row[g-s.gLo] = i
 	}
@@ -60,7 +60,7 @@ func (s *solver) cruiseGrid(k, li, g int) cruiseVal {
 	if e := s.gridEntry(k, li, g); e != nil {
 		return e.v
 	}
-	return cruisePoint(s.a, s.p.Speed, s.p.CI, float64(g)*s.grid, s.press[li], s.conds[k][li])
+	return s.priceCruise(s.p.Speed, float64(g)*s.grid, k, li)
 }
 
 // transGrid returns the memoised step prices at grid masses g and g+1

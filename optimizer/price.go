@@ -30,10 +30,21 @@ type transVal struct {
 	mach float64
 }
 
+// speeds is what cruise pricing asks of the aircraft: a *perf.Aircraft,
+// or a *perf.Cruiser, which keeps the parts that repeat between calls and
+// returns the same values bit for bit.
+type speeds interface {
+	EconMach(mass, p, isaDev, floor, ci, windAlong float64) (float64, bool)
+	LRCMach(mass, p, isaDev, floor float64) (float64, bool)
+	MachBand(mass, p, isaDev, floor float64) (lo, hi float64, ok bool)
+	BuffetMachs(mass, p, n float64) (lo, hi float64, ok bool)
+	Point(s perf.State) perf.Point
+}
+
 // machFor picks the Mach of the speed policy at mass m, pressure p and the
 // given conditions; ok is false when no Mach satisfies the floor, MMO, VMO
 // and thrust.
-func machFor(a *perf.Aircraft, sp Speed, ci, m, p float64, c cond) (float64, bool) {
+func machFor(a speeds, sp Speed, ci, m, p float64, c cond) (float64, bool) {
 	switch sp.Kind {
 	case SpeedLRC:
 		return a.LRCMach(m, p, c.isaDev, c.floor)
@@ -51,15 +62,23 @@ func machFor(a *perf.Aircraft, sp Speed, ci, m, p float64, c cond) (float64, boo
 // The reason of an infeasible result is left empty (the search asks
 // millions of times); explainCruise fills it.
 func cruisePoint(a *perf.Aircraft, sp Speed, ci, m, p float64, c cond) cruiseVal {
-	return cruiseEval(a, sp, ci, m, p, c, false)
+	return cruiseEval(a, a, sp, ci, m, p, c, false)
+}
+
+// priceCruise is cruisePoint on segment k at level li through the
+// solver's perf.Cruiser (the same values, the repeated parts kept).
+func (s *solver) priceCruise(sp Speed, m float64, k, li int) cruiseVal {
+	return cruiseEval(s.a, s.cr, sp, s.p.CI, m, s.press[li], s.conds[k][li], false)
 }
 
 // explainCruise is cruisePoint with the reason of an infeasible result.
 func explainCruise(a *perf.Aircraft, sp Speed, ci, m, p float64, c cond) cruiseVal {
-	return cruiseEval(a, sp, ci, m, p, c, true)
+	return cruiseEval(a, a, sp, ci, m, p, c, true)
 }
 
-func cruiseEval(a *perf.Aircraft, sp Speed, ci, m, p float64, c cond, explain bool) cruiseVal {
+// cruiseEval prices cruise for aircraft a, asking sv (a itself, or a's
+// perf.Cruiser) for the speeds and the point performance.
+func cruiseEval(a *perf.Aircraft, sv speeds, sp Speed, ci, m, p float64, c cond, explain bool) cruiseVal {
 	why := func(format string, args ...any) string {
 		if !explain {
 			return ""
@@ -73,14 +92,14 @@ func cruiseEval(a *perf.Aircraft, sp Speed, ci, m, p float64, c cond, explain bo
 		}
 		return cruiseVal{lim: lim, why: c.closedWhy}
 	}
-	mach, ok := machFor(a, sp, ci, m, p, c)
+	mach, ok := machFor(sv, sp, ci, m, p, c)
 	if !ok && !explain {
 		// Which limit closed the band matters only to an explanation;
 		// the search asks often, so it is not worked out here.
 		return cruiseVal{lim: LimitMachBand}
 	}
 	if !ok {
-		lo, hi, bok := a.BuffetMachs(m, p, c.floor)
+		lo, hi, bok := sv.BuffetMachs(m, p, c.floor)
 		if !bok || lo >= math.Min(hi, a.MMO) {
 			return cruiseVal{lim: LimitBuffet, why: why("no Mach keeps %.2f g to buffet", c.floor)}
 		}
@@ -89,7 +108,7 @@ func cruiseEval(a *perf.Aircraft, sp Speed, ci, m, p float64, c cond, explain bo
 		}
 		return cruiseVal{lim: LimitThrust, why: "drag exceeds maximum cruise thrust across the buffet band"}
 	}
-	pt := a.Point(perf.State{Mass: m, Pressure: p, Mach: mach, ISADev: c.isaDev, LoadFactor: 1})
+	pt := sv.Point(perf.State{Mass: m, Pressure: p, Mach: mach, ISADev: c.isaDev, LoadFactor: 1})
 	v := cruiseVal{mach: mach, tas: pt.TAS, ff: pt.FuelFlow, resid: pt.ResidualClimb, margin: pt.BuffetMargin,
 		cruise: pt.Drag > 0.9*pt.MaxCruiseThrust}
 	switch {

@@ -27,6 +27,9 @@ type solver struct {
 	// baseline's solver.
 	gLo, gHi int
 	memo     *memo
+	// cr prices cruise speeds with their repeated parts kept (the same
+	// values as the aircraft's own methods), shared like the memo.
+	cr *perf.Cruiser
 
 	// limits for step-state bookkeeping
 	sinceCap int // segments after which MinDistance is surely met
@@ -59,7 +62,7 @@ type solver struct {
 
 // newSolver prepares p (already normalised).
 func newSolver(p *Problem) (*solver, error) {
-	s := &solver{p: p, a: p.Aircraft, grid: 0.01 * p.Aircraft.MTOW}
+	s := &solver{p: p, a: p.Aircraft, grid: 0.01 * p.Aircraft.MTOW, cr: perf.NewCruiser(p.Aircraft)}
 	if !p.Exact {
 		s.grid *= 2 // an approximation: prices interpolated over 2 % of MTOW
 	}
@@ -198,7 +201,7 @@ func (s *solver) cruiseAt(k, li int, m float64) cruiseVal {
 		}
 		return lerpCruise(v0, e.bv, (m-m0)/(e.bm-m0))
 	}
-	return cruisePoint(s.a, s.p.Speed, s.p.CI, m, s.press[li], s.conds[k][li])
+	return s.priceCruise(s.p.Speed, m, k, li)
 }
 
 // boundary bisects between the feasible mass lo (value vlo) and lo + grid
@@ -207,7 +210,7 @@ func (s *solver) boundary(k, li int, lo float64, vlo cruiseVal) (float64, cruise
 	hi := lo + s.grid
 	for i := 0; i < s.bisect; i++ {
 		mid := (lo + hi) / 2
-		if v := cruisePoint(s.a, s.p.Speed, s.p.CI, mid, s.press[li], s.conds[k][li]); v.ok {
+		if v := s.priceCruise(s.p.Speed, mid, k, li); v.ok {
 			lo, vlo = mid, v
 		} else {
 			hi = mid
