@@ -189,7 +189,6 @@ func (s *solver) cruiseAt(k, li int, m float64) cruiseVal {
 		}
 		if !e.bDone {
 			bm, bv := s.boundary(k, li, float64(g)*s.grid, v0)
-			e = s.gridEntry(k, li, g) // boundary does not grow the pool; re-read for safety
 			e.bm, e.bv, e.bDone = bm, bv, true
 		}
 		if m > e.bm {
