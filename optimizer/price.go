@@ -108,7 +108,13 @@ func cruiseEval(a *perf.Aircraft, sv speeds, sp Speed, ci, m, p float64, c cond,
 		}
 		return cruiseVal{lim: LimitThrust, why: "drag exceeds maximum cruise thrust across the buffet band"}
 	}
-	pt := sv.Point(perf.State{Mass: m, Pressure: p, Mach: mach, ISADev: c.isaDev, LoadFactor: 1})
+	st := perf.State{Mass: m, Pressure: p, Mach: mach, ISADev: c.isaDev, LoadFactor: 1}
+	var pt perf.Point
+	if cr, ok := sv.(*perf.Cruiser); ok {
+		pt = cr.PointNoCAS(st) // CAS is not read here
+	} else {
+		pt = sv.Point(st)
+	}
 	v := cruiseVal{mach: mach, tas: pt.TAS, ff: pt.FuelFlow, resid: pt.ResidualClimb, margin: pt.BuffetMargin,
 		cruise: pt.Drag > 0.9*pt.MaxCruiseThrust}
 	switch {
@@ -131,9 +137,17 @@ func lerpCruise(v0, v1 cruiseVal, t float64) cruiseVal {
 		resid: l(v0.resid, v1.resid), margin: l(v0.margin, v1.margin), cruise: v0.cruise || v1.cruise}
 }
 
+// transitions integrates climbs and descents: a *perf.Aircraft, or a
+// *perf.Cruiser (the same values, the standard atmosphere on the
+// integration's heights kept).
+type transitions interface {
+	Climb(mass, fromP, toP, isaDev float64, s perf.Schedule) (perf.Transition, error)
+	Descent(mass, fromP, toP, isaDev float64, s perf.Schedule) (perf.Transition, error)
+}
+
 // transition prices a climb (to > from) or descent between two pressures,
 // with the reason of a failure in why.
-func transition(a *perf.Aircraft, m, pFrom, pTo, isaDev float64, s perf.Schedule, climb bool) transVal {
+func transition(a transitions, m, pFrom, pTo, isaDev float64, s perf.Schedule, climb bool) transVal {
 	v, err := transitionErr(a, m, pFrom, pTo, isaDev, s, climb)
 	if err != nil {
 		v.why = err.Error()
@@ -143,12 +157,12 @@ func transition(a *perf.Aircraft, m, pFrom, pTo, isaDev float64, s perf.Schedule
 
 // quietTransition is transition for the search: a failure's reason is
 // not formatted (explanations ask transition again).
-func quietTransition(a *perf.Aircraft, m, pFrom, pTo, isaDev float64, s perf.Schedule, climb bool) transVal {
+func quietTransition(a transitions, m, pFrom, pTo, isaDev float64, s perf.Schedule, climb bool) transVal {
 	v, _ := transitionErr(a, m, pFrom, pTo, isaDev, s, climb)
 	return v
 }
 
-func transitionErr(a *perf.Aircraft, m, pFrom, pTo, isaDev float64, s perf.Schedule, climb bool) (transVal, error) {
+func transitionErr(a transitions, m, pFrom, pTo, isaDev float64, s perf.Schedule, climb bool) (transVal, error) {
 	var tr perf.Transition
 	var err error
 	if climb {

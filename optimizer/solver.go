@@ -284,7 +284,7 @@ const (
 func (s *solver) transExact(li, lj int, m, mach, dev float64) transVal {
 	pLow := math.Max(s.press[li], s.press[lj])
 	sch := machSchedule(s.a, s.p.ClimbSchedule, mach, pLow)
-	return quietTransition(s.a, m, s.press[li], s.press[lj], dev, sch, lj > li)
+	return quietTransition(s.cr, m, s.press[li], s.press[lj], dev, sch, lj > li)
 }
 
 // descent prices the final descent from level li at mass m, memoised on
@@ -321,7 +321,7 @@ func (s *solver) descent(li int, m float64) transVal {
 
 func (s *solver) descentExact(li int, m float64) transVal {
 	last := len(s.conds) - 1
-	return quietTransition(s.a, m, s.press[li], perf.PressureAt(s.p.EndAltitude), s.conds[last][li].isaDev, s.p.DescentSchedule, false)
+	return quietTransition(s.cr, m, s.press[li], perf.PressureAt(s.p.EndAltitude), s.conds[last][li].isaDev, s.p.DescentSchedule, false)
 }
 
 // descentGround returns the ground distance of the final descent from
@@ -347,7 +347,7 @@ func (s *solver) initialClimb(li int) (transVal, float64) {
 		m.climbDone = make([]bool, len(s.levels))
 	}
 	if !m.climbDone[li] {
-		m.climb[li] = transition(s.a, s.p.TakeoffMass, perf.PressureAt(s.p.EndAltitude), s.press[li], s.conds[0][li].isaDev, s.p.ClimbSchedule, true)
+		m.climb[li] = transition(s.cr, s.p.TakeoffMass, perf.PressureAt(s.p.EndAltitude), s.press[li], s.conds[0][li].isaDev, s.p.ClimbSchedule, true)
 		m.climbDone[li] = true
 	}
 	c := m.climb[li]

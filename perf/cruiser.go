@@ -3,29 +3,88 @@ package perf
 import "math"
 
 // Cruiser evaluates one aircraft's cruise speed searches (MachBand,
-// EconMach, LRCMach) and Point, keeping what repeats between calls: the
-// buffet-onset Machs, which depend on mass, pressure and load factor alone
-// (so a search that asks at a few masses and levels on many route segments
-// finds them again), and per pressure the ISA temperature and the Mach of
-// VMO. Every result equals the Aircraft method's bit for bit: the same
-// operations on the same values in the same order, only not repeated
-// (TestCruiserMatchesAircraft).
+// EconMach, LRCMach), Point, Climb and Descent, keeping what repeats
+// between calls: the buffet-onset Machs, which depend on mass, pressure
+// and load factor alone (so a search that asks at a few masses and levels
+// on many route segments finds them again); per pressure the ISA
+// temperature and the Mach of VMO; and, for the climb and descent
+// integration, whose step heights are the same for every transition
+// between the same two pressures, the standard pressure and temperature
+// and the Mach of the schedule's CAS at each height. Every result equals
+// the Aircraft method's bit for bit: the same operations on the same
+// values in the same order, only not repeated (TestCruiserMatchesAircraft,
+// TestCruiserTransitions).
 //
-// The caches are direct-mapped tables of fixed size (an entry is replaced
-// when another key hashes to its slot), so a Cruiser's memory is bounded
-// (about 600 KB once used) however many calls it serves. A Cruiser is not
-// safe for concurrent use; the Aircraft must not change while it is used.
+// The speed caches are direct-mapped tables of fixed size (an entry is
+// replaced when another key hashes to its slot), and at most
+// cruiserProfiles transition profiles are kept, so a Cruiser's memory is
+// bounded (under 1 MB for the speeds, 24 bytes a height for the
+// profiles) however many calls it serves. A Cruiser is not safe for
+// concurrent use; the Aircraft must not change while it is used.
 type Cruiser struct {
 	a      *Aircraft
 	cosL   float64
-	buffet []buffetSlot // len cruiserBuffetSlots once used
-	press  []pressSlot  // len cruiserPressSlots once used
+	buffet []buffetSlot // 1<<cruiserBuffetBits slots once used
+	press  []pressSlot  // 1<<cruiserPressBits slots once used
+	// profiles are the transitions' heights, at most cruiserProfiles.
+	profiles map[profileKey]*climbProfile
 }
 
 const (
-	cruiserBuffetSlots = 1 << 13
-	cruiserPressSlots  = 1 << 8
+	cruiserBuffetBits = 13
+	cruiserPressBits  = 8
+	// cruiserProfiles caps the transition profiles kept.
+	cruiserProfiles = 1024
 )
+
+// profileKey names the heights a transition integrates over (from h1 to
+// h2) and the CAS limits of its schedule.
+type profileKey struct {
+	h1, h2, casLow, cas uint64 // float64 bits
+}
+
+// climbProfile holds, for each height transition asks in turn, the
+// standard pressure and temperature and the Mach of the schedule's CAS.
+type climbProfile struct {
+	nodes []profileNode
+}
+
+type profileNode struct {
+	p, tisa, casMach float64
+}
+
+// profile returns the kept profile for a transition from h1 to h2 on
+// schedule s, nil when c is nil or the cap is reached.
+func (c *Cruiser) profile(h1, h2 float64, s *Schedule) *climbProfile {
+	if c == nil {
+		return nil
+	}
+	k := profileKey{math.Float64bits(h1), math.Float64bits(h2), math.Float64bits(s.CASLow), math.Float64bits(s.CAS)}
+	if pr, ok := c.profiles[k]; ok {
+		return pr
+	}
+	if len(c.profiles) >= cruiserProfiles {
+		return nil
+	}
+	if c.profiles == nil {
+		c.profiles = make(map[profileKey]*climbProfile)
+	}
+	// One height to start, then two a step (end and midpoint), the steps
+	// at most maxSubStep apart plus one for the split at 10,000 ft.
+	pr := &climbProfile{nodes: make([]profileNode, 0, 2*int(math.Abs(h2-h1)/maxSubStep+2)+1)}
+	c.profiles[k] = pr
+	return pr
+}
+
+// Climb is Aircraft.Climb.
+func (c *Cruiser) Climb(mass, fromP, toP, isaDev float64, s Schedule) (Transition, error) {
+	return c.a.climb(c, mass, fromP, toP, isaDev, s)
+}
+
+// Descent is Aircraft.Descent.
+func (c *Cruiser) Descent(mass, fromP, toP, isaDev float64, s Schedule) (Transition, error) {
+	return c.a.descent(c, mass, fromP, toP, isaDev, s)
+}
 
 type buffetSlot struct {
 	mass, p, n float64
@@ -46,6 +105,10 @@ func NewCruiser(a *Aircraft) *Cruiser {
 // Aircraft returns the aircraft c evaluates.
 func (c *Cruiser) Aircraft() *Aircraft { return c.a }
 
+// eq reports whether x and y are the same float64 bit for bit (so that
+// -0 and +0 are different keys).
+func eq(x, y float64) bool { return math.Float64bits(x) == math.Float64bits(y) }
+
 // hash3 mixes the bits of three floats into a slot index below 2^bits
 // (a multiplicative hash, Knuth, TAOCP vol. 3, 6.4).
 func hash3(x, y, z float64, bits uint) uint64 {
@@ -62,10 +125,10 @@ func (c *Cruiser) buffetMachs(mass, p, n float64) buffetBand {
 		return bf
 	}
 	if c.buffet == nil {
-		c.buffet = make([]buffetSlot, cruiserBuffetSlots)
+		c.buffet = make([]buffetSlot, 1<<cruiserBuffetBits)
 	}
-	e := &c.buffet[hash3(mass, p, n, 13)]
-	if e.used && e.mass == mass && e.p == p && e.n == n {
+	e := &c.buffet[hash3(mass, p, n, cruiserBuffetBits)]
+	if e.used && eq(e.mass, mass) && eq(e.p, p) && eq(e.n, n) {
 		return e.v
 	}
 	var bf buffetBand
@@ -80,10 +143,10 @@ func (c *Cruiser) atPressure(p float64) (tisa, vmoMach float64) {
 		return isaTemperatureAtPressure(p), CASToMach(c.a.VMO, p)
 	}
 	if c.press == nil {
-		c.press = make([]pressSlot, cruiserPressSlots)
+		c.press = make([]pressSlot, 1<<cruiserPressBits)
 	}
-	e := &c.press[hash3(p, 0, 0, 8)]
-	if e.used && e.p == p {
+	e := &c.press[hash3(p, 0, 0, cruiserPressBits)]
+	if e.used && eq(e.p, p) {
 		return e.tisa, e.vmoMach
 	}
 	tisa, vmoMach = isaTemperatureAtPressure(p), CASToMach(c.a.VMO, p)
@@ -133,5 +196,12 @@ func (c *Cruiser) LRCMach(mass, p, isaDev, floor float64) (float64, bool) {
 // Point is Aircraft.Point.
 func (c *Cruiser) Point(s State) Point {
 	tisa, _ := c.atPressure(s.Pressure)
-	return c.a.point(s, tisa, c.cosL)
+	return c.a.point(s, tisa, c.cosL, true)
+}
+
+// PointNoCAS is Point with CAS left NaN, one power less, for callers that
+// do not read it; every other field is Point's.
+func (c *Cruiser) PointNoCAS(s State) Point {
+	tisa, _ := c.atPressure(s.Pressure)
+	return c.a.point(s, tisa, c.cosL, false)
 }

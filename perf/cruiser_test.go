@@ -67,8 +67,16 @@ func TestCruiserMatchesAircraft(t *testing.T) {
 								t.Fatalf("%s FL%.0f %.0f kg: LRCMach %v, Cruiser %v", name, fl, m, l, cl)
 							}
 							s := State{Mass: m, Pressure: p, Mach: 0.78, ISADev: dev, LoadFactor: floor}
-							if pt, cpt := a.Point(s), c.Point(s); pt != cpt {
+							pt, cpt := a.Point(s), c.Point(s)
+							if pt != cpt {
 								t.Fatalf("%s %+v: Point %+v, Cruiser %+v", name, s, pt, cpt)
+							}
+							npt := c.PointNoCAS(s)
+							if !math.IsNaN(npt.CAS) {
+								t.Fatalf("%s %+v: PointNoCAS gives CAS %v", name, s, npt.CAS)
+							}
+							if npt.CAS = pt.CAS; npt != pt {
+								t.Fatalf("%s %+v: PointNoCAS %+v, Point %+v", name, s, npt, pt)
 							}
 						}
 					}
@@ -109,6 +117,56 @@ func BenchmarkCruiserEconMach(b *testing.B) {
 	for b.Loop() {
 		if _, ok := c.EconMach(60000, p, 0, 1.3, 30, -20); !ok {
 			b.Fatal("no Mach")
+		}
+	}
+}
+
+// TestCruiserTransitions checks that a Cruiser's Climb and Descent return
+// what the Aircraft's return, bit for bit and with the same errors, for
+// climbs and descents across 10,000 ft and within cruise levels, on CAS,
+// Mach and mixed schedules, at several masses and temperatures, each
+// asked twice (the second time from the kept profile), and for a climb
+// that fails part way (the profile is then kept only as far as it went).
+func TestCruiserTransitions(t *testing.T) {
+	for _, name := range BuiltinNames() {
+		a := mustBuiltin(t, name)
+		c := NewCruiser(a)
+		def := DefaultSchedule(a)
+		scheds := []Schedule{def, {Mach: def.Mach}, {CAS: 140, Mach: def.Mach}, {CASLow: 128, CAS: 150}}
+		pairs := [][2]float64{{1500 * FtToM, 35000 * FtToM}, {31000 * FtToM, 33000 * FtToM}, {8000 * FtToM, 12000 * FtToM}, {20000 * FtToM, 45000 * FtToM}}
+		for pass := range 2 {
+			for _, pr := range pairs {
+				lo, hi := PressureAt(pr[0]), PressureAt(pr[1])
+				for _, s := range scheds {
+					for _, m := range []float64{a.OEW, (a.OEW + a.MTOW) / 2, a.MTOW} {
+						for _, dev := range []float64{-5, 0, 20} {
+							tr, err := a.Climb(m, lo, hi, dev, s)
+							ctr, cerr := c.Climb(m, lo, hi, dev, s)
+							if tr != ctr || (err == nil) != (cerr == nil) || err != nil && err.Error() != cerr.Error() {
+								t.Fatalf("%s pass %d climb %v %+v %.0f kg %+.0f K: %+v %v, Cruiser %+v %v", name, pass, pr, s, m, dev, tr, err, ctr, cerr)
+							}
+							tr, err = a.Descent(m, hi, lo, dev, s)
+							ctr, cerr = c.Descent(m, hi, lo, dev, s)
+							if tr != ctr || (err == nil) != (cerr == nil) || err != nil && err.Error() != cerr.Error() {
+								t.Fatalf("%s pass %d descent %v %+v %.0f kg: %+v %v, Cruiser %+v %v", name, pass, pr, s, m, tr, err, ctr, cerr)
+							}
+						}
+					}
+				}
+			}
+		}
+		// A climb past the ceiling fails part way; the same climb at a
+		// lighter mass then reuses the heights kept and goes further.
+		lo, hi := PressureAt(30000*FtToM), PressureAt(55000*FtToM)
+		for _, m := range []float64{a.MTOW, a.OEW, a.MTOW} {
+			tr, err := a.Climb(m, lo, hi, 15, def)
+			ctr, cerr := c.Climb(m, lo, hi, 15, def)
+			if err == nil && m == a.MTOW {
+				t.Fatalf("%s: a climb to FL550 at MTOW succeeded; the check needs one that fails", name)
+			}
+			if tr != ctr || (err == nil) != (cerr == nil) || err != nil && err.Error() != cerr.Error() {
+				t.Fatalf("%s climb to FL550 %.0f kg: %+v %v, Cruiser %+v %v", name, m, tr, err, ctr, cerr)
+			}
 		}
 	}
 }
