@@ -131,7 +131,7 @@ func cruiseEval(a *perf.Aircraft, sv speeds, sp Speed, ci, m, p float64, c cond,
 }
 
 // lerpCruise interpolates two feasible cruise values.
-func lerpCruise(v0, v1 cruiseVal, t float64) cruiseVal {
+func lerpCruise(v0, v1 *cruiseVal, t float64) cruiseVal {
 	l := func(a, b float64) float64 { return a + (b-a)*t }
 	return cruiseVal{ok: true, mach: l(v0.mach, v1.mach), tas: l(v0.tas, v1.tas), ff: l(v0.ff, v1.ff),
 		resid: l(v0.resid, v1.resid), margin: l(v0.margin, v1.margin), cruise: v0.cruise || v1.cruise}

@@ -176,29 +176,50 @@ type gridTrans struct {
 // the feasible side, so the search never accepts an infeasible mass.
 func (s *solver) cruiseAt(k, li int, m float64) cruiseVal {
 	g := int(math.Floor(m / s.grid))
-	v0, v1 := s.cruiseGrid(k, li, g), s.cruiseGrid(k, li, g+1)
+	e0 := s.gridEntry(k, li, g)
+	if e0 == nil {
+		return s.cruiseOffGrid(k, li, m, g)
+	}
+	// The memo's entries, read in place (they never move).
+	v0 := &e0.v
+	var v1 *cruiseVal
+	if e1 := s.gridEntry(k, li, g+1); e1 != nil {
+		v1 = &e1.v
+	} else {
+		v := s.cruiseGrid(k, li, g+1)
+		v1 = &v
+	}
 	switch {
 	case v0.ok && v1.ok:
 		return lerpCruise(v0, v1, (m-float64(g)*s.grid)/s.grid)
 	case !v0.ok && !v1.ok:
-		return v0
+		return *v0
 	case v0.ok:
-		e := s.gridEntry(k, li, g)
-		if e == nil {
-			break
+		if !e0.bDone {
+			e0.bm, e0.bv = s.boundary(k, li, float64(g)*s.grid, *v0)
+			e0.bDone = true
 		}
-		if !e.bDone {
-			bm, bv := s.boundary(k, li, float64(g)*s.grid, v0)
-			e.bm, e.bv, e.bDone = bm, bv, true
-		}
-		if m > e.bm {
-			return v1
+		if m > e0.bm {
+			return *v1
 		}
 		m0 := float64(g) * s.grid
-		if e.bm-m0 < 1e-9 {
-			return v0
+		if e0.bm-m0 < 1e-9 {
+			return *v0
 		}
-		return lerpCruise(v0, e.bv, (m-m0)/(e.bm-m0))
+		return lerpCruise(v0, &e0.bv, (m-m0)/(e0.bm-m0))
+	}
+	return s.priceCruise(s.p.Speed, m, k, li)
+}
+
+// cruiseOffGrid is cruiseAt where grid mass g lies outside the memo's
+// grid: interpolated where g and g+1 are both feasible, else exact.
+func (s *solver) cruiseOffGrid(k, li int, m float64, g int) cruiseVal {
+	v0, v1 := s.cruiseGrid(k, li, g), s.cruiseGrid(k, li, g+1)
+	switch {
+	case v0.ok && v1.ok:
+		return lerpCruise(&v0, &v1, (m-float64(g)*s.grid)/s.grid)
+	case !v0.ok && !v1.ok:
+		return v0
 	}
 	return s.priceCruise(s.p.Speed, m, k, li)
 }
