@@ -20,8 +20,8 @@ func (s *sim) step(k int, ch Change, c cond, steps *int, lastStep *float64) erro
 	switch {
 	case q.Steps.NoSteps:
 		s.violate(LimitStepRule, 0, "", fmt.Sprintf("change at %.0f NM: steps are not allowed", s.x/nmToM))
-	case abs(to-from)*100 > q.Steps.MaxChange:
-		s.violate(LimitStepRule, float64(abs(to-from)*100-q.Steps.MaxChange), "ft", fmt.Sprintf("change FL%03d to FL%03d exceeds the largest step %d ft", from, to, q.Steps.MaxChange))
+	case abs(to-from)*100 > q.Steps.maxChangeFt():
+		s.violate(LimitStepRule, float64(abs(to-from)*100-q.Steps.maxChangeFt()), "ft", fmt.Sprintf("change FL%03d to FL%03d exceeds the largest step %d ft", from, to, q.Steps.maxChangeFt()))
 	case to < from && !q.Steps.AllowDescent && containsInt(seg.Levels, from) && !blocked(q.Blocked, seg.FromDist, seg.ToDist, from) && !c.closed:
 		// A step descent is forced (and allowed) where the level stops
 		// being available on the segment: the search's rule.
@@ -43,9 +43,9 @@ func (s *sim) step(k int, ch Change, c cond, steps *int, lastStep *float64) erro
 		return err
 	}
 	pFrom, pTo := perf.FLToPressure(float64(from)), perf.FLToPressure(float64(to))
-	v := cruisePoint(a, q.Speed, q.CI, s.m, pTo, cNew)
+	v := cruisePoint(a, q.Speed, q.CI, s.pm(), pTo, cNew)
 	if !v.ok {
-		v = cruisePoint(a, q.Speed, q.CI, s.m, pFrom, c)
+		v = cruisePoint(a, q.Speed, q.CI, s.pm(), pFrom, c)
 	}
 	mach := v.mach
 	if mach == 0 && len(s.plan.Legs) > 0 {
@@ -53,11 +53,11 @@ func (s *sim) step(k int, ch Change, c cond, steps *int, lastStep *float64) erro
 	}
 	sch := machSchedule(a, q.ClimbSchedule, mach, math.Max(pFrom, pTo))
 	isa := (c.isaDev + cNew.isaDev) / 2
-	tr := transition(a, s.m, pFrom, pTo, isa, sch, to > from)
+	tr := transition(a, s.pm(), pFrom, pTo, isa, sch, to > from)
 	if !tr.ok && to > from {
 		// Climb as high as the aircraft can and level off there.
 		lf, ok := reachableFL(from, to, func(fl int) bool {
-			return transition(a, s.m, pFrom, perf.FLToPressure(float64(fl)), isa, sch, true).ok
+			return transition(a, s.pm(), pFrom, perf.FLToPressure(float64(fl)), isa, sch, true).ok
 		})
 		if !ok || lf == from {
 			s.violateLeg(len(s.plan.Legs), "climb", float64(to-from)*100, "ft", fmt.Sprintf("step FL%03d to FL%03d at %.0f NM cannot be flown at %.0f kg (%s): the aircraft stays at FL%03d and climbs when it can", from, to, s.x/nmToM, s.m, tr.why, from))
@@ -68,7 +68,7 @@ func (s *sim) step(k int, ch Change, c cond, steps *int, lastStep *float64) erro
 		if cNew, err = s.condAt(k, to); err != nil {
 			return err
 		}
-		tr = transition(a, s.m, pFrom, pTo, (c.isaDev+cNew.isaDev)/2, sch, true)
+		tr = transition(a, s.pm(), pFrom, pTo, (c.isaDev+cNew.isaDev)/2, sch, true)
 	}
 	if !tr.ok {
 		return inputErrorf("profile", "change FL%03d to FL%03d at %.0f NM at %.0f kg: %s", from, to, s.x/nmToM, s.m, tr.why)
@@ -102,14 +102,14 @@ func (s *sim) resumeClimb(k int, descGround, total float64) error {
 	if len(s.plan.Legs) > 0 {
 		mach = s.plan.Legs[len(s.plan.Legs)-1].Mach
 	}
-	if v := cruisePoint(a, q.Speed, q.CI, s.m, pTo, cNew); v.ok {
+	if v := cruisePoint(a, q.Speed, q.CI, s.pm(), pTo, cNew); v.ok {
 		mach = v.mach
 	}
 	if mach == 0 {
 		return nil
 	}
 	sch := machSchedule(a, q.ClimbSchedule, mach, pFrom)
-	tr := transition(a, s.m, pFrom, pTo, (c.isaDev+cNew.isaDev)/2, sch, true)
+	tr := transition(a, s.pm(), pFrom, pTo, (c.isaDev+cNew.isaDev)/2, sch, true)
 	if !tr.ok {
 		return nil
 	}

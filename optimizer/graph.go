@@ -24,6 +24,10 @@ func (st state) id() int64 {
 	return int64(st.k)<<47 | int64(st.li)<<39 | int64(st.steps)<<33 | int64(st.since)<<23 | int64(st.b)
 }
 
+// maxSinceCap is the largest segments-since-the-last-step counter a node ID
+// holds.
+const maxSinceCap = 1<<10 - 1
+
 func stateOf(id int64) state {
 	return state{k: int(id >> 47), li: int(id>>39) & 0xff, steps: int(id>>33) & 0x3f, since: int(id>>23) & 0x3ff, b: int(id & (1<<23 - 1))}
 }
@@ -132,7 +136,7 @@ func (s *solver) stepEdges(st, next state, m float64, emit func(edge)) {
 	k, li := st.k, st.li
 	K := len(s.conds)
 	segLen := s.bounds[k+1] - s.bounds[k]
-	maxD := s.p.Steps.MaxChange / 100
+	maxD := s.p.Steps.maxChangeFt() / 100
 	for lj := range s.levels {
 		dfl := s.levels[lj] - s.levels[li]
 		if dfl == 0 || dfl > maxD || -dfl > maxD || !s.allow[k][lj] {
