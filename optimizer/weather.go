@@ -126,13 +126,17 @@ func buildConds(p *Problem, levels []int) ([][]cond, error) {
 	}
 	segs := p.Track.Segments
 	out := make([][]cond, len(segs))
+	press := make([]float64, len(levels)) // the same on every segment
+	for li, fl := range levels {
+		press[li] = perf.FLToPressure(float64(fl))
+	}
 	clock := p.Depart
 	for k := range segs {
 		seg := &segs[k]
 		t := clock.Add(time.Duration(seg.Length / 2 / tas * float64(time.Second)))
 		row := make([]cond, len(levels))
 		for li, fl := range levels {
-			pr := perf.FLToPressure(float64(fl))
+			pr := press[li]
 			w, d, e, err := segWeather(p.Weather, seg, pr, t)
 			c := cond{wind: w, isaDev: p.isaDevOr(d), edr: e}
 			if err != nil {
