@@ -54,6 +54,8 @@ type solver struct {
 	// baseline's solver, a subgraph, reuses.
 	reuse []float64
 	fixed *boundParts // see bound.go
+	// boundScratch holds leastCostPerMetre's levels (reused).
+	boundScratch []levelBound
 	// overflowed is set when an arrival's mass bucket exceeds the node ID.
 	overflowed bool
 	// ctx stops the search when done (see ctxErr); nil: never done.
