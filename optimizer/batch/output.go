@@ -106,6 +106,18 @@ type parquetRow struct {
 	Error         string   `parquet:"error"`
 }
 
+// parquetArrivalRow is parquetRow with the arrival columns, written when
+// the run had arrival targets (see hasTargets).
+type parquetArrivalRow struct {
+	parquetRow
+	ArriveBy     *int64   `parquet:"arrive_by_utc,optional,timestamp(millisecond)"`
+	ArriveWindow string   `parquet:"arrive_window"`
+	CIUsed       *float64 `parquet:"ci_used,optional"`
+	DelayMin     *float64 `parquet:"delay_min,optional"`
+	DelayCostKg  *float64 `parquet:"delay_cost_kg,optional"`
+	OnTime       *bool    `parquet:"on_time,optional"`
+}
+
 // assemble reads the records named by man from out/parts and writes the
 // final files and then the manifest.
 func assemble(out string, man manifest) (Summary, error) {
@@ -151,7 +163,7 @@ func writeFinal(out string, man manifest, recs []record) (Summary, error) {
 		{ErrorsCSV, func() ([]byte, error) { return errorsCSV(results, bads) }},
 	}
 	if man.Sweep != nil {
-		files = append(files, outFile{SummaryCSV, func() ([]byte, error) { return summaryCSV(sum.ByCI) }})
+		files = append(files, outFile{SummaryCSV, func() ([]byte, error) { return summaryCSV(sum.ByCI, hasTargets(results)) }})
 	}
 	for _, f := range files {
 		data, err := f.make()
@@ -183,6 +195,13 @@ func summarize(results []record) Summary {
 		if c == nil {
 			c = &CISummary{CI: r.CI}
 			by[r.CI] = c
+		}
+		if r.ArriveBy != "" && r.Status != statusFailed {
+			sum.Targets = true
+			c.WithTarget++
+			if r.OnTime != nil && *r.OnTime {
+				c.OnTime++
+			}
 		}
 		switch r.Status {
 		case statusFailed:
@@ -261,15 +280,24 @@ func writeCSV(records [][]string) ([]byte, error) {
 const warningSep = "; "
 
 func resultsCSV(results []record) ([]byte, error) {
-	recs := [][]string{resultColumns}
+	targets := hasTargets(results)
+	head := resultColumns
+	if targets {
+		head = append(slices.Clip(head), arrivalColumns...)
+	}
+	recs := [][]string{head}
 	for _, r := range results {
-		recs = append(recs, []string{safeCell(r.Flight), ciText(r.CI), r.Status,
+		row := []string{safeCell(r.Flight), ciText(r.CI), r.Status,
 			safeCell(strings.Join(r.Warnings, warningSep)), r.Departure, r.Arrival, safeCell(r.Aircraft),
 			strconv.Itoa(r.Row), fmtR(r.DistanceNM, decNM), fmtR(r.TakeoffMassKg, decKg), fmtR(r.ZFWKg, decKg),
 			fmtR(r.LandingMassKg, decKg), fmtR(r.FuelKg, decKg), fmtR(r.TimeMin, decMin), fmtR(r.Cost, decKg),
 			fmtR(r.CO2Kg, decKg), fmtR(r.FloorG, decG), safeCell(r.Speed), safeCell(r.Levels),
 			fmtI(r.InitialFL), fmtI(r.Steps), fmtR(r.MinMarginG, decG), fmtR(r.CostSavingPct, decPct),
-			safeCell(r.Profile), fmtR(r.BlockKg, decKg), safeCell(r.LimitedBy), safeCell(r.Reason)})
+			safeCell(r.Profile), fmtR(r.BlockKg, decKg), safeCell(r.LimitedBy), safeCell(r.Reason)}
+		if targets {
+			row = append(row, r.ArriveBy, r.ArriveWindow, fmtR(ciUsed(&r), 6), fmtR(r.DelayMin, decMin), fmtR(r.DelayCostKg, decKg), fmtB(r.OnTime))
+		}
+		recs = append(recs, row)
 	}
 	return writeCSV(recs)
 }
@@ -311,7 +339,26 @@ func resultsParquet(results []record, meta map[string]string) ([]byte, error) {
 		opts = append(opts, parquet.KeyValueMetadata(k, meta[k]))
 	}
 	var buf bytes.Buffer
-	if err := parquet.Write(&buf, rows, opts...); err != nil {
+	if !hasTargets(results) {
+		if err := parquet.Write(&buf, rows, opts...); err != nil {
+			return nil, err
+		}
+		return buf.Bytes(), nil
+	}
+	arows := make([]parquetArrivalRow, len(rows))
+	for i := range results {
+		r := &results[i]
+		a := parquetArrivalRow{parquetRow: rows[i], ArriveWindow: r.ArriveWindow, CIUsed: ciUsed(r), DelayMin: r.DelayMin, DelayCostKg: r.DelayCostKg, OnTime: r.OnTime}
+		if r.ArriveBy != "" {
+			t, err := time.Parse(time.RFC3339, r.ArriveBy)
+			if err != nil {
+				return nil, fmt.Errorf("record of flight %s: arrive_by %q: %w", r.Flight, r.ArriveBy, err)
+			}
+			a.ArriveBy = new(t.UnixMilli())
+		}
+		arows[i] = a
+	}
+	if err := parquet.Write(&buf, arows, opts...); err != nil {
 		return nil, err
 	}
 	return buf.Bytes(), nil
@@ -364,14 +411,65 @@ func errorsCSV(results, bads []record) ([]byte, error) {
 	return writeCSV(recs)
 }
 
-func summaryCSV(by []CISummary) ([]byte, error) {
-	recs := [][]string{{"ci", "flights", "fuel_kg", "time_min", "cost", "co2_kg", "failed", "infeasible"}}
+// summaryCSV writes the per-CI table; with targets (some flight had an
+// arrive_by time) it adds with_arrive_by, on_time and on_time_pct, the
+// share of those flights' plans at that CI arriving in their window
+// (empty when none).
+func summaryCSV(by []CISummary, targets bool) ([]byte, error) {
+	head := []string{"ci", "flights", "fuel_kg", "time_min", "cost", "co2_kg", "failed", "infeasible"}
+	if targets {
+		head = append(head, "with_arrive_by", "on_time", "on_time_pct")
+	}
+	recs := [][]string{head}
 	for _, c := range by {
-		recs = append(recs, []string{ciText(c.CI), strconv.Itoa(c.Flights), fmtNum(round(c.Fuel, decKg)),
+		rec := []string{ciText(c.CI), strconv.Itoa(c.Flights), fmtNum(round(c.Fuel, decKg)),
 			fmtNum(round(c.Time, decMin)), fmtNum(round(c.Cost, decKg)), fmtNum(round(c.CO2, decKg)),
-			strconv.Itoa(c.Failed), strconv.Itoa(c.Infeasible)})
+			strconv.Itoa(c.Failed), strconv.Itoa(c.Infeasible)}
+		if targets {
+			pct := ""
+			if c.WithTarget > 0 {
+				pct = fmtNum(round(100*float64(c.OnTime)/float64(c.WithTarget), decPct))
+			}
+			rec = append(rec, strconv.Itoa(c.WithTarget), strconv.Itoa(c.OnTime), pct)
+		}
+		recs = append(recs, rec)
 	}
 	return writeCSV(recs)
+}
+
+// hasTargets reports whether some result had an arrival target: then
+// results.csv, results.parquet and summary.csv carry the arrival columns
+// (and only then, so that other runs keep their files byte for byte).
+func hasTargets(results []record) bool {
+	for _, r := range results {
+		if r.ArriveBy != "" {
+			return true
+		}
+	}
+	return false
+}
+
+// arrivalColumns are the columns results.csv and results.parquet add
+// after resultColumns when the run had arrival targets.
+var arrivalColumns = []string{"arrive_by_utc", "arrive_window", "ci_used", "delay_min", "delay_cost_kg", "on_time"}
+
+// ciUsed is the cost index a result flew: its arrival search's, or its
+// own CI for any other plan; nil for a failed one.
+func ciUsed(r *record) *float64 {
+	switch {
+	case r.CIUsed != nil:
+		return r.CIUsed
+	case r.Status != statusFailed:
+		return new(r.CI)
+	}
+	return nil
+}
+
+func fmtB(b *bool) string {
+	if b == nil {
+		return ""
+	}
+	return strconv.FormatBool(*b)
 }
 
 // manifestVersion is the layout version of manifest.json and run.json;
