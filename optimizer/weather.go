@@ -37,7 +37,7 @@ func weatherAt(f *winds.Field, lat, lon, p, tisa float64, t time.Time, course fl
 	if f == nil {
 		return 0, 0, nan, nil
 	}
-	s, err := f.Sample(lat, lon, p, t)
+	s, err := f.SampleWind(lat, lon, p, t) // no humidity wanted here
 	if err != nil {
 		return 0, 0, nan, err
 	}
