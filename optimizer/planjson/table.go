@@ -58,7 +58,7 @@ func WriteTableBrief(w io.Writer, p *optimizer.Plan, assessed, brief bool) error
 		bw.printf("Least buffet margin above its floor: %.3f g on leg %d (margin %.3f g, floor %.2f g there); least margin anywhere %.3f g\n", least, at, *l.BuffetMarginG, l.FloorG, *d.MinMarginG)
 	}
 	if b := d.Baseline; b != nil {
-		bw.printf("Baseline constant FL%03d: fuel %.0f kg, time %s, cost %.0f; this profile saves %.2f %%\n", b.FL, b.FuelKg, hhmm(b.TimeMin), b.Cost, b.SavingPct)
+		bw.printf("Baseline constant FL%03d: fuel %.0f kg, time %s, cost %.0f; this profile saves %.2f %%\n", b.FL, b.FuelKg, hhmm(b.TimeMin), b.Cost, math.Round(b.SavingPct*100)/100+0) // rounded, +0: never "-0.00"
 	} else if d.BaselineNote != "" {
 		bw.printf("Baseline: %s\n", d.BaselineNote)
 	} else {
