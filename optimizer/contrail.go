@@ -192,7 +192,7 @@ func classifyContrails(q *Problem, plan *Plan) {
 		l.RHi = rhi
 		eta := efficiency(q.Aircraft, l.MassStart, pr, l.Mach, l.ISADev)
 		switch {
-		case !(eta > contrail.CriticalEfficiency(tk, pr, rhw/100)):
+		case !contrail.ExceedsCritical(eta, tk, pr, rhw/100): // eta > CriticalEfficiency, settled early
 			l.Contrail = ContrailNone
 		case rhi >= tot.RHiPct:
 			l.Contrail = ContrailPersistent
