@@ -339,8 +339,14 @@ func SolveEnsemble(ctx context.Context, ep *EnsembleProblem) (*Plan, error) {
 	}
 	chosen := "ensemble search"
 	var switched string
-	if ctrl != nil && !sameProfile(own[0].Profile, plans[0].Profile) &&
-		breaking(ctrl) <= n-need && objectiveOf(e.Objective, ctrl) < objectiveOf(e.Objective, plans)*(1-1e-9) {
+	searchBreaks := breaking(plans) > n-need
+	switch {
+	case ctrl == nil || sameProfile(own[0].Profile, plans[0].Profile) || breaking(ctrl) > n-need:
+	case searchBreaks:
+		switched = fmt.Sprintf("the ensemble search's %s breaks limits in %d of %d members when each is priced exactly (more than the robust share allows: %s); the control member's own profile keeps them: chosen instead",
+			plans[0].Profile, breaking(plans), n, breakingMembers(ep, plans))
+		plans, chosen = ctrl, "control member's own plan"
+	case objectiveOf(e.Objective, ctrl) < objectiveOf(e.Objective, plans)*(1-1e-9):
 		switched = fmt.Sprintf("the control member's own profile prices %.0f below the ensemble search's %s on the %s objective (the search's shared-mass approximation): chosen instead",
 			objectiveOf(e.Objective, plans)-objectiveOf(e.Objective, ctrl), plans[0].Profile, e.Objective)
 		plans, chosen = ctrl, "control member's own plan"
@@ -365,6 +371,9 @@ func SolveEnsemble(ctx context.Context, ep *EnsembleProblem) (*Plan, error) {
 	}
 	if switched != "" {
 		plan.Warnings = append(plan.Warnings, switched)
+	} else if breaking(plans) > n-need {
+		plan.Warnings = append(plan.Warnings, fmt.Sprintf("the chosen profile breaks limits in %d of %d members when each is priced exactly, more than the robust share allows: %s",
+			breaking(plans), n, breakingMembers(ep, plans)))
 	}
 	if err := ss[0].addBaseline(plan, res.cost); err != nil {
 		return nil, err
@@ -468,6 +477,22 @@ func sameProfile(a, b Profile) bool {
 
 // breaking counts the members in which a priced profile breaks a limit of
 // the profile itself (not a loading limit).
+// breakingMembers names the members whose plan breaks a profile limit
+// and the first such limit of each: "member 2: step-rule (step at 132 NM
+// ...)".
+func breakingMembers(ep *EnsembleProblem, plans []*Plan) string {
+	var parts []string
+	for i, p := range plans {
+		for _, v := range p.Violations {
+			if breaksProfileLimits([]Violation{v}) {
+				parts = append(parts, fmt.Sprintf("member %d: %s (%s)", ep.Members[i].Number, v.Limit, v.Detail))
+				break
+			}
+		}
+	}
+	return strings.Join(parts, "; ")
+}
+
 func breaking(plans []*Plan) int {
 	n := 0
 	for _, p := range plans {

@@ -7,6 +7,7 @@ import (
 	"math"
 	"os/exec"
 	"reflect"
+	"slices"
 	"strconv"
 	"strings"
 	"testing"
@@ -279,4 +280,36 @@ func TestEnsembleRobustShare(t *testing.T) {
 		t.Errorf("objective %.3f, quantile of the members' costs %.3f", r.Profile.Objective, q)
 	}
 	t.Logf("floor 1.45: %s, breaking in %d members, chosen %s", plan.Profile, r.Profile.Breaking, r.Chosen)
+}
+
+// TestEnsembleKeepsRobustShare: over flights not tuned for, the chosen
+// profile breaks limits in no more members than the robust share allows
+// when each member is priced exactly, or the plan says so in a warning
+// (never silent). The narrowbody case once chose a profile whose first
+// step came too soon after a later top of climb in one member.
+func TestEnsembleKeepsRobustShare(t *testing.T) {
+	ms := ensembleMembers(t, 10)
+	ref := time.Date(2026, 12, 1, 18, 0, 0, 0, time.UTC)
+	for _, c := range []struct {
+		route, ac string
+		mass, ci  float64
+		dep       time.Duration
+	}{
+		{"../testdata/demo/route-lakeport.geojson", "demo-narrowbody", 70000, 20, 3 * time.Hour},
+		{"../testdata/demo/route-lakeport.geojson", "demo-narrowbody", 64000, 0, 4 * time.Hour},
+		{"../testdata/demo/route-sunhaven.geojson", "demo-narrowbody", 72000, 40, 3 * time.Hour},
+		{"../testdata/demo/route-corvale.geojson", "demo-regional", 37000, 10, 2 * time.Hour},
+	} {
+		p := Problem{Track: track(t, c.route, "", 50), Aircraft: aircraft(t, c.ac), Depart: ref.Add(c.dep), TakeoffMass: c.mass, CI: c.ci}
+		plan, err := SolveEnsemble(context.Background(), &EnsembleProblem{Problem: p, Members: ms})
+		if err != nil {
+			t.Errorf("%s %s %.0f kg: %v", c.route, c.ac, c.mass, err)
+			continue
+		}
+		r := plan.Ensemble
+		if r.Profile.Breaking > r.Members-r.Need && !slices.ContainsFunc(plan.Warnings, func(w string) bool { return strings.Contains(w, "more than the robust share allows") }) {
+			t.Errorf("%s %s %.0f kg: the chosen %s breaks limits in %d of %d members (need %d) without a warning: %q",
+				c.route, c.ac, c.mass, r.Profile.Profile, r.Profile.Breaking, r.Members, r.Need, plan.Warnings)
+		}
+	}
 }
