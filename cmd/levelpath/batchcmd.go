@@ -180,7 +180,7 @@ func newBatchCmd() *cobra.Command {
 				opt.Meta["member"] = strconv.Itoa(ens.member) // a resume on another member is refused
 			}
 			wx, err = loadWeather(weather, ens.weatherOpts(cmd, wxo))
-			err = memberHint(err)
+			err = memberHint(err, true)
 		}
 		if err != nil {
 			return err

@@ -92,10 +92,14 @@ func (e *ensembleFlags) check(cmd *cobra.Command, weather []string) error {
 }
 
 // memberHint adds the command-line names to an error about several
-// ensemble members in a file opened as one forecast.
-func memberHint(err error) error {
+// ensemble members in a file opened as one forecast: --member N, and
+// --ensemble where the command has it (withEnsemble).
+func memberHint(err error, withEnsemble bool) error {
 	var me *winds.MemberError
 	if errors.As(err, &me) && strings.Contains(me.What, "Options.Member") {
+		if !withEnsemble {
+			return badInputf("%v (on the command line: --member N)", err)
+		}
 		return badInputf("%v (on the command line: --member N, or --ensemble)", err)
 	}
 	return err

@@ -194,7 +194,7 @@ func newGridSampleCmd() *cobra.Command {
 			wxo.member = &member
 		}
 		field, err := openWeather(args, 0, math.Inf(1), wxo) // every level, not only the cruise band
-		err = memberHint(err)
+		err = memberHint(err, false)
 		if err != nil {
 			return err
 		}

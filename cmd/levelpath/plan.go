@@ -61,7 +61,7 @@ func (f *planFlags) run(cmd *cobra.Command, assessed bool, price func(*optimizer
 		wx, err = f.ens.open(f.weather, f.wx)
 	} else {
 		wx, err = loadWeather(f.weather, f.ens.weatherOpts(cmd, f.wx))
-		err = memberHint(err)
+		err = memberHint(err, true)
 	}
 	if err != nil {
 		return err
