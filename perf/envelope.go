@@ -141,6 +141,9 @@ func ReportFL(fl float64) float64 { return math.Floor(fl + 1e-9) }
 
 // residualClimb is Point's ResidualClimb at Mach m.
 func (a *Aircraft) residualClimb(mass, p, isaDev, m float64) float64 {
+	if a.tab != nil {
+		return at4(a.tab.ROCClimb, mass, p, m, isaDev)
+	}
 	tisa := isaTemperatureAtPressure(p)
 	t := tisa + isaDev
 	d, _, _ := a.drag(mass, p, m, math.Cos(a.Sweep))

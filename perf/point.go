@@ -178,8 +178,13 @@ func (a *Aircraft) buffetCL(mach float64) float64 {
 
 // Point returns the performance at s. It does not allocate; the cost is a
 // few hundred floating-point operations. Out-of-range inputs (non-positive
-// pressure or Mach, Mach >= 1) give NaN fields.
+// pressure or Mach, Mach >= 1) give NaN fields. For a table aircraft the
+// fuel flow and residual climb are the tables' (NaN outside them, with
+// ThrustLimited true) and Drag, CD and the thrusts are NaN.
 func (a *Aircraft) Point(s State) Point {
+	if a.tab != nil {
+		return a.tablePoint(s)
+	}
 	n := s.LoadFactor
 	if n == 0 {
 		n = 1

@@ -135,7 +135,12 @@ func bisectSeg(x0, y0, x1, y1, xa, xb, c float64) float64 {
 }
 
 // excessThrust returns max cruise thrust minus level-flight drag (N).
+// For a table aircraft it is the residual climb at max cruise thrust
+// (m/s), which has the same sign.
 func (a *Aircraft) excessThrust(mass, p, t, tisa, mach, cosL float64) float64 {
+	if a.tab != nil {
+		return at4(a.tab.ROCCruise, mass, p, mach, t-tisa)
+	}
 	d, _, _ := a.drag(mass, p, mach, cosL)
 	return a.climbThrust(p, t, tisa, mach)*a.Engines.CruiseRatio - d
 }
@@ -199,6 +204,7 @@ const (
 	LimitMMO    = "mmo"         // maximum operating Mach
 	LimitVMO    = "vmo"         // maximum operating speed (CAS)
 	LimitData   = "buffet-data" // end of the buffet table: boundary unknown beyond it
+	LimitTable  = "table-data"  // end of an operator table's Mach axis (table aircraft)
 )
 
 // Band is the Mach band usable in level flight and the limit that sets
@@ -249,6 +255,16 @@ func (a *Aircraft) SpeedBand(mass, p, isaDev, floor float64) (Band, bool) {
 	if mv := b.VMOMach; mv < hi {
 		hi, b.HiLimit = mv, LimitVMO
 	}
+	if a.tab != nil {
+		// Tables are not extrapolated: the band ends at the Mach axis.
+		mv := a.tab.CruiseFuelFlow.Axes[2].Values
+		if lo < mv[0] {
+			lo, b.LoLimit = mv[0], LimitTable
+		}
+		if hi > mv[len(mv)-1] {
+			hi, b.HiLimit = mv[len(mv)-1], LimitTable
+		}
+	}
 	if !(lo < hi) {
 		return b, false
 	}
@@ -257,6 +273,11 @@ func (a *Aircraft) SpeedBand(mass, p, isaDev, floor float64) (Band, bool) {
 	cosL := math.Cos(a.Sweep)
 	excess := func(m float64) float64 { return a.excessThrust(mass, p, t, tisa, m, cosL) }
 	elo, ehi := excess(lo), excess(hi)
+	if math.IsNaN(elo) || math.IsNaN(ehi) {
+		// Only a table aircraft queried outside its thrust table.
+		b.HiLimit = LimitTable
+		return b, false
+	}
 	if elo >= 0 && ehi >= 0 {
 		b.Lo, b.Hi = lo, hi
 		return b, true
@@ -287,6 +308,9 @@ func (a *Aircraft) econCost(mass, p, t, tisa, mach, cosL, ciPerS, wind float64) 
 	gs := mach*SpeedOfSound(t) + wind
 	if !(gs > 0) {
 		return math.Inf(1)
+	}
+	if a.tab != nil {
+		return (a.tableFF(mass, p, mach, t-tisa) + ciPerS) / gs
 	}
 	d, _, _ := a.drag(mass, p, mach, cosL)
 	return (a.fuelFlow(d, a.climbThrust(p, t, tisa, mach), t, mach) + ciPerS) / gs
@@ -328,6 +352,9 @@ func (a *Aircraft) MaxRangeMach(mass, p, isaDev, floor float64) (float64, bool) 
 
 // specificRange returns TAS/fuel flow (m/kg) at level flight.
 func (a *Aircraft) specificRange(mass, p, t, tisa, mach, cosL float64) float64 {
+	if a.tab != nil {
+		return mach * SpeedOfSound(t) / a.tableFF(mass, p, mach, t-tisa)
+	}
 	d, _, _ := a.drag(mass, p, mach, cosL)
 	return mach * SpeedOfSound(t) / a.fuelFlow(d, a.climbThrust(p, t, tisa, mach), t, mach)
 }

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"errors"
 	"fmt"
 	"slices"
 	"text/tabwriter"
@@ -160,34 +161,12 @@ func newAircraftShowCmd() *cobra.Command {
 	return c
 }
 
-// exportGrid returns the export grid for a: masses OEW..MTOW in 5 % of the
-// range, FL100 to the certified ceiling every 1,000 ft, Mach 0.50 to MMO
-// every 0.02 (and MMO), ISA deviation -20..+30 K every 10 K.
-func exportGrid(a *perf.Aircraft) (ms, fls, machs, devs []float64) {
-	for i := 0; i <= 20; i++ {
-		ms = append(ms, a.OEW+float64(i)/20*(a.MTOW-a.OEW))
-	}
-	top := perf.ReportFL(a.CertifiedCeiling / (100 * perf.FtToM))
-	for fl := 100.0; fl < top; fl += 10 {
-		fls = append(fls, fl)
-	}
-	fls = append(fls, top)
-	for i := 0; 0.50+0.02*float64(i) < a.MMO-1e-9; i++ {
-		machs = append(machs, float64(50+2*i)/100)
-	}
-	machs = append(machs, a.MMO)
-	for d := -20.0; d <= 30; d += 10 {
-		devs = append(devs, d)
-	}
-	return ms, fls, machs, devs
-}
-
 func newAircraftExportCmd() *cobra.Command {
 	var acName, out string
 	var factor float64
 	c := &cobra.Command{
 		Use:   "export",
-		Short: "Write an aircraft model as operator tables (format version 1, perf/aircraft/TABLES.md)",
+		Short: "Write an aircraft model as operator tables (format version 2, perf/aircraft/TABLES.md) that --aircraft DIR plans from",
 		Example: "  levelpath aircraft export --aircraft demo-widebody --out widebody-tables\n" +
 			"  levelpath aircraft export --aircraft my-type.yaml --out tables --perf-factor 2.5",
 		Args: cobra.NoArgs,
@@ -209,13 +188,23 @@ func newAircraftExportCmd() *cobra.Command {
 			}
 			warnf(cmd.ErrOrStderr(), "performance factor %+.1f %%: exported fuel flows multiplied by %.3f", factor, 1+factor/100)
 		}
-		ms, fls, machs, devs := exportGrid(a)
-		if err := a.ExportTables(out, ms, fls, machs, devs); err != nil {
+		g := perf.DefaultExportGrid(a)
+		if err := a.ExportTables(out, g); err != nil {
+			var ue *perf.UnsupportedError
+			if errors.As(err, &ue) {
+				return badInput(err)
+			}
 			return fmt.Errorf("export: %w", err)
 		}
-		fmt.Fprintf(cmd.OutOrStdout(), "wrote %s and %s to %s: %d cruise fuel-flow points (%d masses, %d levels, %d Mach, %d ISA deviations)\n"+
-			"Planning from tables is not supported yet; the tables are for inspection and exchange.\n%s\n",
-			perf.TablesManifest, perf.CruiseFuelFlowFile, out, len(ms)*len(fls)*len(machs)*len(devs), len(ms), len(fls), len(machs), len(devs), "Caution: "+optimizer.Caution)
+		nm, nl, nt, nd := len(g.Masses), len(g.Levels), len(g.TransitionLevels), len(g.ISADevs)
+		fmt.Fprintf(cmd.OutOrStdout(), "wrote format version %d tables of %s to %s:\n"+
+			"  %s, %s: %d cruise fuel-flow and thrust-limit points (%d masses %.0f-%.0f kg, %d levels FL%.0f-FL%.0f, %d Mach %.2f-%.3f, %d ISA deviations %+.0f..%+.0f)\n"+
+			"  %s, %s: %d climb and descent points (%d levels from 1,500 ft)\n  %s: %d buffet-onset points\n"+
+			"Plan from them with --aircraft %s. %s\n",
+			perf.TablesVersion, a.Name, out,
+			perf.CruiseFuelFlowFile, perf.ThrustLimitsFile, nm*nl*len(g.Machs)*nd, nm, g.Masses[0], g.Masses[nm-1], nl, g.Levels[0], g.Levels[nl-1], len(g.Machs), g.Machs[0], g.Machs[len(g.Machs)-1], nd, g.ISADevs[0], g.ISADevs[nd-1],
+			perf.ClimbFile, perf.DescentFile, len(g.TransitionMasses)*nt*nd, nt, perf.BuffetFile, len(a.Buffet),
+			out, "Caution: "+optimizer.Caution)
 		return nil
 	}
 	return c

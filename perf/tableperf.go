@@ -1,0 +1,192 @@
+package perf
+
+import (
+	"fmt"
+	"math"
+)
+
+// Planning from operator tables. An *Aircraft built by Tables.Aircraft
+// carries its tables; every method the planner calls then answers from
+// them instead of the drag polar and engine model:
+//
+//   - level-flight fuel flow: CruiseFuelFlow (times the performance factor);
+//   - residual climb (Point.ResidualClimb, the thrust-limited ceiling) and
+//     the thrust ends of the Mach band: ROCClimb and ROCCruise (drag over
+//     max cruise thrust is ROCCruise < 0);
+//   - buffet onset: the buffet table with the manifest's reference area,
+//     by the same code as a model;
+//   - climbs and descents: the climb and descent tables, as differences of
+//     two entries (see Climb).
+//
+// All tables are interpolated multilinearly (Grid.At) and never
+// extrapolated. Fields of Point that tables do not hold (drag, CD, thrust)
+// are NaN.
+
+// Tables returns the operator tables a plans from, nil for a performance
+// model.
+func (a *Aircraft) Tables() *Tables { return a.tab }
+
+// Aircraft returns the plannable aircraft of a version 2 table set, or an
+// *UnsupportedError naming what a version 1 set lacks.
+func (t *Tables) Aircraft() (*Aircraft, error) {
+	if t.Version < 2 {
+		return nil, &UnsupportedError{Source: t.Dir, Reason: t.missingForPlanning()}
+	}
+	return &Aircraft{
+		Name: t.Name, Description: t.Description,
+		OEW: t.OEW, MZFW: t.MZFW, MTOW: t.MTOW, MLW: t.MLW, FuelCapacity: t.FuelCapacity,
+		WingArea: t.WingArea,
+		Engines:  Engines{Count: t.EngineCount, IdleFuelFlow: t.IdleFuelFlow},
+		VMO:      t.VMO, MMO: t.MMO, CertifiedCeiling: t.CertifiedCeiling,
+		Buffet:   append([]BuffetPoint(nil), t.Buffet...),
+		Schedule: t.Schedule,
+		tab:      t,
+	}, nil
+}
+
+// CheckTableDomain returns nil for a model, and for a table aircraft an
+// *OutOfTableError when cruise at level fl with ISA deviation isaDev (K)
+// lies outside a table's level or temperature range (Tables.CheckDomain).
+func (a *Aircraft) CheckTableDomain(fl, isaDev float64) error {
+	if a.tab == nil {
+		return nil
+	}
+	return a.tab.CheckDomain(fl, isaDev)
+}
+
+// CheckTransitionLevel returns nil for a model, and for a table aircraft
+// an *OutOfTableError when level fl (a climb's start or a descent's end)
+// lies outside the climb or descent table's levels.
+func (a *Aircraft) CheckTransitionLevel(fl float64) error {
+	if a.tab == nil {
+		return nil
+	}
+	for _, g := range []*Grid{a.tab.ClimbTime, a.tab.DescentTime} {
+		v := g.Axes[1].Values
+		if !(fl >= v[0]-1e-9 && fl <= v[len(v)-1]) {
+			return &OutOfTableError{Table: g.Name, Axis: "fl", Value: fl, Min: v[0], Max: v[len(v)-1]}
+		}
+	}
+	return nil
+}
+
+// at4 looks g up at (mass, FL of p, mach, isaDev); NaN outside the table.
+func at4(g *Grid, mass, p, mach, isaDev float64) float64 {
+	v, err := g.At(mass, PressureToFL(p), mach, isaDev)
+	if err != nil {
+		return math.NaN()
+	}
+	return v
+}
+
+// tableFF is the table's level-flight fuel flow (kg/s) with the
+// performance factor.
+func (a *Aircraft) tableFF(mass, p, mach, isaDev float64) float64 {
+	return at4(a.tab.CruiseFuelFlow, mass, p, mach, isaDev) * a.fuelFactor()
+}
+
+// tablePoint is Point from the tables.
+func (a *Aircraft) tablePoint(s State) Point {
+	n := s.LoadFactor
+	if n == 0 {
+		n = 1
+	}
+	nan := math.NaN()
+	var pt Point
+	tisa := isaTemperatureAtPressure(s.Pressure)
+	t := tisa + s.ISADev
+	pt.Temperature = t
+	pt.TAS = s.Mach * SpeedOfSound(t)
+	pt.CAS = MachToCAS(s.Mach, s.Pressure)
+	cl1 := s.Mass * G0 / (0.5 * Gamma * s.Pressure * s.Mach * s.Mach * a.WingArea)
+	pt.CL = cl1 * n
+	pt.CD, pt.Drag, pt.MaxClimbThrust, pt.MaxCruiseThrust = nan, nan, nan, nan
+	pt.FuelFlow = a.tableFF(s.Mass, s.Pressure, s.Mach, s.ISADev)
+	pt.SpecificRange = pt.TAS / pt.FuelFlow
+	pt.BuffetCL = a.buffetCL(s.Mach)
+	pt.BuffetMargin = pt.BuffetCL / cl1
+	pt.ResidualClimb = at4(a.tab.ROCClimb, s.Mass, s.Pressure, s.Mach, s.ISADev)
+	// Outside the table (NaN) counts as limited: never feasible by default.
+	pt.ThrustLimited = !(at4(a.tab.ROCCruise, s.Mass, s.Pressure, s.Mach, s.ISADev) >= 0)
+	return pt
+}
+
+// tableEntry is one interpolated row of a climb or descent table.
+func tableEntry(gs [3]*Grid, mass, fl, isaDev float64) (Transition, error) {
+	var v [3]float64
+	for i, g := range gs {
+		x, err := g.At(mass, fl, isaDev)
+		if err != nil {
+			return Transition{}, err
+		}
+		v[i] = x
+	}
+	return Transition{Time: v[0], Fuel: v[1], Distance: v[2]}, nil
+}
+
+// tableTransition prices a climb (fromP > toP) or descent from the tables
+// as the difference of two entries, the way climb tables are read for a
+// climb that does not start at their base level. A climb from level A to
+// B at mass m: the mass m0 at 1,500 ft that arrives at A with m (m0 -
+// fuel(m0, A) = m, by fixed-point iteration, 4 rounds), then entry(m0, B)
+// - entry(m0, A). A descent from A to B at mass m: entry(m, A) -
+// entry(m', B) with m' the mass on passing B (2 rounds). The schedule
+// argument is not used: the tables hold their own schedule
+// (Tables.Schedule), as does a step at cruise Mach priced from them
+// (deviation from a model, which integrates the schedule given). Cost: a
+// dozen table look-ups.
+func (a *Aircraft) tableTransition(mass, fromP, toP, isaDev float64, climb bool) (Transition, error) {
+	t := a.tab
+	gs, phase := [3]*Grid{t.DescentTime, t.DescentFuel, t.DescentDistance}, "descent"
+	if climb {
+		gs, phase = [3]*Grid{t.ClimbTime, t.ClimbFuel, t.ClimbDistance}, "climb"
+	}
+	flA, flB := PressureToFL(fromP), PressureToFL(toP)
+	if math.Abs(flA-flB) < 1e-9 {
+		return Transition{}, nil
+	}
+	ff := a.fuelFactor()
+	var ea, eb Transition
+	var err error
+	if climb {
+		m0 := mass
+		for range 4 {
+			if ea, err = tableEntry(gs, m0, flA, isaDev); err != nil {
+				return Transition{}, err
+			}
+			m0 = mass + ea.Fuel*ff
+		}
+		if ea, err = tableEntry(gs, m0, flA, isaDev); err != nil {
+			return Transition{}, err
+		}
+		if eb, err = tableEntry(gs, m0, flB, isaDev); err != nil {
+			return Transition{}, err
+		}
+	} else {
+		if ea, err = tableEntry(gs, mass, flA, isaDev); err != nil {
+			return Transition{}, err
+		}
+		mb := mass
+		for range 2 {
+			if eb, err = tableEntry(gs, mb, flB, isaDev); err != nil {
+				return Transition{}, err
+			}
+			mb = mass - (ea.Fuel-eb.Fuel)*ff
+		}
+		if eb, err = tableEntry(gs, mb, flB, isaDev); err != nil {
+			return Transition{}, err
+		}
+	}
+	hi := math.Max(flA, flB)
+	if math.IsNaN(ea.Time) || math.IsNaN(eb.Time) {
+		return Transition{}, &LimitError{Aircraft: a.Name, Phase: phase, FL: hi, Reason: fmt.Sprintf("the %s table marks the level as not reached at %.0f kg, ISA%+.0f (a blank entry next to the query)", phase, mass, isaDev)}
+	}
+	d := Transition{Time: eb.Time - ea.Time, Fuel: (eb.Fuel - ea.Fuel) * ff, Distance: eb.Distance - ea.Distance}
+	if !climb {
+		d = Transition{Time: -d.Time, Fuel: -d.Fuel, Distance: -d.Distance}
+	}
+	if !(d.Time > 0 && d.Fuel >= 0 && d.Distance >= 0) {
+		return Transition{}, &LimitError{Aircraft: a.Name, Phase: phase, FL: hi, Reason: fmt.Sprintf("the %s table gives %.0f s, %.1f kg, %.0f m between FL%.0f and FL%.0f (not increasing with level here)", phase, d.Time, d.Fuel, d.Distance, flA, flB)}
+	}
+	return d, nil
+}
