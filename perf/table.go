@@ -413,4 +413,3 @@ func WriteGridsCSV(w io.Writer, gs []*Grid, header []string, factors []float64) 
 	cw.Flush()
 	return cw.Error()
 }
-
