@@ -282,6 +282,10 @@ func (p *Problem) normalise() ([]string, error) {
 	if !(p.EndAltitude > 0 && p.EndAltitude <= 10000*perf.FtToM) {
 		return nil, inputErrorf("EndAltitude", "%v m: the climb starts and the descent ends between 0 and 10,000 ft", p.EndAltitude)
 	}
+	if err := a.CheckTransitionLevel(perf.PressureToFL(perf.PressureAt(p.EndAltitude))); err != nil {
+		// Operator tables only: never extrapolated (perf/tableperf.go).
+		return nil, inputErrorf("EndAltitude", "the climb starts and the descent ends at %.0f ft: %w", p.EndAltitude/perf.FtToM, err)
+	}
 	if p.ClimbSchedule == (perf.Schedule{}) {
 		p.ClimbSchedule = bestClimbSchedule(a, p.TakeoffMass, p.CI, p.MaxFL, p.Speed, p.Floor, p.EndAltitude)
 	}

@@ -2,6 +2,9 @@ package perf
 
 import (
 	"bytes"
+	"crypto/sha256"
+	"encoding/hex"
+	"errors"
 	"fmt"
 	"io"
 	"math"
@@ -449,4 +452,26 @@ func readLimited(path string, limit int64) ([]byte, error) {
 		return nil, &TableError{File: path, Reason: fmt.Sprintf("more than the %d bytes allowed", limit)}
 	}
 	return data, nil
+}
+
+// TablesDigest returns the hex SHA-256 of the table set in dir, for
+// resume keys and caches: the name, length and contents of each file of
+// the format in a fixed order (an absent file hashed as absent). Files
+// are read with the size limits of LoadTables.
+func TablesDigest(dir string) (string, error) {
+	h := sha256.New()
+	for _, name := range []string{TablesManifest, CruiseFuelFlowFile, ThrustLimitsFile, ClimbFile, DescentFile, BuffetFile} {
+		path := filepath.Join(dir, name)
+		if _, err := os.Stat(path); errors.Is(err, os.ErrNotExist) {
+			fmt.Fprintf(h, "%s:absent\n", name)
+			continue
+		}
+		data, err := readLimited(path, maxTableFile)
+		if err != nil {
+			return "", err
+		}
+		fmt.Fprintf(h, "%s:%d\n", name, len(data))
+		h.Write(data)
+	}
+	return hex.EncodeToString(h.Sum(nil)), nil
 }

@@ -30,6 +30,7 @@ type aircraftJSON struct {
 	CeilingFL      float64  `json:"ceiling_fl"`
 	Engines        int      `json:"engines"`
 	StaticThrustKN float64  `json:"static_thrust_kn"`
+	TablesVersion  int      `json:"tables_version,omitempty"` // operator tables: format version; thrust then comes from them
 	RefMassKg      float64  `json:"ref_mass_kg"`
 	RefMaxFLBuffet *float64 `json:"ref_max_fl_buffet"`
 	RefMaxFLThrust *float64 `json:"ref_max_fl_thrust"`
@@ -43,6 +44,10 @@ func describeAircraft(a *perf.Aircraft, source string) (aircraftJSON, error) {
 		OEWKg: a.OEW, MZFWKg: a.MZFW, MTOWKg: a.MTOW, MLWKg: a.MLW, FuelCapacityKg: a.FuelCapacity,
 		VMOKt: a.VMO / perf.KtToMS, MMO: a.MMO, CeilingFL: a.CertifiedCeiling / (100 * perf.FtToM),
 		Engines: a.Engines.Count, StaticThrustKN: a.Engines.StaticThrust / 1000, RefMassKg: 0.9 * a.MTOW}
+	if t := a.Tables(); t != nil {
+		d.TablesVersion = t.Version
+		d.Source = fmt.Sprintf("operator tables %s (format version %d; data: %s)", t.Dir, t.Version, t.Source)
+	}
 	e, err := a.Envelope(d.RefMassKg, 0, 1.3)
 	if err != nil {
 		return d, err
@@ -110,7 +115,7 @@ func newAircraftListCmd() *cobra.Command {
 			fmt.Fprintf(tw, "%s\t%.0f\t%.2f\tFL%.0f\t%s\n", d.Name, d.MTOWKg, d.MMO, d.CeilingFL, d.Description)
 		}
 		tw.Flush()
-		fmt.Fprintf(out, "\nAny YAML file in the format of perf/aircraft/README.md is accepted too (--aircraft FILE).\n%s\n", "Caution: "+optimizer.Caution)
+		fmt.Fprintf(out, "\nAny YAML file in the format of perf/aircraft/README.md (--aircraft FILE) or directory of operator tables (perf/aircraft/TABLES.md, --aircraft DIR) is accepted too.\n%s\n", "Caution: "+optimizer.Caution)
 		return nil
 	}
 	return c
@@ -150,7 +155,12 @@ func newAircraftShowCmd() *cobra.Command {
 		fmt.Fprintf(out, "%s: %s\nsource: %s\n\n", d.Name, d.Description, d.Source)
 		tw := tabwriter.NewWriter(out, 0, 0, 2, ' ', 0)
 		fmt.Fprintf(tw, "OEW\t%.0f kg\nMZFW\t%.0f kg\nMTOW\t%.0f kg\nMLW\t%.0f kg\nfuel capacity\t%.0f kg\n", d.OEWKg, d.MZFWKg, d.MTOWKg, d.MLWKg, d.FuelCapacityKg)
-		fmt.Fprintf(tw, "VMO / MMO\t%.0f kt / %.3f\ncertified ceiling\tFL%.0f\nengines\t%d x %.1f kN static\n", d.VMOKt, d.MMO, d.CeilingFL, d.Engines, d.StaticThrustKN)
+		fmt.Fprintf(tw, "VMO / MMO\t%.0f kt / %.3f\ncertified ceiling\tFL%.0f\n", d.VMOKt, d.MMO, d.CeilingFL)
+		if d.TablesVersion > 0 {
+			fmt.Fprintf(tw, "engines\t%d (thrust limits from the tables)\n", d.Engines)
+		} else {
+			fmt.Fprintf(tw, "engines\t%d x %.1f kN static\n", d.Engines, d.StaticThrustKN)
+		}
 		fmt.Fprintf(tw, "at %.0f kg (90 %% MTOW), 1.3 g:\t\n", d.RefMassKg)
 		fmt.Fprintf(tw, "  buffet-limited level\t%s\n  thrust-limited level ISA / ISA+20\t%s / %s\n  optimum level ISA\t%s\n",
 			flOf(d.RefMaxFLBuffet), flOf(d.RefMaxFLThrust), flOf(d.RefMaxFLHot), flOf(d.RefOptimumFL))
@@ -171,7 +181,7 @@ func newAircraftExportCmd() *cobra.Command {
 			"  levelpath aircraft export --aircraft my-type.yaml --out tables --perf-factor 2.5",
 		Args: cobra.NoArgs,
 	}
-	c.Flags().StringVar(&acName, "aircraft", "", "built-in aircraft name or YAML file")
+	c.Flags().StringVar(&acName, "aircraft", "", "built-in aircraft name, YAML file or operator tables directory")
 	c.Flags().StringVar(&out, "out", "", "directory to write (created if needed)")
 	c.Flags().Float64Var(&factor, "perf-factor", 0, "performance factor, percent, applied to the exported fuel flows")
 	c.RunE = func(cmd *cobra.Command, _ []string) error {

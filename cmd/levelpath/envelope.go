@@ -29,7 +29,7 @@ func newEnvelopeCmd() *cobra.Command {
 		Args: cobra.NoArgs,
 	}
 	format := formatFlag(c, "table", "json", "csv")
-	c.Flags().StringVar(&acName, "aircraft", "", "built-in aircraft name or YAML file")
+	c.Flags().StringVar(&acName, "aircraft", "", "built-in aircraft name, YAML file or operator tables directory")
 	c.Flags().Float64Var(&mass, "mass", 0, "gross mass, kg")
 	c.Flags().Float64Var(&isaDev, "isa-dev", 0, "temperature deviation from ISA, °C")
 	c.Flags().Float64Var(&floor, "floor", 1.3, "buffet protection floor, g (common practice 1.3)")

@@ -170,7 +170,7 @@ func (s *Server) problem(req *planRequest) (*inputs, error) {
 // "builtin:NAME" for one compiled into this program version).
 func (s *Server) aircraft(name string) (*perf.Aircraft, string, error) {
 	if name == "" {
-		return nil, "", fieldErr("aircraft", "--aircraft is required (built-in: %s, or a YAML file)", strings.Join(perf.BuiltinNames(), ", "))
+		return nil, "", fieldErr("aircraft", "--aircraft is required (built-in: %s, or a YAML file or a tables directory)", strings.Join(perf.BuiltinNames(), ", "))
 	}
 	for _, b := range perf.BuiltinNames() {
 		if b == name {
@@ -183,13 +183,24 @@ func (s *Server) aircraft(name string) (*perf.Aircraft, string, error) {
 	}
 	p, err := s.data.resolve(name)
 	if err != nil {
+		// Or a directory of operator tables.
+		if tp, terr := s.data.resolveTables(name); terr == nil {
+			p, err = tp, nil
+		}
+	}
+	if err != nil {
 		return nil, "", fieldErr("aircraft", "aircraft %v (built-in: %s)", err, strings.Join(perf.BuiltinNames(), ", "))
 	}
 	a, err := perf.Load(p)
 	if err != nil {
 		return nil, "", fieldErr("aircraft", "%s", strings.ReplaceAll(err.Error(), p, name))
 	}
-	d, err := fileDigest(p)
+	var d string
+	if a.Tables() != nil {
+		d, err = perf.TablesDigest(p) // operator tables: the whole set
+	} else {
+		d, err = fileDigest(p)
+	}
 	if err != nil {
 		return nil, "", err
 	}
