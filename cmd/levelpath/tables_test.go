@@ -1,7 +1,10 @@
 package main
 
 import (
+	"encoding/csv"
 	"fmt"
+	"os"
+	"strconv"
 	"path/filepath"
 	"strings"
 	"testing"
@@ -78,5 +81,85 @@ func TestPlanFromExportedTables(t *testing.T) {
 	code, _, errs := runCLI(t, "plan", "--aircraft", dir, "--route", fs.Route, "--mass", "245000", "--isa-dev", "35", "--ci", "40")
 	if code != 2 || !strings.Contains(errs, "segment 0") || !strings.Contains(errs, "isa_dev_k 35 outside the table's -30..30") {
 		t.Errorf("plan at ISA+35 from tables: exit %d, %q", code, errs)
+	}
+}
+
+// A batch schedule names a table directory in its aircraft column and a
+// per-row perf_factor_pct: the factor scales the fuel flow of the table
+// aircraft (fuel rises, by about the factor), appears in results.csv and
+// in the plan's warnings, and is part of the resume key.
+func TestBatchTablesAndPerfFactor(t *testing.T) {
+	fs := demoFiles(t)
+	dir := filepath.Join(t.TempDir(), "nb-tables")
+	if code, _, errs := runCLI(t, "aircraft", "export", "--aircraft", "demo-narrowbody", "--out", dir); code != 0 {
+		t.Fatalf("export: exit %d: %s", code, errs)
+	}
+	sched := filepath.Join(t.TempDir(), "sched.csv")
+	write := func(pf string) {
+		route, _ := filepath.Abs(fs.Routes[2])
+		body := "flight,departure,route,aircraft,tow_kg,ci,perf_factor_pct\n" +
+			"P0,2026-12-01T21:00:00Z," + route + "," + dir + ",72000,20,\n" +
+			"P1,2026-12-01T21:00:00Z," + route + "," + dir + ",72000,20," + pf + "\n"
+		if err := os.WriteFile(sched, []byte(body), 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	write("4")
+	out := filepath.Join(t.TempDir(), "out")
+	if code, stdout, errs := runCLI(t, "batch", "--schedule", sched, "--weather", fs.Weather, "--out", out); code != 0 {
+		t.Fatalf("batch: exit %d\n%s%s", code, stdout, errs)
+	}
+	read := func() map[string]map[string]string {
+		f, err := os.Open(filepath.Join(out, "results.csv"))
+		if err != nil {
+			t.Fatal(err)
+		}
+		defer f.Close()
+		recs, err := csv.NewReader(f).ReadAll()
+		if err != nil {
+			t.Fatal(err)
+		}
+		res := map[string]map[string]string{}
+		for _, r := range recs[1:] {
+			m := map[string]string{}
+			for i, h := range recs[0] {
+				m[h] = r[i]
+			}
+			res[m["flight"]] = m
+		}
+		return res
+	}
+	res := read()
+	if res["P0"]["perf_factor_pct"] != "0" || res["P1"]["perf_factor_pct"] != "4" {
+		t.Fatalf("perf_factor_pct column: P0 %q, P1 %q", res["P0"]["perf_factor_pct"], res["P1"]["perf_factor_pct"])
+	}
+	f0, _ := strconv.ParseFloat(res["P0"]["fuel_kg"], 64)
+	f1, _ := strconv.ParseFloat(res["P1"]["fuel_kg"], 64)
+	// Fuel flow x 1.04 raises trip fuel by about 4 % (a little more: the
+	// extra fuel is carried; less if the profile changes).
+	if r := f1 / f0; r < 1.03 || r > 1.05 {
+		t.Errorf("fuel with +4 %% %.1f kg, without %.1f kg: ratio %.4f", f1, f0, r)
+	}
+	if !strings.Contains(res["P1"]["warnings"], "performance factor +4.0 %") || strings.Contains(res["P0"]["warnings"], "performance factor") {
+		t.Errorf("warnings: P0 %q, P1 %q", res["P0"]["warnings"], res["P1"]["warnings"])
+	}
+	// A resume after changing the factor re-plans that row only.
+	write("6")
+	code, stdout, errs := runCLI(t, "batch", "--schedule", sched, "--weather", fs.Weather, "--out", out, "--resume")
+	if code != 0 {
+		t.Fatalf("resume: exit %d\n%s%s", code, stdout, errs)
+	}
+	if got := read()["P1"]["perf_factor_pct"]; got != "6" {
+		t.Errorf("after resume with 6 %%, P1 has %q", got)
+	}
+	if read()["P0"]["fuel_kg"] != res["P0"]["fuel_kg"] {
+		t.Error("P0 changed on resume")
+	}
+	write("45")
+	o2 := filepath.Join(t.TempDir(), "o2")
+	code, _, errs = runCLI(t, "batch", "--schedule", sched, "--weather", fs.Weather, "--out", o2)
+	eb, _ := os.ReadFile(filepath.Join(o2, "errors.csv"))
+	if code != 3 || !strings.Contains(string(eb), "perf_factor_pct") || !strings.Contains(string(eb), "-20..30 percent") {
+		t.Errorf("factor 45 %%: exit %d, %s\nerrors.csv: %s", code, errs, eb)
 	}
 }

@@ -260,16 +260,34 @@ func writeCSV(records [][]string) ([]byte, error) {
 // warningSep joins a plan's warnings in one cell.
 const warningSep = "; "
 
+// resultsCSV writes results.csv: resultColumns, and perf_factor_pct
+// after aircraft when any flight has a performance factor (so that a
+// schedule without one gives the file it always gave).
 func resultsCSV(results []record) ([]byte, error) {
-	recs := [][]string{resultColumns}
+	withPF := slices.ContainsFunc(results, func(r record) bool { return r.PerfFactorPct != nil })
+	head := resultColumns
+	if withPF {
+		i := slices.Index(resultColumns, "aircraft") + 1
+		head = slices.Insert(slices.Clone(resultColumns), i, "perf_factor_pct")
+	}
+	recs := [][]string{head}
 	for _, r := range results {
-		recs = append(recs, []string{safeCell(r.Flight), ciText(r.CI), r.Status,
+		row := []string{safeCell(r.Flight), ciText(r.CI), r.Status,
 			safeCell(strings.Join(r.Warnings, warningSep)), r.Departure, r.Arrival, safeCell(r.Aircraft),
 			strconv.Itoa(r.Row), fmtR(r.DistanceNM, decNM), fmtR(r.TakeoffMassKg, decKg), fmtR(r.ZFWKg, decKg),
 			fmtR(r.LandingMassKg, decKg), fmtR(r.FuelKg, decKg), fmtR(r.TimeMin, decMin), fmtR(r.Cost, decKg),
 			fmtR(r.CO2Kg, decKg), fmtR(r.FloorG, decG), safeCell(r.Speed), safeCell(r.Levels),
 			fmtI(r.InitialFL), fmtI(r.Steps), fmtR(r.MinMarginG, decG), fmtR(r.CostSavingPct, decPct),
-			safeCell(r.Profile), fmtR(r.BlockKg, decKg), safeCell(r.LimitedBy), safeCell(r.Reason)})
+			safeCell(r.Profile), fmtR(r.BlockKg, decKg), safeCell(r.LimitedBy), safeCell(r.Reason)}
+		if withPF {
+			pf := "0"
+			if r.PerfFactorPct != nil {
+				pf = strconv.FormatFloat(*r.PerfFactorPct, 'g', -1, 64)
+			}
+			i := slices.Index(resultColumns, "aircraft") + 1
+			row = slices.Insert(row, i, pf)
+		}
+		recs = append(recs, row)
 	}
 	return writeCSV(recs)
 }

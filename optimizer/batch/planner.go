@@ -147,7 +147,8 @@ func (p *SchedulePlanner) Problem(row Row, ci float64) (*optimizer.Problem, []st
 	if err != nil {
 		return nil, nil, err
 	}
-	pr := &optimizer.Problem{Track: te.track, Aircraft: a, Weather: p.Weather, Depart: row.Departure, CI: ci, Floor: row.Floor, Steps: p.Steps, Exact: p.Exact}
+	pr := &optimizer.Problem{Track: te.track, Aircraft: a, Weather: p.Weather, Depart: row.Departure, CI: ci, Floor: row.Floor, Steps: p.Steps, Exact: p.Exact,
+		PerfFactorPct: row.PerfFactorPct}
 	if row.FuelPlan {
 		// The fuel plan solves the take-off mass; the ZFW stands in.
 		if row.ZFW > a.MZFW {
