@@ -17,8 +17,8 @@ import (
 // mass-grid interpolation).
 func TestAlternativesMatchEnumeration(t *testing.T) {
 	for _, steps := range []StepRules{
-		{MaxChange: 2000, AllowDescent: true, MinDistance: -1},
-		{MaxChange: 2000, MinDistance: 100 * nmToM, MaxSteps: 1}, // step rules the level graph must keep
+		{MaxChange: 2000 * ftToM, AllowDescent: true, NoMinDistance: true},
+		{MaxChange: 2000 * ftToM, MinDistance: 100 * nmToM, MaxSteps: 1}, // step rules the level graph must keep
 	} {
 		p := smallProblem(t, 0)
 		p.Steps = steps

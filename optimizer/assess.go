@@ -64,6 +64,12 @@ func assessProblem(ctx context.Context, p *Problem, prof Profile, baseline bool)
 }
 
 // sim is the state of the forward simulation of a profile.
+// pm is the mass the aircraft's performance is priced at: the mass, or
+// OEW once the trip has burnt it below that (a flight that cannot be
+// flown; its landing-mass violation says so), so that such a profile is
+// priced to the end rather than refused.
+func (s *sim) pm() float64 { return math.Max(s.m, s.a.OEW) }
+
 type sim struct {
 	q    *Problem
 	a    *perf.Aircraft
@@ -268,20 +274,20 @@ func (s *sim) initialClimb(endP float64) error {
 	if err != nil {
 		return err
 	}
-	cl := transition(a, s.m, endP, perf.FLToPressure(float64(s.fl)), c0.isaDev, q.ClimbSchedule, true)
+	cl := transition(a, s.pm(), endP, perf.FLToPressure(float64(s.fl)), c0.isaDev, q.ClimbSchedule, true)
 	if !cl.ok {
 		// Climb as high as the aircraft can and level off there; the
 		// profile's level is taken when the aircraft can reach it.
 		startFL := int(math.Ceil(q.EndAltitude / (100 * perf.FtToM)))
 		lf, ok := reachableFL(startFL, s.fl, func(fl int) bool {
-			return transition(a, s.m, endP, perf.FLToPressure(float64(fl)), c0.isaDev, q.ClimbSchedule, true).ok
+			return transition(a, s.pm(), endP, perf.FLToPressure(float64(fl)), c0.isaDev, q.ClimbSchedule, true).ok
 		})
 		if !ok || lf <= startFL {
 			return inputErrorf("profile", "initial climb to FL%03d at %.0f kg: %s", s.fl, s.m, cl.why)
 		}
 		s.violateLeg(0, LimitClimb, float64(s.fl-lf)*100, "ft", fmt.Sprintf("initial climb to FL%03d cannot be completed at %.0f kg (%s): the aircraft levels off at FL%03d and climbs to FL%03d when it can", s.fl, s.m, cl.why, lf, s.fl))
 		s.fl = lf
-		cl = transition(a, s.m, endP, perf.FLToPressure(float64(s.fl)), c0.isaDev, q.ClimbSchedule, true)
+		cl = transition(a, s.pm(), endP, perf.FLToPressure(float64(s.fl)), c0.isaDev, q.ClimbSchedule, true)
 	}
 	if s.target > q.MaxFL {
 		s.violateLeg(0, LimitCertified, float64(s.target-q.MaxFL)*100, "ft", fmt.Sprintf("initial level FL%03d is above the highest usable level FL%03d", s.target, q.MaxFL))
@@ -298,7 +304,7 @@ func (s *sim) finalDescent(endP float64) (transVal, cond, error) {
 	if err != nil {
 		return transVal{}, cond{}, err
 	}
-	de := transition(s.a, s.m, perf.FLToPressure(float64(s.fl)), endP, cLast.isaDev, s.q.DescentSchedule, false)
+	de := transition(s.a, s.pm(), perf.FLToPressure(float64(s.fl)), endP, cLast.isaDev, s.q.DescentSchedule, false)
 	if !de.ok {
 		return transVal{}, cond{}, inputErrorf("profile", "final descent from FL%03d: %s", s.fl, de.why)
 	}
@@ -310,21 +316,21 @@ func (s *sim) cruise(k int, end float64, c cond, detail bool) {
 	q, a := s.q, s.a
 	seg := &s.segs[k]
 	p := perf.FLToPressure(float64(s.fl))
-	v := cruisePoint(a, q.Speed, q.CI, s.m, p, c)
+	v := cruisePoint(a, q.Speed, q.CI, s.pm(), p, c)
 	leg := Leg{Segment: k, Phase: PhaseCruise, FromDist: s.x, ToDist: end, FromFL: float64(s.fl), FL: float64(s.fl),
 		WindAlong: c.wind, ISADev: c.isaDev, EDR: c.edr, MassStart: s.m, Floor: c.floor, FloorReason: c.why}
 	if !v.ok {
 		// Keep pricing with the best Mach available, and record the limit.
 		relaxed := c
 		relaxed.floor, relaxed.closed = 1, false
-		v2 := cruisePoint(a, q.Speed, q.CI, s.m, p, relaxed)
+		v2 := cruisePoint(a, q.Speed, q.CI, s.pm(), p, relaxed)
 		if v2.mach == 0 {
 			v2.mach = math.Min(q.Speed.Mach, a.MMO)
 			if v2.mach == 0 {
 				v2.mach = a.MMO - 0.02
 			}
 		}
-		pt := a.Point(perf.State{Mass: s.m, Pressure: p, Mach: v2.mach, ISADev: c.isaDev, LoadFactor: 1})
+		pt := a.Point(perf.State{Mass: s.pm(), Pressure: p, Mach: v2.mach, ISADev: c.isaDev, LoadFactor: 1})
 		v = cruiseVal{mach: v2.mach, tas: pt.TAS, ff: pt.FuelFlow, resid: pt.ResidualClimb, margin: pt.BuffetMargin}
 	}
 	gs := v.tas + c.wind
@@ -332,7 +338,7 @@ func (s *sim) cruise(k int, end float64, c cond, detail bool) {
 		gs = 50
 	}
 	f0 := v.ff * (end - s.x) / gs
-	pt := a.Point(perf.State{Mass: s.m - f0/2, Pressure: p, Mach: v.mach, ISADev: c.isaDev, LoadFactor: 1})
+	pt := a.Point(perf.State{Mass: math.Max(s.m-f0/2, a.OEW), Pressure: p, Mach: v.mach, ISADev: c.isaDev, LoadFactor: 1})
 	gs = math.Max(pt.TAS+c.wind, 50)
 	dt := (end - s.x) / gs
 	leg.Mach, leg.TAS, leg.GS = v.mach, pt.TAS, gs
@@ -340,8 +346,8 @@ func (s *sim) cruise(k int, end float64, c cond, detail bool) {
 	leg.BuffetMargin = v.margin
 	leg.ResidualClimb = v.resid
 	if detail {
-		leg.MaxFLBuffet = maxFLBuffet(a, s.m, c.floor)
-		leg.MaxFLThrust = maxFLThrust(a, s.m, c.isaDev, c.floor)
+		leg.MaxFLBuffet = a.MaxFLBuffet(s.pm(), c.floor)
+		leg.MaxFLThrust = a.MaxFLThrust(s.pm(), c.isaDev)
 	} else {
 		leg.MaxFLBuffet, leg.MaxFLThrust = nan, nan
 	}
@@ -376,7 +382,7 @@ func (s *sim) checkLimits(seg *route.Segment, end float64, c cond, v cruiseVal) 
 	if v.resid < fpm300 {
 		s.violate(LimitThrust, (fpm300-v.resid)/perf.FtToM*60, "fpm", fmt.Sprintf("residual climb %.0f ft/min under 300 ft/min at FL%03d", v.resid/perf.FtToM*60, s.fl))
 	}
-	if lo, hi, ok := a.MachBand(s.m, perf.FLToPressure(float64(s.fl)), c.isaDev, c.floor); !ok {
+	if lo, hi, ok := a.MachBand(s.pm(), perf.FLToPressure(float64(s.fl)), c.isaDev, c.floor); !ok {
 		s.violate(LimitMachBand, 0, "", fmt.Sprintf("no Mach band at %.2f g at FL%03d", c.floor, s.fl))
 	} else if q.Speed.Kind == SpeedFixed && (q.Speed.Mach < lo-1e-9 || q.Speed.Mach > hi+1e-9) {
 		s.violate(LimitMachBand, math.Max(lo-q.Speed.Mach, q.Speed.Mach-hi), "Mach", fmt.Sprintf("Mach %.3f outside the band %.3f-%.3f at FL%03d", q.Speed.Mach, lo, hi, s.fl))

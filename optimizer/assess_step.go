@@ -20,8 +20,8 @@ func (s *sim) step(k int, ch Change, c cond, steps *int, lastStep *float64) erro
 	switch {
 	case q.Steps.NoSteps:
 		s.violate(LimitStepRule, 0, "", fmt.Sprintf("change at %.0f NM: steps are not allowed", s.x/nmToM))
-	case abs(to-from)*100 > q.Steps.MaxChange:
-		s.violate(LimitStepRule, float64(abs(to-from)*100-q.Steps.MaxChange), "ft", fmt.Sprintf("change FL%03d to FL%03d exceeds the largest step %d ft", from, to, q.Steps.MaxChange))
+	case abs(to-from)*100 > q.Steps.maxChangeFt():
+		s.violate(LimitStepRule, float64(abs(to-from)*100-q.Steps.maxChangeFt()), "ft", fmt.Sprintf("change FL%03d to FL%03d exceeds the largest step %d ft", from, to, q.Steps.maxChangeFt()))
 	case to < from && !q.Steps.AllowDescent && containsInt(seg.Levels, from) && !blocked(q.Blocked, seg.FromDist, seg.ToDist, from) && !c.closed:
 		// A step descent is forced (and allowed) where the level stops
 		// being available on the segment: the search's rule.
@@ -43,9 +43,9 @@ func (s *sim) step(k int, ch Change, c cond, steps *int, lastStep *float64) erro
 		return err
 	}
 	pFrom, pTo := perf.FLToPressure(float64(from)), perf.FLToPressure(float64(to))
-	v := cruisePoint(a, q.Speed, q.CI, s.m, pTo, cNew)
+	v := cruisePoint(a, q.Speed, q.CI, s.pm(), pTo, cNew)
 	if !v.ok {
-		v = cruisePoint(a, q.Speed, q.CI, s.m, pFrom, c)
+		v = cruisePoint(a, q.Speed, q.CI, s.pm(), pFrom, c)
 	}
 	mach := v.mach
 	if mach == 0 && len(s.plan.Legs) > 0 {
@@ -53,11 +53,11 @@ func (s *sim) step(k int, ch Change, c cond, steps *int, lastStep *float64) erro
 	}
 	sch := machSchedule(a, q.ClimbSchedule, mach, math.Max(pFrom, pTo))
 	isa := (c.isaDev + cNew.isaDev) / 2
-	tr := transition(a, s.m, pFrom, pTo, isa, sch, to > from)
+	tr := transition(a, s.pm(), pFrom, pTo, isa, sch, to > from)
 	if !tr.ok && to > from {
 		// Climb as high as the aircraft can and level off there.
 		lf, ok := reachableFL(from, to, func(fl int) bool {
-			return transition(a, s.m, pFrom, perf.FLToPressure(float64(fl)), isa, sch, true).ok
+			return transition(a, s.pm(), pFrom, perf.FLToPressure(float64(fl)), isa, sch, true).ok
 		})
 		if !ok || lf == from {
 			s.violateLeg(len(s.plan.Legs), "climb", float64(to-from)*100, "ft", fmt.Sprintf("step FL%03d to FL%03d at %.0f NM cannot be flown at %.0f kg (%s): the aircraft stays at FL%03d and climbs when it can", from, to, s.x/nmToM, s.m, tr.why, from))
@@ -68,7 +68,7 @@ func (s *sim) step(k int, ch Change, c cond, steps *int, lastStep *float64) erro
 		if cNew, err = s.condAt(k, to); err != nil {
 			return err
 		}
-		tr = transition(a, s.m, pFrom, pTo, (c.isaDev+cNew.isaDev)/2, sch, true)
+		tr = transition(a, s.pm(), pFrom, pTo, (c.isaDev+cNew.isaDev)/2, sch, true)
 	}
 	if !tr.ok {
 		return inputErrorf("profile", "change FL%03d to FL%03d at %.0f NM at %.0f kg: %s", from, to, s.x/nmToM, s.m, tr.why)
@@ -102,14 +102,14 @@ func (s *sim) resumeClimb(k int, descGround, total float64) error {
 	if len(s.plan.Legs) > 0 {
 		mach = s.plan.Legs[len(s.plan.Legs)-1].Mach
 	}
-	if v := cruisePoint(a, q.Speed, q.CI, s.m, pTo, cNew); v.ok {
+	if v := cruisePoint(a, q.Speed, q.CI, s.pm(), pTo, cNew); v.ok {
 		mach = v.mach
 	}
 	if mach == 0 {
 		return nil
 	}
 	sch := machSchedule(a, q.ClimbSchedule, mach, pFrom)
-	tr := transition(a, s.m, pFrom, pTo, (c.isaDev+cNew.isaDev)/2, sch, true)
+	tr := transition(a, s.pm(), pFrom, pTo, (c.isaDev+cNew.isaDev)/2, sch, true)
 	if !tr.ok {
 		return nil
 	}
@@ -180,95 +180,4 @@ func (s *sim) addTransLeg(ph Phase, k int, fromFL, toFL, g float64, tr transVal,
 	s.m -= tr.fuel
 	s.t += tr.time
 	s.x += g
-}
-
-// maxFLBuffet is the highest level, by bisection to 0.01 FL, at which some
-// Mach under MMO keeps the floor at mass m; NaN when none above FL100.
-func maxFLBuffet(a *perf.Aircraft, m, floor float64) float64 {
-	ok := func(fl float64) bool {
-		lo, hi, ok := a.BuffetMachs(m, perf.FLToPressure(fl), floor)
-		return ok && lo < math.Min(hi, a.MMO)
-	}
-	return bisectFL(ok)
-}
-
-// maxFLThrust is the highest level at which the residual climb at maximum
-// climb thrust at the long-range cruise Mach (found at 1 g, so that the
-// thrust limit is independent of the buffet floor) is at least 300 ft/min
-// (common practice); NaN when none above FL100.
-func maxFLThrust(a *perf.Aircraft, m, isaDev, floor float64) float64 {
-	_ = floor
-	ok := func(fl float64) bool {
-		p := perf.FLToPressure(fl)
-		mach, ok := a.LRCMach(m, p, isaDev, 1)
-		if !ok {
-			return false
-		}
-		pt := a.Point(perf.State{Mass: m, Pressure: p, Mach: mach, ISADev: isaDev, LoadFactor: 1})
-		return !pt.ThrustLimited && pt.ResidualClimb >= fpm300
-	}
-	return bisectFL(ok)
-}
-
-// bisectFL finds the boundary of a predicate that holds low and fails high
-// over FL100..FL600.
-func bisectFL(ok func(float64) bool) float64 {
-	lo, hi := 100.0, 600.0
-	if !ok(lo) {
-		return nan
-	}
-	if ok(hi) {
-		return hi
-	}
-	for hi-lo > 0.01 {
-		mid := (lo + hi) / 2
-		if ok(mid) {
-			lo = mid
-		} else {
-			hi = mid
-		}
-	}
-	return lo
-}
-
-// addWarnings notes legs whose margin lies within 0.05 g of the floor and
-// legs close to the thrust limit.
-func addWarnings(p *Plan) {
-	var near, thrust int
-	var firstNear, firstThrust float64
-	for _, l := range p.Legs {
-		if l.Phase != PhaseCruise {
-			continue
-		}
-		if l.BuffetMargin-l.Floor < 0.05 {
-			if near == 0 {
-				firstNear = l.FromDist
-			}
-			near++
-		}
-		if l.ResidualClimb < fpm300+100*perf.FtToM/60 {
-			if thrust == 0 {
-				firstThrust = l.FromDist
-			}
-			thrust++
-		}
-	}
-	if near > 0 {
-		p.Warnings = append(p.Warnings, fmt.Sprintf("%d cruise leg(s) within 0.05 g of the buffet floor, first at %.0f NM", near, firstNear/nmToM))
-	}
-	if thrust > 0 {
-		p.Warnings = append(p.Warnings, fmt.Sprintf("%d cruise leg(s) limited by thrust (residual climb under 400 ft/min), first at %.0f NM", thrust, firstThrust/nmToM))
-	}
-}
-
-// scheduleMach is the Mach a CAS/Mach schedule flies at pressure p above
-// 10,000 ft: the lesser of the schedule's Mach and its CAS's Mach.
-func scheduleMach(s perf.Schedule, p float64) float64 {
-	m := s.Mach
-	if s.CAS > 0 {
-		if c := perf.CASToMach(s.CAS, p); c == c && (m == 0 || c < m) {
-			m = c
-		}
-	}
-	return m
 }

@@ -38,7 +38,7 @@ func randomProblem(t testing.TB, rng *rand.Rand) (*Problem, string) {
 	steps := StepRules{AllowDescent: rng.Intn(3) == 0, MaxSteps: rng.Intn(3)}
 	switch rng.Intn(3) {
 	case 0:
-		steps.MinDistance = -1
+		steps.NoMinDistance = true
 	case 1:
 		steps.MinDistance = (50 + 150*rng.Float64()) * nmToM
 	}

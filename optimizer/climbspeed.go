@@ -55,3 +55,15 @@ func bestClimbSchedule(a *perf.Aircraft, tow, ci float64, maxFL int, sp Speed, f
 	}
 	return best
 }
+
+// scheduleMach is the Mach a CAS/Mach schedule flies at pressure p above
+// 10,000 ft: the lesser of the schedule's Mach and its CAS's Mach.
+func scheduleMach(s perf.Schedule, p float64) float64 {
+	m := s.Mach
+	if s.CAS > 0 {
+		if c := perf.CASToMach(s.CAS, p); c == c && (m == 0 || c < m) {
+			m = c
+		}
+	}
+	return m
+}

@@ -25,7 +25,7 @@ func smallProblem(t testing.TB, bucket float64) *Problem {
 		Weather:     levelField(t, []int{300, 310, 320, 330, 340}, wind),
 		Depart:      time.Date(2026, 12, 1, 6, 0, 0, 0, time.UTC),
 		TakeoffMass: 76000, CI: 30, MassBucket: bucket,
-		Steps: StepRules{MaxChange: 2000, AllowDescent: true, MinDistance: -1},
+		Steps: StepRules{MaxChange: 2000 * ftToM, AllowDescent: true, NoMinDistance: true},
 	}
 }
 

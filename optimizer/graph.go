@@ -24,6 +24,10 @@ func (st state) id() int64 {
 	return int64(st.k)<<47 | int64(st.li)<<39 | int64(st.steps)<<33 | int64(st.since)<<23 | int64(st.b)
 }
 
+// maxSinceCap is the largest segments-since-the-last-step counter a node ID
+// holds.
+const maxSinceCap = 1<<10 - 1
+
 func stateOf(id int64) state {
 	return state{k: int(id >> 47), li: int(id>>39) & 0xff, steps: int(id>>33) & 0x3f, since: int(id>>23) & 0x3ff, b: int(id & (1<<23 - 1))}
 }
@@ -65,49 +69,74 @@ func (s *solver) successors(id int64, m float64, emit func(edge)) {
 		return
 	}
 	st := stateOf(id)
-	K := len(s.conds)
-	if st.k >= K {
+	if st.k >= len(s.conds) {
 		return
 	}
-	k, li := st.k, st.li
-	segLen := s.bounds[k+1] - s.bounds[k]
-	// Final descent when the top of descent falls in this segment.
-	if s.allow[k][li] {
-		if d, dg := s.descentGround(li, m); d.ok {
-			tod := s.total - dg
-			if tod >= s.bounds[k] && tod < s.bounds[k+1] {
-				s.edges++
-				f, t, v := s.cruiseLeg(k, li, m, tod-s.bounds[k])
-				if v.ok {
-					f += d.fuel
-					t += d.time
-					emit(edge{to: sinkID, fuel: f, cost: s.costOf(f, t)})
-				}
-			}
-		}
-	}
 	next := st
-	next.k = k + 1
+	next.k = st.k + 1
 	if s.sinceCap > 0 && next.since < s.sinceCap {
 		next.since++
 	}
-	// Cruise.
-	if s.allow[k][li] {
-		s.edges++
-		f, t, v := s.cruiseLeg(k, li, m, segLen)
-		if v.ok && s.beforeTOD(li, m-f, k+1) {
-			if b, ok := s.bucket(m - f); ok {
-				n := next
-				n.b = b
-				emit(edge{to: n.id(), fuel: f, cost: s.costOf(f, t)})
-			}
-		}
+	s.descentEdge(st, m, emit)
+	s.cruiseEdge(st, next, m, emit)
+	if s.stepAllowed(st) {
+		s.stepEdges(st, next, m, emit)
 	}
-	// Steps.
-	if !s.stepAllowed(st) {
+}
+
+// descentEdge emits the final descent to the sink from state st at mass m
+// when the top of descent from st's level falls in st's segment: level
+// flight to the top of descent, then the descent.
+func (s *solver) descentEdge(st state, m float64, emit func(edge)) {
+	k, li := st.k, st.li
+	if !s.allow[k][li] {
 		return
 	}
-	maxD := s.p.Steps.MaxChange / 100
+	d, dg := s.descentGround(li, m)
+	if !d.ok {
+		return
+	}
+	tod := s.total - dg
+	if tod < s.bounds[k] || tod >= s.bounds[k+1] {
+		return
+	}
+	s.edges++
+	f, t, v := s.cruiseLeg(k, li, m, tod-s.bounds[k])
+	if v.ok {
+		f += d.fuel
+		t += d.time
+		emit(edge{to: sinkID, fuel: f, cost: s.costOf(f, t)})
+	}
+}
+
+// cruiseEdge emits level flight through st's segment to next (the same
+// level at the next boundary) when the level is open and the boundary lies
+// before the top of descent.
+func (s *solver) cruiseEdge(st, next state, m float64, emit func(edge)) {
+	k, li := st.k, st.li
+	if !s.allow[k][li] {
+		return
+	}
+	s.edges++
+	f, t, v := s.cruiseLeg(k, li, m, s.bounds[k+1]-s.bounds[k])
+	if v.ok && s.beforeTOD(li, m-f, k+1) {
+		if b, ok := s.bucket(m - f); ok {
+			n := next
+			n.b = b
+			emit(edge{to: n.id(), fuel: f, cost: s.costOf(f, t)})
+		}
+	}
+}
+
+// stepEdges emits the step climbs and descents from st at the start of its
+// segment to every other allowed level within the maximum change: the
+// transition, then level flight to the next boundary (a step may end in
+// the next segment, priced at the new level).
+func (s *solver) stepEdges(st, next state, m float64, emit func(edge)) {
+	k, li := st.k, st.li
+	K := len(s.conds)
+	segLen := s.bounds[k+1] - s.bounds[k]
+	maxD := s.p.Steps.maxChangeFt() / 100
 	for lj := range s.levels {
 		dfl := s.levels[lj] - s.levels[li]
 		if dfl == 0 || dfl > maxD || -dfl > maxD || !s.allow[k][lj] {

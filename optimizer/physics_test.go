@@ -133,7 +133,7 @@ func TestCostIndexOrdering(t *testing.T) {
 func TestBreguetLimit(t *testing.T) {
 	p := longHaul(t, "every-1000:290-430")
 	p.CI = 0
-	p.Steps = StepRules{MaxChange: 1000}
+	p.Steps = StepRules{MaxChange: 1000 * ftToM}
 	plan := solve(t, p)
 	var fuel, from, to float64
 	from = math.NaN()
@@ -177,12 +177,12 @@ func TestBreguetLimit(t *testing.T) {
 // between steps hold.
 func TestStepRules(t *testing.T) {
 	p := longHaul(t, "every-1000:290-430")
-	p.Steps = StepRules{MaxChange: 2000, MaxSteps: 2}
+	p.Steps = StepRules{MaxChange: 2000 * ftToM, MaxSteps: 2}
 	plan := solve(t, p)
 	if len(plan.Steps) > 2 {
 		t.Errorf("%d steps with a limit of 2: %s", len(plan.Steps), plan.Profile)
 	}
-	p.Steps = StepRules{MaxChange: 2000, MinDistance: 1500 * nmToM}
+	p.Steps = StepRules{MaxChange: 2000 * ftToM, MinDistance: 1500 * nmToM}
 	plan = solve(t, p)
 	for i := 1; i < len(plan.Steps); i++ {
 		if d := plan.Steps[i].AtDist - plan.Steps[i-1].AtDist; d < 1500*nmToM-1 {

@@ -63,23 +63,38 @@ func (s Speed) String() string {
 
 // StepRules constrain level changes in cruise.
 type StepRules struct {
-	// MaxChange is the largest level change of one step, in feet
-	// (default 4,000).
-	MaxChange int
+	// MaxChange is the largest level change of one step, metres of
+	// pressure altitude, 1,000..10,000 ft; zero means the default, 4,000 ft
+	// (common practice). Plans work in whole feet: the value is rounded to
+	// the nearest foot.
+	MaxChange float64
 	// AllowDescent permits step descents in cruise.
 	AllowDescent bool
 	// MinDistance is the least distance between the starts of two steps,
 	// and from the segment of the top of climb to the first step, metres.
 	// Zero means the default, 100 NM (common practice: no steps in quick
 	// succession, and no level-off just to step again after the climb);
-	// a negative value means no minimum.
+	// set NoMinDistance for none. Negative values are refused.
 	MinDistance float64
+	// NoMinDistance removes the least distance between steps (MinDistance
+	// must then be zero).
+	NoMinDistance bool
 	// MaxSteps limits the number of steps (0: no limit; use NoSteps for a
 	// constant level).
 	MaxSteps int
 	// NoSteps forbids every level change in cruise.
 	NoSteps bool
 }
+
+// The default step rules (common practice): steps of at most 4,000 ft, at
+// least 100 NM apart and from the top of climb.
+const (
+	DefaultMaxStepFt = 4000
+	DefaultMinStepNM = 100
+)
+
+// maxChangeFt is MaxChange in whole feet.
+func (r StepRules) maxChangeFt() int { return int(math.Round(r.MaxChange / ftToM)) }
 
 // TurbulenceRule raises the protection floor where the forecast eddy
 // dissipation rate exceeds EDR (m^(2/3)/s); Closed removes the level.
@@ -241,21 +256,22 @@ func (p *Problem) normalise() ([]string, error) {
 		return nil, inputErrorf("Speed.Mach", "Mach %.3f is outside 0.30..MMO %.3f", p.Speed.Mach, a.MMO)
 	}
 	if p.Steps.MaxChange == 0 {
-		p.Steps.MaxChange = 4000
+		p.Steps.MaxChange = DefaultMaxStepFt * ftToM
 	}
-	if p.Steps.MaxChange < 1000 || p.Steps.MaxChange > 10000 {
-		return nil, inputErrorf("Steps.MaxChange", "largest step %d ft must lie in 1000..10000", p.Steps.MaxChange)
+	if ft := p.Steps.MaxChange / ftToM; !(ft >= 1000-0.5 && ft <= 10000+0.5) {
+		return nil, inputErrorf("Steps.MaxChange", "largest step %v m (%.0f ft) must lie in 1,000..10,000 ft", p.Steps.MaxChange, ft)
 	}
 	if p.Steps.MaxSteps < 0 || p.Steps.MaxSteps > MaxStepsLimit {
 		return nil, inputErrorf("Steps.MaxSteps", "the largest number of steps %d must lie in 0..%d", p.Steps.MaxSteps, MaxStepsLimit)
 	}
 	switch d := p.Steps.MinDistance; {
+	case p.Steps.NoMinDistance && d != 0:
+		return nil, inputErrorf("Steps.MinDistance", "least distance between steps %v m given with NoMinDistance", d)
+	case p.Steps.NoMinDistance:
 	case d == 0:
-		p.Steps.MinDistance = 100 * nmToM
-	case d < 0:
-		p.Steps.MinDistance = 0
-	case math.IsNaN(d) || d > 20000*nmToM:
-		return nil, inputErrorf("Steps.MinDistance", "least distance between steps %v m is not usable", d)
+		p.Steps.MinDistance = DefaultMinStepNM * nmToM
+	case !(d > 0) || d > 20000*nmToM:
+		return nil, inputErrorf("Steps.MinDistance", "least distance between steps %v m must lie in 0..20,000 NM (NoMinDistance for none)", d)
 	}
 	if p.MinFL == 0 {
 		p.MinFL = 100

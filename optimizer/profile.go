@@ -7,13 +7,17 @@ import (
 	"strconv"
 	"strings"
 
+	"levelpath/perf"
 	"levelpath/route"
 )
 
 var nan = math.NaN()
 
-// nmToM converts nautical miles to metres.
-const nmToM = 1852.0
+// Units, perf's: nautical miles and feet to metres.
+const (
+	nmToM = perf.NMToM
+	ftToM = perf.FtToM
+)
 
 // Change is a level change that begins at AtDist metres from departure.
 type Change struct {

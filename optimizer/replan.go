@@ -85,7 +85,7 @@ func Replan(p *Problem, st InFlight) (*Plan, error) {
 			curOK := containsInt(segs[j].Levels, cur) && !blocked(q.Blocked, segs[j].FromDist, segs[j].ToDist, cur)
 			for _, fl := range segs[j].Levels {
 				d := fl - cur
-				if d == 0 || abs(d)*100 > q.Steps.MaxChange || fl < q.MinFL || fl > q.MaxFL {
+				if d == 0 || abs(d)*100 > q.Steps.maxChangeFt() || fl < q.MinFL || fl > q.MaxFL {
 					continue
 				}
 				if d < 0 && !q.Steps.AllowDescent && curOK {

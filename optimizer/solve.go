@@ -75,6 +75,9 @@ func SolveContext(ctx context.Context, p *Problem) (*Plan, error) {
 			if round > 0 {
 				break // keep the last plan found: its violations are listed
 			}
+			if pl, err := s.tooHeavyForFuel(ctx, &q, warn); pl != nil || err != nil {
+				return pl, err
+			}
 			return nil, s.infeasible()
 		}
 		next, err := assess(ctx, &q, s.profileOf(res.path), warn, q.LegCeilings)
@@ -171,6 +174,41 @@ func (s *solver) profileOf(path []label) Profile {
 		prev = st.li
 	}
 	return prof
+}
+
+// tooHeavyForFuel handles a search that found no profile although some
+// level is open on the first segment: where the reason is that the trip
+// burns the mass down below OEW (states under OEW are never priced), it
+// returns the constant-level profile of least fuel among those levels, as
+// Assess prices it, whose violations say so (status impossible, as for
+// any loading that cannot be flown) and a warning that no profile was
+// searched. It returns nil, nil when no such plan explains the failure.
+// Cost: one Assess per open level.
+func (s *solver) tooHeavyForFuel(ctx context.Context, q *Problem, warn []string) (*Plan, error) {
+	var best *Plan
+	for li, fl := range s.levels {
+		if !s.allow[0][li] || !explainCruise(s.a, s.p.Speed, s.p.CI, s.p.TakeoffMass, s.press[li], s.conds[0][li]).ok {
+			continue
+		}
+		pl, err := assess(ctx, q, Profile{Initial: fl}, warn, q.LegCeilings)
+		if err != nil {
+			if ctxErr(ctx) != nil {
+				return nil, err
+			}
+			continue
+		}
+		if !slices.ContainsFunc(pl.Violations, func(v Violation) bool { return v.Limit == LimitLandingMass && pl.Totals.LandingMass < s.a.OEW }) {
+			continue
+		}
+		if best == nil || pl.Totals.Fuel < best.Totals.Fuel {
+			best = pl
+		}
+	}
+	if best != nil {
+		best.Warnings = append(best.Warnings, fmt.Sprintf("no profile reaches the destination above the operating empty mass %.0f kg: shown is the constant level of least fuel, FL%03d, not a searched profile", s.a.OEW, best.Profile.Initial))
+		best.BaselineNote = "not computed: the flight cannot be flown at this take-off mass"
+	}
+	return best, nil
 }
 
 // infeasible explains why no profile exists: the limits at take-off mass

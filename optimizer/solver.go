@@ -114,7 +114,12 @@ func newSolver(p *Problem) (*solver, error) {
 		s.allow[k] = row
 	}
 	if p.Steps.MinDistance > 0 {
-		s.sinceCap = min(int(math.Ceil(p.Steps.MinDistance/minLen))+1, 1000)
+		// The counter must reach a number of segments that surely spans
+		// MinDistance; it has 10 bits in a node ID.
+		s.sinceCap = int(math.Ceil(p.Steps.MinDistance/minLen)) + 1
+		if s.sinceCap > maxSinceCap {
+			return nil, inputErrorf("Steps.MinDistance", "the least distance between steps, %.0f NM, spans more than %d of the route's shortest segments (%.1f NM); segment the route more coarsely or shorten the distance", p.Steps.MinDistance/nmToM, maxSinceCap-1, minLen/nmToM)
+		}
 	}
 	s.mergeSince = !p.Exact
 	s.machStep, s.devStep, s.bisect = machStep, devStep, 12

@@ -109,11 +109,37 @@ func (a *Aircraft) Envelope(mass, isaDev, floor float64) (Envelope, error) {
 		}
 		env.Rows = append(env.Rows, r)
 	}
-	buffetOK := func(fl float64) bool {
+	env.MaxFLBuffet = a.MaxFLBuffet(mass, floor)
+	env.MaxFLThrust = a.MaxFLThrust(mass, isaDev)
+	env.MaxFL = math.Min(env.MaxFLCertified, math.Min(env.MaxFLBuffet, env.MaxFLThrust))
+	env.OptimumFL = nan
+	if bestRow >= 0 && !math.IsNaN(env.MaxFL) {
+		env.OptimumFL, _ = a.optimumLevel(mass, isaDev, floor, env.Rows[bestRow].FL, env.MaxFL)
+	}
+	return env, nil
+}
+
+// MaxFLBuffet is the highest level (continuous FL) at which BuffetMachs at
+// load factor floor gives a band whose low end is below MMO, at mass (kg):
+// the buffet-limited ceiling of Envelope. It is NaN when there is none at
+// FL100 and FL650 when the limit lies higher. Cost: a scan in 1,000 ft
+// steps from FL100, then bisection to 0.1 ft (about 40 BuffetMachs calls).
+func (a *Aircraft) MaxFLBuffet(mass, floor float64) float64 {
+	return highestLevel(func(fl float64) bool {
 		lo, _, ok := a.BuffetMachs(mass, FLToPressure(fl), floor)
 		return ok && lo < a.MMO
-	}
-	thrustOK := func(fl float64) bool {
+	})
+}
+
+// MaxFLThrust is the highest level (continuous FL) at which the residual
+// climb at maximum climb thrust and the long-range cruise Mach is at least
+// 300 ft/min (common practice), at mass (kg) and ISA + isaDev (K): the
+// thrust-limited ceiling of Envelope. LRC is taken within the 1 g MachBand,
+// so the limit does not depend on the buffet floor. NaN when there is none
+// at FL100, FL650 when the limit lies higher. Cost: as MaxFLBuffet, with an
+// LRC search (a few dozen specific-range evaluations) per level tried.
+func (a *Aircraft) MaxFLThrust(mass, isaDev float64) float64 {
+	return highestLevel(func(fl float64) bool {
 		p := FLToPressure(fl)
 		lo, hi, ok := a.MachBand(mass, p, isaDev, 1)
 		if !ok {
@@ -122,15 +148,7 @@ func (a *Aircraft) Envelope(mass, isaDev, floor float64) (Envelope, error) {
 		tisa := isaTemperatureAtPressure(p)
 		lrc, _ := a.lrcIn(mass, p, tisa+isaDev, tisa, lo, hi)
 		return a.residualClimb(mass, p, isaDev, lrc) >= minResidualClimb
-	}
-	env.MaxFLBuffet = highestLevel(buffetOK)
-	env.MaxFLThrust = highestLevel(thrustOK)
-	env.MaxFL = math.Min(env.MaxFLCertified, math.Min(env.MaxFLBuffet, env.MaxFLThrust))
-	env.OptimumFL = nan
-	if bestRow >= 0 && !math.IsNaN(env.MaxFL) {
-		env.OptimumFL, _ = a.optimumLevel(mass, isaDev, floor, env.Rows[bestRow].FL, env.MaxFL)
-	}
-	return env, nil
+	})
 }
 
 // ReportFL is the one rounding rule for printing a continuous level (a

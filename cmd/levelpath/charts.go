@@ -12,21 +12,6 @@ import (
 	"levelpath/perf"
 )
 
-// profileInput collects what the profile chart and report draw.
-func profileInput(plan *optimizer.Plan, pr *optimizer.Problem) chart.ProfileInput {
-	set := map[int]bool{}
-	var levels []int
-	for _, s := range pr.Track.Segments {
-		for _, l := range s.Levels {
-			if !set[l] && l >= 250 {
-				set[l] = true
-				levels = append(levels, l)
-			}
-		}
-	}
-	return chart.ProfileInput{Plan: plan, Levels: levels, Title: plan.Aircraft + " " + plan.Profile.String()}
-}
-
 // checkOutputs checks the --chart and --report file names before any
 // work is done: a known extension and an existing directory.
 func checkOutputs(chartPath, reportPath string) error {
@@ -54,7 +39,7 @@ func checkOutputs(chartPath, reportPath string) error {
 // writeCharts draws the profile chart and the report when asked (their
 // names checked by checkOutputs).
 func writeCharts(chartPath, reportPath string, plan *optimizer.Plan, pr *optimizer.Problem) error {
-	in := profileInput(plan, pr)
+	in := chart.ProfileFor(plan, pr)
 	if chartPath != "" {
 		if err := chart.WriteFile(chartPath, func(w io.Writer, format string) error { return chart.Profile(w, format, in) }); err != nil {
 			return chartErr(err)

@@ -32,7 +32,7 @@ func TestLibraryMatchesCLI(t *testing.T) {
 		t.Fatal(err)
 	}
 	pl := &batch.SchedulePlanner{Weather: wx, MaxSegment: 50 * perf.NMToM,
-		Steps: optimizer.StepRules{MaxChange: 4000, MinDistance: 100 * perf.NMToM}} // the CLI's default step rules
+		Steps: optimizer.StepRules{MaxChange: 4000 * perf.FtToM, MinDistance: 100 * perf.NMToM}} // the CLI's default step rules
 	libOut := filepath.Join(dir, "lib")
 	if _, err := batch.Run(context.Background(), rows, bad, pl.Plan, batch.Options{Out: libOut, Workers: 2}); err != nil {
 		t.Fatal(err)

@@ -5,8 +5,6 @@ import (
 	"io"
 	"math"
 	"os"
-	"strconv"
-	"strings"
 	"time"
 
 	"github.com/spf13/cobra"
@@ -283,58 +281,22 @@ func buildTrackPolar(arg, levels, polar string, maxSegNM float64, date string, d
 	return tr, nil
 }
 
-// maxBlockNM bounds the NM distances of --block and --min-step-nm: ten
-// times the longest flight (about 10,000 NM), so every real value passes
-// and no arithmetic on one overflows.
-const maxBlockNM = 1e5
-
-// parseBlock reads "FL370,FL390@1200-1800": levels FL010 to FL600 in
-// steps of 10, distances in NM from departure with 0 <= FROM < TO <=
-// maxBlockNM.
+// parseBlock reads --block with the optimizer's parser.
 func parseBlock(s string) (optimizer.Block, error) {
-	var b optimizer.Block
-	lv, rng, ok := strings.Cut(s, "@")
-	from, to, ok2 := strings.Cut(rng, "-")
-	if !ok || !ok2 {
-		return b, badInputf("--block %q: want FL370,FL390@FROM_NM-TO_NM", s)
-	}
-	x, err1 := strconv.ParseFloat(strings.TrimSpace(from), 64)
-	y, err2 := strconv.ParseFloat(strings.TrimSpace(to), 64)
-	if err1 != nil || err2 != nil || !(x >= 0) || !(y > x) || !(y <= maxBlockNM) {
-		return b, badInputf("--block %q: distances must be numbers of NM with 0 <= FROM < TO <= %.0f", s, float64(maxBlockNM))
-	}
-	b.FromDist, b.ToDist = x*perf.NMToM, y*perf.NMToM
-	for l := range strings.SplitSeq(lv, ",") {
-		n, err := route.ParseFL(l)
-		if err != nil {
-			return b, badInputf("--block %q: level %q %v", s, l, err)
-		}
-		b.Levels = append(b.Levels, n)
+	b, err := optimizer.ParseBlock(s)
+	if err != nil {
+		return b, badInputf("--block %s", optimizer.InputMsg(err))
 	}
 	return b, nil
 }
 
-// parseTurbulence reads "0.20:1.5,0.45:closed".
+// parseTurbulence reads --turbulence with the optimizer's parser.
 func parseTurbulence(s string) ([]optimizer.TurbulenceRule, error) {
-	var out []optimizer.TurbulenceRule
-	for part := range strings.SplitSeq(s, ",") {
-		e, v, ok := strings.Cut(strings.TrimSpace(part), ":")
-		edr, err := strconv.ParseFloat(strings.TrimSpace(e), 64)
-		if !ok || err != nil || !(edr > 0) || math.IsInf(edr, 0) {
-			return nil, badInputf("--turbulence %q: item %q: want EDR:FLOOR or EDR:closed", s, part)
-		}
-		r := optimizer.TurbulenceRule{EDR: edr}
-		v = strings.TrimSpace(v)
-		if v == "closed" {
-			r.Closed = true
-		} else if fl, err := strconv.ParseFloat(v, 64); err == nil && optimizer.CheckFloor(fl) == nil {
-			r.Floor = fl
-		} else {
-			return nil, badInputf("--turbulence %q: item %q: floor must be %.1f..%.1f g or closed", s, part, optimizer.MinFloor, optimizer.MaxFloor)
-		}
-		out = append(out, r)
+	r, err := optimizer.ParseTurbulence(s)
+	if err != nil {
+		return nil, badInputf("--turbulence %s", optimizer.InputMsg(err))
 	}
-	return out, nil
+	return r, nil
 }
 
 // planErr maps optimizer errors to exit codes.
@@ -360,22 +322,17 @@ func clampMagDate(d time.Time, stderr io.Writer) time.Time {
 	return d
 }
 
-// stepRules checks the step flags and builds the rules.
+// stepFlags names the flag of each step rule field.
+var stepFlags = map[string]string{"Steps.MinDistance": "--min-step-nm", "Steps.MaxChange": "--max-step-ft", "Steps.MaxSteps": "--max-steps"}
+
+// stepRules builds the step rules from the flags (optimizer.NewStepRules),
+// an error naming the flag.
 func stepRules(maxStepFt int, descents bool, minStepNM float64, maxSteps int, none bool) (optimizer.StepRules, error) {
-	if !(minStepNM >= 0 && minStepNM <= maxBlockNM) {
-		return optimizer.StepRules{}, badInputf("--min-step-nm %v: must lie in 0..%.0f", minStepNM, float64(maxBlockNM))
+	r, err := optimizer.NewStepRules(maxStepFt, descents, minStepNM, maxSteps, none)
+	if ie, ok := err.(*optimizer.InputError); ok {
+		return r, badInputf("%s %s", stepFlags[ie.Field], ie.Msg)
 	}
-	if maxStepFt < 1000 || maxStepFt > 10000 {
-		return optimizer.StepRules{}, badInputf("--max-step-ft %d: must lie in 1000..10000", maxStepFt)
-	}
-	if maxSteps < 0 {
-		return optimizer.StepRules{}, badInputf("--max-steps %d: must be 0 or more", maxSteps)
-	}
-	minStep := minStepNM * perf.NMToM
-	if minStep == 0 {
-		minStep = -1 // no minimum
-	}
-	return optimizer.StepRules{MaxChange: maxStepFt, AllowDescent: descents, MinDistance: minStep, MaxSteps: maxSteps, NoSteps: none}, nil
+	return r, err
 }
 
 // checkFloorFlag checks --floor with the optimizer's one floor range.

@@ -90,7 +90,7 @@ type BlockedLevels struct {
 }
 
 func policy(p optimizer.Policy) Policy {
-	d := Policy{MaxStepFt: float64(p.Steps.MaxChange), StepDescents: p.Steps.AllowDescent, MinStepNM: p.Steps.MinDistance / mPerNM,
+	d := Policy{MaxStepFt: math.Round(p.Steps.MaxChange / perf.FtToM), StepDescents: p.Steps.AllowDescent, MinStepNM: p.Steps.MinDistance / mPerNM,
 		MaxSteps: p.Steps.MaxSteps, NoSteps: p.Steps.NoSteps, MinFL: p.MinFL, MaxFL: p.MaxFL, MassBucketKg: p.MassBucket,
 		ClimbCASLowKt: p.Climb.CASLow / msPerKt, ClimbCASKt: p.Climb.CAS / msPerKt, ClimbMach: p.Climb.Mach,
 		DescentCASLowKt: p.Descent.CASLow / msPerKt, DescentCASKt: p.Descent.CAS / msPerKt, DescentMach: p.Descent.Mach,

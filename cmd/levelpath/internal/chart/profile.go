@@ -22,6 +22,23 @@ type ProfileInput struct {
 	Title  string // chart and page title; a default names the aircraft and CI
 }
 
+// ProfileFor is what the command line and the service draw for plan on
+// problem pr: the levels the route allows from FL250 up as guides, and the
+// aircraft and profile as title.
+func ProfileFor(plan *optimizer.Plan, pr *optimizer.Problem) ProfileInput {
+	set := map[int]bool{}
+	var levels []int
+	for _, s := range pr.Track.Segments {
+		for _, l := range s.Levels {
+			if !set[l] && l >= 250 {
+				set[l] = true
+				levels = append(levels, l)
+			}
+		}
+	}
+	return ProfileInput{Plan: plan, Levels: levels, Title: plan.Aircraft + " " + plan.Profile.String()}
+}
+
 // checkPlan returns a FormatError for a plan that cannot be drawn: nil, no
 // legs, a leg with a non-finite or decreasing distance or level, or a level
 // guide outside FL000..FL999.

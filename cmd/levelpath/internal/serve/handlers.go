@@ -125,7 +125,7 @@ func (s *Server) priced(w http.ResponseWriter, r *http.Request, kind string) err
 		svg := ""
 		if req.Chart {
 			var buf bytes.Buffer
-			if err := chart.Profile(&buf, "svg", profileInput(plan, pr)); err != nil {
+			if err := chart.Profile(&buf, "svg", chart.ProfileFor(plan, pr)); err != nil {
 				return result{}, err
 			}
 			svg = buf.String()
@@ -182,22 +182,6 @@ func checkFlight(f string) error {
 		}
 	}
 	return nil
-}
-
-// profileInput collects what the profile chart draws, as the command
-// line's profileInput does.
-func profileInput(plan *optimizer.Plan, pr *optimizer.Problem) chart.ProfileInput {
-	set := map[int]bool{}
-	var levels []int
-	for _, s := range pr.Track.Segments {
-		for _, l := range s.Levels {
-			if !set[l] && l >= 250 {
-				set[l] = true
-				levels = append(levels, l)
-			}
-		}
-	}
-	return chart.ProfileInput{Plan: plan, Levels: levels, Title: plan.Aircraft + " " + plan.Profile.String()}
 }
 
 func (s *Server) plans(w http.ResponseWriter, r *http.Request) error {

@@ -50,7 +50,7 @@ func TestPlanMatchesLibrary(t *testing.T) {
 		t.Fatal(err)
 	}
 	pr := &optimizer.Problem{Aircraft: ac, Weather: wx, CI: 15, Floor: 1.3, TakeoffMass: 36500, Depart: dep, Track: tr, LegCeilings: true,
-		Steps: optimizer.StepRules{MaxChange: 4000, MinDistance: 100 * perf.NMToM}}
+		Steps: optimizer.StepRules{MaxChange: 4000 * perf.FtToM, MinDistance: 100 * perf.NMToM}}
 	pr.Speed, _ = optimizer.ParseSpeed("econ")
 	plan, err := optimizer.Solve(pr)
 	if err != nil {

@@ -7,7 +7,6 @@ import (
 	"encoding/json"
 	"fmt"
 	"math"
-	"strconv"
 	"strings"
 	"time"
 
@@ -297,73 +296,38 @@ func clampMagDate(d time.Time, in *inputs) time.Time {
 	return d
 }
 
-// stepRules checks the step fields as the command line's stepRules.
+// stepRules builds the step rules from the request (optimizer.NewStepRules,
+// the command line's defaults), an error naming the field.
 func stepRules(req *planRequest) (optimizer.StepRules, error) {
-	maxStepFt, minStepNM := 4000, 100.0
+	maxStepFt, minStepNM := optimizer.DefaultMaxStepFt, float64(optimizer.DefaultMinStepNM)
 	if req.MaxStepFt != nil {
 		maxStepFt = *req.MaxStepFt
 	}
 	if req.MinStepNM != nil {
 		minStepNM = *req.MinStepNM
 	}
-	if math.IsNaN(minStepNM) || minStepNM < 0 {
-		return optimizer.StepRules{}, fieldErr("min_step_nm", "--min-step-nm %v: must be 0 or more", minStepNM)
+	r, err := optimizer.NewStepRules(maxStepFt, req.StepDescents, minStepNM, req.MaxSteps, req.NoSteps)
+	if ie, ok := err.(*optimizer.InputError); ok {
+		f := optimizerFields[ie.Field]
+		return r, fieldErr(f, "--%s %s", strings.ReplaceAll(f, "_", "-"), ie.Msg)
 	}
-	if maxStepFt < 1000 || maxStepFt > 10000 {
-		return optimizer.StepRules{}, fieldErr("max_step_ft", "--max-step-ft %d: must lie in 1000..10000", maxStepFt)
-	}
-	if req.MaxSteps < 0 {
-		return optimizer.StepRules{}, fieldErr("max_steps", "--max-steps %d: must be 0 or more", req.MaxSteps)
-	}
-	minStep := minStepNM * perf.NMToM
-	if minStep == 0 {
-		minStep = -1 // no minimum
-	}
-	return optimizer.StepRules{MaxChange: maxStepFt, AllowDescent: req.StepDescents, MinDistance: minStep, MaxSteps: req.MaxSteps, NoSteps: req.NoSteps}, nil
+	return r, err
 }
 
-// parseBlock reads "FL370,FL390@1200-1800" as the command line does.
+// parseBlock reads a block as the command line does.
 func parseBlock(s string) (optimizer.Block, error) {
-	var b optimizer.Block
-	lv, rng, ok := strings.Cut(s, "@")
-	from, to, ok2 := strings.Cut(rng, "-")
-	if !ok || !ok2 {
-		return b, fieldErr("block", "--block %q: want FL370,FL390@FROM_NM-TO_NM", s)
-	}
-	x, err1 := strconv.ParseFloat(from, 64)
-	y, err2 := strconv.ParseFloat(to, 64)
-	if err1 != nil || err2 != nil || !(x >= 0) || !(y > x) {
-		return b, fieldErr("block", "--block %q: distances must be numbers with FROM < TO", s)
-	}
-	b.FromDist, b.ToDist = x*perf.NMToM, y*perf.NMToM
-	for l := range strings.SplitSeq(lv, ",") {
-		n, err := route.ParseFL(l)
-		if err != nil {
-			return b, fieldErr("block", "--block %q: level %q %v", s, l, err)
-		}
-		b.Levels = append(b.Levels, n)
+	b, err := optimizer.ParseBlock(s)
+	if err != nil {
+		return b, fieldErr("block", "--block %s", optimizer.InputMsg(err))
 	}
 	return b, nil
 }
 
-// parseTurbulence reads "0.20:1.5,0.45:closed" as the command line does.
+// parseTurbulence reads turbulence rules as the command line does.
 func parseTurbulence(s string) ([]optimizer.TurbulenceRule, error) {
-	var out []optimizer.TurbulenceRule
-	for part := range strings.SplitSeq(s, ",") {
-		e, v, ok := strings.Cut(strings.TrimSpace(part), ":")
-		edr, err := strconv.ParseFloat(e, 64)
-		if !ok || err != nil || !(edr > 0) {
-			return nil, fieldErr("turbulence", "--turbulence %q: item %q: want EDR:FLOOR or EDR:closed", s, part)
-		}
-		r := optimizer.TurbulenceRule{EDR: edr}
-		if v == "closed" {
-			r.Closed = true
-		} else if fl, err := strconv.ParseFloat(v, 64); err == nil && optimizer.CheckFloor(fl) == nil {
-			r.Floor = fl
-		} else {
-			return nil, fieldErr("turbulence", "--turbulence %q: item %q: floor must be %.1f..%.1f g or closed", s, part, optimizer.MinFloor, optimizer.MaxFloor)
-		}
-		out = append(out, r)
+	r, err := optimizer.ParseTurbulence(s)
+	if err != nil {
+		return nil, fieldErr("turbulence", "--turbulence %s", optimizer.InputMsg(err))
 	}
-	return out, nil
+	return r, nil
 }
