@@ -160,7 +160,7 @@ func ReportFL(fl float64) float64 { return math.Floor(fl + 1e-9) }
 // residualClimb is Point's ResidualClimb at Mach m.
 func (a *Aircraft) residualClimb(mass, p, isaDev, m float64) float64 {
 	if a.tab != nil {
-		return at4(a.tab.ROCClimb, mass, p, m, isaDev)
+		return at4(a.tab.ROCClimb, mass, PressureToFL(p), m, isaDev)
 	}
 	tisa := isaTemperatureAtPressure(p)
 	t := tisa + isaDev

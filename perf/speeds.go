@@ -139,7 +139,7 @@ func bisectSeg(x0, y0, x1, y1, xa, xb, c float64) float64 {
 // (m/s), which has the same sign.
 func (a *Aircraft) excessThrust(mass, p, t, tisa, mach, cosL float64) float64 {
 	if a.tab != nil {
-		return at4(a.tab.ROCCruise, mass, p, mach, t-tisa)
+		return at4(a.tab.ROCCruise, mass, PressureToFL(p), mach, t-tisa)
 	}
 	d, _, _ := a.drag(mass, p, mach, cosL)
 	return a.climbThrust(p, t, tisa, mach)*a.Engines.CruiseRatio - d
@@ -272,6 +272,9 @@ func (a *Aircraft) SpeedBand(mass, p, isaDev, floor float64) (Band, bool) {
 	t := tisa + isaDev
 	cosL := math.Cos(a.Sweep)
 	excess := func(m float64) float64 { return a.excessThrust(mass, p, t, tisa, m, cosL) }
+	if a.tab != nil {
+		excess = a.tableExcessFn(mass, p, t, tisa)
+	}
 	elo, ehi := excess(lo), excess(hi)
 	if math.IsNaN(elo) || math.IsNaN(ehi) {
 		// Only a table aircraft queried outside its thrust table.
@@ -310,7 +313,7 @@ func (a *Aircraft) econCost(mass, p, t, tisa, mach, cosL, ciPerS, wind float64) 
 		return math.Inf(1)
 	}
 	if a.tab != nil {
-		return (a.tableFF(mass, p, mach, t-tisa) + ciPerS) / gs
+		return (a.tableFF(mass, PressureToFL(p), mach, t-tisa) + ciPerS) / gs
 	}
 	d, _, _ := a.drag(mass, p, mach, cosL)
 	return (a.fuelFlow(d, a.climbThrust(p, t, tisa, mach), t, mach) + ciPerS) / gs
@@ -333,6 +336,9 @@ func (a *Aircraft) EconMach(mass, p, isaDev, floor, ci, windAlong float64) (floa
 
 func (a *Aircraft) econMachIn(mass, p, t, tisa, lo, hi, ciPerS, wind float64) float64 {
 	cosL := math.Cos(a.Sweep)
+	if a.tab != nil {
+		return a.tableEconMach(mass, p, t, tisa, lo, hi, ciPerS, wind)
+	}
 	f := func(m float64) float64 { return a.econCost(mass, p, t, tisa, m, cosL, ciPerS, wind) }
 	best, fb := brentMin(lo, hi, machTol, f)
 	if fl := f(lo); fl < fb {
@@ -353,7 +359,7 @@ func (a *Aircraft) MaxRangeMach(mass, p, isaDev, floor float64) (float64, bool) 
 // specificRange returns TAS/fuel flow (m/kg) at level flight.
 func (a *Aircraft) specificRange(mass, p, t, tisa, mach, cosL float64) float64 {
 	if a.tab != nil {
-		return mach * SpeedOfSound(t) / a.tableFF(mass, p, mach, t-tisa)
+		return mach * SpeedOfSound(t) / a.tableFF(mass, PressureToFL(p), mach, t-tisa)
 	}
 	d, _, _ := a.drag(mass, p, mach, cosL)
 	return mach * SpeedOfSound(t) / a.fuelFlow(d, a.climbThrust(p, t, tisa, mach), t, mach)
@@ -378,10 +384,14 @@ func (a *Aircraft) LRCMach(mass, p, isaDev, floor float64) (float64, bool) {
 func (a *Aircraft) lrcIn(mass, p, t, tisa, lo, hi float64) (lrc, mr float64) {
 	cosL := math.Cos(a.Sweep)
 	mr = a.econMachIn(mass, p, t, tisa, lo, hi, 0, 0)
-	target := 0.99 * a.specificRange(mass, p, t, tisa, mr, cosL)
-	if a.specificRange(mass, p, t, tisa, hi, cosL) >= target {
+	sr := func(m float64) float64 { return a.specificRange(mass, p, t, tisa, m, cosL) }
+	if a.tab != nil {
+		sr = a.tableSRFn(mass, p, t, tisa)
+	}
+	target := 0.99 * sr(mr)
+	if sr(hi) >= target {
 		return hi, mr
 	}
-	excess := func(m float64) float64 { return a.specificRange(mass, p, t, tisa, m, cosL) - target }
+	excess := func(m float64) float64 { return sr(m) - target }
 	return rootEdge(mr, hi, excess(mr), excess(hi), machTol, excess), mr
 }

@@ -55,9 +55,11 @@ func (g *Grid) At(x ...float64) (float64, error) {
 	if n > 6 {
 		return math.NaN(), fmt.Errorf("perf: table %s: %d axes, at most 6 supported", g.Name, n)
 	}
-	var idx [6]int
 	var frac [6]float64
-	for i, ax := range g.Axes {
+	var step [6]int // offset to the upper neighbour along each axis (0 for one value)
+	base, stride := 0, 1
+	for i := n - 1; i >= 0; i-- {
+		ax := g.Axes[i]
 		v := ax.Values
 		lo, hi := v[0], v[len(v)-1]
 		xi := x[i]
@@ -71,33 +73,33 @@ func (g *Grid) At(x ...float64) (float64, error) {
 		if !(xi >= lo && xi <= hi) {
 			return math.NaN(), &OutOfTableError{Table: g.Name, Axis: ax.Name, Value: x[i], Min: lo, Max: hi}
 		}
-		if len(v) == 1 {
-			continue
+		if len(v) > 1 {
+			j := sort.SearchFloat64s(v, xi) // first v[j] >= x
+			if j == 0 {
+				j = 1
+			}
+			base += (j - 1) * stride
+			frac[i] = (xi - v[j-1]) / (v[j] - v[j-1])
+			step[i] = stride
 		}
-		j := sort.SearchFloat64s(v, xi) // first v[j] >= x
-		if j == 0 {
-			j = 1
-		}
-		idx[i] = j - 1
-		frac[i] = (xi - v[j-1]) / (v[j] - v[j-1])
+		stride *= len(v)
 	}
-	// Sum over the corners of the cell, weights the products of fractions.
+	// Sum over the corners of the cell, weights the products of fractions;
+	// a corner of zero weight is skipped (its value may be NaN, blank).
 	var sum float64
 	for c := 0; c < 1<<n; c++ {
-		w, off := 1.0, 0
+		w, off := 1.0, base
 		for i := range n {
-			k := idx[i]
 			if c&(1<<i) != 0 {
-				if len(g.Axes[i].Values) == 1 {
+				if step[i] == 0 {
 					w = 0
 					break
 				}
-				k++
+				off += step[i]
 				w *= frac[i]
 			} else {
 				w *= 1 - frac[i]
 			}
-			off = off*len(g.Axes[i].Values) + k
 		}
 		if w != 0 {
 			sum += w * g.Values[off]
@@ -217,11 +219,11 @@ func ReadGridsCSV(r io.Reader, file string, axes []ColumnSpec, values []ColumnSp
 		}
 		factor[i] = f
 	}
-	type row struct {
-		line int
-		x    []float64
-	}
-	var rows []row
+	// Rows are kept in one flat slice, nc numbers each (one allocation
+	// per doubling, not per row), and their lines beside it.
+	nc := len(specs)
+	var flat []float64
+	var lines []int
 	distinct := make([]map[float64]bool, na)
 	for i := range distinct {
 		distinct[i] = map[float64]bool{}
@@ -235,10 +237,11 @@ func ReadGridsCSV(r io.Reader, file string, axes []ColumnSpec, values []ColumnSp
 			return nil, csvErr(file, err)
 		}
 		line, _ := cr.FieldPos(0)
-		if len(rows) >= maxTableRows {
+		if len(lines) >= maxTableRows {
 			return nil, &TableError{File: file, Line: line, Reason: fmt.Sprintf("more than %d rows", maxTableRows)}
 		}
-		x := make([]float64, len(specs))
+		flat = append(flat, make([]float64, nc)...)
+		x := flat[len(flat)-nc:]
 		for i, f := range rec {
 			f = strings.TrimSpace(f)
 			if f == "" && i >= na && specs[i].Blank {
@@ -260,9 +263,9 @@ func ReadGridsCSV(r io.Reader, file string, axes []ColumnSpec, values []ColumnSp
 				return nil, &TableError{File: file, Line: line, Column: head[i], Reason: "more than 1,000 distinct values on one axis"}
 			}
 		}
-		rows = append(rows, row{line, x})
+		lines = append(lines, line)
 	}
-	if len(rows) == 0 {
+	if len(lines) == 0 {
 		return nil, &TableError{File: file, Reason: "no rows"}
 	}
 	ax := make([]Axis, na)
@@ -284,18 +287,19 @@ func ReadGridsCSV(r io.Reader, file string, axes []ColumnSpec, values []ColumnSp
 		gs[j] = &Grid{Name: file, Value: v.SI, Axes: ax, Values: make([]float64, size)}
 	}
 	seen := make([]int, size) // line of the row that set each point
-	for _, r := range rows {
+	for r, line := range lines {
+		x := flat[r*nc : (r+1)*nc]
 		off := 0
 		for i, a := range ax {
-			k, _ := slices.BinarySearch(a.Values, r.x[i])
+			k, _ := slices.BinarySearch(a.Values, x[i])
 			off = off*len(a.Values) + k
 		}
 		if seen[off] != 0 {
-			return nil, &TableError{File: file, Line: r.line, Reason: fmt.Sprintf("duplicates the grid point of line %d", seen[off])}
+			return nil, &TableError{File: file, Line: line, Reason: fmt.Sprintf("duplicates the grid point of line %d", seen[off])}
 		}
-		seen[off] = r.line
+		seen[off] = line
 		for j := range gs {
-			gs[j].Values[off] = r.x[na+j]
+			gs[j].Values[off] = x[na+j]
 		}
 	}
 	for off, l := range seen {

@@ -70,19 +70,70 @@ func (a *Aircraft) CheckTransitionLevel(fl float64) error {
 	return nil
 }
 
-// at4 looks g up at (mass, FL of p, mach, isaDev); NaN outside the table.
-func at4(g *Grid, mass, p, mach, isaDev float64) float64 {
-	v, err := g.At(mass, PressureToFL(p), mach, isaDev)
+// at4 looks g up at (mass, fl, mach, isaDev); NaN outside the table.
+func at4(g *Grid, mass, fl, mach, isaDev float64) float64 {
+	v, err := g.At(mass, fl, mach, isaDev)
 	if err != nil {
 		return math.NaN()
 	}
 	return v
 }
 
-// tableFF is the table's level-flight fuel flow (kg/s) with the
-// performance factor.
-func (a *Aircraft) tableFF(mass, p, mach, isaDev float64) float64 {
-	return at4(a.tab.CruiseFuelFlow, mass, p, mach, isaDev) * a.fuelFactor()
+// tableFF is the table's level-flight fuel flow (kg/s) at level fl with
+// the performance factor.
+func (a *Aircraft) tableFF(mass, fl, mach, isaDev float64) float64 {
+	return at4(a.tab.CruiseFuelFlow, mass, fl, mach, isaDev) * a.fuelFactor()
+}
+
+// The searches over Mach at one level (SpeedBand, EconMach, LRCMach) ask
+// for many Machs at one pressure; for a table aircraft these return the
+// function of Mach they search, converting the pressure to a level once.
+
+// tableExcessFn is excessThrust of a table aircraft as a function of Mach.
+func (a *Aircraft) tableExcessFn(mass, p, t, tisa float64) func(float64) float64 {
+	fl, dev := PressureToFL(p), t-tisa
+	return func(m float64) float64 { return at4(a.tab.ROCCruise, mass, fl, m, dev) }
+}
+
+// tableEconCostFn is econCost of a table aircraft as a function of Mach.
+func (a *Aircraft) tableEconCostFn(mass, p, t, tisa, ciPerS, wind float64) func(float64) float64 {
+	fl, dev, snd := PressureToFL(p), t-tisa, SpeedOfSound(t)
+	return func(m float64) float64 {
+		gs := m*snd + wind
+		if !(gs > 0) {
+			return math.Inf(1)
+		}
+		return (a.tableFF(mass, fl, m, dev) + ciPerS) / gs
+	}
+}
+
+// tableEconMach is econMachIn for a table aircraft. Between two Machs of
+// the cruise table the interpolated fuel flow is linear in Mach, α + βM,
+// so the cost (α + βM + c)/(sM + w) is monotone there (its derivative has
+// the constant sign of βw - s(α + c)): the least cost over [lo, hi] lies
+// at lo, hi or a Mach of the table between them, and all of them are
+// compared (exact for the interpolated table, unlike a unimodal search).
+// Cost: one look-up per table Mach in the band, plus two.
+func (a *Aircraft) tableEconMach(mass, p, t, tisa, lo, hi, ciPerS, wind float64) float64 {
+	f := a.tableEconCostFn(mass, p, t, tisa, ciPerS, wind)
+	best, fb := lo, f(lo)
+	for _, m := range a.tab.CruiseFuelFlow.Axes[2].Values {
+		if m > lo && m < hi {
+			if fm := f(m); fm < fb {
+				best, fb = m, fm
+			}
+		}
+	}
+	if fh := f(hi); fh < fb {
+		best = hi
+	}
+	return best
+}
+
+// tableSRFn is specificRange of a table aircraft as a function of Mach.
+func (a *Aircraft) tableSRFn(mass, p, t, tisa float64) func(float64) float64 {
+	fl, dev, snd := PressureToFL(p), t-tisa, SpeedOfSound(t)
+	return func(m float64) float64 { return m * snd / a.tableFF(mass, fl, m, dev) }
 }
 
 // tablePoint is Point from the tables.
@@ -101,13 +152,14 @@ func (a *Aircraft) tablePoint(s State) Point {
 	cl1 := s.Mass * G0 / (0.5 * Gamma * s.Pressure * s.Mach * s.Mach * a.WingArea)
 	pt.CL = cl1 * n
 	pt.CD, pt.Drag, pt.MaxClimbThrust, pt.MaxCruiseThrust = nan, nan, nan, nan
-	pt.FuelFlow = a.tableFF(s.Mass, s.Pressure, s.Mach, s.ISADev)
+	fl := PressureToFL(s.Pressure)
+	pt.FuelFlow = a.tableFF(s.Mass, fl, s.Mach, s.ISADev)
 	pt.SpecificRange = pt.TAS / pt.FuelFlow
 	pt.BuffetCL = a.buffetCL(s.Mach)
 	pt.BuffetMargin = pt.BuffetCL / cl1
-	pt.ResidualClimb = at4(a.tab.ROCClimb, s.Mass, s.Pressure, s.Mach, s.ISADev)
+	pt.ResidualClimb = at4(a.tab.ROCClimb, s.Mass, fl, s.Mach, s.ISADev)
 	// Outside the table (NaN) counts as limited: never feasible by default.
-	pt.ThrustLimited = !(at4(a.tab.ROCCruise, s.Mass, s.Pressure, s.Mach, s.ISADev) >= 0)
+	pt.ThrustLimited = !(at4(a.tab.ROCCruise, s.Mass, fl, s.Mach, s.ISADev) >= 0)
 	return pt
 }
 
