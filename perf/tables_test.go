@@ -156,3 +156,31 @@ func TestTablesUnreachableLevel(t *testing.T) {
 		t.Errorf("no blank entry at 40000 kg, FL450, ISA+20 in %s", ClimbFile)
 	}
 }
+
+// A thrust ceiling above the top of the tables is reported as reached at
+// their top, and flagged: never extrapolated, never silent.
+func TestTablesEnvelopeTop(t *testing.T) {
+	a := mustBuiltin(t, "demo-regional")
+	dir := t.TempDir()
+	if err := a.ExportTables(dir, smallGrid()); err != nil {
+		t.Fatal(err)
+	}
+	ta, err := Load(dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	em, err := a.Envelope(a.OEW, 0, 1.3)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !(em.MaxFLThrust > 410) {
+		t.Skipf("the model's thrust ceiling at OEW is FL%.0f, not above the table's FL410", em.MaxFLThrust)
+	}
+	et, err := ta.Envelope(a.OEW, 0, 1.3)
+	if err != nil || et.MaxFLThrust != 410 || !et.MaxFLThrustAtTableTop || em.MaxFLThrustAtTableTop {
+		t.Errorf("tables: thrust ceiling FL%v at top %v (%v); model FL%.1f at top %v", et.MaxFLThrust, et.MaxFLThrustAtTableTop, err, em.MaxFLThrust, em.MaxFLThrustAtTableTop)
+	}
+	if et.MaxFLBuffet != em.MaxFLBuffet {
+		t.Errorf("buffet ceiling from tables FL%.3f, model FL%.3f (the same buffet table)", et.MaxFLBuffet, em.MaxFLBuffet)
+	}
+}

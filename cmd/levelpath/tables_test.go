@@ -56,6 +56,13 @@ func TestPlanFromExportedTables(t *testing.T) {
 	if rel := abs(ct-cm) / cm; rel > 0.003 {
 		t.Errorf("cost from tables %.1f, from the model %.1f: %.3f %% apart, want at most 0.3 %%", ct, cm, 100*rel)
 	}
+	found := false
+	for _, w := range tab["warnings"].([]any) {
+		found = found || strings.Contains(w.(string), "performance from the operator tables "+dir)
+	}
+	if !found {
+		t.Errorf("the plan from tables does not say so: warnings %v", tab["warnings"])
+	}
 	nm, sm := stepSegments(t, model)
 	nt, st := stepSegments(t, tab)
 	if strings.Join(nm, " ") != strings.Join(nt, " ") {
