@@ -97,3 +97,50 @@ func TestReadGridCSVErrors(t *testing.T) {
 		}
 	}
 }
+
+// The climb table's other units read back to the same SI values: pounds
+// (0.45359237 kg exactly, International Yard and Pound Agreement, 1959),
+// feet of pressure altitude (FL = ft/100), seconds and kilometres against
+// minutes and nautical miles (1,852 m exactly, ICAO Annex 5, table 3-3);
+// a blank entry stays blank (NaN) and a blank in a column that may not be
+// blank is refused.
+func TestTransitionTableUnits(t *testing.T) {
+	a := mustBuiltin(t, "demo-regional")
+	gs, err := a.TransitionGrids(true, []float64{24000, 40000}, []float64{15, 200, 450}, []float64{0, 20})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var si, other bytes.Buffer
+	if err := WriteGridsCSV(&si, gs[:], []string{"mass_kg", "fl", "isa_dev_c", "time_min", "fuel_kg", "distance_nm"}, []float64{1, 1, 1, 60, 1, 1852}); err != nil {
+		t.Fatal(err)
+	}
+	if err := WriteGridsCSV(&other, gs[:], []string{"mass_lb", "altitude_ft", "isa_dev_k", "time_s", "fuel_lb", "distance_km"}, []float64{0.45359237, 0.01, 1, 1, 0.45359237, 1000}); err != nil {
+		t.Fatal(err)
+	}
+	r1, err1 := ReadGridsCSV(&si, "si.csv", transitionAxes, transitionValues)
+	r2, err2 := ReadGridsCSV(&other, "other.csv", transitionAxes, transitionValues)
+	if err1 != nil || err2 != nil {
+		t.Fatal(err1, err2)
+	}
+	blanks := 0
+	for j := range gs {
+		for off, want := range gs[j].Values {
+			for _, r := range [][]*Grid{r1, r2} {
+				got := r[j].Values[off]
+				if math.IsNaN(want) != math.IsNaN(got) || !math.IsNaN(want) && math.Abs(got-want) > 1e-9*(1+math.Abs(want)) {
+					t.Errorf("%s %s at %s: %v, want %v", r[j].Name, r[j].Value, gs[j].pointName(off), got, want)
+				}
+			}
+			if math.IsNaN(want) {
+				blanks++
+			}
+		}
+	}
+	if blanks == 0 {
+		t.Error("no blank entry (MTOW to FL450 at ISA+20 was expected unreachable for demo-regional)")
+	}
+	_, err = ReadGridCSV(strings.NewReader("mass_kg,fl,fuel_flow_kg_h\n60000,350,\n"), "t.csv", []ColumnSpec{ColMass, ColLevel}, ColFuelFF)
+	if err == nil || !strings.Contains(err.Error(), `t.csv:2: column fuel_flow_kg_h: "" is not a finite number`) {
+		t.Errorf("blank fuel flow: %v", err)
+	}
+}
