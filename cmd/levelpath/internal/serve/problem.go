@@ -183,8 +183,8 @@ func (s *Server) aircraft(name string) (*perf.Aircraft, string, error) {
 	p, err := s.data.resolve(name)
 	if err != nil {
 		// Or a directory of operator tables.
-		if tp, terr := s.data.resolveTables(name); terr == nil {
-			p, err = tp, nil
+		if tp, isDir, terr := s.data.resolveTables(name); isDir {
+			p, err = tp, terr
 		}
 	}
 	if err != nil {
