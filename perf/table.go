@@ -224,9 +224,12 @@ func ReadGridsCSV(r io.Reader, file string, axes []ColumnSpec, values []ColumnSp
 	nc := len(specs)
 	var flat []float64
 	var lines []int
-	distinct := make([]map[float64]bool, na)
+	// distinct[i] counts the rows of each value of axis i; first[i] is the
+	// line where each first appears (to name a stray value).
+	distinct := make([]map[float64]int, na)
+	first := make([]map[float64]int, na)
 	for i := range distinct {
-		distinct[i] = map[float64]bool{}
+		distinct[i], first[i] = map[float64]int{}, map[float64]int{}
 	}
 	for {
 		rec, err := cr.Read()
@@ -258,7 +261,9 @@ func ReadGridsCSV(r io.Reader, file string, axes []ColumnSpec, values []ColumnSp
 			x[i] = v * factor[i]
 		}
 		for i := range axes {
-			distinct[i][x[i]] = true
+			if distinct[i][x[i]]++; distinct[i][x[i]] == 1 {
+				first[i][x[i]] = line
+			}
 			if len(distinct[i]) > 1000 {
 				return nil, &TableError{File: file, Line: line, Column: head[i], Reason: "more than 1,000 distinct values on one axis"}
 			}
@@ -304,6 +309,20 @@ func ReadGridsCSV(r io.Reader, file string, axes []ColumnSpec, values []ColumnSp
 	}
 	for off, l := range seen {
 		if l == 0 {
+			// An axis value on less than half the rows of another is most
+			// likely mistyped on its first line (FL 3500 for 350): name it.
+			for i := range axes {
+				most, least, lv := 0, math.MaxInt, 0.0
+				for v, c := range distinct[i] {
+					most = max(most, c)
+					if c < least || c == least && v < lv {
+						least, lv = c, v
+					}
+				}
+				if 2*least < most {
+					return nil, &TableError{File: file, Line: first[i][lv], Column: head[i], Reason: fmt.Sprintf("hole in the grid: %g (first on this line) is on only %d rows, other values of this column on up to %d (a mistyped value?); no row for %s", lv/factor[i], least, most, gs[0].pointName(off))}
+				}
+			}
 			return nil, &TableError{File: file, Reason: "hole in the grid: no row for " + gs[0].pointName(off)}
 		}
 	}

@@ -44,6 +44,7 @@ func TestLoadTablesErrors(t *testing.T) {
 		{"negative fuel flow", CruiseFuelFlowFile, firstLine(CruiseFuelFlowFile, 1), "24000,250,0.7,-10,-5", "cruise_fuel_flow.csv:2: column fuel_flow_kg_h: -5 is negative", &TableError{}},
 		{"non-finite", CruiseFuelFlowFile, firstLine(CruiseFuelFlowFile, 1), "24000,250,0.7,-10,Inf", `cruise_fuel_flow.csv:2: column fuel_flow_kg_h: "Inf" is not a finite number`, &TableError{}},
 		{"hole", CruiseFuelFlowFile, firstLine(CruiseFuelFlowFile, 2) + "\n", "", "hole in the grid: no row for mass_kg=24000, fl=250, mach=0.7, isa_dev_k=0", &TableError{}},
+		{"mistyped level", CruiseFuelFlowFile, firstLine(CruiseFuelFlowFile, 5), strings.Replace(firstLine(CruiseFuelFlowFile, 5), ",250,", ",2500,", 1), "cruise_fuel_flow.csv:6: column fl: hole in the grid: 2500 (first on this line) is on only 1 rows", &TableError{}},
 		{"duplicate", CruiseFuelFlowFile, firstLine(CruiseFuelFlowFile, 2), firstLine(CruiseFuelFlowFile, 1), "cruise_fuel_flow.csv:3: duplicates the grid point of line 2", &TableError{}},
 		{"not monotone axis is just order", CruiseFuelFlowFile, "\n", "\n", "", nil},
 		{"mach short of MMO", ThrustLimitsFile, ",0.82,", ",0.80,", "column mach: Mach axis ends at 0.8, below MMO 0.82", &TableError{}},
