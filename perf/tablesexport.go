@@ -27,7 +27,9 @@ type ExportGrid struct {
 // limits) and 13 from OEW to MTOW for climb and descent;
 // levels FL0 to FL100 every 2,000 ft (holding heights) and then every
 // 1,000 ft to 2,000 ft above the certified ceiling; Mach 0.20 to 0.60
-// every 0.05 and then every 0.02 to MMO (and MMO itself); ISA deviations
+// every 0.05 and then every 0.01 to MMO (and MMO itself: the econ Mach of
+// a table lies on a table Mach or a band end, so cruise Machs are dense);
+// ISA deviations
 // -30..+30 K every 10 K; climb and descent levels FL15, FL20 and every
 // 1,000 ft from FL30 to the top level.
 func DefaultExportGrid(a *Aircraft) ExportGrid {
@@ -50,8 +52,8 @@ func DefaultExportGrid(a *Aircraft) ExportGrid {
 	for i := 0; i < 8; i++ {
 		g.Machs = append(g.Machs, float64(20+5*i)/100)
 	}
-	for i := 0; float64(60+2*i)/100 < a.MMO-1e-9; i++ {
-		g.Machs = append(g.Machs, float64(60+2*i)/100)
+	for i := 0; float64(60+i)/100 < a.MMO-1e-9; i++ {
+		g.Machs = append(g.Machs, float64(60+i)/100)
 	}
 	g.Machs = append(g.Machs, a.MMO)
 	for d := -30.0; d <= 30; d += 10 {
