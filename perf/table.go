@@ -222,9 +222,9 @@ func ReadGridsCSV(r io.Reader, file string, axes []ColumnSpec, values []ColumnSp
 	// Rows are kept in one flat slice, nc numbers each (one allocation
 	// per doubling, not per row), and their lines beside it.
 	nc := len(specs)
-	// Sized from the line count (bounded by the file size limit), so the
-	// rows are not copied as they grow.
-	nl := min(bytes.Count(data, []byte{'\n'})+1, maxTableRows+1)
+	// Sized from the line count, so the rows are not copied as they grow;
+	// a row takes at least 2 bytes a column, which bounds it too.
+	nl := min(bytes.Count(data, []byte{'\n'})+1, len(data)/(2*nc)+1, maxTableRows+1)
 	flat := make([]float64, 0, nl*nc)
 	lines := make([]int, 0, nl)
 	// distinct[i] counts the rows of each value of axis i; first[i] is the

@@ -53,6 +53,22 @@ func TestServeTablesAircraft(t *testing.T) {
 		t.Errorf("aircraft digest %v, want %s (%v)", rec.doc["aircraft_digest"], want, err)
 	}
 
+	// The second request reuses the tables read for the first (same
+	// directory and digest); a changed file is read again.
+	a1, d1, err1 := s.aircraft("regional-tables")
+	a2, d2, err2 := s.aircraft("regional-tables")
+	if err1 != nil || err2 != nil || a1 != a2 || d1 != d2 || d1 != want {
+		t.Errorf("cached tables: %p %p %v %v", a1, a2, err1, err2)
+	}
+	man := filepath.Join(tdir, perf.TablesManifest)
+	b, _ := os.ReadFile(man)
+	os.WriteFile(man, []byte(strings.Replace(string(b), "name: demo-regional", "name: regional-2", 1)), 0o644)
+	if a3, d3, err := s.aircraft("regional-tables"); err != nil {
+		t.Errorf("after a change: %v", err)
+	} else if d3 == d1 || a3.Name != "regional-2" {
+		t.Errorf("after a change: digest changed %v, name %q", d3 != d1, a3.Name)
+	}
+
 	// A table file that is a symlink out of the data directory.
 	out := t.TempDir()
 	bdir := filepath.Join(dir, "escape-tables")
