@@ -209,9 +209,10 @@ func tableEntry(gs [3]*Grid, mass, fl, isaDev float64) (Transition, error) {
 // as the difference of two entries, the way climb tables are read for a
 // climb that does not start at their base level. A climb from level A to
 // B at mass m: the mass m0 at 1,500 ft that arrives at A with m (m0 -
-// fuel(m0, A) = m, by fixed-point iteration, 4 rounds), then entry(m0, B)
-// - entry(m0, A). A descent from A to B at mass m: entry(m, A) -
-// entry(m', B) with m' the mass on passing B (2 rounds). The schedule
+// fuel(m0, A) = m, by fixed-point iteration, 5 rounds), then entry(m0, B)
+// - entry(m0, A), m0 held at most at the table's heaviest mass. A
+// descent from A to B at mass m: entry(m, A) - entry(m', B) with m' the
+// mass on passing B (2 rounds). The schedule
 // argument is not used: the tables hold their own schedule
 // (Tables.Schedule), as does a step at cruise Mach priced from them
 // (deviation from a model, which integrates the schedule given). Cost: a
@@ -230,12 +231,18 @@ func (a *Aircraft) tableTransition(mass, fromP, toP, isaDev float64, climb bool)
 	var ea, eb Transition
 	var err error
 	if climb {
+		// The heaviest 1,500-ft mass of the table bounds m0: an aircraft
+		// that reaches A at m from a heavier start (possible only within
+		// the iteration's rounding, or above the table's heaviest mass
+		// less its climb fuel) is priced from that mass.
+		mv := gs[0].Axes[0].Values
+		top := mv[len(mv)-1]
 		m0 := mass
-		for range 4 {
+		for range 5 {
 			if ea, err = tableEntry(gs, m0, flA, isaDev); err != nil {
 				return Transition{}, err
 			}
-			m0 = mass + ea.Fuel*ff
+			m0 = math.Min(mass+ea.Fuel*ff, math.Max(top, mass))
 		}
 		if ea, err = tableEntry(gs, m0, flA, isaDev); err != nil {
 			return Transition{}, err

@@ -184,3 +184,27 @@ func TestTablesEnvelopeTop(t *testing.T) {
 		t.Errorf("buffet ceiling from tables FL%.3f, model FL%.3f (the same buffet table)", et.MaxFLBuffet, em.MaxFLBuffet)
 	}
 }
+
+// A step from the top of a climb at MTOW starts from the table's heaviest
+// 1,500-ft mass (rounding of the fixed point must not leave the table).
+func TestTablesStepAtMTOW(t *testing.T) {
+	a := mustBuiltin(t, "demo-regional")
+	dir := t.TempDir()
+	if err := a.ExportTables(dir, smallGrid()); err != nil {
+		t.Fatal(err)
+	}
+	ta, err := Load(dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	s := DefaultSchedule(ta)
+	c1, err := ta.Climb(a.MTOW, FLToPressure(15), FLToPressure(200), 0, s)
+	if err != nil {
+		t.Fatal(err)
+	}
+	step, err := ta.Climb(a.MTOW-c1.Fuel, FLToPressure(200), FLToPressure(330), 0, s)
+	c2, _ := ta.Climb(a.MTOW, FLToPressure(15), FLToPressure(330), 0, s)
+	if err != nil || math.Abs(step.Fuel-(c2.Fuel-c1.Fuel)) > 1e-6*c2.Fuel {
+		t.Errorf("step at MTOW: %+v (%v), want fuel %.3f", step, err, c2.Fuel-c1.Fuel)
+	}
+}
