@@ -8,6 +8,8 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+
+	"github.com/parquet-go/parquet-go"
 )
 
 // stepSegments returns each step of a plan JSON as "FROM>TO" and the
@@ -139,6 +141,14 @@ func TestBatchTablesAndPerfFactor(t *testing.T) {
 	res := read()
 	if res["P0"]["perf_factor_pct"] != "0" || res["P1"]["perf_factor_pct"] != "4" {
 		t.Fatalf("perf_factor_pct column: P0 %q, P1 %q", res["P0"]["perf_factor_pct"], res["P1"]["perf_factor_pct"])
+	}
+	type pqRow struct {
+		Flight        string  `parquet:"flight"`
+		PerfFactorPct float64 `parquet:"perf_factor_pct"`
+	}
+	pq, err := parquet.ReadFile[pqRow](filepath.Join(out, "results.parquet"))
+	if err != nil || len(pq) != 2 || pq[0].Flight != "P0" || pq[0].PerfFactorPct != 0 || pq[1].PerfFactorPct != 4 {
+		t.Errorf("results.parquet perf_factor_pct: %+v (%v)", pq, err)
 	}
 	f0, _ := strconv.ParseFloat(res["P0"]["fuel_kg"], 64)
 	f1, _ := strconv.ParseFloat(res["P1"]["fuel_kg"], 64)

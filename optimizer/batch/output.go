@@ -106,6 +106,14 @@ type parquetRow struct {
 	Error         string   `parquet:"error"`
 }
 
+// parquetRowPF is parquetRow with the perf_factor_pct column, written
+// when some flight of the run has a performance factor (as in
+// results.csv), so that other runs keep their schema.
+type parquetRowPF struct {
+	parquetRow
+	PerfFactorPct float64 `parquet:"perf_factor_pct"`
+}
+
 // assemble reads the records named by man from out/parts and writes the
 // final files and then the manifest.
 func assemble(out string, man manifest) (Summary, error) {
@@ -329,6 +337,19 @@ func resultsParquet(results []record, meta map[string]string) ([]byte, error) {
 		opts = append(opts, parquet.KeyValueMetadata(k, meta[k]))
 	}
 	var buf bytes.Buffer
+	if slices.ContainsFunc(results, func(r record) bool { return r.PerfFactorPct != nil }) {
+		pf := make([]parquetRowPF, len(rows))
+		for i, r := range results {
+			pf[i].parquetRow = rows[i]
+			if r.PerfFactorPct != nil {
+				pf[i].PerfFactorPct = *r.PerfFactorPct
+			}
+		}
+		if err := parquet.Write(&buf, pf, opts...); err != nil {
+			return nil, err
+		}
+		return buf.Bytes(), nil
+	}
 	if err := parquet.Write(&buf, rows, opts...); err != nil {
 		return nil, err
 	}
