@@ -164,6 +164,12 @@ type Plan struct {
 	// Alternatives are the next-cheapest distinct profiles, when asked
 	// for (see Alternatives); nil otherwise.
 	Alternatives []Alternative
+	// Arrival is how the plan meets its arrival window (SolveArriveBy);
+	// nil when none was asked for.
+	Arrival *ArrivalResult
+	// Delay is how the plan was chosen against a cost of lateness
+	// (SearchDelayCost, SolveDelayCost); nil when none was asked for.
+	Delay *DelayChoice
 }
 
 // MinMargin returns the least buffet margin over the cruise and step legs,

@@ -35,7 +35,7 @@ func newBatchCmd() *cobra.Command {
 		weather                                []string
 		workers, shardCount                    int
 		wxo                                    weatherOpts
-		policyPath                             string
+		policyPath, delayPath                  string
 		resume                                 bool
 		maxSegNM                               float64
 		maxStepFt, maxSteps                    int
@@ -53,11 +53,12 @@ func newBatchCmd() *cobra.Command {
 	}
 	format := formatFlag(c, "table", "json", "csv")
 	fl := c.Flags()
-	fl.StringVar(&schedule, "schedule", "", "schedule CSV: flight,departure,route,aircraft,tow_kg,ci (+ zfw_kg,fuel_kg,floor_g,levels,speed)")
+	fl.StringVar(&schedule, "schedule", "", "schedule CSV: flight,departure,route,aircraft,tow_kg,ci (+ zfw_kg,fuel_kg,floor_g,levels,speed,policy,arrive_by,arrive_window)")
 	fl.StringArrayVar(&weather, "weather", nil, "GRIB2/GRIB1 weather file (repeatable), decoded once and shared")
 	fl.StringVar(&out, "out", "", "output directory")
 	weatherFlags(c, &wxo)
 	fl.StringVar(&policyPath, "policy", "", "fuel policy YAML for rows that give zfw_kg alone (a fuel plan; default: the documented default policy)")
+	fl.StringVar(&delayPath, "delay-cost", "", "cost of lateness (CSV minutes_late,cost_kg) for rows with arrive_by: each flies the cost index minimising fuel + its ci x time + delay cost, instead of the least-cost one in its arrive_window")
 	fl.IntVar(&workers, "workers", 0, "parallel planners (default: one per CPU)")
 	fl.StringVar(&sweep, "ci-sweep", "", "plan every flight at each cost index, e.g. 0,20,50,100")
 	fl.StringVar(&shard, "shard", "", "plan only shard K/N of the flights (0-based K, N at most 1048576); or give --shard-count inside a cluster job")
@@ -155,7 +156,16 @@ func newBatchCmd() *cobra.Command {
 		if !(maxSegNM >= 1 && maxSegNM <= 1000) {
 			return badInputf("--max-seg-nm %v: want 1..1000", maxSegNM)
 		}
-		pl := &batch.SchedulePlanner{Weather: wx, MaxSegment: maxSegNM * perf.NMToM, Steps: steps}
+		pl := &batch.SchedulePlanner{Weather: wx, MaxSegment: maxSegNM * perf.NMToM, Steps: steps, Sweep: opt.Sweep != nil}
+		if delayPath != "" {
+			dc, err := readDelayCost(delayPath, "--delay-cost")
+			if err != nil {
+				return err
+			}
+			pl.DelayCost = &dc
+			sum := sha256.Sum256([]byte(fmt.Sprintf("%+v", dc)))
+			opt.Meta["delay_cost"] = hex.EncodeToString(sum[:]) // a resume with another delay cost is refused
+		}
 		if policyPath != "" {
 			pol, err := readPolicy(policyPath)
 			if err != nil {
@@ -306,36 +316,75 @@ type ciLineJSON struct {
 	TimeMin    float64 `json:"time_min"`
 	Cost       float64 `json:"cost"`
 	CO2Kg      float64 `json:"co2_kg"`
+	// With arrival targets: the plans of flights with arrive_by at this
+	// CI, and those arriving in their window.
+	WithArriveBy *int `json:"with_arrive_by,omitempty"`
+	OnTime       *int `json:"on_time,omitempty"`
 }
 
 func printBatchSummary(w io.Writer, format string, s batch.Summary) error {
 	d := batchSummaryJSON{Planned: s.Planned, Failed: s.Failed, Infeasible: s.Infeasible, Skipped: s.Skipped, BadRows: s.BadRows, ByCI: []ciLineJSON{}}
 	r := func(v float64, dec int) float64 { p := math.Pow10(dec); return math.Round(v*p) / p }
 	for _, b := range s.ByCI {
-		d.ByCI = append(d.ByCI, ciLineJSON{CI: b.CI, Flights: b.Flights, Failed: b.Failed, Infeasible: b.Infeasible,
-			FuelKg: r(b.Fuel, 1), TimeMin: r(b.Time, 2), Cost: r(b.Cost, 1), CO2Kg: r(b.CO2, 1)})
+		line := ciLineJSON{CI: b.CI, Flights: b.Flights, Failed: b.Failed, Infeasible: b.Infeasible,
+			FuelKg: r(b.Fuel, 1), TimeMin: r(b.Time, 2), Cost: r(b.Cost, 1), CO2Kg: r(b.CO2, 1)}
+		if s.Targets {
+			line.WithArriveBy, line.OnTime = new(b.WithTarget), new(b.OnTime)
+		}
+		d.ByCI = append(d.ByCI, line)
 	}
 	switch format {
 	case "json":
 		return writeJSON(w, d)
 	case "csv":
-		fmt.Fprintln(w, "ci,flights,failed,infeasible,fuel_kg,time_min,cost,co2_kg")
+		head := "ci,flights,failed,infeasible,fuel_kg,time_min,cost,co2_kg"
+		if s.Targets {
+			head += ",with_arrive_by,on_time"
+		}
+		fmt.Fprintln(w, head)
 		for _, b := range d.ByCI {
-			fmt.Fprintf(w, "%g,%d,%d,%d,%g,%g,%g,%g\n", b.CI, b.Flights, b.Failed, b.Infeasible, b.FuelKg, b.TimeMin, b.Cost, b.CO2Kg)
+			fmt.Fprintf(w, "%g,%d,%d,%d,%g,%g,%g,%g", b.CI, b.Flights, b.Failed, b.Infeasible, b.FuelKg, b.TimeMin, b.Cost, b.CO2Kg)
+			if s.Targets {
+				fmt.Fprintf(w, ",%d,%d", *b.WithArriveBy, *b.OnTime)
+			}
+			fmt.Fprintln(w)
 		}
 		return nil
 	}
 	fmt.Fprintf(w, "Planned %d, infeasible %d, failed %d, reused %d, bad schedule rows %d\n", d.Planned, d.Infeasible, d.Failed, d.Skipped, d.BadRows)
+	if s.Targets && !s.Sweep {
+		on, of := 0, 0
+		for _, b := range s.ByCI {
+			on, of = on+b.OnTime, of+b.WithTarget
+		}
+		fmt.Fprintf(w, "Arrival targets: %s of the flights with arrive_by arrive in their window\n", onTimeText(on, of))
+	}
 	if s.Sweep { // without a sweep a per-CI table says nothing the files do not
 		tw := tabwriter.NewWriter(w, 0, 0, 1, ' ', tabwriter.AlignRight)
-		fmt.Fprintln(tw, "CI\tflights\tinfeasible\tfailed\tfuel kg\ttime h:mm\tcost\tCO2 t\t")
+		head := "CI\tflights\tinfeasible\tfailed\tfuel kg\ttime h:mm\tcost\tCO2 t\t"
+		if s.Targets {
+			head += "on time\t"
+		}
+		fmt.Fprintln(tw, head)
 		for _, b := range d.ByCI {
-			fmt.Fprintf(tw, "%g\t%d\t%d\t%d\t%.0f\t%s\t%.0f\t%.1f\t\n", b.CI, b.Flights, b.Infeasible, b.Failed, b.FuelKg, hmm(b.TimeMin), b.Cost, b.CO2Kg/1000)
+			fmt.Fprintf(tw, "%g\t%d\t%d\t%d\t%.0f\t%s\t%.0f\t%.1f\t", b.CI, b.Flights, b.Infeasible, b.Failed, b.FuelKg, hmm(b.TimeMin), b.Cost, b.CO2Kg/1000)
+			if s.Targets {
+				fmt.Fprintf(tw, "%s\t", onTimeText(*b.OnTime, *b.WithArriveBy))
+			}
+			fmt.Fprintln(tw)
 		}
 		tw.Flush()
 	}
 	fmt.Fprintf(w, "\n%s\n", "Caution: "+optimizer.Caution)
 	return nil
+}
+
+// onTimeText is "n/m (p %)" of the flights with arrive_by on time.
+func onTimeText(on, of int) string {
+	if of == 0 {
+		return "-"
+	}
+	return fmt.Sprintf("%d/%d (%.0f %%)", on, of, 100*float64(on)/float64(of))
 }
 
 // hmm formats minutes as h:mm (rounded to the minute), the one time format

@@ -34,7 +34,7 @@ that made it. Everything in the scenario is invented.`,
 		args := []string{"plan", "--route", fs.Route, "--aircraft", f.Aircraft, "--mass", fmt.Sprintf("%.0f", f.TOW),
 			"--weather", fs.Weather, "--depart", f.Depart.Format("2006-01-02T15:04:05Z07:00"), "--ci", fmt.Sprintf("%g", f.CI), "--format", *format}
 		errw := cmd.ErrOrStderr()
-		fmt.Fprintf(errw, "levelpath: wrote the invented demo scenario to %s (routes, weather.grib2, schedule.csv)\n", dir)
+		fmt.Fprintf(errw, "levelpath: wrote the invented demo scenario to %s (routes, weather.grib2, schedule.csv, schedule-arrivals.csv, delay-cost.csv)\n", dir)
 		fmt.Fprintf(errw, "levelpath: flight %s, made by:\n  levelpath %s\n", f.ID, shellJoin(args))
 		fmt.Fprintf(errw, "levelpath: the whole day: levelpath batch --schedule %s --weather %s --out %s\n\n",
 			fs.Schedule, fs.Weather, filepath.Join(dir, "out"))

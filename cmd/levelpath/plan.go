@@ -30,6 +30,7 @@ type planFlags struct {
 	brief                  bool
 	fuelPlan               fuelPlanFlags
 	inFlight               inFlightFlags
+	arrival                arrivalFlags
 }
 
 func (f *planFlags) register(c *cobra.Command) {
@@ -63,10 +64,19 @@ func (f *planFlags) run(cmd *cobra.Command, assessed bool, price func(*optimizer
 		if err != nil {
 			return err
 		}
-		price = func(*optimizer.Problem) (*optimizer.Plan, error) { return optimizer.PlanFuel(req) }
+		price = func(q *optimizer.Problem) (*optimizer.Plan, error) {
+			r := req
+			r.Problem = q // the problem priced: an arrival search varies its CI
+			return optimizer.PlanFuel(r)
+		}
 	}
 	if !assessed && inFlightAsked(cmd) {
 		if price, err = f.inFlight.pricer(cmd, &f.problemFlags, &f.fuelPlan, pr); err != nil {
+			return err
+		}
+	}
+	if f.arrival.active() {
+		if price, err = f.arrival.pricer(cmd, pr, price); err != nil {
 			return err
 		}
 	}
@@ -86,6 +96,10 @@ func (f *planFlags) run(cmd *cobra.Command, assessed bool, price func(*optimizer
 	// with exit code 2 after its output is written; assess only lists.
 	if !assessed {
 		if err := plan.LoadingFailure(); err != nil {
+			return badInput(err)
+		}
+		// So does one whose arrival window cannot be met.
+		if err := plan.ArrivalFailure(); err != nil {
 			return badInput(err)
 		}
 	}
@@ -113,10 +127,14 @@ func newPlanCmd() *cobra.Command {
 	f.register(c)
 	f.fuelPlan.register(c, &f.problemFlags)
 	f.inFlight.register(c)
+	f.arrival.register(c)
 	c.Flags().IntVar(&f.alternatives, "alternatives", 0, "also list the K next-cheapest distinct profiles (levels or step points differ), each priced exactly")
 	c.RunE = func(cmd *cobra.Command, _ []string) error {
 		if f.alternatives < 0 || f.alternatives > 20 {
 			return badInputf("--alternatives %d: want 0..20", f.alternatives)
+		}
+		if f.alternatives > 0 && f.arrival.active() {
+			return badInputf("--alternatives with --arrive-by or --delay-cost is not supported")
 		}
 		return f.run(cmd, false, func(p *optimizer.Problem) (*optimizer.Plan, error) {
 			plan, err := optimizer.Solve(p)

@@ -20,6 +20,7 @@ func TestSameVerdictEveryDoor(t *testing.T) {
 	type in struct {
 		tow, zfw, fuel, floor string
 		speed, levels         string
+		arriveBy, window      string
 	}
 	cases := []struct {
 		name string
@@ -35,12 +36,27 @@ func TestSameVerdictEveryDoor(t *testing.T) {
 		{"zfw over MZFW", in{zfw: "60000", fuel: "5000"}, false},
 		{"bad speed", in{tow: "36000", speed: "0.99"}, false},
 		{"bad levels", in{tow: "36000", levels: "every-1000:FL355-FL400"}, false},
+		// Arrival targets (departure 20:00Z; the flight takes about 83 to
+		// 90 minutes between CI 500 and CI 0 in still air).
+		{"arrive-by inside the speed range", in{tow: "36000", arriveBy: "2026-12-01T21:27:00Z", window: "-2m,+2m"}, true},
+		{"fuel plan with arrive-by", in{zfw: "30000", arriveBy: "2026-12-01T21:27:00Z", window: "-2m,+2m"}, true},
+		{"arrive-by alone, any earlier arrival on time", in{tow: "36000", arriveBy: "2026-12-01T21:45:00Z"}, true},
+		{"arrive-by before departure", in{tow: "36000", arriveBy: "2026-12-01T19:00:00Z"}, false},
+		{"arrive-by at departure", in{tow: "36000", arriveBy: "2026-12-01T20:00:00Z"}, false},
+		{"arrive-by malformed", in{tow: "36000", arriveBy: "2026-12-01 21:27"}, false},
+		{"arrive window reversed", in{tow: "36000", arriveBy: "2026-12-01T21:27:00Z", window: "+2m,-2m"}, false},
+		{"arrive window malformed", in{tow: "36000", arriveBy: "2026-12-01T21:27:00Z", window: "2m"}, false},
+		{"arrive window not finite", in{tow: "36000", arriveBy: "2026-12-01T21:27:00Z", window: "NaN,1m"}, false},
+		{"arrive window without arrive-by", in{tow: "36000", window: "-2m,+2m"}, false},
+		{"arrive-by faster than the fastest plan", in{tow: "36000", arriveBy: "2026-12-01T21:05:00Z", window: "-2m,+2m"}, false},
+		{"arrive-by with lrc speed", in{tow: "36000", speed: "lrc", arriveBy: "2026-12-01T21:27:00Z"}, false},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
 			args := []string{"plan", "--route", route, "--aircraft", "demo-regional", "--depart", "2026-12-01T20:00:00Z"}
 			for _, f := range []struct{ flag, v string }{{"--mass", c.in.tow}, {"--zfw", c.in.zfw}, {"--fuel", c.in.fuel},
-				{"--floor", c.in.floor}, {"--speed", c.in.speed}, {"--levels", c.in.levels}} {
+				{"--floor", c.in.floor}, {"--speed", c.in.speed}, {"--levels", c.in.levels},
+				{"--arrive-by", c.in.arriveBy}, {"--arrive-window", c.in.window}} {
 				if f.v != "" {
 					args = append(args, f.flag, f.v)
 				}
@@ -48,8 +64,12 @@ func TestSameVerdictEveryDoor(t *testing.T) {
 			planCode, _, planErr := runCLI(t, args...)
 			dir := t.TempDir()
 			sched := filepath.Join(dir, "s.csv")
-			row := fmt.Sprintf("flight,departure,route,aircraft,tow_kg,ci,zfw_kg,fuel_kg,floor_g,levels,speed\nV1,2026-12-01T20:00:00Z,%s,demo-regional,%s,0,%s,%s,%s,%s,%s\n",
-				route, c.in.tow, c.in.zfw, c.in.fuel, c.in.floor, c.in.levels, c.in.speed)
+			window := c.in.window
+			if window != "" {
+				window = `"` + window + `"` // the comma needs CSV quotes
+			}
+			row := fmt.Sprintf("flight,departure,route,aircraft,tow_kg,ci,zfw_kg,fuel_kg,floor_g,levels,speed,arrive_by,arrive_window\nV1,2026-12-01T20:00:00Z,%s,demo-regional,%s,0,%s,%s,%s,%s,%s,%s,%s\n",
+				route, c.in.tow, c.in.zfw, c.in.fuel, c.in.floor, c.in.levels, c.in.speed, c.in.arriveBy, window)
 			if err := os.WriteFile(sched, []byte(row), 0o644); err != nil {
 				t.Fatal(err)
 			}

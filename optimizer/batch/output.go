@@ -106,12 +106,51 @@ type parquetRow struct {
 	Error         string   `parquet:"error"`
 }
 
-// parquetRowPF is parquetRow with the perf_factor_pct column, written
-// when some flight of the run has a performance factor (as in
+// parquetRowPF and parquetArrivalRowPF add the perf_factor_pct column,
+// written when some flight of the run has a performance factor (as in
 // results.csv), so that other runs keep their schema.
 type parquetRowPF struct {
 	parquetRow
 	PerfFactorPct float64 `parquet:"perf_factor_pct"`
+}
+
+type parquetArrivalRowPF struct {
+	parquetArrivalRow
+	PerfFactorPct float64 `parquet:"perf_factor_pct"`
+}
+
+// hasPerfFactor reports whether some flight has a performance factor.
+func hasPerfFactor(results []record) bool {
+	return slices.ContainsFunc(results, func(r record) bool { return r.PerfFactorPct != nil })
+}
+
+// perfFactorOf is r's performance factor, 0 for none.
+func perfFactorOf(r *record) float64 {
+	if r.PerfFactorPct == nil {
+		return 0
+	}
+	return *r.PerfFactorPct
+}
+
+// writeParquet writes rows to a new buffer.
+func writeParquet[T any](rows []T, opts []parquet.WriterOption) ([]byte, error) {
+	var buf bytes.Buffer
+	if err := parquet.Write(&buf, rows, opts...); err != nil {
+		return nil, err
+	}
+	return buf.Bytes(), nil
+}
+
+// parquetArrivalRow is parquetRow with the arrival columns, written when
+// the run had arrival targets (see hasTargets).
+type parquetArrivalRow struct {
+	parquetRow
+	ArriveBy     *int64   `parquet:"arrive_by_utc,optional,timestamp(millisecond)"`
+	ArriveWindow string   `parquet:"arrive_window"`
+	CIUsed       *float64 `parquet:"ci_used,optional"`
+	DelayMin     *float64 `parquet:"delay_min,optional"`
+	DelayCostKg  *float64 `parquet:"delay_cost_kg,optional"`
+	OnTime       *bool    `parquet:"on_time,optional"`
 }
 
 // assemble reads the records named by man from out/parts and writes the
@@ -159,7 +198,7 @@ func writeFinal(out string, man manifest, recs []record) (Summary, error) {
 		{ErrorsCSV, func() ([]byte, error) { return errorsCSV(results, bads) }},
 	}
 	if man.Sweep != nil {
-		files = append(files, outFile{SummaryCSV, func() ([]byte, error) { return summaryCSV(sum.ByCI) }})
+		files = append(files, outFile{SummaryCSV, func() ([]byte, error) { return summaryCSV(sum.ByCI, hasTargets(results)) }})
 	}
 	for _, f := range files {
 		data, err := f.make()
@@ -191,6 +230,13 @@ func summarize(results []record) Summary {
 		if c == nil {
 			c = &CISummary{CI: r.CI}
 			by[r.CI] = c
+		}
+		if r.ArriveBy != "" && r.Status != statusFailed {
+			sum.Targets = true
+			c.WithTarget++
+			if r.OnTime != nil && *r.OnTime {
+				c.OnTime++
+			}
 		}
 		switch r.Status {
 		case statusFailed:
@@ -268,15 +314,15 @@ func writeCSV(records [][]string) ([]byte, error) {
 // warningSep joins a plan's warnings in one cell.
 const warningSep = "; "
 
-// resultsCSV writes results.csv: resultColumns, and perf_factor_pct
-// after aircraft when any flight has a performance factor (so that a
-// schedule without one gives the file it always gave).
 func resultsCSV(results []record) ([]byte, error) {
-	withPF := slices.ContainsFunc(results, func(r record) bool { return r.PerfFactorPct != nil })
+	targets, withPF := hasTargets(results), hasPerfFactor(results)
 	head := resultColumns
+	if targets {
+		head = append(slices.Clip(head), arrivalColumns...)
+	}
+	pfAt := slices.Index(resultColumns, "aircraft") + 1 // perf_factor_pct after aircraft
 	if withPF {
-		i := slices.Index(resultColumns, "aircraft") + 1
-		head = slices.Insert(slices.Clone(resultColumns), i, "perf_factor_pct")
+		head = slices.Insert(slices.Clone(head), pfAt, "perf_factor_pct")
 	}
 	recs := [][]string{head}
 	for _, r := range results {
@@ -287,13 +333,11 @@ func resultsCSV(results []record) ([]byte, error) {
 			fmtR(r.CO2Kg, decKg), fmtR(r.FloorG, decG), safeCell(r.Speed), safeCell(r.Levels),
 			fmtI(r.InitialFL), fmtI(r.Steps), fmtR(r.MinMarginG, decG), fmtR(r.CostSavingPct, decPct),
 			safeCell(r.Profile), fmtR(r.BlockKg, decKg), safeCell(r.LimitedBy), safeCell(r.Reason)}
+		if targets {
+			row = append(row, r.ArriveBy, r.ArriveWindow, fmtR(ciUsed(&r), 6), fmtR(r.DelayMin, decMin), fmtR(r.DelayCostKg, decKg), fmtB(r.OnTime))
+		}
 		if withPF {
-			pf := "0"
-			if r.PerfFactorPct != nil {
-				pf = strconv.FormatFloat(*r.PerfFactorPct, 'g', -1, 64)
-			}
-			i := slices.Index(resultColumns, "aircraft") + 1
-			row = slices.Insert(row, i, pf)
+			row = slices.Insert(row, pfAt, strconv.FormatFloat(perfFactorOf(&r), 'g', -1, 64))
 		}
 		recs = append(recs, row)
 	}
@@ -336,24 +380,38 @@ func resultsParquet(results []record, meta map[string]string) ([]byte, error) {
 	for _, k := range keys {
 		opts = append(opts, parquet.KeyValueMetadata(k, meta[k]))
 	}
-	var buf bytes.Buffer
-	if slices.ContainsFunc(results, func(r record) bool { return r.PerfFactorPct != nil }) {
-		pf := make([]parquetRowPF, len(rows))
-		for i, r := range results {
-			pf[i].parquetRow = rows[i]
-			if r.PerfFactorPct != nil {
-				pf[i].PerfFactorPct = *r.PerfFactorPct
+	withPF := hasPerfFactor(results)
+	if !hasTargets(results) {
+		if withPF {
+			pf := make([]parquetRowPF, len(rows))
+			for i := range results {
+				pf[i] = parquetRowPF{parquetRow: rows[i], PerfFactorPct: perfFactorOf(&results[i])}
 			}
+			return writeParquet(pf, opts)
 		}
-		if err := parquet.Write(&buf, pf, opts...); err != nil {
-			return nil, err
+		return writeParquet(rows, opts)
+	}
+	arows := make([]parquetArrivalRow, len(rows))
+	for i := range results {
+		r := &results[i]
+		a := parquetArrivalRow{parquetRow: rows[i], ArriveWindow: r.ArriveWindow, CIUsed: ciUsed(r), DelayMin: r.DelayMin, DelayCostKg: r.DelayCostKg, OnTime: r.OnTime}
+		if r.ArriveBy != "" {
+			t, err := time.Parse(time.RFC3339, r.ArriveBy)
+			if err != nil {
+				return nil, fmt.Errorf("record of flight %s: arrive_by %q: %w", r.Flight, r.ArriveBy, err)
+			}
+			a.ArriveBy = new(t.UnixMilli())
 		}
-		return buf.Bytes(), nil
+		arows[i] = a
 	}
-	if err := parquet.Write(&buf, rows, opts...); err != nil {
-		return nil, err
+	if withPF {
+		pf := make([]parquetArrivalRowPF, len(arows))
+		for i := range results {
+			pf[i] = parquetArrivalRowPF{parquetArrivalRow: arows[i], PerfFactorPct: perfFactorOf(&results[i])}
+		}
+		return writeParquet(pf, opts)
 	}
-	return buf.Bytes(), nil
+	return writeParquet(arows, opts)
 }
 
 // errorsCSV lists bad schedule rows (empty ci), failed plans and
@@ -403,14 +461,65 @@ func errorsCSV(results, bads []record) ([]byte, error) {
 	return writeCSV(recs)
 }
 
-func summaryCSV(by []CISummary) ([]byte, error) {
-	recs := [][]string{{"ci", "flights", "fuel_kg", "time_min", "cost", "co2_kg", "failed", "infeasible"}}
+// summaryCSV writes the per-CI table; with targets (some flight had an
+// arrive_by time) it adds with_arrive_by, on_time and on_time_pct, the
+// share of those flights' plans at that CI arriving in their window
+// (empty when none).
+func summaryCSV(by []CISummary, targets bool) ([]byte, error) {
+	head := []string{"ci", "flights", "fuel_kg", "time_min", "cost", "co2_kg", "failed", "infeasible"}
+	if targets {
+		head = append(head, "with_arrive_by", "on_time", "on_time_pct")
+	}
+	recs := [][]string{head}
 	for _, c := range by {
-		recs = append(recs, []string{ciText(c.CI), strconv.Itoa(c.Flights), fmtNum(round(c.Fuel, decKg)),
+		rec := []string{ciText(c.CI), strconv.Itoa(c.Flights), fmtNum(round(c.Fuel, decKg)),
 			fmtNum(round(c.Time, decMin)), fmtNum(round(c.Cost, decKg)), fmtNum(round(c.CO2, decKg)),
-			strconv.Itoa(c.Failed), strconv.Itoa(c.Infeasible)})
+			strconv.Itoa(c.Failed), strconv.Itoa(c.Infeasible)}
+		if targets {
+			pct := ""
+			if c.WithTarget > 0 {
+				pct = fmtNum(round(100*float64(c.OnTime)/float64(c.WithTarget), decPct))
+			}
+			rec = append(rec, strconv.Itoa(c.WithTarget), strconv.Itoa(c.OnTime), pct)
+		}
+		recs = append(recs, rec)
 	}
 	return writeCSV(recs)
+}
+
+// hasTargets reports whether some result had an arrival target: then
+// results.csv, results.parquet and summary.csv carry the arrival columns
+// (and only then, so that other runs keep their files byte for byte).
+func hasTargets(results []record) bool {
+	for _, r := range results {
+		if r.ArriveBy != "" {
+			return true
+		}
+	}
+	return false
+}
+
+// arrivalColumns are the columns results.csv and results.parquet add
+// after resultColumns when the run had arrival targets.
+var arrivalColumns = []string{"arrive_by_utc", "arrive_window", "ci_used", "delay_min", "delay_cost_kg", "on_time"}
+
+// ciUsed is the cost index a result flew: its arrival search's, or its
+// own CI for any other plan; nil for a failed one.
+func ciUsed(r *record) *float64 {
+	switch {
+	case r.CIUsed != nil:
+		return r.CIUsed
+	case r.Status != statusFailed:
+		return new(r.CI)
+	}
+	return nil
+}
+
+func fmtB(b *bool) string {
+	if b == nil {
+		return ""
+	}
+	return strconv.FormatBool(*b)
 }
 
 // manifestVersion is the layout version of manifest.json and run.json;

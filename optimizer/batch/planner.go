@@ -36,6 +36,14 @@ type SchedulePlanner struct {
 	// Policy is the fuel policy of fuel-plan rows (zfw_kg alone) without
 	// a policy column of their own; nil: optimizer.DefaultFuelPolicy.
 	Policy *optimizer.FuelPolicy
+	// DelayCost, when not nil, is the cost of lateness of every row with
+	// an arrive_by time: such a row flies the cost index that minimises
+	// fuel + its ci x time + delay cost (optimizer.SearchDelayCost) instead
+	// of the least-cost one in its window (optimizer.SolveArriveBy).
+	DelayCost *optimizer.DelayCost
+	// Sweep says the run plans every row at each CI of a sweep: a row's
+	// arrival target is then measured (delay, on time), not searched for.
+	Sweep bool
 
 	mu       sync.Mutex
 	aircraft map[string]*perf.Aircraft
@@ -180,7 +188,9 @@ func (p *SchedulePlanner) Plan(ctx context.Context, row Row, ci float64) (Result
 	if err != nil {
 		return res, err
 	}
-	var plan *optimizer.Plan
+	price := func(q *optimizer.Problem) (*optimizer.Plan, error) {
+		return optimizer.SolveContext(ctx, q) // SIGTERM stops a running plan
+	}
 	if row.FuelPlan {
 		pol := optimizer.DefaultFuelPolicy()
 		switch {
@@ -191,9 +201,20 @@ func (p *SchedulePlanner) Plan(ctx context.Context, row Row, ci float64) (Result
 		case p.Policy != nil:
 			pol = *p.Policy
 		}
-		plan, err = optimizer.PlanFuel(optimizer.FuelRequest{Problem: pr, ZFW: row.ZFW, Policy: pol})
-	} else {
-		plan, err = optimizer.SolveContext(ctx, pr) // SIGTERM stops a running plan
+		price = func(q *optimizer.Problem) (*optimizer.Plan, error) {
+			return optimizer.PlanFuel(optimizer.FuelRequest{Problem: q, ZFW: row.ZFW, Policy: pol})
+		}
+	}
+	target := !row.ArriveBy.IsZero()
+	early, late := row.Window()
+	var plan *optimizer.Plan
+	switch {
+	case target && !p.Sweep && p.DelayCost != nil:
+		plan, _, err = optimizer.SearchDelayCost(pr, optimizer.DelaySearch{Scheduled: row.ArriveBy, Cost: *p.DelayCost, Price: price})
+	case target && !p.Sweep:
+		plan, _, err = optimizer.SolveArriveBy(pr, optimizer.ArrivalTarget{At: row.ArriveBy, Early: early, Late: late, Price: price})
+	default:
+		plan, err = price(pr)
 	}
 	if err != nil {
 		return res, err
@@ -219,6 +240,15 @@ func (p *SchedulePlanner) Plan(ctx context.Context, row Row, ci float64) (Result
 	if f := plan.Fuel; f != nil {
 		res.Block, res.LimitedBy = f.Block, strings.Join(f.LimitedBy, " ")
 		res.TakeoffMass = f.TakeoffMass
+	}
+	if target {
+		a := plan.Depart.Add(time.Duration(math.Round(plan.Totals.Time * 1e9)))
+		open, close := row.ArriveBy.Add(early), row.ArriveBy.Add(late)
+		res.Arrival = &ArrivalResult{CIUsed: plan.CI, DelayMin: a.Sub(row.ArriveBy).Minutes(),
+			OnTime: !a.Before(open) && !a.After(close), DelayCost: math.NaN()}
+		if p.DelayCost != nil {
+			res.Arrival.DelayCost = p.DelayCost.At(res.Arrival.DelayMin)
+		}
 	}
 	if p.Weather == nil {
 		res.Warnings = append(res.Warnings, StillAirWarning)

@@ -36,39 +36,59 @@ const (
 // at full precision (results.parquet holds them so; results.csv rounds them
 // for reading, see csvDecimals).
 type record struct {
-	Kind          string     `json:"kind"` // recordKind or badKind
-	Flight        string     `json:"flight"`
-	CI            float64    `json:"ci"`
-	Status        string     `json:"status,omitempty"` // statusOK, statusWarning, statusInfeasible or statusFailed
-	Warnings      []string   `json:"warnings,omitempty"`
-	Row           int        `json:"row"`
-	Departure     string     `json:"departure,omitempty"` // RFC 3339, UTC
-	Arrival       string     `json:"arrival,omitempty"`   // departure + time_min, RFC 3339, UTC
-	Aircraft      string     `json:"aircraft,omitempty"`
-	PerfFactorPct *float64   `json:"perf_factor_pct,omitempty"` // the row's, when not zero
-	DistanceNM    *float64   `json:"distance_nm,omitempty"`
-	TakeoffMassKg *float64   `json:"takeoff_mass_kg,omitempty"`
-	ZFWKg         *float64   `json:"zfw_kg,omitempty"`
-	LandingMassKg *float64   `json:"landing_mass_kg,omitempty"`
-	FuelKg        *float64   `json:"fuel_kg,omitempty"`
-	TimeMin       *float64   `json:"time_min,omitempty"`
-	Cost          *float64   `json:"cost,omitempty"`
-	CO2Kg         *float64   `json:"co2_kg,omitempty"`
-	FloorG        *float64   `json:"floor_g,omitempty"`
-	Speed         string     `json:"speed,omitempty"`
-	Levels        string     `json:"levels,omitempty"`
-	InitialFL     *int       `json:"initial_fl,omitempty"`
-	Steps         *int       `json:"steps,omitempty"`
-	MinMarginG    *float64   `json:"min_margin_g,omitempty"`
-	CostSavingPct *float64   `json:"cost_saving_pct,omitempty"`
-	Profile       string     `json:"profile,omitempty"`
-	BlockKg       *float64   `json:"block_kg,omitempty"`
-	LimitedBy     string     `json:"limited_by,omitempty"`
-	Reason        string     `json:"reason,omitempty"`
-	Errors        []RowError `json:"errors,omitempty"`      // bad rows only
-	Plan          string     `json:"plan,omitempty"`        // path relative to Out
-	PlanSHA256    string     `json:"plan_sha256,omitempty"` // digest of the plan file, checked on resume
-	Input         string     `json:"input"`                 // fingerprint of what was planned
+	Kind          string   `json:"kind"` // recordKind or badKind
+	Flight        string   `json:"flight"`
+	CI            float64  `json:"ci"`
+	Status        string   `json:"status,omitempty"` // statusOK, statusWarning, statusInfeasible or statusFailed
+	Warnings      []string `json:"warnings,omitempty"`
+	Row           int      `json:"row"`
+	Departure     string   `json:"departure,omitempty"` // RFC 3339, UTC
+	Arrival       string   `json:"arrival,omitempty"`   // departure + time_min, RFC 3339, UTC
+	Aircraft      string   `json:"aircraft,omitempty"`
+	PerfFactorPct *float64 `json:"perf_factor_pct,omitempty"` // the row's, when not zero
+	DistanceNM    *float64 `json:"distance_nm,omitempty"`
+	TakeoffMassKg *float64 `json:"takeoff_mass_kg,omitempty"`
+	ZFWKg         *float64 `json:"zfw_kg,omitempty"`
+	LandingMassKg *float64 `json:"landing_mass_kg,omitempty"`
+	FuelKg        *float64 `json:"fuel_kg,omitempty"`
+	TimeMin       *float64 `json:"time_min,omitempty"`
+	Cost          *float64 `json:"cost,omitempty"`
+	CO2Kg         *float64 `json:"co2_kg,omitempty"`
+	FloorG        *float64 `json:"floor_g,omitempty"`
+	Speed         string   `json:"speed,omitempty"`
+	Levels        string   `json:"levels,omitempty"`
+	InitialFL     *int     `json:"initial_fl,omitempty"`
+	Steps         *int     `json:"steps,omitempty"`
+	MinMarginG    *float64 `json:"min_margin_g,omitempty"`
+	CostSavingPct *float64 `json:"cost_saving_pct,omitempty"`
+	Profile       string   `json:"profile,omitempty"`
+	BlockKg       *float64 `json:"block_kg,omitempty"`
+	LimitedBy     string   `json:"limited_by,omitempty"`
+	Reason        string   `json:"reason,omitempty"`
+	// Arrival-target fields, present only for a row with arrive_by.
+	ArriveBy     string     `json:"arrive_by,omitempty"`     // RFC 3339, UTC
+	ArriveWindow string     `json:"arrive_window,omitempty"` // e.g. "-5m,+10m"
+	CIUsed       *float64   `json:"ci_used,omitempty"`       // the cost index flown
+	DelayMin     *float64   `json:"delay_min,omitempty"`     // arrival - arrive_by
+	DelayCostKg  *float64   `json:"delay_cost_kg,omitempty"` // with a delay cost
+	OnTime       *bool      `json:"on_time,omitempty"`       // arrival in the window
+	Errors       []RowError `json:"errors,omitempty"`        // bad rows only
+	Plan         string     `json:"plan,omitempty"`          // path relative to Out
+	PlanSHA256   string     `json:"plan_sha256,omitempty"`   // digest of the plan file, checked on resume
+	Input        string     `json:"input"`                   // fingerprint of what was planned
+}
+
+// windowText writes an arrival window as the arrive_window column reads
+// it, in minutes: "-5m,+10m".
+func windowText(early, late time.Duration) string {
+	m := func(d time.Duration) string { return strconv.FormatFloat(d.Minutes(), 'f', -1, 64) + "m" }
+	sign := func(d time.Duration) string {
+		if d >= 0 {
+			return "+" + m(d)
+		}
+		return m(d)
+	}
+	return sign(early) + "," + sign(late)
 }
 
 // ciText formats a cost index for file names and CSV: shortest exact form.
@@ -128,6 +148,9 @@ func fingerprint(r *Row, ci float64) string {
 		// Only when set, so that rows without it keep their keys.
 		fmt.Fprintf(h, "|pf=%s", f(r.PerfFactorPct))
 	}
+	if !r.ArriveBy.IsZero() { // only then, so that other rows keep their fingerprint
+		fmt.Fprintf(h, "|arrive:%s|%t|%d|%d", r.ArriveBy.Format(time.RFC3339Nano), r.HasWindow, r.Early, r.Late)
+	}
 	return strconv.FormatUint(h.Sum64(), 16)
 }
 
@@ -178,6 +201,10 @@ func resultRecord(row *Row, ci float64, res Result, planErr error) record {
 			}
 		}
 	}
+	if !row.ArriveBy.IsZero() {
+		e, l := row.Window()
+		rec.ArriveBy, rec.ArriveWindow = row.ArriveBy.UTC().Format(time.RFC3339), windowText(e, l)
+	}
 	if planErr != nil {
 		rec.Status = statusFailed
 		rec.Reason = shortenQuoted(planErr.Error())
@@ -222,6 +249,15 @@ func resultRecord(row *Row, ci float64, res Result, planErr error) record {
 	}
 	if finite(res.CostSavingPct) {
 		rec.CostSavingPct = new(res.CostSavingPct)
+	}
+	if a := res.Arrival; a != nil && rec.ArriveBy != "" {
+		rec.CIUsed, rec.OnTime = new(a.CIUsed), new(a.OnTime)
+		if finite(a.DelayMin) {
+			rec.DelayMin = new(a.DelayMin)
+		}
+		if finite(a.DelayCost) {
+			rec.DelayCostKg = new(a.DelayCost)
+		}
 	}
 	return rec
 }

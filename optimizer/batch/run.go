@@ -39,6 +39,19 @@ type Result struct {
 	Violations    []string // limits the plan breaks (fuel, landing mass, ...): makes it infeasible
 	Profile       string   // e.g. "FL350,FL370@1250"
 	PlanJSON      []byte   // full plan document, written to plans/
+	// Arrival is filled for a row with an arrival target (arrive_by);
+	// nil otherwise.
+	Arrival *ArrivalResult
+}
+
+// ArrivalResult is how a flight with an arrival target came out.
+type ArrivalResult struct {
+	CIUsed   float64 // the cost index flown, kg/min
+	DelayMin float64 // arrival minus arrive_by, minutes (negative: early)
+	OnTime   bool    // the arrival lies in the row's window
+	// DelayCost is the delay cost of the arrival, kg fuel-equivalent,
+	// when the run has one (SchedulePlanner.DelayCost); NaN otherwise.
+	DelayCost float64
 }
 
 // Planner plans one flight at cost index ci. It is called from several
@@ -84,6 +97,7 @@ type Summary struct {
 	Replanned                int      // reused records whose plan file was missing or damaged
 	Sweep                    bool     // the run had a CI sweep (ByCI is a per-CI table)
 	Warnings                 []string // e.g. Merge's output directory could not be locked
+	Targets                  bool     // some flight had an arrive_by time (ByCI counts on-time plans)
 	ByCI                     []CISummary
 }
 
@@ -94,6 +108,9 @@ type CISummary struct {
 	Failed                int
 	Infeasible            int
 	Fuel, Time, Cost, CO2 float64 // sums: kg, min, cost units, kg
+	// WithTarget counts the plans (any status but failed) of flights with
+	// an arrive_by time, OnTime those of them arriving in their window.
+	WithTarget, OnTime int
 }
 
 type job struct {

@@ -57,12 +57,30 @@ type Row struct {
 	Floor     float64
 	Levels    string
 	Speed     string
+	// ArriveBy is the arrival target (column arrive_by; zero: none), and
+	// Early and Late the window around it (column arrive_window, checked
+	// by optimizer.ParseArrivalWindow; HasWindow false: the window runs
+	// from the departure to ArriveBy).
+	ArriveBy    time.Time
+	HasWindow   bool
+	Early, Late time.Duration
 	// PerfFactorPct is the row's per-tail fuel-flow factor, percent
 	// (column perf_factor_pct; see optimizer.Problem.PerfFactorPct); 0:
 	// none.
 	PerfFactorPct float64
 
 	digests string // of the route and aircraft files, set by Run
+}
+
+// Window returns the row's arrival window relative to ArriveBy: the
+// arrive_window cell, or from the departure (at most
+// optimizer.MaxArrivalWindow before) to ArriveBy when the cell was
+// empty.
+func (r *Row) Window() (early, late time.Duration) {
+	if r.HasWindow {
+		return r.Early, r.Late
+	}
+	return -min(r.ArriveBy.Sub(r.Departure), optimizer.MaxArrivalWindow), 0
 }
 
 // RowError is one invalid schedule row. Bad rows are reported, not fatal:
@@ -112,7 +130,7 @@ func (e *FormatError) Error() string {
 // Schedule columns. The required ones must all be in the header (any order).
 var (
 	requiredColumns = []string{"flight", "departure", "route", "aircraft", "tow_kg", "ci"}
-	optionalColumns = []string{"zfw_kg", "fuel_kg", "floor_g", "levels", "speed", "policy", "perf_factor_pct"}
+	optionalColumns = []string{"zfw_kg", "fuel_kg", "floor_g", "levels", "speed", "policy", "arrive_by", "arrive_window", "perf_factor_pct"}
 )
 
 const (
@@ -458,6 +476,28 @@ func parseRow(rec []string, col map[string]int, line int, file, dir string, rout
 		row.Policy = filepath.Clean(pol)
 		if err := checkRegular(row.Policy); err != nil {
 			fail("policy", "%v", err)
+		}
+	}
+	if s := get("arrive_by"); s != "" {
+		t, err := time.Parse(time.RFC3339, s)
+		switch {
+		case err != nil:
+			fail("arrive_by", "%q is not an RFC 3339 time such as 2026-06-12T14:30:00Z", excerpt(s))
+		case !row.Departure.IsZero() && !t.After(row.Departure):
+			fail("arrive_by", "%s is not after the departure %s", excerpt(s), row.Departure.Format(time.RFC3339))
+		default:
+			row.ArriveBy = t
+		}
+	}
+	if s := get("arrive_window"); s != "" {
+		e, l, err := optimizer.ParseArrivalWindow(s)
+		switch {
+		case err != nil:
+			fail("arrive_window", "%v", err) // the one window parser of every entry point
+		case get("arrive_by") == "":
+			fail("arrive_window", "a window needs an arrive_by time")
+		default:
+			row.HasWindow, row.Early, row.Late = true, e, l
 		}
 	}
 	for _, c := range []struct{ name, v string }{{"levels", row.Levels}, {"speed", row.Speed}} {

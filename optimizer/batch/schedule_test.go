@@ -196,3 +196,54 @@ func TestReadScheduleRefusesNonRegular(t *testing.T) {
 		}
 	}
 }
+
+// TestReadScheduleArrival: arrive_by and arrive_window are read with the
+// optimizer's window parser; a bad one is a bad row naming its column and
+// value, and a target changes the row's fingerprint.
+func TestReadScheduleArrival(t *testing.T) {
+	const head = "flight,departure,route,aircraft,tow_kg,ci,arrive_by,arrive_window\n"
+	const dep = "2026-06-12T08:30:00Z"
+	good := []struct {
+		line        string
+		early, late time.Duration
+	}{
+		{"A1," + dep + ",r.csv,TESTJET,61000,20,2026-06-12T11:00:00Z,\"-5m,+10m\"", -5 * time.Minute, 10 * time.Minute},
+		{"A2," + dep + ",r.csv,TESTJET,61000,20,2026-06-12T11:00:00Z,-5m;+10m", -5 * time.Minute, 10 * time.Minute},
+		{"A3," + dep + ",r.csv,TESTJET,61000,20,2026-06-12T11:00:00Z,", -150 * time.Minute, 0}, // default: from the departure
+	}
+	for _, g := range good {
+		dir := t.TempDir()
+		writeFile(t, dir, "r.csv", "x\n")
+		rows, bad, err := ReadSchedule(writeFile(t, dir, "s.csv", head+g.line+"\n"))
+		if err != nil || len(bad) != 0 || len(rows) != 1 {
+			t.Fatalf("%s: rows %v bad %v err %v", g.line, rows, bad, err)
+		}
+		if e, l := rows[0].Window(); e != g.early || l != g.late || rows[0].ArriveBy.IsZero() {
+			t.Errorf("%s: window %v,%v, want %v,%v", g.line, e, l, g.early, g.late)
+		}
+	}
+	for _, c := range []struct{ name, by, window, column, value string }{
+		{"before departure", "2026-06-12T08:00:00Z", "", "arrive_by", "2026-06-12T08:00:00Z"},
+		{"at departure", dep, "", "arrive_by", dep},
+		{"malformed time", "11:00", "", "arrive_by", "11:00"},
+		{"reversed window", "2026-06-12T11:00:00Z", "+10m;-5m", "arrive_window", "+10m;-5m"},
+		{"one end", "2026-06-12T11:00:00Z", "10m", "arrive_window", "10m"},
+		{"not finite", "2026-06-12T11:00:00Z", "NaN;1m", "arrive_window", "NaN"},
+		{"window without time", "", "-5m;+5m", "arrive_window", "needs an arrive_by"},
+	} {
+		dir := t.TempDir()
+		writeFile(t, dir, "r.csv", "x\n")
+		line := "B1," + dep + ",r.csv,TESTJET,61000,20," + c.by + "," + c.window
+		rows, bad, err := ReadSchedule(writeFile(t, dir, "s.csv", head+line+"\n"))
+		if err != nil || len(rows) != 0 || len(bad) != 1 || bad[0].Column != c.column || !strings.Contains(bad[0].Msg, c.value) {
+			t.Errorf("%s: rows %v, bad %v, err %v; want column %s naming %q", c.name, rows, bad, err, c.column, c.value)
+		}
+	}
+	// A target is part of the row's resume key.
+	plain := Row{Line: 2, Flight: "A1", Departure: time.Date(2026, 6, 12, 8, 30, 0, 0, time.UTC), TOW: 61000}
+	withCols := plain
+	withCols.ArriveBy = plain.Departure.Add(3 * time.Hour)
+	if fingerprint(&plain, 20) == fingerprint(&withCols, 20) {
+		t.Error("a target does not change the fingerprint (a resume would reuse the plan)")
+	}
+}

@@ -50,6 +50,11 @@ type Doc struct {
 	// Alternatives are present when they were asked for (plan
 	// --alternatives K).
 	Alternatives []Alternative `json:"alternatives,omitempty"`
+	// Arrival is present for a plan made for an arrival window (plan
+	// --arrive-by), Delay for one chosen against a delay cost (plan
+	// --delay-cost).
+	Arrival *Arrival `json:"arrival,omitempty"`
+	Delay   *Delay   `json:"delay_cost,omitempty"`
 	// Policy is the resolved policy the plan was made under.
 	Policy Policy `json:"policy"`
 }
@@ -233,6 +238,7 @@ func FromPlan(p *optimizer.Plan, assessed bool) *Doc {
 			FuelKg: a.Totals.Fuel, TimeMin: a.Totals.Time / 60, Cost: a.Totals.Cost, MinMarginG: Number(a.MinMargin),
 			InitialFL: a.Profile.Initial, StepsCount: len(a.Profile.Changes), LandingMass: a.Totals.LandingMass})
 	}
+	d.Arrival, d.Delay = arrivalDoc(p.Arrival), delayDoc(p.Delay)
 	if !assessed {
 		d.SearchCost = Number(p.SearchCost)
 		d.SearchNodes, d.SearchEdges = p.Nodes, p.Edges

@@ -64,6 +64,7 @@ func WriteTableBrief(w io.Writer, p *optimizer.Plan, assessed, brief bool) error
 	} else {
 		bw.printf("Baseline: no constant level is feasible along the whole route\n")
 	}
+	writeArrival(bw, d)
 	bw.printf("Status   %s\n", statusText(d))
 	writeFuel(bw, d)
 	writeViolations(bw, d, assessed)
@@ -165,10 +166,15 @@ func writeViolations(bw *errWriter, d *Doc, assessed bool) {
 func WriteCSV(w io.Writer, p *optimizer.Plan, assessed bool) error {
 	d := FromPlan(p, assessed)
 	cw := csv.NewWriter(w)
-	cw.Write([]string{"from_nm", "to_nm", "phase", "from_fl", "fl", "mach", "tas_kt", "wind_kt", "gs_kt", "isa_dev_c", "fuel_kg", "time_min", "mass_start_kg", "buffet_margin_g", "floor_g", "floor_reason", "caution"})
+	// A plan made for an arrival window or a delay cost repeats its
+	// target and choice on every row, before the caution.
+	extraHead, extra := arrivalCSV(d)
+	head := []string{"from_nm", "to_nm", "phase", "from_fl", "fl", "mach", "tas_kt", "wind_kt", "gs_kt", "isa_dev_c", "fuel_kg", "time_min", "mass_start_kg", "buffet_margin_g", "floor_g", "floor_reason"}
+	cw.Write(append(append(head, extraHead...), "caution"))
 	for _, l := range d.Legs {
-		cw.Write([]string{CSVNumber(l.FromNM), CSVNumber(l.ToNM), l.Phase, CSVNumber(l.FromFL), CSVNumber(l.FL), CSVNumber(l.Mach), CSVNumber(l.TASKt), CSVNumber(l.WindKt), CSVNumber(l.GSKt), CSVNumber(l.ISADevC),
-			CSVNumber(l.FuelKg), CSVNumber(l.TimeMin), CSVNumber(l.MassStartKg), CSVPointer(l.BuffetMarginG), CSVNumber(l.FloorG), l.FloorReason, optimizer.Caution})
+		row := []string{CSVNumber(l.FromNM), CSVNumber(l.ToNM), l.Phase, CSVNumber(l.FromFL), CSVNumber(l.FL), CSVNumber(l.Mach), CSVNumber(l.TASKt), CSVNumber(l.WindKt), CSVNumber(l.GSKt), CSVNumber(l.ISADevC),
+			CSVNumber(l.FuelKg), CSVNumber(l.TimeMin), CSVNumber(l.MassStartKg), CSVPointer(l.BuffetMarginG), CSVNumber(l.FloorG), l.FloorReason}
+		cw.Write(append(append(row, extra...), optimizer.Caution))
 	}
 	cw.Flush()
 	return cw.Error()

@@ -83,6 +83,36 @@ func Schedule() []Flight {
 	}
 }
 
+// Arrival is an invented arrival target of a demo flight: arrive by At,
+// inside the window Window ("-10m,+5m").
+type Arrival struct {
+	At     time.Time
+	Window string
+}
+
+// Arrivals returns the invented arrival targets of some demo flights, by
+// flight id (schedule-arrivals.csv).
+func Arrivals() map[string]Arrival {
+	d := func(h, m int) time.Time { return Ref().Add(time.Duration(h)*time.Hour + time.Duration(m)*time.Minute) }
+	return map[string]Arrival{
+		"DEMO101": {d(13, 15), "-10m,+5m"},
+		"DEMO201": {d(8, 15), "-10m,+5m"},
+		"DEMO301": {d(5, 42), "-10m,+5m"},
+		"DEMO401": {d(4, 0), "-10m,+5m"},
+	}
+}
+
+// DelayCostCSV is the invented delay cost of the demo
+// (delay-cost.csv), in the format optimizer.ParseDelayCost reads.
+const DelayCostCSV = `# Invented demo delay cost: kg of fuel-equivalent by minutes after the
+# scheduled arrival (no cost in the first 5 minutes, then steeper).
+minutes_late,cost_kg
+0,0
+5,0
+30,2500
+90,15000
+`
+
 // RouteGeoJSON returns a demo route as a FeatureCollection of named Points
 // along the WGS-84 geodesic.
 func RouteGeoJSON(r RouteFile) ([]byte, error) {
@@ -107,6 +137,9 @@ func RouteGeoJSON(r RouteFile) ([]byte, error) {
 type Files struct {
 	Dir, Route, Weather, Schedule string
 	Routes                        []string
+	// Arrivals is the schedule with arrival targets (arrive_by,
+	// arrive_window), DelayCost the delay-cost file.
+	Arrivals, DelayCost string
 }
 
 // Write writes the scenario into dir.
@@ -142,6 +175,24 @@ func Write(dir string) (Files, error) {
 	}
 	fs.Schedule = filepath.Join(dir, "schedule.csv")
 	if err := os.WriteFile(fs.Schedule, sb.Bytes(), 0o644); err != nil {
+		return fs, err
+	}
+	sb.Reset()
+	sb.WriteString("flight,departure,route,aircraft,tow_kg,ci,arrive_by,arrive_window\n")
+	arr := Arrivals()
+	for _, f := range Schedule() {
+		by, win := "", ""
+		if a, ok := arr[f.ID]; ok {
+			by, win = a.At.Format(time.RFC3339), `"`+a.Window+`"`
+		}
+		fmt.Fprintf(&sb, "%s,%s,%s,%s,%.0f,%g,%s,%s\n", f.ID, f.Depart.Format(time.RFC3339), f.Route, f.Aircraft, f.TOW, f.CI, by, win)
+	}
+	fs.Arrivals = filepath.Join(dir, "schedule-arrivals.csv")
+	if err := os.WriteFile(fs.Arrivals, sb.Bytes(), 0o644); err != nil {
+		return fs, err
+	}
+	fs.DelayCost = filepath.Join(dir, "delay-cost.csv")
+	if err := os.WriteFile(fs.DelayCost, []byte(DelayCostCSV), 0o644); err != nil {
 		return fs, err
 	}
 	readme := "Invented levelpath demo scenario: invented airports, aircraft, flights and weather.\nNot real data; do not use for operations.\n"

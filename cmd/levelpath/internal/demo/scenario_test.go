@@ -7,6 +7,8 @@ import (
 	"testing"
 	"time"
 
+	"levelpath/optimizer"
+	"levelpath/optimizer/batch"
 	"levelpath/route"
 	"levelpath/winds"
 	"levelpath/winds/synthetic"
@@ -60,5 +62,27 @@ func TestWriteScenario(t *testing.T) {
 		if fl.Depart.Before(ts[0]) || fl.Depart.Add(16*time.Hour).After(ts[len(ts)-1]) {
 			t.Errorf("flight %s departs %v outside the weather's times", fl.ID, fl.Depart)
 		}
+	}
+	// The arrivals schedule and the delay cost read with the program's
+	// own readers, every target after its departure.
+	rows, bad, err := batch.ReadSchedule(fs.Arrivals)
+	if err != nil || len(bad) > 0 || len(rows) != len(Schedule()) {
+		t.Errorf("schedule-arrivals.csv: %d rows, bad %v, %v", len(rows), bad, err)
+	}
+	targets := 0
+	for _, r := range rows {
+		if !r.ArriveBy.IsZero() {
+			targets++
+		}
+	}
+	if targets != len(Arrivals()) {
+		t.Errorf("schedule-arrivals.csv: %d targets, want %d", targets, len(Arrivals()))
+	}
+	data, err := os.ReadFile(fs.DelayCost)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, err := optimizer.ParseDelayCost(data, fs.DelayCost); err != nil {
+		t.Error(err)
 	}
 }
