@@ -156,6 +156,7 @@ func assessFrom(ctx context.Context, q *Problem, prof Profile, warn []string, de
 	plan.Totals.Time = s.t
 	plan.Totals.Cost = plan.Totals.Fuel + q.CI*s.t/60
 	plan.Totals.CO2 = 3.16 * plan.Totals.Fuel
+	classifyContrails(q, plan)
 	s.checkLoading()
 	fob := nan
 	if q.ZFW > 0 {

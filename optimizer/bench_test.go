@@ -64,3 +64,21 @@ func BenchmarkPlanLongHaulExplicit(b *testing.B) {
 	}
 	b.ReportMetric(cost, "cost")
 }
+
+// BenchmarkPlanLongHaulContrail is BenchmarkPlanLongHaul with a contrail
+// cost of 20 kg/NM over the invented humidity of the demo weather.
+func BenchmarkPlanLongHaulContrail(b *testing.B) {
+	p := benchProblem(b)
+	p.ContrailCost = 20
+	b.ReportAllocs()
+	b.ResetTimer()
+	var plan *Plan
+	for i := 0; i < b.N; i++ {
+		var err error
+		if plan, err = Solve(p); err != nil {
+			b.Fatal(err)
+		}
+	}
+	b.ReportMetric(plan.SearchCost, "cost")
+	b.ReportMetric(float64(plan.Nodes), "nodes")
+}

@@ -105,7 +105,7 @@ func (s *solver) descentEdge(st state, m float64, emit func(edge)) {
 	if v.ok {
 		f += d.fuel
 		t += d.time
-		emit(edge{to: sinkID, fuel: f, cost: s.costOf(f, t)})
+		emit(edge{to: sinkID, fuel: f, cost: s.costOf(f, t) + s.contrailCost(k, li, m, v, tod-s.bounds[k])})
 	}
 }
 
@@ -123,7 +123,7 @@ func (s *solver) cruiseEdge(st, next state, m float64, emit func(edge)) {
 		if b, ok := s.bucket(m - f); ok {
 			n := next
 			n.b = b
-			emit(edge{to: n.id(), fuel: f, cost: s.costOf(f, t)})
+			emit(edge{to: n.id(), fuel: f, cost: s.costOf(f, t) + s.contrailCost(k, li, m, v, s.bounds[k+1]-s.bounds[k])})
 		}
 	}
 }
@@ -184,7 +184,7 @@ func (s *solver) stepEdges(st, next state, m float64, emit func(edge)) {
 		if s.sinceCap > 0 {
 			n.since = 1
 		}
-		emit(edge{to: n.id(), fuel: f, cost: s.costOf(f, t)})
+		emit(edge{to: n.id(), fuel: f, cost: s.costOf(f, t) + s.contrailCost(k, lj, m2, v, rem)})
 	}
 }
 
@@ -243,6 +243,6 @@ func (s *solver) climbEdges(emit func(edge)) {
 		if s.sinceCap > 0 {
 			n.since = 1 // the climb counts as a step for the minimum distance
 		}
-		emit(edge{to: n.id(), fuel: f, cost: s.costOf(f, t)})
+		emit(edge{to: n.id(), fuel: f, cost: s.costOf(f, t) + s.contrailCost(j, li, tow-c.fuel, v, s.bounds[j+1]-ground)})
 	}
 }

@@ -50,6 +50,12 @@ type Leg struct {
 	// ResidualClimb is the rate of climb at maximum climb thrust at the
 	// leg's Mach and start mass, m/s.
 	ResidualClimb float64
+	// Contrail is a cruise leg's contrail class and RHi the relative
+	// humidity over ice it was judged with, % (see classifyContrails);
+	// ContrailUnknown and NaN (0 without humidity in the weather) for
+	// other legs.
+	Contrail ContrailClass
+	RHi      float64
 }
 
 // Step is a level change that begins at AtDist metres from departure.
@@ -164,6 +170,9 @@ type Plan struct {
 	// Alternatives are the next-cheapest distinct profiles, when asked
 	// for (see Alternatives); nil otherwise.
 	Alternatives []Alternative
+	// Contrail sums the cruise legs by contrail class; nil when the
+	// weather holds no humidity.
+	Contrail *ContrailTotals
 	// Arrival is how the plan meets its arrival window (SolveArriveBy);
 	// nil when none was asked for.
 	Arrival *ArrivalResult

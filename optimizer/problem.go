@@ -169,6 +169,21 @@ type Problem struct {
 	// air). It is an error with a weather that has temperatures. A
 	// non-zero value is named in the plan's warnings.
 	ISADev float64
+	// ContrailCost, kg of fuel equivalent per NM, is added to the
+	// search's cost of level cruise where persistent contrails are
+	// predicted (Schmidt-Appleman criterion at the engine's propulsion
+	// efficiency, and relative humidity over ice at or above
+	// ContrailRHiPct): the planner trades fuel for avoided contrail
+	// distance by small changes of level, the kind of small-scale
+	// altitude diversion Teoh, Schumann, Majumdar and Stettler, Environ.
+	// Sci. Technol. 54 (2020) 2941-2950, assessed. 0, the default, plans
+	// exactly as without it. It needs weather with humidity; negative or
+	// non-finite values are errors. Plans report contrail classes
+	// whenever the weather holds humidity (Plan.Contrail).
+	ContrailCost float64
+	// ContrailRHiPct is the relative humidity over ice at or above which
+	// a contrail persists, % (0: DefaultContrailRHi, 100).
+	ContrailRHiPct float64
 	// Notes are remarks from whoever built the problem (a default it
 	// applied, say); they open the plan's warnings.
 	Notes []string
@@ -347,6 +362,9 @@ func (p *Problem) normalise() ([]string, error) {
 		for _, w := range p.Weather.Warnings() {
 			warn = append(warn, "weather: "+w.String())
 		}
+	}
+	if err := p.checkContrail(); err != nil {
+		return nil, err
 	}
 	return warn, nil
 }

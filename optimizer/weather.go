@@ -23,6 +23,9 @@ type cond struct {
 	// name ("turbulence", or "weather" outside the weather's levels).
 	closedWhy string
 	closedLim Limit
+	// con is the contrail condition (contrail.go); nil where no contrail
+	// cost applies.
+	con *contrailCond
 }
 
 // weatherAt samples the weather at a point and returns the along-track wind
@@ -150,6 +153,7 @@ func buildConds(p *Problem, levels []int) ([][]cond, error) {
 			if c.closed {
 				c.closedLim, c.closedWhy = LimitTurbulence, c.why
 			}
+			c.con = contrailCondAt(p, seg, pr, t)
 			row[li] = c
 		}
 		out[k] = row

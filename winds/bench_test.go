@@ -110,6 +110,41 @@ func BenchmarkSample(b *testing.B) {
 	}
 }
 
+// BenchmarkSampleHumidity is BenchmarkSample on a field that also holds
+// relative humidity (converted to over ice at each sample).
+func BenchmarkSampleHumidity(b *testing.B) {
+	fn := func(lat, lon, p float64, tt time.Time) float64 { return lat + lon + p/1000 }
+	rh := func(lat, lon, p float64, tt time.Time) float64 { return 50 + lat/4 }
+	tk := func(lat, lon, p float64, tt time.Time) float64 { return 220 + lat/10 }
+	levels := []float64{30000, 25000, 20000, 15000}
+	var msgs []Message
+	for _, prm := range []Param{ParamU, ParamV} {
+		msgs = append(msgs, synthetic(prm, levels, []int{0, 6}, fn)...)
+	}
+	msgs = append(msgs, synthetic(ParamT, levels, []int{0, 6}, tk)...)
+	msgs = append(msgs, synthetic(ParamRH, levels, []int{0, 6}, rh)...)
+	f, err := NewField(msgs)
+	if err != nil {
+		b.Fatal(err)
+	}
+	r := rand.New(rand.NewPCG(3, 4))
+	const n = 4096
+	var lat, lon, p [n]float64
+	var ts [n]time.Time
+	for i := range lat {
+		lat[i], lon[i] = r.Float64()*170-85, r.Float64()*360-180
+		p[i], ts[i] = 15000+r.Float64()*15000, t0.Add(time.Duration(r.Float64()*6*float64(time.Hour)))
+	}
+	b.ReportAllocs()
+	i := 0
+	for b.Loop() {
+		if s, err := f.Sample(lat[i], lon[i], p[i], ts[i]); err != nil || !(s.RHi > 0) {
+			b.Fatal(err, s)
+		}
+		i = (i + 1) % n
+	}
+}
+
 // BenchmarkDecodeBitmapJPos decodes the benchmark grid with the points
 // north of 60N missing (a bitmap) and scanning mode 0x40 (rows from the
 // south): the message is benchGrid's with its section 3 rewritten to scan

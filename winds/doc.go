@@ -41,11 +41,23 @@
 //
 // Kept parameters are u and v wind (GRIB2 0.2.2 and 0.2.3; GRIB1 table 2
 // parameters 33/34 and ECMWF table 128 parameters 131/132), temperature
-// (0.0.0; GRIB1 11 and 130) and eddy dissipation rate (0.19.28-31) on
-// isobaric surfaces (GRIB2 fixed surface type 100, GRIB1 level type 100).
+// (0.0.0; GRIB1 11 and 130), eddy dissipation rate (0.19.28-31),
+// relative humidity (0.1.1; GRIB1 52 and ECMWF 157) and specific humidity
+// (0.1.0; GRIB1 51 and ECMWF 133) on isobaric surfaces (GRIB2 fixed
+// surface type 100, GRIB1 level type 100).
 // Everything else is listed by Scan with Param "other" and not decoded.
 //
-// A Field may combine files: each of u, v, temperature and EDR keeps its
+// Humidity must lie on the levels of the winds (an error names the
+// message otherwise), relative humidity within 0..150 % (an error names
+// the message and the point). The WMO tables do not say what relative
+// humidity is relative to below freezing: most producers give it over
+// liquid water, ECMWF's IFS over a water/ice mixture that is ice below
+// -23 °C (from memory); Options.RHReference chooses, by default by the
+// originating centre. Sample converts it to relative humidity over water
+// and over ice with Murphy and Koop's (2005) saturation vapour pressures
+// (package perf/contrail), or derives both from specific humidity.
+//
+// A Field may combine files: each of u, v, temperature, EDR and humidity keeps its
 // own grid, levels and times (winds from one forecast, EDR from a hazard
 // file on another grid), longitudes in any convention; levels within
 // LevelTolerance (0.5 %) are one level, and a pressure within it beyond a

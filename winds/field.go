@@ -13,6 +13,8 @@ const (
 	slotV
 	slotT
 	slotEDR
+	slotRH
+	slotQ
 	nslots
 )
 
@@ -26,11 +28,18 @@ func slotOf(p Param) int {
 		return slotT
 	case ParamEDR:
 		return slotEDR
+	case ParamRH:
+		return slotRH
+	case ParamQ:
+		return slotQ
 	}
 	return -1
 }
 
-var slotParams = [nslots]Param{ParamU, ParamV, ParamT, ParamEDR}
+var slotParams = [nslots]Param{ParamU, ParamV, ParamT, ParamEDR, ParamRH, ParamQ}
+
+// isHumidity reports whether slot s holds a humidity variable.
+func isHumidity(s int) bool { return s == slotRH || s == slotQ }
 
 // LevelTolerance is the relative pressure difference within which two
 // isobaric levels are the same level, and within which Sample answers
@@ -65,7 +74,8 @@ type axes struct {
 	plane       int       // ni*nj
 }
 
-// A Field holds u, v, temperature and EDR, each on its own regular
+// A Field holds u, v, temperature, EDR and humidity (relative, specific),
+// each on its own regular
 // lat/lon grid, pressure levels and valid times (variables may come from
 // different files: winds from one forecast, EDR from a hazard file), as
 // float32 arrays indexed [time][level][row][column] with rows from north
@@ -79,15 +89,25 @@ type Field struct {
 	nuniq    int
 	prim     *axes // the axes of u (else v, T, EDR): Grid, Bounds, Levels, Times
 	vars     [nslots][]float32
+	rhRef    RHReference // RHWater or RHMixed when the field holds RH
 	warnings []Warning
 }
 
 // A Sample is the field interpolated at one point: wind components (m/s,
-// u eastward, v northward), temperature (K) and eddy dissipation rate
-// (m^(2/3)/s). A variable the field does not hold is NaN, and so is one
-// whose surrounding grid values include a missing (bitmap) point, and EDR
-// at a point outside its own grid, levels or times.
-type Sample struct{ U, V, T, EDR float64 }
+// u eastward, v northward), temperature (K), eddy dissipation rate
+// (m^(2/3)/s), relative humidity over liquid water RH and over ice RHi
+// (%, 100 = saturated) and specific humidity Q (kg/kg). A variable the
+// field does not hold is NaN, and so is one whose surrounding grid values
+// include a missing (bitmap) point, and EDR and humidity at a point
+// outside their own grid, levels or times. RH and RHi come from the
+// field's relative humidity, converted from the reference its source
+// uses (see RHReference) with the saturation vapour pressures of Murphy
+// and Koop (2005, package perf/contrail) at the sampled temperature; when
+// the field holds specific humidity only, from Q, the pressure and the
+// temperature. They are NaN when the field holds neither or the
+// temperature is NaN. Q is NaN when the field holds no specific humidity
+// (it is not derived from RH).
+type Sample struct{ U, V, T, EDR, RH, RHi, Q float64 }
 
 // DefaultEDRParam is the EDR used when Options.EDRParam is 0 and the files
 // hold it: 0.19.30, the eddy dissipation parameter, which hazard forecasts
@@ -155,6 +175,9 @@ func (o Options) OpenBetween(pLow, pHigh float64, paths ...string) (*Field, erro
 	if err != nil {
 		return nil, err
 	}
+	if err := humidityLevels(heads); err != nil {
+		return nil, err
+	}
 	warns = append(warns, edrWarns...)
 	keep := levelBand(heads, edr, pLow, pHigh)
 	want := func(m *Message) bool {
@@ -175,6 +198,9 @@ func (o Options) OpenBetween(pLow, pHigh float64, paths ...string) (*Field, erro
 	}
 	fl, err := layout(kept)
 	if err != nil {
+		return nil, err
+	}
+	if fl.rhRef, err = rhReference(o.RHReference, kept); err != nil {
 		return nil, err
 	}
 	// Every message is decoded into the same scratch buffers and copied
@@ -232,8 +258,14 @@ func NewFieldWith(o Options, msgs []Message) (*Field, error) {
 			kept = append(kept, m)
 		}
 	}
+	if err := humidityLevels(kept); err != nil {
+		return nil, err
+	}
 	f, err := layout(kept)
 	if err != nil {
+		return nil, err
+	}
+	if f.rhRef, err = rhReference(o.RHReference, kept); err != nil {
 		return nil, err
 	}
 	f.warnings = warnings
@@ -260,6 +292,11 @@ func (f *Field) put(m *Message) error {
 	il := levelIndex(a.levels, m.Level)
 	if it == len(a.times) || !a.times[it].Equal(m.ValidTime) || il < 0 {
 		return fmt.Errorf("winds: %s not in the field's layout (file changed between reads?)", where(m))
+	}
+	if s == slotRH {
+		if err := rhRange(m); err != nil {
+			return err
+		}
 	}
 	copy(f.vars[s][(it*len(a.levels)+il)*a.plane:], m.Values)
 	return nil

@@ -47,7 +47,7 @@ func decodeGRIB1(msg []byte, src string, index int, base int64, values bool, scr
 		return err
 	}
 	m := Message{Source: src, Index: index, Offset: base, Edition: 1, Discipline: -1, Product: -1, Ensemble: -1,
-		Category: int(pds[3]), Number: int(pds[8]), LevelType: int(pds[9]), Level: math.NaN()}
+		Category: int(pds[3]), Centre: int(pds[4]), Number: int(pds[8]), LevelType: int(pds[9]), Level: math.NaN()}
 	if m.LevelType == LevelIsobaric {
 		m.Level = float64(u16(pds[10:])) * 100 // hPa to Pa
 	}
@@ -228,8 +228,9 @@ func timeUnit1(code int) (time.Duration, bool) {
 }
 
 // classify1 maps a GRIB1 parameter to a kept parameter: WMO table 2
-// (versions 1-3) 33 u, 34 v, 11 temperature; ECMWF local table 128:
-// 131 u, 132 v, 130 temperature.
+// (versions 1-3) 33 u, 34 v, 11 temperature, 52 relative humidity, 51
+// specific humidity; ECMWF local table 128: 131 u, 132 v, 130
+// temperature, 157 relative humidity, 133 specific humidity.
 func classify1(table, param, levelType int, level float64) Param {
 	if levelType != LevelIsobaric || !(level > 0) {
 		return ParamOther
@@ -241,6 +242,10 @@ func classify1(table, param, levelType int, level float64) Param {
 		return ParamV
 	case table <= 3 && param == 11, table == 128 && param == 130:
 		return ParamT
+	case table <= 3 && param == 52, table == 128 && param == 157:
+		return ParamRH
+	case table <= 3 && param == 51, table == 128 && param == 133:
+		return ParamQ
 	}
 	return ParamOther
 }

@@ -21,6 +21,7 @@ type grib2Decoder struct {
 
 	discipline int
 	ref        time.Time
+	centre     int
 	cur        Message // header being built; copied out at section 7
 
 	haveGrid    bool
@@ -166,6 +167,7 @@ func (d *grib2Decoder) identification() error {
 		return d.formatErr(p+12, "invalid reference time %04d-%02d-%02d %02d:%02d:%02d", year, month, day, hour, minute, second)
 	}
 	d.ref = time.Date(year, time.Month(month), day, hour, minute, second, 0, time.UTC)
+	d.centre = u16(s[5:])
 	d.pos += length
 	return nil
 }
@@ -260,6 +262,7 @@ func (d *grib2Decoder) productDefinition(s []byte) error {
 	c.Edition = 2
 	c.Source, c.Index, c.Offset = d.src, d.index, d.base
 	c.Discipline = d.discipline
+	c.Centre = d.centre
 	c.Product = u16(s[7:])
 	c.Category, c.Number = int(s[9]), int(s[10])
 	c.Param = ParamOther
@@ -366,7 +369,9 @@ func timeUnit(code int) (time.Duration, bool) {
 }
 
 // classify2 maps GRIB2 discipline, category and number (code tables 4.1 and
-// 4.2) on an isobaric level to a kept parameter.
+// 4.2) on an isobaric level to a kept parameter: 0.2.2 u, 0.2.3 v, 0.0.0
+// temperature, 0.19.28-31 EDR, 0.1.1 relative humidity, 0.1.0 specific
+// humidity.
 func classify2(disc, cat, num, levelType int, level float64) Param {
 	if disc != 0 || levelType != LevelIsobaric || math.IsNaN(level) || level <= 0 {
 		return ParamOther
@@ -380,6 +385,10 @@ func classify2(disc, cat, num, levelType int, level float64) Param {
 		return ParamT
 	case cat == 19 && num >= 28 && num <= 31:
 		return ParamEDR
+	case cat == 1 && num == 1:
+		return ParamRH
+	case cat == 1 && num == 0:
+		return ParamQ
 	}
 	return ParamOther
 }

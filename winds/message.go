@@ -15,6 +15,8 @@ const (
 	ParamV     Param = "v"     // northward wind, m/s
 	ParamT     Param = "t"     // temperature, K
 	ParamEDR   Param = "edr"   // eddy dissipation rate, m^(2/3)/s
+	ParamRH    Param = "rh"    // relative humidity, % (reference: see RHReference)
+	ParamQ     Param = "q"     // specific humidity, kg/kg
 	ParamOther Param = "other" // anything else (not decoded)
 )
 
@@ -44,6 +46,11 @@ type Message struct {
 	// 4.1, 4.2). GRIB1: Discipline is -1, Category is the parameter table
 	// version and Number the indicator of parameter.
 	Discipline, Category, Number int
+	// Centre is the originating centre (WMO common code table C-11:
+	// GRIB2 section 1 octets 6-7, GRIB1 section 1 octet 5), 98 for
+	// ECMWF, 7 for NCEP, 255 missing. It decides the reference of
+	// relative humidity (see RHReference).
+	Centre int
 	// Param is the kept parameter, or ParamOther. Only fields on an
 	// isobaric surface are kept.
 	Param Param

@@ -47,6 +47,10 @@ type Options struct {
 	// those they do. Scan and Decode return every EDR message whatever it
 	// is.
 	EDRParam int
+	// RHReference is what relative humidity in the files is relative to
+	// (see RHReference); RHAuto, the zero value, decides by the
+	// originating centre.
+	RHReference RHReference
 }
 
 func (o Options) budget() int64 {
@@ -195,6 +199,8 @@ func sanity(m *Message) (Warning, bool) {
 		lo, hi = -MaxWindSpeed, MaxWindSpeed
 	case ParamT:
 		lo, hi, unit = MinTemperature, MaxTemperature, "K"
+	case ParamQ:
+		lo, hi, unit = 0, MaxQ, "kg/kg"
 	default:
 		return Warning{}, false
 	}

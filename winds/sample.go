@@ -28,16 +28,16 @@ const tol = 1e-9
 // not allocate unless it returns an error.
 func (f *Field) Sample(lat, lon, p float64, t time.Time) (Sample, error) {
 	nan := math.NaN()
-	res := [nslots]float64{nan, nan, nan, nan}
+	res := [nslots]float64{nan, nan, nan, nan, nan, nan}
 	lnp := math.Log(p)
 	ts := float64(t.Unix()) + float64(t.Nanosecond())*1e-9
 	for _, a := range f.uniq[:f.nuniq] {
 		var l loc
 		if what := a.locate(lat, lon, lnp, ts, &l); what != "" {
 			if a != f.ax[slotU] && a != f.ax[slotV] && a != f.ax[slotT] && a != f.prim {
-				continue // EDR beside winds: NaN outside its grid, levels or times
+				continue // EDR or humidity beside winds: NaN outside its grid, levels or times
 			}
-			return Sample{nan, nan, nan, nan}, a.rangeErr(lat, lon, p, t, what)
+			return Sample{nan, nan, nan, nan, nan, nan, nan}, a.rangeErr(lat, lon, p, t, what)
 		}
 		for s := range f.vars {
 			if f.ax[s] == a {
@@ -45,7 +45,14 @@ func (f *Field) Sample(lat, lon, p float64, t time.Time) (Sample, error) {
 			}
 		}
 	}
-	return Sample{res[slotU], res[slotV], res[slotT], res[slotEDR]}, nil
+	out := Sample{U: res[slotU], V: res[slotV], T: res[slotT], EDR: res[slotEDR], RH: nan, RHi: nan, Q: res[slotQ]}
+	switch {
+	case f.vars[slotRH] != nil:
+		out.RH, out.RHi = f.rhRef.convert(res[slotRH], out.T)
+	case f.vars[slotQ] != nil:
+		out.RH, out.RHi = fromQ(out.Q, p, out.T)
+	}
+	return out, nil
 }
 
 // loc is a point's place on one axes: the four surrounding grid offsets

@@ -15,7 +15,7 @@ import (
 // decimal scale factor 0 and the binary scale factor chosen so the range
 // fits (quantisation error at most range/2^17). NaN values are written
 // through a bitmap (section 6). Param other than ParamOther sets the
-// parameter numbers (u 0.2.2, v 0.2.3, t 0.0.0, edr 0.19.30 unless
+// parameter numbers (u 0.2.2, v 0.2.3, t 0.0.0, rh 0.1.1, q 0.1.0, edr 0.19.30 unless
 // Category/Number already name 0.19.28-31); ParamOther uses Discipline,
 // Category and Number as given. Levels are written as isobaric surfaces in
 // Pa when LevelType is 100.
@@ -46,6 +46,10 @@ func encodeGRIB2(m *Message) ([]byte, error) {
 		disc, cat, num = 0, 2, 3
 	case ParamT:
 		disc, cat, num = 0, 0, 0
+	case ParamRH:
+		disc, cat, num = 0, 1, 1
+	case ParamQ:
+		disc, cat, num = 0, 1, 0
 	case ParamEDR:
 		if !(m.Discipline == 0 && m.Category == 19 && m.Number >= 28 && m.Number <= 31) {
 			disc, cat, num = 0, 19, 30
@@ -73,7 +77,11 @@ func encodeGRIB2(m *Message) ([]byte, error) {
 	out = append(out, 'G', 'R', 'I', 'B', 0, 0, byte(disc), 2)
 	out = be.AppendUint64(out, 0)
 	s := start(1)
-	put16(255) // centre: missing
+	centre := 255 // missing
+	if m.Centre > 0 && m.Centre < 0xffff {
+		centre = m.Centre
+	}
+	put16(centre)
 	put16(255)
 	put8(2) // master tables version
 	put8(0)

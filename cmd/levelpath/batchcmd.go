@@ -41,6 +41,8 @@ func newBatchCmd() *cobra.Command {
 		maxStepFt, maxSteps                    int
 		minStepNM                              float64
 		stepDescents, noSteps                  bool
+		con                                    contrailFlags
+		contrailSweep                          string
 	)
 	c := &cobra.Command{
 		Use:   "batch",
@@ -71,6 +73,8 @@ func newBatchCmd() *cobra.Command {
 	fl.Float64Var(&minStepNM, "min-step-nm", 100, "step rule for every flight: least distance between steps, NM (0: none)")
 	fl.IntVar(&maxSteps, "max-steps", 0, "step rule for every flight: most steps (0: no limit)")
 	fl.BoolVar(&noSteps, "no-steps", false, "step rule for every flight: one constant level")
+	con.register(c)
+	fl.StringVar(&contrailSweep, "contrail-sweep", "", "plan every flight at each contrail cost (kg/NM), e.g. 0,5,20,100, each run in OUT/contrail-COST; prints fuel, CO2, persistent contrail NM and the share of flights changed per cost")
 	c.RunE = func(cmd *cobra.Command, _ []string) error {
 		if err := checkFormat(*format, "table", "json", "csv"); err != nil {
 			return err
@@ -92,9 +96,24 @@ func newBatchCmd() *cobra.Command {
 			}
 			opt.Sweep = s
 		}
+		var costs []float64
+		if contrailSweep != "" {
+			var err error
+			if costs, err = parseContrailSweep(contrailSweep); err != nil {
+				return err
+			}
+			switch {
+			case cmd.Flags().Changed("contrail-cost"):
+				return badInputf("give --contrail-sweep or --contrail-cost, not both")
+			case opt.Sweep != nil:
+				return badInputf("--contrail-sweep and --ci-sweep cannot be combined: run one sweep at a time")
+			case shard != "" || shardCount != 0:
+				return badInputf("--contrail-sweep plans whole schedules: it cannot be combined with --shard or --shard-count")
+			}
+		}
 		if chartPath != "" {
-			if opt.Sweep == nil {
-				return badInputf("--chart needs --ci-sweep")
+			if opt.Sweep == nil && costs == nil {
+				return badInputf("--chart needs --ci-sweep or --contrail-sweep")
 			}
 			if _, err := chart.FormatOf(chartPath); err != nil {
 				return badInputf("--chart: %v", err)
@@ -150,13 +169,30 @@ func newBatchCmd() *cobra.Command {
 		if err != nil {
 			return err
 		}
+		if err := con.check(weather, wx); err != nil {
+			return err
+		}
+		for _, v := range costs {
+			if err := checkContrail(v, con.rhi, weather, wx, "--contrail-sweep item"); err != nil {
+				return err
+			}
+		}
+		if con.cost != 0 {
+			opt.Meta["contrail_cost"] = strconv.FormatFloat(con.cost, 'g', -1, 64) // a resume with another cost is refused
+		}
+		if con.rhi != 0 {
+			opt.Meta["contrail_rhi"] = strconv.FormatFloat(con.rhi, 'g', -1, 64)
+		}
+		if wxo.rhRef != "" && wxo.rhRef != "auto" {
+			opt.Meta["rh_reference"] = wxo.rhRef // it changes the humidity, so the contrail figures
+		}
 		if wx == nil {
 			warnf(cmd.ErrOrStderr(), "%s", stillAirWarning)
 		}
 		if !(maxSegNM >= 1 && maxSegNM <= 1000) {
 			return badInputf("--max-seg-nm %v: want 1..1000", maxSegNM)
 		}
-		pl := &batch.SchedulePlanner{Weather: wx, MaxSegment: maxSegNM * perf.NMToM, Steps: steps, Sweep: opt.Sweep != nil}
+		pl := &batch.SchedulePlanner{Weather: wx, MaxSegment: maxSegNM * perf.NMToM, Steps: steps, Sweep: opt.Sweep != nil, ContrailCost: con.cost, ContrailRHiPct: con.rhi}
 		if delayPath != "" {
 			dc, err := readDelayCost(delayPath, "--delay-cost")
 			if err != nil {
@@ -166,13 +202,15 @@ func newBatchCmd() *cobra.Command {
 			sum := sha256.Sum256([]byte(fmt.Sprintf("%+v", dc)))
 			opt.Meta["delay_cost"] = hex.EncodeToString(sum[:]) // a resume with another delay cost is refused
 		}
+		var pol *optimizer.FuelPolicy
 		if policyPath != "" {
-			pol, err := readPolicy(policyPath)
+			p, err := readPolicy(policyPath)
 			if err != nil {
 				return err
 			}
-			pl.Policy = &pol
-			sum := sha256.Sum256([]byte(fmt.Sprintf("%+v", pol)))
+			pol = &p
+			pl.Policy = pol
+			sum := sha256.Sum256([]byte(fmt.Sprintf("%+v", *pol)))
 			opt.Meta["fuel_policy"] = hex.EncodeToString(sum[:]) // a resume with another policy is refused
 		}
 		// From here a first SIGINT or SIGTERM stops the run cleanly
@@ -182,6 +220,34 @@ func newBatchCmd() *cobra.Command {
 		ctx, stop := signal.NotifyContext(cmd.Context(), os.Interrupt, syscall.SIGTERM)
 		defer stop()
 		go func() { <-ctx.Done(); stop() }()
+		if costs != nil {
+			plannerFor := func(cost float64) batch.Planner {
+				return (&batch.SchedulePlanner{Weather: wx, MaxSegment: pl.MaxSegment, Steps: steps, Policy: pol, DelayCost: pl.DelayCost, Sweep: pl.Sweep,
+					ContrailCost: cost, ContrailRHiPct: con.rhi}).Plan
+			}
+			lines, someFailed, err := runContrailSweep(ctx, rows, bad, costs, opt, plannerFor)
+			if err != nil {
+				if errors.Is(err, batch.ErrStopped) {
+					return &exitError{code: exitInternal, msg: err.Error() + "; rerun with --resume to finish"}
+				}
+				return batchError(err)
+			}
+			if err := writeContrailSweepFile(filepath.Join(out, "contrail_sweep.csv"), lines); err != nil {
+				return err
+			}
+			if err := printContrailSweep(cmd.OutOrStdout(), *format, lines); err != nil {
+				return err
+			}
+			if chartPath != "" {
+				if err := contrailChart(chartPath, lines); err != nil {
+					return err
+				}
+			}
+			if someFailed {
+				return &exitError{code: exitSomeFailed, msg: fmt.Sprintf("some plans failed, were infeasible or had bad schedule rows: see %s/contrail-*/errors.csv", out)}
+			}
+			return nil
+		}
 		start := time.Now()
 		sum, err := batch.Run(ctx, rows, bad, pl.Plan, opt)
 		if el := time.Since(start); err == nil && sum.Planned > sum.Skipped {
@@ -316,6 +382,11 @@ type ciLineJSON struct {
 	TimeMin    float64 `json:"time_min"`
 	Cost       float64 `json:"cost"`
 	CO2Kg      float64 `json:"co2_kg"`
+	// Persistent-contrail distances, NM, over the plans that have them
+	// (weather with humidity); absent otherwise.
+	PersistentNM      *float64 `json:"persistent_contrail_nm,omitempty"`
+	PersistentDayNM   *float64 `json:"persistent_contrail_day_nm,omitempty"`
+	PersistentNightNM *float64 `json:"persistent_contrail_night_nm,omitempty"`
 	// With arrival targets: the plans of flights with arrive_by at this
 	// CI, and those arriving in their window.
 	WithArriveBy *int `json:"with_arrive_by,omitempty"`
@@ -325,11 +396,16 @@ type ciLineJSON struct {
 func printBatchSummary(w io.Writer, format string, s batch.Summary) error {
 	d := batchSummaryJSON{Planned: s.Planned, Failed: s.Failed, Infeasible: s.Infeasible, Skipped: s.Skipped, BadRows: s.BadRows, ByCI: []ciLineJSON{}}
 	r := func(v float64, dec int) float64 { p := math.Pow10(dec); return math.Round(v*p) / p }
+	contrails := false
 	for _, b := range s.ByCI {
 		line := ciLineJSON{CI: b.CI, Flights: b.Flights, Failed: b.Failed, Infeasible: b.Infeasible,
 			FuelKg: r(b.Fuel, 1), TimeMin: r(b.Time, 2), Cost: r(b.Cost, 1), CO2Kg: r(b.CO2, 1)}
 		if s.Targets {
 			line.WithArriveBy, line.OnTime = new(b.WithTarget), new(b.OnTime)
+		}
+		if b.ContrailFlights > 0 {
+			contrails = true
+			line.PersistentNM, line.PersistentDayNM, line.PersistentNightNM = new(r(b.PersistentNM, 1)), new(r(b.DayNM, 1)), new(r(b.NightNM, 1))
 		}
 		d.ByCI = append(d.ByCI, line)
 	}
@@ -352,6 +428,15 @@ func printBatchSummary(w io.Writer, format string, s batch.Summary) error {
 		return nil
 	}
 	fmt.Fprintf(w, "Planned %d, infeasible %d, failed %d, reused %d, bad schedule rows %d\n", d.Planned, d.Infeasible, d.Failed, d.Skipped, d.BadRows)
+	if contrails {
+		var nm, day, night float64
+		for _, b := range d.ByCI {
+			if b.PersistentNM != nil {
+				nm, day, night = nm+*b.PersistentNM, day+*b.PersistentDayNM, night+*b.PersistentNightNM
+			}
+		}
+		fmt.Fprintf(w, "Persistent contrail conditions %.0f NM (day %.0f, night %.0f) over the successful plans\n%s\n", nm, day, night, optimizer.ContrailCaution)
+	}
 	if s.Targets && !s.Sweep {
 		on, of := 0, 0
 		for _, b := range s.ByCI {

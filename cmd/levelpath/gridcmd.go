@@ -121,6 +121,11 @@ type sampleJSON struct {
 	V    *float64 `json:"v_ms"`
 	T    *float64 `json:"t_k"`
 	EDR  *float64 `json:"edr"`
+	// Humidity, present only when the weather holds it (see winds.Sample).
+	RHWater *float64 `json:"rh_water_pct,omitempty"`
+	RHIce   *float64 `json:"rh_ice_pct,omitempty"`
+	Q       *float64 `json:"q_kgkg,omitempty"`
+	RHFrom  string   `json:"rh_from,omitempty"`
 }
 
 func newGridSampleCmd() *cobra.Command {
@@ -129,7 +134,7 @@ func newGridSampleCmd() *cobra.Command {
 	var wxo weatherOpts
 	c := &cobra.Command{
 		Use:     "sample FILE...",
-		Short:   "Sample wind, temperature and EDR at a point, pressure (or flight level) and time",
+		Short:   "Sample wind, temperature, EDR and humidity at a point, pressure (or flight level) and time",
 		Example: "  levelpath grid sample levelpath-demo/weather.grib2 --at 52.0,-20.0 --fl 350 --time 2026-12-01T23:00:00Z",
 		Args:    cobra.MinimumNArgs(1),
 	}
@@ -182,7 +187,11 @@ func newGridSampleCmd() *cobra.Command {
 		if err != nil {
 			return badInput(err)
 		}
-		d := sampleJSON{Lat: lat, Lon: lon, HPa: p / 100, Time: t.UTC().Format(time.RFC3339), U: planjson.Number(s.U), V: planjson.Number(s.V), T: planjson.Number(s.T), EDR: planjson.Number(s.EDR)}
+		d := sampleJSON{Lat: lat, Lon: lon, HPa: p / 100, Time: t.UTC().Format(time.RFC3339), U: planjson.Number(s.U), V: planjson.Number(s.V), T: planjson.Number(s.T), EDR: planjson.Number(s.EDR),
+			RHWater: planjson.Number(s.RH), RHIce: planjson.Number(s.RHi), Q: planjson.Number(s.Q)}
+		if d.RHWater != nil || d.RHIce != nil {
+			d.RHFrom = humiditySource(field)
+		}
 		out := cmd.OutOrStdout()
 		if *format == "json" {
 			return writeJSON(out, d)
@@ -195,7 +204,21 @@ func newGridSampleCmd() *cobra.Command {
 		}
 		fmt.Fprintf(out, "%.4f, %.4f at %.1f hPa, %s\n  u %s\n  v %s\n  T %s\n  EDR %s\n", lat, lon, d.HPa, d.Time,
 			show(d.U, "m/s"), show(d.V, "m/s"), show(d.T, "K"), show(d.EDR, "m^(2/3)/s"))
+		if d.RHWater != nil || d.RHIce != nil {
+			fmt.Fprintf(out, "  RH %s over water, %s over ice (%s)\n", show(d.RHWater, "%"), show(d.RHIce, "%"), d.RHFrom)
+		}
+		if d.Q != nil {
+			fmt.Fprintf(out, "  q %.3g kg/kg\n", *d.Q)
+		}
 		return nil
 	}
 	return c
+}
+
+// humiditySource says where a sample's relative humidity comes from.
+func humiditySource(f *winds.Field) string {
+	if f.Has(winds.ParamRH) {
+		return "the weather's relative humidity, " + f.RHReference().String()
+	}
+	return "from specific humidity"
 }

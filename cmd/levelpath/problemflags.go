@@ -45,6 +45,7 @@ type problemFlags struct {
 	date        string
 	perfFactor  float64
 	isaDev      float64
+	contrail    contrailFlags
 	wx          weatherOpts
 }
 
@@ -77,6 +78,7 @@ func (f *problemFlags) register(c *cobra.Command) {
 	fl.StringVar(&f.date, "date", "", "date for magnetic variation, YYYY-MM-DD (default: departure date)")
 	fl.Float64Var(&f.perfFactor, "perf-factor", 0, "performance factor, percent: every fuel flow multiplied by 1 + PCT/100 (per tail, e.g. 2.5)")
 	fl.Float64Var(&f.isaDev, "isa-dev", 0, "temperature deviation from ISA, °C, where there is no forecast temperature (no --weather: still air at ISA+DEV)")
+	f.contrail.register(c)
 	weatherFlags(c, &f.wx)
 }
 
@@ -94,12 +96,15 @@ func loadWeather(paths []string, o weatherOpts) (*winds.Field, error) {
 type weatherOpts struct {
 	budgetMiB int64
 	edrParam  int
+	rhRef     string
 }
 
-// weatherFlags registers --weather-budget-mib and --edr-param on c.
+// weatherFlags registers --weather-budget-mib, --edr-param and
+// --rh-reference on c.
 func weatherFlags(c *cobra.Command, o *weatherOpts) {
 	c.Flags().Int64Var(&o.budgetMiB, "weather-budget-mib", winds.DefaultBudget>>20, "memory the decoded weather may take, MiB; larger inputs are refused before decoding")
 	c.Flags().IntVar(&o.edrParam, "edr-param", 0, fmt.Sprintf("EDR to use when the weather holds several (GRIB2 parameter 0.19.N): 28 mountain wave, 29 clear air, 30 eddy dissipation parameter, 31 its maximum; 0: %d if present, else the only one, else the first of 29, 28, 31 (the others are listed in the warnings)", winds.DefaultEDRParam))
+	c.Flags().StringVar(&o.rhRef, "rh-reference", "auto", "what the weather's relative humidity is relative to: water (liquid water at every temperature), mixed (the ECMWF IFS water/ice mixture: over ice below -23 °C) or auto (mixed for ECMWF, centre 98; water otherwise)")
 }
 
 // openWeather opens the weather files keeping the levels from pLow to
@@ -112,13 +117,24 @@ func openWeather(paths []string, pLow, pHigh float64, o weatherOpts) (*winds.Fie
 	if o.edrParam != 0 && (o.edrParam < 28 || o.edrParam > 31) {
 		return nil, badInputf("--edr-param %d: want 28..31 (GRIB2 code table 4.2.0.19), or 0 for the default", o.edrParam)
 	}
+	var ref winds.RHReference
+	switch o.rhRef {
+	case "auto", "":
+		ref = winds.RHAuto
+	case "water":
+		ref = winds.RHWater
+	case "mixed":
+		ref = winds.RHMixed
+	default:
+		return nil, badInputf("--rh-reference %q: want auto, water or mixed", o.rhRef)
+	}
 	for _, p := range paths {
 		// winds refuses non-regular files itself; a missing one is named here.
 		if _, err := os.Stat(p); err != nil {
 			return nil, badInputf("weather file %s: %w", p, err)
 		}
 	}
-	f, err := winds.Options{Budget: o.budgetMiB << 20, EDRParam: o.edrParam}.OpenBetween(pLow, pHigh, paths...)
+	f, err := winds.Options{Budget: o.budgetMiB << 20, EDRParam: o.edrParam, RHReference: ref}.OpenBetween(pLow, pHigh, paths...)
 	if err != nil {
 		return nil, badInput(err)
 	}
@@ -137,6 +153,10 @@ func (f *problemFlags) problem(c *cobra.Command, wx *winds.Field, stderr io.Writ
 	}
 	p := &optimizer.Problem{Aircraft: a, Weather: wx, CI: f.ci, Floor: f.floor, MinFL: f.minFL, MaxFL: f.maxFL, MassBucket: f.bucketKg, Exact: f.exact,
 		PerfFactorPct: f.perfFactor, ISADev: f.isaDev}
+	if err := f.contrail.check(f.weather, wx); err != nil {
+		return nil, err
+	}
+	p.ContrailCost, p.ContrailRHiPct = f.contrail.cost, f.contrail.rhi
 	if !(f.perfFactor >= perf.MinPerfFactorPct && f.perfFactor <= perf.MaxPerfFactorPct) {
 		return nil, badInputf("--perf-factor %v: want %g..%g percent", f.perfFactor, perf.MinPerfFactorPct, perf.MaxPerfFactorPct)
 	}

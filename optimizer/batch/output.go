@@ -254,6 +254,12 @@ func summarize(results []record) Summary {
 		c.Time += *r.TimeMin
 		c.Cost += *r.Cost
 		c.CO2 += *r.CO2Kg
+		if r.PersistentNM != nil && r.PersistentDayNM != nil && r.PersistentNightNM != nil {
+			c.ContrailFlights++
+			c.PersistentNM += *r.PersistentNM
+			c.DayNM += *r.PersistentDayNM
+			c.NightNM += *r.PersistentNightNM
+		}
 	}
 	for _, c := range by {
 		sum.ByCI = append(sum.ByCI, *c)

@@ -36,6 +36,9 @@ type SchedulePlanner struct {
 	// Policy is the fuel policy of fuel-plan rows (zfw_kg alone) without
 	// a policy column of their own; nil: optimizer.DefaultFuelPolicy.
 	Policy *optimizer.FuelPolicy
+	// ContrailCost and ContrailRHiPct are every flight's
+	// optimizer.Problem fields of those names (0: none, and 100 %).
+	ContrailCost, ContrailRHiPct float64
 	// DelayCost, when not nil, is the cost of lateness of every row with
 	// an arrive_by time: such a row flies the cost index that minimises
 	// fuel + its ci x time + delay cost (optimizer.SearchDelayCost) instead
@@ -156,7 +159,7 @@ func (p *SchedulePlanner) Problem(row Row, ci float64) (*optimizer.Problem, []st
 		return nil, nil, err
 	}
 	pr := &optimizer.Problem{Track: te.track, Aircraft: a, Weather: p.Weather, Depart: row.Departure, CI: ci, Floor: row.Floor, Steps: p.Steps, Exact: p.Exact,
-		PerfFactorPct: row.PerfFactorPct}
+		ContrailCost: p.ContrailCost, ContrailRHiPct: p.ContrailRHiPct, PerfFactorPct: row.PerfFactorPct}
 	if row.FuelPlan {
 		// The fuel plan solves the take-off mass; the ZFW stands in.
 		if row.ZFW > a.MZFW {
@@ -228,6 +231,10 @@ func (p *SchedulePlanner) Plan(ctx context.Context, row Row, ci float64) (Result
 		LandingMass: plan.Totals.LandingMass, TakeoffMass: plan.TakeoffMass, ZFW: pr.ZFW, Distance: plan.Distance,
 		Floor: plan.Floor, Speed: row.Speed, Levels: row.Levels, Profile: plan.Profile.String(),
 		PlanJSON: []byte(buf.String())}
+	if c := plan.Contrail; c != nil {
+		res.Contrail = true
+		res.PersistentNM, res.PersistentDayNM, res.PersistentNightNM = c.PersistentNM, c.DayNM, c.NightNM
+	}
 	if res.Speed == "" {
 		res.Speed = "econ" // optimizer.Problem's zero Speed
 	}

@@ -64,7 +64,11 @@ type record struct {
 	Profile       string   `json:"profile,omitempty"`
 	BlockKg       *float64 `json:"block_kg,omitempty"`
 	LimitedBy     string   `json:"limited_by,omitempty"`
-	Reason        string   `json:"reason,omitempty"`
+	// Persistent-contrail distances, NM, when the weather holds humidity.
+	PersistentNM      *float64 `json:"persistent_contrail_nm,omitempty"`
+	PersistentDayNM   *float64 `json:"persistent_contrail_day_nm,omitempty"`
+	PersistentNightNM *float64 `json:"persistent_contrail_night_nm,omitempty"`
+	Reason            string   `json:"reason,omitempty"`
 	// Arrival-target fields, present only for a row with arrive_by.
 	ArriveBy     string     `json:"arrive_by,omitempty"`     // RFC 3339, UTC
 	ArriveWindow string     `json:"arrive_window,omitempty"` // e.g. "-5m,+10m"
@@ -249,6 +253,9 @@ func resultRecord(row *Row, ci float64, res Result, planErr error) record {
 	}
 	if finite(res.CostSavingPct) {
 		rec.CostSavingPct = new(res.CostSavingPct)
+	}
+	if res.Contrail && finite(res.PersistentNM) && finite(res.PersistentDayNM) && finite(res.PersistentNightNM) {
+		rec.PersistentNM, rec.PersistentDayNM, rec.PersistentNightNM = new(res.PersistentNM), new(res.PersistentDayNM), new(res.PersistentNightNM)
 	}
 	if a := res.Arrival; a != nil && rec.ArriveBy != "" {
 		rec.CIUsed, rec.OnTime = new(a.CIUsed), new(a.OnTime)

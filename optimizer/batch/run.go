@@ -39,6 +39,12 @@ type Result struct {
 	Violations    []string // limits the plan breaks (fuel, landing mass, ...): makes it infeasible
 	Profile       string   // e.g. "FL350,FL370@1250"
 	PlanJSON      []byte   // full plan document, written to plans/
+	// Contrail is set when the plan has contrail figures (weather with
+	// humidity): PersistentNM, PersistentDayNM and PersistentNightNM, its
+	// cruise distance in persistent-contrail conditions (all, by day, by
+	// night), NM.
+	Contrail                                         bool
+	PersistentNM, PersistentDayNM, PersistentNightNM float64
 	// Arrival is filled for a row with an arrival target (arrive_by);
 	// nil otherwise.
 	Arrival *ArrivalResult
@@ -108,6 +114,11 @@ type CISummary struct {
 	Failed                int
 	Infeasible            int
 	Fuel, Time, Cost, CO2 float64 // sums: kg, min, cost units, kg
+	// ContrailFlights counts the successful plans with contrail figures
+	// (weather with humidity), whose persistent-contrail distances, NM,
+	// are summed in PersistentNM, DayNM and NightNM.
+	ContrailFlights              int
+	PersistentNM, DayNM, NightNM float64
 	// WithTarget counts the plans (any status but failed) of flights with
 	// an arrive_by time, OnTime those of them arriving in their window.
 	WithTarget, OnTime int

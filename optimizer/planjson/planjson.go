@@ -57,6 +57,22 @@ type Doc struct {
 	Delay   *Delay   `json:"delay_cost,omitempty"`
 	// Policy is the resolved policy the plan was made under.
 	Policy Policy `json:"policy"`
+	// Contrail sums the cruise legs by contrail class; present when the
+	// weather holds humidity.
+	Contrail *Contrail `json:"contrail,omitempty"`
+}
+
+// Contrail is the plan's contrail summary (optimizer.ContrailTotals).
+type Contrail struct {
+	Caution           string  `json:"caution"`
+	PersistentNM      float64 `json:"persistent_contrail_nm"`
+	PersistentDayNM   float64 `json:"persistent_contrail_day_nm"`
+	PersistentNightNM float64 `json:"persistent_contrail_night_nm"`
+	ShortLivedNM      float64 `json:"short_lived_contrail_nm"`
+	UnclassifiedNM    float64 `json:"unclassified_nm"`
+	CostPerNMKg       float64 `json:"contrail_cost_kg_per_nm"`
+	CostKg            float64 `json:"contrail_cost_kg"`
+	RHiThresholdPct   float64 `json:"rhi_threshold_pct"`
 }
 
 // Policy is the resolved planning policy (defaults applied).
@@ -174,6 +190,11 @@ type Leg struct {
 	ResidualClimbFPM *float64 `json:"residual_climb_fpm"`
 	MaxFLBuffet      *float64 `json:"max_fl_buffet"`
 	MaxFLThrust      *float64 `json:"max_fl_thrust"`
+	// Contrail is a cruise leg's contrail class (none, short-lived,
+	// persistent) and RHiPct the relative humidity over ice it was
+	// judged with; both absent where not classified.
+	Contrail string   `json:"contrail,omitempty"`
+	RHiPct   *float64 `json:"rhi_pct,omitempty"`
 }
 
 // Violation is a limit broken by an assessed profile.
@@ -225,6 +246,13 @@ func FromPlan(p *optimizer.Plan, assessed bool) *Doc {
 			MassStartKg: l.MassStart, BuffetMarginG: Number(l.BuffetMargin), FloorG: l.Floor, FloorReason: l.FloorReason,
 			ResidualClimbFPM: resid, MaxFLBuffet: Number(l.MaxFLBuffet), MaxFLThrust: Number(l.MaxFLThrust),
 		})
+		if l.Contrail != optimizer.ContrailUnknown {
+			d.Legs[len(d.Legs)-1].Contrail, d.Legs[len(d.Legs)-1].RHiPct = string(l.Contrail), Number(l.RHi)
+		}
+	}
+	if c := p.Contrail; c != nil {
+		d.Contrail = &Contrail{Caution: optimizer.ContrailCaution, PersistentNM: c.PersistentNM, PersistentDayNM: c.DayNM, PersistentNightNM: c.NightNM,
+			ShortLivedNM: c.ShortLivedNM, UnclassifiedNM: c.UnknownNM, CostPerNMKg: c.CostPerNM, CostKg: c.Cost, RHiThresholdPct: c.RHiPct}
 	}
 	d.Fuel = fuelDoc(p.Fuel)
 	d.Waypoints = waypointDocs(p)

@@ -58,11 +58,21 @@ func WriteTableBrief(w io.Writer, p *optimizer.Plan, assessed, brief bool) error
 		bw.printf("Least buffet margin above its floor: %.3f g on leg %d (margin %.3f g, floor %.2f g there); least margin anywhere %.3f g\n", least, at, *l.BuffetMarginG, l.FloorG, *d.MinMarginG)
 	}
 	if b := d.Baseline; b != nil {
-		bw.printf("Baseline constant FL%03d: fuel %.0f kg, time %s, cost %.0f; this profile saves %.2f %%\n", b.FL, b.FuelKg, hhmm(b.TimeMin), b.Cost, b.SavingPct)
+		bw.printf("Baseline constant FL%03d: fuel %.0f kg, time %s, cost %.0f; this profile saves %.2f %%\n", b.FL, b.FuelKg, hhmm(b.TimeMin), b.Cost, math.Round(b.SavingPct*100)/100+0) // rounded, +0: never "-0.00"
 	} else if d.BaselineNote != "" {
 		bw.printf("Baseline: %s\n", d.BaselineNote)
 	} else {
 		bw.printf("Baseline: no constant level is feasible along the whole route\n")
+	}
+	if c := d.Contrail; c != nil {
+		bw.printf("Contrails persistent %.0f NM (day %.0f, night %.0f), short-lived %.0f NM", c.PersistentNM, c.PersistentDayNM, c.PersistentNightNM, c.ShortLivedNM)
+		if c.UnclassifiedNM > 0 {
+			bw.printf(", not classified %.0f NM", c.UnclassifiedNM)
+		}
+		if c.CostPerNMKg > 0 {
+			bw.printf("; contrail cost %g kg/NM (%.0f kg equivalent, not in the cost above)", c.CostPerNMKg, c.CostKg)
+		}
+		bw.printf("\n         %s\n", c.Caution)
 	}
 	writeArrival(bw, d)
 	bw.printf("Status   %s\n", statusText(d))
@@ -104,7 +114,11 @@ func WriteTableBrief(w io.Writer, p *optimizer.Plan, assessed, brief bool) error
 	writeWaypoints(bw, d)
 	bw.printf("\nLegs\n")
 	tw := tabwriter.NewWriter(bw, 0, 0, 1, ' ', tabwriter.AlignRight)
-	fmt.Fprintln(tw, "leg\tfrom NM\tto NM\tphase\tFL\tMach\tTAS kt\twind kt\tGS kt\tISA dev C\tfuel kg\ttime min\tstart mass kg\tmargin g\tfloor g\tstarts at\t")
+	head := "leg\tfrom NM\tto NM\tphase\tFL\tMach\tTAS kt\twind kt\tGS kt\tISA dev C\tfuel kg\ttime min\tstart mass kg\tmargin g\tfloor g\tstarts at\t"
+	if d.Contrail != nil {
+		head += "contrail\t"
+	}
+	fmt.Fprintln(tw, head)
 	for i, l := range d.Legs {
 		at := ""
 		for _, w := range d.Waypoints {
@@ -119,8 +133,16 @@ func WriteTableBrief(w io.Writer, p *optimizer.Plan, assessed, brief bool) error
 		if l.BuffetMarginG != nil {
 			margin = fmt.Sprintf("%.3f", *l.BuffetMarginG)
 		}
-		fmt.Fprintf(tw, "%d\t%.0f\t%.0f\t%s\t%.0f\t%.3f\t%.0f\t%+.0f\t%.0f\t%+.1f\t%.0f\t%.1f\t%.0f\t%s\t%.2f\t%s\t\n",
+		fmt.Fprintf(tw, "%d\t%.0f\t%.0f\t%s\t%.0f\t%.3f\t%.0f\t%+.0f\t%.0f\t%+.1f\t%.0f\t%.1f\t%.0f\t%s\t%.2f\t%s\t",
 			i, l.FromNM, l.ToNM, l.Phase, l.FL, l.Mach, l.TASKt, l.WindKt, l.GSKt, l.ISADevC, l.FuelKg, l.TimeMin, l.MassStartKg, margin, l.FloorG, at)
+		if d.Contrail != nil {
+			c := l.Contrail
+			if c == "" {
+				c = "-"
+			}
+			fmt.Fprintf(tw, "%s\t", c)
+		}
+		fmt.Fprintln(tw)
 	}
 	tw.Flush()
 	bw.printf("\n%s\n", optimizer.Caution)
@@ -162,19 +184,30 @@ func writeViolations(bw *errWriter, d *Doc, assessed bool) {
 }
 
 // WriteCSV writes one row per leg, with the caution in a column of its own
-// (a plain CSV that pandas and DuckDB read with their defaults).
+// (a plain CSV that pandas and DuckDB read with their defaults). When the
+// weather holds humidity, contrail, rhi_pct and contrail_caution columns
+// follow (the contrail class, empty where not classified).
 func WriteCSV(w io.Writer, p *optimizer.Plan, assessed bool) error {
 	d := FromPlan(p, assessed)
 	cw := csv.NewWriter(w)
 	// A plan made for an arrival window or a delay cost repeats its
-	// target and choice on every row, before the caution.
+	// target and choice on every row, before the caution; the contrail
+	// columns follow it when the weather holds humidity.
 	extraHead, extra := arrivalCSV(d)
 	head := []string{"from_nm", "to_nm", "phase", "from_fl", "fl", "mach", "tas_kt", "wind_kt", "gs_kt", "isa_dev_c", "fuel_kg", "time_min", "mass_start_kg", "buffet_margin_g", "floor_g", "floor_reason"}
-	cw.Write(append(append(head, extraHead...), "caution"))
+	head = append(append(head, extraHead...), "caution")
+	if d.Contrail != nil {
+		head = append(head, "contrail", "rhi_pct", "contrail_caution")
+	}
+	cw.Write(head)
 	for _, l := range d.Legs {
 		row := []string{CSVNumber(l.FromNM), CSVNumber(l.ToNM), l.Phase, CSVNumber(l.FromFL), CSVNumber(l.FL), CSVNumber(l.Mach), CSVNumber(l.TASKt), CSVNumber(l.WindKt), CSVNumber(l.GSKt), CSVNumber(l.ISADevC),
 			CSVNumber(l.FuelKg), CSVNumber(l.TimeMin), CSVNumber(l.MassStartKg), CSVPointer(l.BuffetMarginG), CSVNumber(l.FloorG), l.FloorReason}
-		cw.Write(append(append(row, extra...), optimizer.Caution))
+		row = append(append(row, extra...), optimizer.Caution)
+		if d.Contrail != nil {
+			row = append(row, l.Contrail, CSVPointer(l.RHiPct), optimizer.ContrailCaution)
+		}
+		cw.Write(row)
 	}
 	cw.Flush()
 	return cw.Error()

@@ -135,3 +135,44 @@ func TestSunElevation(t *testing.T) {
 		t.Error("midnight and noon at (0, 0) are not night and day")
 	}
 }
+
+// CriticalEfficiency inverts the criterion: just above η* Classify finds
+// a contrail, just below none (Schumann 1996, eqs. (3) and (11)); at the
+// saturated threshold temperature T_LM of a known efficiency it gives that
+// efficiency back; at Schumann's own approximation of T_LM, eq. (31),
+// within 0.02 (his fit's few tenths of a kelvin, from memory).
+func TestCriticalEfficiency(t *testing.T) {
+	for _, p := range []float64{30000, 25000, 20000} {
+		for _, rhw := range []float64{0, 0.3, 0.6, 0.9, 1} {
+			for tk := 205.0; tk <= 235; tk += 2.5 {
+				e := CriticalEfficiency(tk, p, rhw)
+				if math.IsNaN(e) {
+					t.Fatalf("NaN at %.1f K", tk)
+				}
+				for _, d := range []float64{-0.005, 0.005} {
+					eta := e + d
+					if eta <= 0 || eta >= 0.9 {
+						continue
+					}
+					if got := Classify(tk, p, eta, rhw, 1e9) != None; got != (d > 0) {
+						t.Errorf("%.0f Pa %.1f K RHw %.1f: η* %.4f, Classify at η %.4f says contrail %v", p, tk, rhw, e, eta, got)
+					}
+				}
+			}
+		}
+		for _, eta := range []float64{0.25, 0.3, 0.35, 0.4} {
+			g := MixingSlope(p, eta)
+			if e := CriticalEfficiency(ThresholdMax(g), p, 1); math.Abs(e-eta) > 1e-6 {
+				t.Errorf("%.0f Pa at T_LM of η %.2f: η* %.7f", p, eta, e)
+			}
+			if e := CriticalEfficiency(ThresholdApprox(g), p, 1); math.Abs(e-eta) > 0.02 {
+				t.Errorf("%.0f Pa at Schumann's approximate T_LM of η %.2f: η* %.4f", p, eta, e)
+			}
+		}
+	}
+	// At 300 K no engine makes a contrail (overall efficiencies stay
+	// under about 0.5, Schumann 1996, from memory).
+	if e := CriticalEfficiency(300, 25000, 0.5); e < 0.9 {
+		t.Errorf("300 K: η* %.3f, want beyond any engine (> 0.9)", e)
+	}
+}

@@ -8,6 +8,7 @@ import (
 	"math"
 	"time"
 
+	"levelpath/perf/contrail"
 	"levelpath/winds"
 )
 
@@ -35,7 +36,10 @@ func Hours() []int { return append([]int(nil), hours[:]...) }
 // Levels: a meandering westerly jet stream near 250 hPa in each
 // hemisphere, a temperature deviation from ISA that is warm in the tropics
 // and cold towards the poles, and a patch of turbulence (EDR) over the
-// northern ocean. Reproducible: no randomness.
+// northern ocean, and relative humidity (over liquid water, as most
+// producers encode it; see Humidity) with a few invented layers of
+// ice-supersaturated air near the cruise levels. Reproducible: no
+// randomness.
 func Weather(ref time.Time) []winds.Message {
 	var msgs []winds.Message
 	n := synNi * synNj
@@ -46,6 +50,7 @@ func Weather(ref time.Time) []winds.Message {
 			v := make([]float32, n)
 			t := make([]float32, n)
 			e := make([]float32, n)
+			rh := make([]float32, n)
 			for j := range synNj {
 				lat := 90 - float64(j)*synStep
 				for i := range synNi {
@@ -53,6 +58,7 @@ func Weather(ref time.Time) []winds.Message {
 					uu, vv, tt, ee := Point(lat, lon, p, float64(h))
 					k := j*synNi + i
 					u[k], v[k], t[k], e[k] = float32(uu), float32(vv), float32(tt), float32(ee)
+					rh[k] = float32(Humidity(lat, lon, p, float64(h)) * contrail.SatIce(tt) / contrail.SatWater(tt))
 				}
 			}
 			base := winds.Message{LevelType: 100, Level: p, RefTime: ref, ValidTime: vt, Ni: synNi, Nj: synNj,
@@ -61,7 +67,7 @@ func Weather(ref time.Time) []winds.Message {
 				cat, num int
 				par      winds.Param
 				vals     []float32
-			}{{2, 2, "u", u}, {2, 3, "v", v}, {0, 0, "t", t}, {19, 30, "edr", e}} {
+			}{{2, 2, "u", u}, {2, 3, "v", v}, {0, 0, "t", t}, {19, 30, "edr", e}, {1, 1, "rh", rh}} {
 				m := base
 				m.Discipline, m.Category, m.Number, m.Param, m.Values = 0, f.cat, f.num, f.par, f.vals
 				msgs = append(msgs, m)
@@ -97,6 +103,42 @@ func Point(lat, lon, p, hours float64) (u, v, t, edr float64) {
 	return u, v, t, edr
 }
 
+// issLayer is an invented layer of ice-supersaturated air: a patch
+// centred at (lat, lon) at pressure p (Pa) at the reference time, moving
+// east at drift degrees an hour, with half-widths in degrees and in
+// ln(p), and its peak relative humidity over ice (%).
+type issLayer struct {
+	lat, lon, p, drift float64
+	dlat, dlon, dlnp   float64
+	peak               float64
+}
+
+// issLayers cross the demo routes (cmd/levelpath/internal/demo): over
+// the North Atlantic and off the North American east coast at 250 hPa
+// (about FL340), over eastern Europe at 200 hPa (about FL390). Each is
+// centred on a level of the invented weather, so that between levels,
+// where Sample interpolates, it thins out within about 1,500 ft.
+var issLayers = [...]issLayer{
+	{lat: 57, lon: -48, p: 25000, drift: 0.5, dlat: 6, dlon: 14, dlnp: 0.1, peak: 130},
+	{lat: 36, lon: -78, p: 22700, drift: 0.3, dlat: 5, dlon: 6, dlnp: 0.2, peak: 140},
+	{lat: 50, lon: 22, p: 20000, drift: 0.4, dlat: 6, dlon: 10, dlnp: 0.1, peak: 125},
+}
+
+// Humidity is the invented relative humidity over ice (%) at latitude,
+// longitude (degrees), pressure p (Pa) and hours after the reference
+// time: moist (55 %) in the upper troposphere, dry (25 %) above the ISA
+// tropopause, and the ice-supersaturated layers of issLayers. Weather
+// stores it over liquid water (RHi e_i/e_w, Murphy and Koop's saturation
+// pressures at the invented temperature).
+func Humidity(lat, lon, p, hours float64) float64 {
+	rhi := 25 + 30/(1+math.Exp(-(p-synTropopause)/2500))
+	for _, l := range issLayers {
+		w := math.Exp(-sq((lat-l.lat)/l.dlat) - sq(angDiff(lon, l.lon+l.drift*hours)/l.dlon) - sq(math.Log(p/l.p)/l.dlnp))
+		rhi += (l.peak - rhi) * w
+	}
+	return rhi
+}
+
 func sq(x float64) float64 { return x * x }
 
 // synTropopause is the ISA pressure at 11 km, Pa.
@@ -105,7 +147,8 @@ const synTropopause = 22632.06
 // synISA is the ICAO standard-atmosphere temperature at pressure p below
 // 20 km (Doc 7488: 288.15 K, lapse 6.5 K/km to 11 km, then 216.65 K).
 // The optimizer and the CLI use package perf's atmosphere; this copy keeps
-// winds free of imports from perf for the invented weather only.
+// the invented weather free of imports from perf (perf/contrail, a leaf
+// package, gives the saturation pressures).
 func synISA(p float64) float64 {
 	if p <= synTropopause {
 		return 216.65

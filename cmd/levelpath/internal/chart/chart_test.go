@@ -11,6 +11,8 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"levelpath/optimizer"
 )
 
 // keep writes b to $LEVELPATH_CHART_DIR/name when that variable is set, so
@@ -42,6 +44,13 @@ var charts = []struct {
 			"max level FL398 (thrust limit)", "optimum level FL371", "Mach", "flight level"}},
 	{"sweep", func(w io.Writer, f string) error { return Sweep(w, f, sampleSweep(), "Cost-index sweep") },
 		[]string{"CI 0", "CI 20", "CI 60", "CI 150", "total time (min)", "total fuel (kg)"}},
+	{"tradeoff", func(w io.Writer, f string) error {
+		// Invented shape: more contrail cost, more fuel, more distance avoided.
+		return Tradeoff(w, f, []TradeoffPoint{{0, 0, 0}, {5, 0.4, 80}, {20, 0.7, 97}}, "Caution: uncertain (poorly forecast): for studies.")
+	}, []string{"0 kg/NM", "5 kg/NM", "20 kg/NM", "extra fuel (% of the lowest cost's)", "persistent contrail distance avoided (%)", "Caution: uncertain (poorly forecast):"}},
+	{"profile with contrails", func(w io.Writer, f string) error {
+		return Profile(w, f, ProfileInput{Plan: samplePlan(), Levels: sampleLevels(), Contrail: []optimizer.ContrailCell{{FromDist: 500 * mPerNM, ToDist: 600 * mPerNM, FL: 350}}})
+	}, []string{"persistent contrail conditions (forecast humidity; uncertain)", "planned profile"}},
 }
 
 func sampleSweep() []SweepPoint {

@@ -20,11 +20,16 @@ type ProfileInput struct {
 	Plan   *optimizer.Plan
 	Levels []int  // allowed flight levels, drawn as faint guides
 	Title  string // chart and page title; a default names the aircraft and CI
+	// Contrail is the cross-section of persistent-contrail conditions
+	// (optimizer.ContrailSection), shaded on the profile panel; nil: none
+	// shown.
+	Contrail []optimizer.ContrailCell
 }
 
 // ProfileFor is what the command line and the service draw for plan on
 // problem pr: the levels the route allows from FL250 up as guides, and the
-// aircraft and profile as title.
+// aircraft and profile as title; when the plan has contrail figures, the
+// persistent-contrail cross-section (optimizer.ContrailSection) to shade.
 func ProfileFor(plan *optimizer.Plan, pr *optimizer.Problem) ProfileInput {
 	set := map[int]bool{}
 	var levels []int
@@ -36,7 +41,14 @@ func ProfileFor(plan *optimizer.Plan, pr *optimizer.Problem) ProfileInput {
 			}
 		}
 	}
-	return ProfileInput{Plan: plan, Levels: levels, Title: plan.Aircraft + " " + plan.Profile.String()}
+	in := ProfileInput{Plan: plan, Levels: levels, Title: plan.Aircraft + " " + plan.Profile.String()}
+	if plan.Contrail != nil {
+		// A view of the plan's own inputs: the problem was just planned,
+		// so it normalises again and the section cannot fail in
+		// practice; if it did, the chart draws without shading.
+		in.Contrail, _ = optimizer.ContrailSection(pr, plan)
+	}
+	return in
 }
 
 // checkPlan returns a FormatError for a plan that cannot be drawn: nil, no
@@ -82,7 +94,9 @@ func (in ProfileInput) title() string {
 // "pdf") to w: three panels sharing the distance axis (NM from departure).
 //
 //   - top: flight level of the planned profile (each leg from FromFL at
-//     FromDist to FL at ToDist), the step climbs and descents marked and
+//     FromDist to FL at ToDist) over the shaded persistent-contrail
+//     conditions of in.Contrail (each cell FL-5..FL+5 over its
+//     distances), the step climbs and descents marked and
 //     labelled with their new level, the buffet-limited and thrust-limited
 //     maximum levels at each cruise leg's start mass (NaN values skipped),
 //     and the allowed levels as faint guides labelled at the right;
@@ -164,6 +178,10 @@ func profilePanels(in ProfileInput) (top, mid, bot *plot.Plot) {
 		guides.Labels = append(guides.Labels, lab)
 	}
 	top.Add(newGrid(false))
+	if shade := contrailShade(in.Contrail); shade != nil {
+		top.Add(shade)
+		top.Legend.Add("persistent contrail conditions (forecast humidity; uncertain)", shade)
+	}
 	if len(guides.Ys) > 0 {
 		top.Add(guides)
 	}

@@ -34,6 +34,12 @@ type reportView struct {
 	Warnings           []string
 	Violations         []violationItem
 	SVG                template.HTML
+	// Contrail summarises the contrail classes (nil without humidity in
+	// the weather), with its caution and the cruise legs in persistent
+	// conditions.
+	Contrail        [][2]string
+	ContrailCaution string
+	ContrailLegs    []violationItem
 }
 
 // legRow is one row of the numbered leg table.
@@ -67,8 +73,12 @@ const tripLabel = "Trip fuel (1,500 ft after take-off to 1,500 ft on approach)"
 // baseline and the saving against it); the chart; the step list; and the
 // leg table numbered 0.. as Plan.Legs (the CLI's numbering: NM, phase,
 // FL, Mach, TAS, wind, GS, ISA deviation, fuel, time, mass, buffet margin
-// and floor). Text from the plan is escaped by html/template. Values that
-// are NaN show as "–".
+// and floor, and the contrail class when the weather holds humidity);
+// when it does, a contrail section before the steps: its caution
+// (optimizer.ContrailCaution), the persistent-contrail distance by day
+// and night, the short-lived distance and the cruise legs in persistent
+// conditions, linked to their rows. Text from the plan is escaped by
+// html/template. Values that are NaN show as "–".
 //
 // It returns a FormatError for a plan that cannot be drawn (see Profile).
 func Report(w io.Writer, in ProfileInput) error {
@@ -177,8 +187,35 @@ func Report(w io.Writer, in ProfileInput) error {
 			num(l.BuffetMargin, 3),
 			num(l.Floor, 2),
 		}})
+		if pl.Contrail != nil {
+			c := string(l.Contrail)
+			if c == "" {
+				c = "–"
+			}
+			v.Legs[len(v.Legs)-1].Cells = append(v.Legs[len(v.Legs)-1].Cells, c)
+		}
 	}
 	v.Warnings = pl.Warnings
+	if c := pl.Contrail; c != nil {
+		v.ContrailCaution = optimizer.ContrailCaution
+		v.Contrail = [][2]string{
+			{"Persistent contrail conditions", num(c.PersistentNM, 0) + " NM (day " + num(c.DayNM, 0) + ", night " + num(c.NightNM, 0) + ")"},
+			{"Short-lived contrails", num(c.ShortLivedNM, 0) + " NM"},
+			{"Persistence threshold", num(c.RHiPct, 0) + " % over ice"},
+		}
+		if c.UnknownNM > 0 {
+			v.Contrail = append(v.Contrail, [2]string{"Not classified (no humidity)", num(c.UnknownNM, 0) + " NM"})
+		}
+		if c.CostPerNM > 0 {
+			v.Contrail = append(v.Contrail, [2]string{"Contrail cost", num(c.CostPerNM, 1) + " kg/NM (" + num(c.Cost, 0) + " kg equivalent, not in the cost above)"})
+		}
+		for i, l := range pl.Legs {
+			if l.Contrail == optimizer.ContrailPersistent {
+				v.ContrailLegs = append(v.ContrailLegs, violationItem{Leg: i, Text: fmt.Sprintf("leg %d: %s–%s NM at FL%03.0f, persistent (RHi %s %%)",
+					i, num(l.FromDist/mPerNM, 0), num(l.ToDist/mPerNM, 0), l.FL, num(l.RHi, 0))})
+			}
+		}
+	}
 	return reportTmpl.Execute(w, v)
 }
 

@@ -205,6 +205,8 @@ func TestBadInput(t *testing.T) {
 		{"empty envelope", Envelope(io.Discard, "svg", perf.Envelope{Aircraft: "x"}), "no rows"},
 		{"sweep empty", Sweep(io.Discard, "svg", nil, ""), "no points"},
 		{"sweep NaN", Sweep(io.Discard, "svg", []SweepPoint{{CI: 1, FuelKg: nan, TimeMin: 3}}, ""), "point 0"},
+		{"tradeoff empty", Tradeoff(io.Discard, "svg", nil, ""), "no points"},
+		{"tradeoff NaN", Tradeoff(io.Discard, "svg", []TradeoffPoint{{0, 0, 0}, {5, nan, 3}}, ""), "point 1"},
 	} {
 		var fe FormatError
 		if !errors.As(c.err, &fe) || !strings.Contains(c.err.Error(), c.want) {
