@@ -2,6 +2,7 @@ package main
 
 import (
 	"encoding/csv"
+	"encoding/json"
 	"fmt"
 	"os"
 	"path/filepath"
@@ -82,8 +83,17 @@ func TestPlanFromExportedTables(t *testing.T) {
 	if ca := a["totals"].(map[string]any)["cost"].(float64); abs(ca-ct) > 1e-6*ct {
 		t.Errorf("assess of the tables' plan costs %.3f, the plan %.3f", ca, ct)
 	}
-	if code, out, errs := runCLI(t, "envelope", "--aircraft", dir, "--mass", "231000", "--isa-dev", "10"); code != 0 || !strings.Contains(out, "Maximum level") {
+	if code, out, errs := runCLI(t, "envelope", "--aircraft", dir, "--mass", "231000", "--isa-dev", "10"); code != 0 || !strings.Contains(out, "Maximum level") || strings.Contains(out, "top of the tables") {
 		t.Errorf("envelope from tables: exit %d\n%s%s", code, out, errs)
+	}
+	// Light and cold, the thrust ceiling lies above the tables' top level
+	// (FL450, 2,000 ft above the ceiling): said, not extrapolated.
+	if code, out, errs := runCLI(t, "envelope", "--aircraft", dir, "--mass", "150000", "--isa-dev", "-10"); code != 0 || !strings.Contains(out, "thrust FL450 or above (top of the tables)") {
+		t.Errorf("light envelope from tables: exit %d\n%s%s", code, out, errs)
+	}
+	var env map[string]any
+	if code, out, _ := runCLI(t, "envelope", "--aircraft", dir, "--mass", "150000", "--isa-dev", "-10", "--format", "json"); code != 0 || json.Unmarshal([]byte(out), &env) != nil || env["max_fl_thrust_at_table_top"] != true {
+		t.Errorf("light envelope JSON from tables: exit %d, max_fl_thrust_at_table_top %v", code, env["max_fl_thrust_at_table_top"])
 	}
 	// Outside the tables (ISA+35, the table ends at ISA+30) a plan is an
 	// input error naming the segment, the axis and the table's range.

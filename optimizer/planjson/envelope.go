@@ -35,23 +35,26 @@ type EnvelopeRow struct {
 // Envelope is the JSON form of perf.Envelope, as levelpath envelope and
 // the service print it.
 type Envelope struct {
-	Caution        string        `json:"caution"`
-	Aircraft       string        `json:"aircraft"`
-	MassKg         float64       `json:"mass_kg"`
-	ISADevC        float64       `json:"isa_dev_c"`
-	FloorG         float64       `json:"floor_g"`
-	MaxFLBuffet    *float64      `json:"max_fl_buffet"`
-	MaxFLThrust    *float64      `json:"max_fl_thrust"`
-	MaxFLCertified float64       `json:"max_fl_certified"`
-	MaxFL          *float64      `json:"max_fl"`
-	OptimumFL      *float64      `json:"optimum_fl"`
-	Rows           []EnvelopeRow `json:"rows"`
+	Caution     string   `json:"caution"`
+	Aircraft    string   `json:"aircraft"`
+	MassKg      float64  `json:"mass_kg"`
+	ISADevC     float64  `json:"isa_dev_c"`
+	FloorG      float64  `json:"floor_g"`
+	MaxFLBuffet *float64 `json:"max_fl_buffet"`
+	MaxFLThrust *float64 `json:"max_fl_thrust"`
+	// MaxFLThrustAtTableTop: operator tables end there, so the thrust
+	// ceiling is at least max_fl_thrust (perf.Envelope).
+	MaxFLThrustAtTableTop bool          `json:"max_fl_thrust_at_table_top,omitempty"`
+	MaxFLCertified        float64       `json:"max_fl_certified"`
+	MaxFL                 *float64      `json:"max_fl"`
+	OptimumFL             *float64      `json:"optimum_fl"`
+	Rows                  []EnvelopeRow `json:"rows"`
 }
 
 // FromEnvelope converts an envelope to its JSON form.
 func FromEnvelope(e perf.Envelope) Envelope {
 	d := Envelope{Caution: optimizer.Caution, Aircraft: e.Aircraft, MassKg: e.Mass, ISADevC: e.ISADev, FloorG: e.Floor,
-		MaxFLBuffet: Number(e.MaxFLBuffet), MaxFLThrust: Number(e.MaxFLThrust), MaxFLCertified: e.MaxFLCertified,
+		MaxFLBuffet: Number(e.MaxFLBuffet), MaxFLThrust: Number(e.MaxFLThrust), MaxFLThrustAtTableTop: e.MaxFLThrustAtTableTop, MaxFLCertified: e.MaxFLCertified,
 		MaxFL: Number(e.MaxFL), OptimumFL: Number(e.OptimumFL), Rows: []EnvelopeRow{}}
 	for _, r := range e.Rows {
 		var rc *float64
