@@ -35,20 +35,20 @@ type EnvelopeRow struct {
 // Envelope is the JSON form of perf.Envelope, as levelpath envelope and
 // the service print it.
 type Envelope struct {
-	Caution     string   `json:"caution"`
-	Aircraft    string   `json:"aircraft"`
-	MassKg      float64  `json:"mass_kg"`
-	ISADevC     float64  `json:"isa_dev_c"`
-	FloorG      float64  `json:"floor_g"`
-	MaxFLBuffet *float64 `json:"max_fl_buffet"`
-	MaxFLThrust *float64 `json:"max_fl_thrust"`
-	// MaxFLThrustAtTableTop: operator tables end there, so the thrust
-	// ceiling is at least max_fl_thrust (perf.Envelope).
-	MaxFLThrustAtTableTop bool          `json:"max_fl_thrust_at_table_top,omitempty"`
-	MaxFLCertified        float64       `json:"max_fl_certified"`
-	MaxFL                 *float64      `json:"max_fl"`
-	OptimumFL             *float64      `json:"optimum_fl"`
-	Rows                  []EnvelopeRow `json:"rows"`
+	Caution        string        `json:"caution"`
+	Aircraft       string        `json:"aircraft"`
+	MassKg         float64       `json:"mass_kg"`
+	ISADevC        float64       `json:"isa_dev_c"`
+	FloorG         float64       `json:"floor_g"`
+	MaxFLBuffet    *float64      `json:"max_fl_buffet"`
+	MaxFLThrust    *float64      `json:"max_fl_thrust"`
+	MaxFLCertified float64       `json:"max_fl_certified"`
+	MaxFL          *float64      `json:"max_fl"`
+	OptimumFL      *float64      `json:"optimum_fl"`
+	Rows           []EnvelopeRow `json:"rows"`
+	// MaxFLThrustAtTableTop: operator tables end at max_fl_thrust, so the
+	// thrust ceiling is at least that (perf.Envelope); only when true.
+	MaxFLThrustAtTableTop bool `json:"max_fl_thrust_at_table_top,omitempty"`
 }
 
 // FromEnvelope converts an envelope to its JSON form.
