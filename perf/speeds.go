@@ -256,13 +256,14 @@ func (a *Aircraft) SpeedBand(mass, p, isaDev, floor float64) (Band, bool) {
 		hi, b.HiLimit = mv, LimitVMO
 	}
 	if a.tab != nil {
-		// Tables are not extrapolated: the band ends at the Mach axis.
-		mv := a.tab.CruiseFuelFlow.Axes[2].Values
-		if lo < mv[0] {
-			lo, b.LoLimit = mv[0], LimitTable
+		// Tables are not extrapolated: the band ends where the Mach
+		// axis of the cruise or the thrust table does.
+		mf, mt := a.tab.CruiseFuelFlow.Axes[2].Values, a.tab.ROCCruise.Axes[2].Values
+		if m0 := math.Max(mf[0], mt[0]); lo < m0 {
+			lo, b.LoLimit = m0, LimitTable
 		}
-		if hi > mv[len(mv)-1] {
-			hi, b.HiLimit = mv[len(mv)-1], LimitTable
+		if m1 := math.Min(mf[len(mf)-1], mt[len(mt)-1]); hi > m1 {
+			hi, b.HiLimit = m1, LimitTable
 		}
 	}
 	if !(lo < hi) {

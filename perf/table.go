@@ -158,6 +158,15 @@ var (
 	ColBuffetCL = ColumnSpec{SI: "cl", Units: map[string]float64{"cl": 1}}
 )
 
+// toSI converts v by factor f, dividing by 1/f when that is a whole number
+// (feet to FL: 35000/100 is exactly 350, 35000*0.01 need not be).
+func toSI(v, f float64) float64 {
+	if inv := 1 / f; f < 1 && inv == math.Round(inv) {
+		return v / inv
+	}
+	return v * f
+}
+
 // lbToKg is the international avoirdupois pound in kg (exact by
 // definition, International Yard and Pound Agreement of 1959).
 const lbToKg = 0.45359237
@@ -261,7 +270,7 @@ func ReadGridsCSV(r io.Reader, file string, axes []ColumnSpec, values []ColumnSp
 			if i >= na && v < 0 && !specs[i].Signed {
 				return nil, &TableError{File: file, Line: line, Column: head[i], Reason: fmt.Sprintf("%g is negative", v)}
 			}
-			x[i] = v * factor[i]
+			x[i] = toSI(v, factor[i])
 		}
 		for i := range axes {
 			if distinct[i][x[i]]++; distinct[i][x[i]] == 1 {
