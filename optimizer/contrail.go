@@ -71,8 +71,8 @@ func (p *Problem) checkContrail() error {
 	if r := p.ContrailRHiPct; r != 0 && !(r >= 50 && r <= 200) {
 		return inputErrorf("ContrailRHiPct", "persistence threshold %v %% over ice must lie in 50..200", r)
 	}
-	if c > 0 && p.Aircraft != nil && p.Aircraft.Tables() != nil {
-		return inputErrorf("ContrailCost", "a contrail cost needs the engines' propulsion efficiency (thrust x TAS / fuel energy), and the operator tables of %s hold no thrust: use a performance model", p.Aircraft.Name)
+	if c > 0 && p.Aircraft != nil && !p.Aircraft.KnowsThrust() {
+		return inputErrorf("ContrailCost", "a contrail cost needs the engines' propulsion efficiency (thrust x TAS / fuel energy), and the operator tables of %s hold no thrust (the cruise table's optional thrust column): add it or use a performance model", p.Aircraft.Name)
 	}
 	if c > 0 && !hasHumidity(p.Weather) {
 		return inputErrorf("ContrailCost", "a contrail cost needs weather with humidity (relative or specific, on isobaric levels); this weather has none")
@@ -221,7 +221,7 @@ func classifyContrails(q *Problem, plan *Plan) {
 	tot.Cost = tot.CostPerNM * tot.PersistentNM
 	plan.Contrail = tot
 	if noEta > 0 {
-		plan.Warnings = append(plan.Warnings, fmt.Sprintf("contrails: %.0f NM of cruise not classified: the propulsion efficiency is unknown (the operator tables hold no thrust)", noEta))
+		plan.Warnings = append(plan.Warnings, fmt.Sprintf("contrails: %.0f NM of cruise not classified: the propulsion efficiency is unknown (the operator tables hold no thrust column)", noEta))
 	}
 	if unknown > 0 {
 		plan.Warnings = append(plan.Warnings, fmt.Sprintf("contrails: %d cruise legs (%.0f NM) not classified: no humidity in the weather there", unknown, tot.UnknownNM))

@@ -180,7 +180,8 @@ func (a *Aircraft) buffetCL(mach float64) float64 {
 // few hundred floating-point operations. Out-of-range inputs (non-positive
 // pressure or Mach, Mach >= 1) give NaN fields. For a table aircraft the
 // fuel flow and residual climb are the tables' (NaN outside them, with
-// ThrustLimited true) and Drag, CD and the thrusts are NaN.
+// ThrustLimited true), Drag and CD those of the optional thrust column
+// (else NaN), and the max thrusts NaN.
 func (a *Aircraft) Point(s State) Point {
 	if a.tab != nil {
 		return a.tablePoint(s)

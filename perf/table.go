@@ -156,6 +156,9 @@ var (
 	ColFuel     = ColumnSpec{SI: "fuel_kg", Units: map[string]float64{"fuel_kg": 1, "fuel_lb": lbToKg}, Blank: true}
 	ColDistance = ColumnSpec{SI: "distance_m", Units: map[string]float64{"distance_nm": NMToM, "distance_km": 1000}, Blank: true}
 	ColBuffetCL = ColumnSpec{SI: "cl", Units: map[string]float64{"cl": 1}}
+	// Level-flight thrust (= drag), all engines: 1 lbf is 1 lb × standard
+	// gravity 9.80665 m/s² (ICAO Annex 5).
+	ColThrust = ColumnSpec{SI: "thrust_n", Units: map[string]float64{"thrust_kn": 1000, "thrust_lbf": lbToKg * G0}}
 )
 
 // toSI converts v by factor f, dividing by 1/f when that is a whole number

@@ -20,8 +20,9 @@ import (
 //     two entries (see Climb).
 //
 // All tables are interpolated multilinearly (Grid.At) and never
-// extrapolated. Fields of Point that tables do not hold (drag, CD, thrust)
-// are NaN.
+// extrapolated. Fields of Point that tables do not hold (the max thrusts;
+// drag and CD unless the cruise table has its optional thrust column) are
+// NaN.
 
 // Tables returns the operator tables a plans from, nil for a performance
 // model.
@@ -44,6 +45,11 @@ func (t *Tables) Aircraft() (*Aircraft, error) {
 		tab:      t,
 	}, nil
 }
+
+// KnowsThrust reports whether Point gives the level-flight drag (thrust)
+// and so a propulsion efficiency: always for a model, for a table
+// aircraft when its cruise table has the optional thrust column.
+func (a *Aircraft) KnowsThrust() bool { return a.tab == nil || a.tab.CruiseThrust != nil }
 
 // CheckTableDomain returns nil for a model, and for a table aircraft an
 // *OutOfTableError when cruise at level fl with ISA deviation isaDev (K)
@@ -182,6 +188,10 @@ func (a *Aircraft) tablePoint(s State) Point {
 	pt.CL = cl1 * n
 	pt.CD, pt.Drag, pt.MaxClimbThrust, pt.MaxCruiseThrust = nan, nan, nan, nan
 	fl := PressureToFL(s.Pressure)
+	if g := a.tab.CruiseThrust; g != nil {
+		pt.Drag = at4(g, s.Mass, fl, s.Mach, s.ISADev)
+		pt.CD = pt.Drag / (0.5 * Gamma * s.Pressure * s.Mach * s.Mach * a.WingArea)
+	}
 	pt.FuelFlow = a.tableFF(s.Mass, fl, s.Mach, s.ISADev)
 	pt.SpecificRange = pt.TAS / pt.FuelFlow
 	pt.BuffetCL = a.buffetCL(s.Mach)

@@ -62,6 +62,11 @@ type Tables struct {
 	// CruiseFuelFlow is fuel flow (kg/s, all engines) by mass (kg), FL,
 	// Mach and ISA deviation (K).
 	CruiseFuelFlow *Grid
+	// CruiseThrust is the level-flight thrust (N, all engines; thrust =
+	// drag) on the same grid, from the cruise table's optional sixth
+	// column; nil when not given. With it a table aircraft has a drag and
+	// a propulsion efficiency (contrails); without it those are unknown.
+	CruiseThrust *Grid
 	// ROCClimb and ROCCruise are residual rates of climb (m/s of pressure
 	// altitude, holding Mach) at max climb and max cruise thrust, on the
 	// axes of CruiseFuelFlow's kind (their own values).
@@ -253,7 +258,16 @@ func (t *Tables) readTable(name string, axes, values []ColumnSpec) ([]*Grid, err
 var cruiseAxes = []ColumnSpec{ColMass, ColLevel, ColMach, ColISADev}
 
 func (t *Tables) readCruise() error {
-	gs, err := t.readTable(CruiseFuelFlowFile, cruiseAxes, []ColumnSpec{ColFuelFF})
+	path := filepath.Join(t.Dir, CruiseFuelFlowFile)
+	data, err := readLimited(path, maxTableFile)
+	if err != nil {
+		return err
+	}
+	values := []ColumnSpec{ColFuelFF}
+	if t.Version >= 2 && headerFields(data) == len(cruiseAxes)+2 {
+		values = append(values, ColThrust) // the optional thrust column
+	}
+	gs, err := ReadGridsCSV(bytes.NewReader(data), path, cruiseAxes, values)
 	if err != nil {
 		return err
 	}
@@ -263,6 +277,13 @@ func (t *Tables) readCruise() error {
 	}
 	if err := g.checkMonotone(0, 1, "fuel flow", false); err != nil {
 		return err
+	}
+	if len(gs) > 1 {
+		// Drag rises with mass at a given level, Mach and temperature.
+		if err := gs[1].checkMonotone(0, 1, "thrust", false); err != nil {
+			return err
+		}
+		t.CruiseThrust = gs[1]
 	}
 	t.CruiseFuelFlow = g
 	return nil
@@ -339,6 +360,25 @@ func (t *Tables) readTransitions() error {
 		}
 	}
 	return nil
+}
+
+// headerFields returns the number of fields of the first line of a CSV
+// table that is not a comment (0 if none): it tells which optional
+// columns the header names.
+func headerFields(data []byte) int {
+	for len(data) > 0 {
+		line := data
+		if i := bytes.IndexByte(data, '\n'); i >= 0 {
+			line, data = data[:i], data[i+1:]
+		} else {
+			data = nil
+		}
+		if len(bytes.TrimSpace(line)) == 0 || line[0] == '#' {
+			continue
+		}
+		return bytes.Count(line, []byte{','}) + 1
+	}
+	return 0
 }
 
 // checkBase requires zero at the lowest level (axis 1, FL15) everywhere.

@@ -2,6 +2,7 @@ package perf
 
 import (
 	"errors"
+	"math"
 	"os"
 	"path/filepath"
 	"strings"
@@ -40,11 +41,12 @@ func TestLoadTablesErrors(t *testing.T) {
 		{"mass cover", CruiseFuelFlowFile, "\n40000,", "\n39000,", "column mass: mass axis 24000..39000 kg does not cover OEW..MTOW", &TableError{}},
 		{"unit", CruiseFuelFlowFile, "mass_kg", "mass_t", `cruise_fuel_flow.csv:1: column "mass_t": unrecognised column or unit`, &TableError{}},
 		{"lb accepted, bad level unit", CruiseFuelFlowFile, ",fl,", ",flight_level,", `column "flight_level": unrecognised column or unit; want altitude_ft or fl`, &TableError{}},
-		{"falling", CruiseFuelFlowFile, firstLine(CruiseFuelFlowFile, 1+3*4*3*3-1), "40000,410,0.82,20,1", "column fuel flow: falls as mass_kg rises (mass_kg=40000, fl=410, mach=0.82, isa_dev_k=20)", &TableError{}},
-		{"negative fuel flow", CruiseFuelFlowFile, firstLine(CruiseFuelFlowFile, 1), "24000,250,0.7,-10,-5", "cruise_fuel_flow.csv:2: column fuel_flow_kg_h: -5 is negative", &TableError{}},
-		{"non-finite", CruiseFuelFlowFile, firstLine(CruiseFuelFlowFile, 1), "24000,250,0.7,-10,Inf", `cruise_fuel_flow.csv:2: column fuel_flow_kg_h: "Inf" is not a finite number`, &TableError{}},
+		{"falling", CruiseFuelFlowFile, firstLine(CruiseFuelFlowFile, 1+3*4*3*3-1), "40000,410,0.82,20,1,10", "column fuel flow: falls as mass_kg rises (mass_kg=40000, fl=410, mach=0.82, isa_dev_k=20)", &TableError{}},
+		{"negative fuel flow", CruiseFuelFlowFile, firstLine(CruiseFuelFlowFile, 1), "24000,250,0.7,-10,-5,10", "cruise_fuel_flow.csv:2: column fuel_flow_kg_h: -5 is negative", &TableError{}},
+		{"non-finite", CruiseFuelFlowFile, firstLine(CruiseFuelFlowFile, 1), "24000,250,0.7,-10,Inf,10", `cruise_fuel_flow.csv:2: column fuel_flow_kg_h: "Inf" is not a finite number`, &TableError{}},
 		{"hole", CruiseFuelFlowFile, firstLine(CruiseFuelFlowFile, 2) + "\n", "", "hole in the grid: no row for mass_kg=24000, fl=250, mach=0.7, isa_dev_k=0", &TableError{}},
 		{"mistyped level", CruiseFuelFlowFile, firstLine(CruiseFuelFlowFile, 5), strings.Replace(firstLine(CruiseFuelFlowFile, 5), ",250,", ",2500,", 1), "cruise_fuel_flow.csv:6: column fl: hole in the grid: 2500 (first on this line) is on only 1 rows", &TableError{}},
+		{"thrust unit", CruiseFuelFlowFile, "thrust_kn", "thrust_t", `column "thrust_t": unrecognised column or unit; want thrust_kn or thrust_lbf`, &TableError{}},
 		{"duplicate", CruiseFuelFlowFile, firstLine(CruiseFuelFlowFile, 2), firstLine(CruiseFuelFlowFile, 1), "cruise_fuel_flow.csv:3: duplicates the grid point of line 2", &TableError{}},
 		{"not monotone axis is just order", CruiseFuelFlowFile, "\n", "\n", "", nil},
 		{"mach short of MMO", ThrustLimitsFile, ",0.82,", ",0.80,", "column mach: Mach axis ends at 0.8, below MMO 0.82", &TableError{}},
@@ -131,7 +133,7 @@ func TestTablesVersion1(t *testing.T) {
 	}
 	os.WriteFile(filepath.Join(dir, TablesManifest), []byte(m), 0o644)
 	ff, _ := os.ReadFile(filepath.Join(src, CruiseFuelFlowFile))
-	os.WriteFile(filepath.Join(dir, CruiseFuelFlowFile), ff, 0o644)
+	os.WriteFile(filepath.Join(dir, CruiseFuelFlowFile), dropLastColumn(ff), 0o644) // version 1 has no thrust column
 	tb, err := LoadTables(dir)
 	if err != nil || tb.Version != 1 || tb.CruiseFuelFlow == nil || tb.ClimbTime != nil {
 		t.Fatalf("version 1 set: %v, %+v", err, tb)
@@ -144,5 +146,38 @@ func TestTablesVersion1(t *testing.T) {
 	os.WriteFile(filepath.Join(dir, TablesManifest), []byte(m+"wing:\n  area_m2: 80\n"), 0o644)
 	if _, err := LoadTables(dir); err == nil || !strings.Contains(err.Error(), "field wing: not part of format version 1") {
 		t.Errorf("version 1 with a wing: %v", err)
+	}
+}
+
+// dropLastColumn removes the last field of every line of a CSV table.
+func dropLastColumn(data []byte) []byte {
+	var out []string
+	for _, l := range strings.Split(strings.TrimRight(string(data), "\n"), "\n") {
+		out = append(out, l[:strings.LastIndex(l, ",")])
+	}
+	return []byte(strings.Join(out, "\n") + "\n")
+}
+
+// Without the cruise table's optional thrust column a table aircraft
+// plans as well, but has no drag (NaN) and says it knows no thrust.
+func TestTablesWithoutThrust(t *testing.T) {
+	a := mustBuiltin(t, "demo-regional")
+	dir := t.TempDir()
+	if err := a.ExportTables(dir, smallGrid()); err != nil {
+		t.Fatal(err)
+	}
+	path := filepath.Join(dir, CruiseFuelFlowFile)
+	ff, _ := os.ReadFile(path)
+	if err := os.WriteFile(path, dropLastColumn(ff), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	ta, err := Load(dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	st := State{Mass: 32000, Pressure: FLToPressure(330), Mach: 0.76}
+	p, want := ta.Point(st), a.Point(st)
+	if ta.Tables().CruiseThrust != nil || ta.KnowsThrust() || !a.KnowsThrust() || !math.IsNaN(p.Drag) || relErr(p.FuelFlow, want.FuelFlow) > 1e-8 {
+		t.Errorf("without thrust: knows %v, drag %v, fuel flow %v (model %v)", ta.KnowsThrust(), p.Drag, p.FuelFlow, want.FuelFlow)
 	}
 }

@@ -51,7 +51,8 @@ func TestExportTablesRoundTrip(t *testing.T) {
 	}
 	p := ta.Point(st)
 	if relErr(p.FuelFlow, want.FuelFlow) > 1e-8 || relErr(p.ResidualClimb, want.ResidualClimb) > 1e-8 ||
-		relErr(p.BuffetMargin, want.BuffetMargin) > 1e-12 || p.ThrustLimited != want.ThrustLimited || !math.IsNaN(p.Drag) {
+		relErr(p.BuffetMargin, want.BuffetMargin) > 1e-12 || p.ThrustLimited != want.ThrustLimited ||
+		relErr(p.Drag, want.Drag) > 1e-8 || relErr(p.CD, want.CD) > 1e-8 || !math.IsNaN(p.MaxClimbThrust) || !ta.KnowsThrust() {
 		t.Errorf("table Point %+v\nmodel Point %+v", p, want)
 	}
 	s := DefaultSchedule(a)

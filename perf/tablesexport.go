@@ -190,7 +190,8 @@ func (a *Aircraft) TransitionGrids(climb bool, masses, fls, devs []float64) ([3]
 
 // ExportTables writes a's tables in format version 2 to dir (created if
 // needed) on grid g: the manifest (naming the model and its performance
-// factor as the source) and the five tables. Fuel flows and climb fuel
+// factor as the source) and the five tables, the cruise table with its
+// optional thrust column (level-flight drag). Fuel flows and climb fuel
 // include a's performance factor. It returns an *UnsupportedError for a
 // table aircraft (copy its directory instead). Cost: one Point per cruise
 // grid point (twice) and one Climb and one Descent per transition point.
@@ -198,7 +199,8 @@ func (a *Aircraft) ExportTables(dir string, g ExportGrid) error {
 	if a.tab != nil {
 		return &UnsupportedError{Source: a.Name, Reason: "already operator tables (" + a.tab.Dir + "); copy that directory"}
 	}
-	ff, err := a.CruiseFuelFlowGrid(g.Masses, g.Levels, g.Machs, g.ISADevs)
+	cruise, err := a.pointGrids(CruiseFuelFlowFile, g.Masses, g.Levels, g.Machs, g.ISADevs, []ColumnSpec{ColFuelFF, ColThrust},
+		func(_ State, p Point) []float64 { return []float64{p.FuelFlow, p.Drag} })
 	if err != nil {
 		return err
 	}
@@ -246,7 +248,7 @@ func (a *Aircraft) ExportTables(dir string, g ExportGrid) error {
 		header  []string
 		factors []float64
 	}{
-		{CruiseFuelFlowFile, []*Grid{ff}, []string{"mass_kg", "fl", "mach", "isa_dev_c", "fuel_flow_kg_h"}, []float64{1, 1, 1, 1, 1.0 / 3600}},
+		{CruiseFuelFlowFile, cruise, []string{"mass_kg", "fl", "mach", "isa_dev_c", "fuel_flow_kg_h", "thrust_kn"}, []float64{1, 1, 1, 1, 1.0 / 3600, 1000}},
 		{ThrustLimitsFile, []*Grid{rc, rcr}, []string{"mass_kg", "fl", "mach", "isa_dev_c", "roc_climb_ft_min", "roc_cruise_ft_min"}, []float64{1, 1, 1, 1, fpm, fpm}},
 		{ClimbFile, cl[:], []string{"mass_kg", "fl", "isa_dev_c", "time_min", "fuel_kg", "distance_nm"}, []float64{1, 1, 1, 60, 1, NMToM}},
 		{DescentFile, de[:], []string{"mass_kg", "fl", "isa_dev_c", "time_min", "fuel_kg", "distance_nm"}, []float64{1, 1, 1, 60, 1, NMToM}},
