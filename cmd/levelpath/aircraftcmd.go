@@ -208,7 +208,7 @@ func newAircraftExportCmd() *cobra.Command {
 		}
 		nm, nl, nt, nd := len(g.Masses), len(g.Levels), len(g.TransitionLevels), len(g.ISADevs)
 		fmt.Fprintf(cmd.OutOrStdout(), "wrote format version %d tables of %s to %s:\n"+
-			"  %s, %s: %d cruise fuel-flow and thrust-limit points (%d masses %.0f-%.0f kg, %d levels FL%.0f-FL%.0f, %d Mach %.2f-%.3f, %d ISA deviations %+.0f..%+.0f)\n"+
+			"  %s (with thrust), %s: %d cruise fuel-flow and thrust-limit points (%d masses %.0f-%.0f kg, %d levels FL%.0f-FL%.0f, %d Mach %.2f-%.3f, %d ISA deviations %+.0f..%+.0f)\n"+
 			"  %s, %s: %d climb and descent points (%d levels from 1,500 ft)\n  %s: %d buffet-onset points\n"+
 			"Plan from them with --aircraft %s. %s\n",
 			perf.TablesVersion, a.Name, out,
