@@ -201,7 +201,7 @@ func classifyContrails(q *Problem, plan *Plan) {
 			continue
 		}
 		switch {
-		case !(eta > contrail.CriticalEfficiency(tk, pr, rhw/100)):
+		case !contrail.ExceedsCritical(eta, tk, pr, rhw/100): // eta > CriticalEfficiency, settled early
 			l.Contrail = ContrailNone
 		case rhi >= tot.RHiPct:
 			l.Contrail = ContrailPersistent

@@ -4,18 +4,22 @@ package optimizer
 // apart): cruise per (segment, level) and steps per (levels, rounded Mach
 // and temperature deviation), and the final descent per level. Rows of
 // the index are dense arrays over the grid masses (4 bytes a mass),
-// allocated when a (segment, level) is first priced; the entries
-// themselves are appended to a pool only when computed, so that a plan
-// pays for the prices it uses and not for the grid it might.
+// allocated when a (segment, level) is first priced (cut from slabs of
+// rowSlab rows); the entries themselves are added to a pool only when
+// computed, so that a plan pays for the prices it uses and not for the
+// grid it might. The pool grows by chunks of poolChunk entries, never
+// copied, so an entry's address stays valid.
 type memo struct {
-	levels     int
-	cruiseIdx  [][]int32 // [segment*levels+level][g-gLo]: pool index, -1 none
-	cruisePool []gridVal
-	trans      map[uint64]int32 // (li, lj, Mach, deviation) -> row of transRows
-	transRows  [][]transEntry   // [row][g-gLo]
-	desc       [][]gridTrans    // [level][coarse grid]
-	climb      []transVal       // initial climb per level
-	climbDone  []bool
+	levels      int
+	cruiseIdx   [][]int32        // [segment*levels+level][g-gLo]: pool index, -1 none
+	cruisePool  [][]gridVal      // chunks of poolChunk entries; index i is [i/poolChunk][i%poolChunk]
+	cruiseCount int              // entries in the pool
+	rowSlab     []int32          // the unused rest of the current slab of index rows
+	trans       map[uint64]int32 // (li, lj, Mach, deviation) -> row of transRows
+	transRows   [][]transEntry   // [row][g-gLo]
+	desc        [][]gridTrans    // [level][coarse grid]
+	climb       []transVal       // initial climb per level
+	climbDone   []bool
 }
 
 // transEntry is a memoised step price at a grid mass.
@@ -30,7 +34,7 @@ func newMemo(segments, levels int) *memo {
 
 // gridEntry returns the memo entry of cruise on segment k at level li at
 // grid mass g, computing it when new (nil outside the grid). The pointer
-// is valid until the next call.
+// stays valid: the pool grows by chunks and never moves.
 func (s *solver) gridEntry(k, li, g int) *gridVal {
 	if g < s.gLo || g > s.gHi {
 		return nil
@@ -39,28 +43,44 @@ func (s *solver) gridEntry(k, li, g int) *gridVal {
 	r := k*m.levels + li
 	row := m.cruiseIdx[r]
 	if row == nil {
-		row = make([]int32, s.gHi-s.gLo+1)
-		for i := range row {
-			row[i] = -1
+		n := s.gHi - s.gLo + 1
+		if len(m.rowSlab) < n {
+			m.rowSlab = make([]int32, rowSlab*n)
+			for i := range m.rowSlab {
+				m.rowSlab[i] = -1
+			}
 		}
+		row, m.rowSlab = m.rowSlab[:n:n], m.rowSlab[n:]
 		m.cruiseIdx[r] = row
 	}
 	i := row[g-s.gLo]
 	if i < 0 {
-		i = int32(len(m.cruisePool))
-		v := cruisePoint(s.a, s.p.Speed, s.p.CI, float64(g)*s.grid, s.press[li], s.conds[k][li])
-		m.cruisePool = append(m.cruisePool, gridVal{v: v, done: true})
+		i = int32(m.cruiseCount)
+		if m.cruiseCount%poolChunk == 0 {
+			m.cruisePool = append(m.cruisePool, make([]gridVal, poolChunk))
+		}
+		m.cruiseCount++
+		e := &m.cruisePool[i/poolChunk][i%poolChunk]
+		e.v, e.done = s.priceCruise(s.p.Speed, float64(g)*s.grid, k, li), true
 		row[g-s.gLo] = i
+		return e
 	}
-	return &m.cruisePool[i]
+	return &m.cruisePool[i/poolChunk][i%poolChunk]
 }
+
+// Sizes of the memo's allocations: index rows are cut from slabs of
+// rowSlab rows, pool entries come in chunks of poolChunk.
+const (
+	rowSlab   = 32
+	poolChunk = 256
+)
 
 // cruiseGrid is cruise on segment k at level li at grid mass g*grid.
 func (s *solver) cruiseGrid(k, li, g int) cruiseVal {
 	if e := s.gridEntry(k, li, g); e != nil {
 		return e.v
 	}
-	return cruisePoint(s.a, s.p.Speed, s.p.CI, float64(g)*s.grid, s.press[li], s.conds[k][li])
+	return s.priceCruise(s.p.Speed, float64(g)*s.grid, k, li)
 }
 
 // transGrid returns the memoised step prices at grid masses g and g+1

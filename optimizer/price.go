@@ -30,10 +30,21 @@ type transVal struct {
 	mach float64
 }
 
+// speeds is what cruise pricing asks of the aircraft: a *perf.Aircraft,
+// or a *perf.Cruiser, which keeps the parts that repeat between calls and
+// returns the same values bit for bit.
+type speeds interface {
+	EconMach(mass, p, isaDev, floor, ci, windAlong float64) (float64, bool)
+	LRCMach(mass, p, isaDev, floor float64) (float64, bool)
+	MachBand(mass, p, isaDev, floor float64) (lo, hi float64, ok bool)
+	BuffetMachs(mass, p, n float64) (lo, hi float64, ok bool)
+	Point(s perf.State) perf.Point
+}
+
 // machFor picks the Mach of the speed policy at mass m, pressure p and the
 // given conditions; ok is false when no Mach satisfies the floor, MMO, VMO
 // and thrust.
-func machFor(a *perf.Aircraft, sp Speed, ci, m, p float64, c cond) (float64, bool) {
+func machFor(a speeds, sp Speed, ci, m, p float64, c cond) (float64, bool) {
 	switch sp.Kind {
 	case SpeedLRC:
 		return a.LRCMach(m, p, c.isaDev, c.floor)
@@ -51,15 +62,23 @@ func machFor(a *perf.Aircraft, sp Speed, ci, m, p float64, c cond) (float64, boo
 // The reason of an infeasible result is left empty (the search asks
 // millions of times); explainCruise fills it.
 func cruisePoint(a *perf.Aircraft, sp Speed, ci, m, p float64, c cond) cruiseVal {
-	return cruiseEval(a, sp, ci, m, p, c, false)
+	return cruiseEval(a, a, sp, ci, m, p, c, false)
+}
+
+// priceCruise is cruisePoint on segment k at level li through the
+// solver's perf.Cruiser (the same values, the repeated parts kept).
+func (s *solver) priceCruise(sp Speed, m float64, k, li int) cruiseVal {
+	return cruiseEval(s.a, s.cr, sp, s.p.CI, m, s.press[li], s.conds[k][li], false)
 }
 
 // explainCruise is cruisePoint with the reason of an infeasible result.
 func explainCruise(a *perf.Aircraft, sp Speed, ci, m, p float64, c cond) cruiseVal {
-	return cruiseEval(a, sp, ci, m, p, c, true)
+	return cruiseEval(a, a, sp, ci, m, p, c, true)
 }
 
-func cruiseEval(a *perf.Aircraft, sp Speed, ci, m, p float64, c cond, explain bool) cruiseVal {
+// cruiseEval prices cruise for aircraft a, asking sv (a itself, or a's
+// perf.Cruiser) for the speeds and the point performance.
+func cruiseEval(a *perf.Aircraft, sv speeds, sp Speed, ci, m, p float64, c cond, explain bool) cruiseVal {
 	why := func(format string, args ...any) string {
 		if !explain {
 			return ""
@@ -73,14 +92,14 @@ func cruiseEval(a *perf.Aircraft, sp Speed, ci, m, p float64, c cond, explain bo
 		}
 		return cruiseVal{lim: lim, why: c.closedWhy}
 	}
-	mach, ok := machFor(a, sp, ci, m, p, c)
+	mach, ok := machFor(sv, sp, ci, m, p, c)
 	if !ok && !explain {
 		// Which limit closed the band matters only to an explanation;
 		// the search asks often, so it is not worked out here.
 		return cruiseVal{lim: LimitMachBand}
 	}
 	if !ok {
-		lo, hi, bok := a.BuffetMachs(m, p, c.floor)
+		lo, hi, bok := sv.BuffetMachs(m, p, c.floor)
 		if !bok || lo >= math.Min(hi, a.MMO) {
 			return cruiseVal{lim: LimitBuffet, why: why("no Mach keeps %.2f g to buffet", c.floor)}
 		}
@@ -89,7 +108,13 @@ func cruiseEval(a *perf.Aircraft, sp Speed, ci, m, p float64, c cond, explain bo
 		}
 		return cruiseVal{lim: LimitThrust, why: "drag exceeds maximum cruise thrust across the buffet band"}
 	}
-	pt := a.Point(perf.State{Mass: m, Pressure: p, Mach: mach, ISADev: c.isaDev, LoadFactor: 1})
+	st := perf.State{Mass: m, Pressure: p, Mach: mach, ISADev: c.isaDev, LoadFactor: 1}
+	var pt perf.Point
+	if cr, ok := sv.(*perf.Cruiser); ok {
+		pt = cr.PointNoCAS(st) // CAS is not read here
+	} else {
+		pt = sv.Point(st)
+	}
 	v := cruiseVal{mach: mach, tas: pt.TAS, ff: pt.FuelFlow, resid: pt.ResidualClimb, margin: pt.BuffetMargin,
 		cruise: pt.Drag > 0.9*pt.MaxCruiseThrust}
 	switch {
@@ -106,15 +131,23 @@ func cruiseEval(a *perf.Aircraft, sp Speed, ci, m, p float64, c cond, explain bo
 }
 
 // lerpCruise interpolates two feasible cruise values.
-func lerpCruise(v0, v1 cruiseVal, t float64) cruiseVal {
+func lerpCruise(v0, v1 *cruiseVal, t float64) cruiseVal {
 	l := func(a, b float64) float64 { return a + (b-a)*t }
 	return cruiseVal{ok: true, mach: l(v0.mach, v1.mach), tas: l(v0.tas, v1.tas), ff: l(v0.ff, v1.ff),
 		resid: l(v0.resid, v1.resid), margin: l(v0.margin, v1.margin), cruise: v0.cruise || v1.cruise}
 }
 
+// transitions integrates climbs and descents: a *perf.Aircraft, or a
+// *perf.Cruiser (the same values, the standard atmosphere on the
+// integration's heights kept).
+type transitions interface {
+	Climb(mass, fromP, toP, isaDev float64, s perf.Schedule) (perf.Transition, error)
+	Descent(mass, fromP, toP, isaDev float64, s perf.Schedule) (perf.Transition, error)
+}
+
 // transition prices a climb (to > from) or descent between two pressures,
 // with the reason of a failure in why.
-func transition(a *perf.Aircraft, m, pFrom, pTo, isaDev float64, s perf.Schedule, climb bool) transVal {
+func transition(a transitions, m, pFrom, pTo, isaDev float64, s perf.Schedule, climb bool) transVal {
 	v, err := transitionErr(a, m, pFrom, pTo, isaDev, s, climb)
 	if err != nil {
 		v.why = err.Error()
@@ -124,12 +157,12 @@ func transition(a *perf.Aircraft, m, pFrom, pTo, isaDev float64, s perf.Schedule
 
 // quietTransition is transition for the search: a failure's reason is
 // not formatted (explanations ask transition again).
-func quietTransition(a *perf.Aircraft, m, pFrom, pTo, isaDev float64, s perf.Schedule, climb bool) transVal {
+func quietTransition(a transitions, m, pFrom, pTo, isaDev float64, s perf.Schedule, climb bool) transVal {
 	v, _ := transitionErr(a, m, pFrom, pTo, isaDev, s, climb)
 	return v
 }
 
-func transitionErr(a *perf.Aircraft, m, pFrom, pTo, isaDev float64, s perf.Schedule, climb bool) (transVal, error) {
+func transitionErr(a transitions, m, pFrom, pTo, isaDev float64, s perf.Schedule, climb bool) (transVal, error) {
 	var tr perf.Transition
 	var err error
 	if climb {

@@ -27,6 +27,9 @@ type solver struct {
 	// baseline's solver.
 	gLo, gHi int
 	memo     *memo
+	// cr prices cruise speeds with their repeated parts kept (the same
+	// values as the aircraft's own methods), shared like the memo.
+	cr *perf.Cruiser
 
 	// limits for step-state bookkeeping
 	sinceCap int // segments after which MinDistance is surely met
@@ -51,6 +54,8 @@ type solver struct {
 	// baseline's solver, a subgraph, reuses.
 	reuse []float64
 	fixed *boundParts // see bound.go
+	// boundScratch holds leastCostPerMetre's levels (reused).
+	boundScratch []levelBound
 	// overflowed is set when an arrival's mass bucket exceeds the node ID.
 	overflowed bool
 	// ctx stops the search when done (see ctxErr); nil: never done.
@@ -59,7 +64,7 @@ type solver struct {
 
 // newSolver prepares p (already normalised).
 func newSolver(p *Problem) (*solver, error) {
-	s := &solver{p: p, a: p.Aircraft, grid: 0.01 * p.Aircraft.MTOW}
+	s := &solver{p: p, a: p.Aircraft, grid: 0.01 * p.Aircraft.MTOW, cr: perf.NewCruiser(p.Aircraft)}
 	if !p.Exact {
 		s.grid *= 2 // an approximation: prices interpolated over 2 % of MTOW
 	}
@@ -178,32 +183,52 @@ type gridTrans struct {
 // the feasible side, so the search never accepts an infeasible mass.
 func (s *solver) cruiseAt(k, li int, m float64) cruiseVal {
 	g := int(math.Floor(m / s.grid))
-	v0, v1 := s.cruiseGrid(k, li, g), s.cruiseGrid(k, li, g+1)
+	e0 := s.gridEntry(k, li, g)
+	if e0 == nil {
+		return s.cruiseOffGrid(k, li, m, g)
+	}
+	// The memo's entries, read in place (they never move).
+	v0 := &e0.v
+	var v1 *cruiseVal
+	if e1 := s.gridEntry(k, li, g+1); e1 != nil {
+		v1 = &e1.v
+	} else {
+		v := s.cruiseGrid(k, li, g+1)
+		v1 = &v
+	}
 	switch {
 	case v0.ok && v1.ok:
 		return lerpCruise(v0, v1, (m-float64(g)*s.grid)/s.grid)
 	case !v0.ok && !v1.ok:
-		return v0
+		return *v0
 	case v0.ok:
-		e := s.gridEntry(k, li, g)
-		if e == nil {
-			break
+		if !e0.bDone {
+			e0.bm, e0.bv = s.boundary(k, li, float64(g)*s.grid, *v0)
+			e0.bDone = true
 		}
-		if !e.bDone {
-			bm, bv := s.boundary(k, li, float64(g)*s.grid, v0)
-			e = s.gridEntry(k, li, g) // boundary does not grow the pool; re-read for safety
-			e.bm, e.bv, e.bDone = bm, bv, true
-		}
-		if m > e.bm {
-			return v1
+		if m > e0.bm {
+			return *v1
 		}
 		m0 := float64(g) * s.grid
-		if e.bm-m0 < 1e-9 {
-			return v0
+		if e0.bm-m0 < 1e-9 {
+			return *v0
 		}
-		return lerpCruise(v0, e.bv, (m-m0)/(e.bm-m0))
+		return lerpCruise(v0, &e0.bv, (m-m0)/(e0.bm-m0))
 	}
-	return cruisePoint(s.a, s.p.Speed, s.p.CI, m, s.press[li], s.conds[k][li])
+	return s.priceCruise(s.p.Speed, m, k, li)
+}
+
+// cruiseOffGrid is cruiseAt where grid mass g lies outside the memo's
+// grid: interpolated where g and g+1 are both feasible, else exact.
+func (s *solver) cruiseOffGrid(k, li int, m float64, g int) cruiseVal {
+	v0, v1 := s.cruiseGrid(k, li, g), s.cruiseGrid(k, li, g+1)
+	switch {
+	case v0.ok && v1.ok:
+		return lerpCruise(&v0, &v1, (m-float64(g)*s.grid)/s.grid)
+	case !v0.ok && !v1.ok:
+		return v0
+	}
+	return s.priceCruise(s.p.Speed, m, k, li)
 }
 
 // boundary bisects between the feasible mass lo (value vlo) and lo + grid
@@ -212,7 +237,7 @@ func (s *solver) boundary(k, li int, lo float64, vlo cruiseVal) (float64, cruise
 	hi := lo + s.grid
 	for i := 0; i < s.bisect; i++ {
 		mid := (lo + hi) / 2
-		if v := cruisePoint(s.a, s.p.Speed, s.p.CI, mid, s.press[li], s.conds[k][li]); v.ok {
+		if v := s.priceCruise(s.p.Speed, mid, k, li); v.ok {
 			lo, vlo = mid, v
 		} else {
 			hi = mid
@@ -287,7 +312,7 @@ const (
 func (s *solver) transExact(li, lj int, m, mach, dev float64) transVal {
 	pLow := math.Max(s.press[li], s.press[lj])
 	sch := machSchedule(s.a, s.p.ClimbSchedule, mach, pLow)
-	return quietTransition(s.a, m, s.press[li], s.press[lj], dev, sch, lj > li)
+	return quietTransition(s.cr, m, s.press[li], s.press[lj], dev, sch, lj > li)
 }
 
 // descent prices the final descent from level li at mass m, memoised on
@@ -324,7 +349,7 @@ func (s *solver) descent(li int, m float64) transVal {
 
 func (s *solver) descentExact(li int, m float64) transVal {
 	last := len(s.conds) - 1
-	return quietTransition(s.a, m, s.press[li], perf.PressureAt(s.p.EndAltitude), s.conds[last][li].isaDev, s.p.DescentSchedule, false)
+	return quietTransition(s.cr, m, s.press[li], perf.PressureAt(s.p.EndAltitude), s.conds[last][li].isaDev, s.p.DescentSchedule, false)
 }
 
 // descentGround returns the ground distance of the final descent from
@@ -350,7 +375,7 @@ func (s *solver) initialClimb(li int) (transVal, float64) {
 		m.climbDone = make([]bool, len(s.levels))
 	}
 	if !m.climbDone[li] {
-		m.climb[li] = transition(s.a, s.p.TakeoffMass, perf.PressureAt(s.p.EndAltitude), s.press[li], s.conds[0][li].isaDev, s.p.ClimbSchedule, true)
+		m.climb[li] = transition(s.cr, s.p.TakeoffMass, perf.PressureAt(s.p.EndAltitude), s.press[li], s.conds[0][li].isaDev, s.p.ClimbSchedule, true)
 		m.climbDone[li] = true
 	}
 	c := m.climb[li]

@@ -30,12 +30,14 @@ type cond struct {
 
 // weatherAt samples the weather at a point and returns the along-track wind
 // for the true course, the temperature deviation from ISA and the EDR.
-// Without weather it returns still air at ISA.
-func weatherAt(f *winds.Field, lat, lon, p float64, t time.Time, course float64) (wind, isaDev, edr float64, err error) {
+// Without weather it returns still air at ISA. tisa is the ISA
+// temperature at p (perf.ISATemperatureAtPressure), given by the caller
+// because it is the same at every point of a level.
+func weatherAt(f *winds.Field, lat, lon, p, tisa float64, t time.Time, course float64) (wind, isaDev, edr float64, err error) {
 	if f == nil {
 		return 0, 0, nan, nil
 	}
-	s, err := f.Sample(lat, lon, p, t)
+	s, err := f.SampleWind(lat, lon, p, t) // no humidity wanted here
 	if err != nil {
 		return 0, 0, nan, err
 	}
@@ -49,7 +51,7 @@ func weatherAt(f *winds.Field, lat, lon, p float64, t time.Time, course float64)
 		if math.IsNaN(s.T) {
 			return 0, 0, nan, fmt.Errorf("no temperature at %.3f, %.3f, %.0f hPa (missing values in the weather)", lat, lon, p/100)
 		}
-		dev = perf.ISADeviation(p, s.T)
+		dev = s.T - tisa // perf.ISADeviation(p, s.T), bit for bit
 	}
 	along, _ := winds.AlongAcross(s.U, s.V, course)
 	return along, dev, s.EDR, nil
@@ -71,8 +73,9 @@ func segWeather(f *winds.Field, seg *route.Segment, p float64, t time.Time) (win
 		pts = []route.Point{seg.Mid}
 	}
 	edr = nan
+	tisa := perf.ISATemperatureAtPressure(p)
 	for _, q := range pts {
-		w, d, e, err := weatherAt(f, q.Lat, q.Lon, p, t, seg.TrueCourse)
+		w, d, e, err := weatherAt(f, q.Lat, q.Lon, p, tisa, t, seg.TrueCourse)
 		if err != nil {
 			return 0, 0, nan, err
 		}
@@ -126,13 +129,17 @@ func buildConds(p *Problem, levels []int) ([][]cond, error) {
 	}
 	segs := p.Track.Segments
 	out := make([][]cond, len(segs))
+	press := make([]float64, len(levels)) // the same on every segment
+	for li, fl := range levels {
+		press[li] = perf.FLToPressure(float64(fl))
+	}
 	clock := p.Depart
 	for k := range segs {
 		seg := &segs[k]
 		t := clock.Add(time.Duration(seg.Length / 2 / tas * float64(time.Second)))
 		row := make([]cond, len(levels))
 		for li, fl := range levels {
-			pr := perf.FLToPressure(float64(fl))
+			pr := press[li]
 			w, d, e, err := segWeather(p.Weather, seg, pr, t)
 			c := cond{wind: w, isaDev: p.isaDevOr(d), edr: e}
 			if err != nil {

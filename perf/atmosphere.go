@@ -111,6 +111,12 @@ func isaTemperatureAtPressure(p float64) float64 {
 	return b.t * math.Pow(p/b.p, -RAir*b.lapse/G0)
 }
 
+// ISATemperatureAtPressure returns the standard temperature (K) at the
+// pressure altitude of static pressure p (Pa): ISATemperature(AltitudeAt(p))
+// with one power instead of two, and what ISADeviation subtracts (t -
+// ISATemperatureAtPressure(p) is ISADeviation(p, t) bit for bit).
+func ISATemperatureAtPressure(p float64) float64 { return isaTemperatureAtPressure(p) }
+
 // FLToPressure returns the static pressure (Pa) at flight level fl
 // (hundreds of feet of pressure altitude).
 func FLToPressure(fl float64) float64 { return PressureAt(fl * 100 * FtToM) }

@@ -83,3 +83,19 @@ func TestAltitudeRoundTrip(t *testing.T) {
 		t.Error("AltitudeAt of non-positive pressure should be NaN")
 	}
 }
+
+// TestISATemperatureAtPressure checks the standard temperature at a static
+// pressure against U.S. Standard Atmosphere 1976 (NOAA/NASA/USAF) table
+// values (the pressures and temperatures of TestISAReferenceValues), and
+// that ISADeviation subtracts exactly it.
+func TestISATemperatureAtPressure(t *testing.T) {
+	for _, tc := range []struct{ pPa, tK float64 }{{101325, 288.15}, {22632.06, 216.65}, {23842, 218.81}, {19677, 216.65}, {5474.89, 216.65}} {
+		got := ISATemperatureAtPressure(tc.pPa)
+		if relErr(got, tc.tK) > 1e-4 {
+			t.Errorf("%.2f Pa: %.4f K, want %.2f", tc.pPa, got, tc.tK)
+		}
+		if d := ISADeviation(tc.pPa, 230); d != 230-got {
+			t.Errorf("%.2f Pa: ISADeviation %v, 230 - ISATemperatureAtPressure %v", tc.pPa, d, 230-got)
+		}
+	}
+}

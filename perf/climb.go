@@ -30,7 +30,12 @@ const (
 )
 
 // mach returns the scheduled Mach at pressure altitude h and pressure p.
-func (s *Schedule) mach(h, p float64) float64 {
+func (s *Schedule) mach(h, p float64) float64 { return s.machFrom(s.casMach(h, p)) }
+
+// casMach returns the Mach of the CAS that applies at pressure altitude h
+// and pressure p, +Inf when none limits (no CAS, a CAS at or above a0, or
+// one that is supersonic here).
+func (s *Schedule) casMach(h, p float64) float64 {
 	m := math.Inf(1)
 	cas := s.CAS
 	if h < lowSpeedAltitude && s.CASLow > 0 {
@@ -42,6 +47,12 @@ func (s *Schedule) mach(h, p float64) float64 {
 			m = cm
 		}
 	}
+	return m
+}
+
+// machFrom returns the scheduled Mach given casMach's m: the Mach limit
+// when lower, NaN when nothing limits.
+func (s *Schedule) machFrom(m float64) float64 {
 	if s.Mach > 0 && s.Mach < m {
 		m = s.Mach
 	}
@@ -72,6 +83,10 @@ func (s *Schedule) mach(h, p float64) float64 {
 // and returns an *OutOfTableError outside it and a *LimitError where the
 // table marks the level as not reached.
 func (a *Aircraft) Climb(mass, fromP, toP, isaDev float64, s Schedule) (Transition, error) {
+	return a.climb(nil, mass, fromP, toP, isaDev, s)
+}
+
+func (a *Aircraft) climb(c *Cruiser, mass, fromP, toP, isaDev float64, s Schedule) (Transition, error) {
 	if err := a.checkTransition(mass, fromP, toP, isaDev, &s); err != nil {
 		return Transition{}, err
 	}
@@ -81,7 +96,7 @@ func (a *Aircraft) Climb(mass, fromP, toP, isaDev float64, s Schedule) (Transiti
 	if a.tab != nil {
 		return a.tableTransition(mass, fromP, toP, isaDev, true)
 	}
-	return a.transition(mass, fromP, toP, isaDev, &s, true)
+	return a.transition(c, mass, fromP, toP, isaDev, &s, true)
 }
 
 // Descent integrates an idle-thrust descent from fromP to toP (toP > fromP)
@@ -89,6 +104,10 @@ func (a *Aircraft) Climb(mass, fromP, toP, isaDev float64, s Schedule) (Transiti
 // scaled by δ0 √θ0. It returns a *LimitError where idle thrust exceeds drag
 // (no descent on the schedule is possible).
 func (a *Aircraft) Descent(mass, fromP, toP, isaDev float64, s Schedule) (Transition, error) {
+	return a.descent(nil, mass, fromP, toP, isaDev, s)
+}
+
+func (a *Aircraft) descent(c *Cruiser, mass, fromP, toP, isaDev float64, s Schedule) (Transition, error) {
 	if err := a.checkTransition(mass, fromP, toP, isaDev, &s); err != nil {
 		return Transition{}, err
 	}
@@ -98,7 +117,7 @@ func (a *Aircraft) Descent(mass, fromP, toP, isaDev float64, s Schedule) (Transi
 	if a.tab != nil {
 		return a.tableTransition(mass, fromP, toP, isaDev, false)
 	}
-	return a.transition(mass, fromP, toP, isaDev, &s, false)
+	return a.transition(c, mass, fromP, toP, isaDev, &s, false)
 }
 
 func (a *Aircraft) checkTransition(mass, fromP, toP, isaDev float64, s *Schedule) error {
@@ -119,7 +138,10 @@ func (a *Aircraft) checkTransition(mass, fromP, toP, isaDev float64, s *Schedule
 	return nil
 }
 
-func (a *Aircraft) transition(mass, fromP, toP, isaDev float64, s *Schedule, climb bool) (Transition, error) {
+// transition integrates a climb or descent; c, when not nil, supplies the
+// standard atmosphere and the CAS schedule's Mach from its caches (the
+// same values).
+func (a *Aircraft) transition(c *Cruiser, mass, fromP, toP, isaDev float64, s *Schedule, climb bool) (Transition, error) {
 	var tr Transition
 	h1, h2 := AltitudeAt(fromP), AltitudeAt(toP)
 	if h1 == h2 {
@@ -131,11 +153,27 @@ func (a *Aircraft) transition(mass, fromP, toP, isaDev float64, s *Schedule, cli
 	}
 	cosL := math.Cos(a.Sweep)
 	m := mass
+	// The heights below are the same for every transition between h1 and
+	// h2, so c (when not nil) keeps the atmosphere and the CAS's Mach at
+	// each, in the order they are asked.
+	prof := c.profile(h1, h2, s)
+	node := 0
 	speed := func(h float64) (v, mach, p, t, tisa float64) {
-		p = PressureAt(h)
-		tisa = ISATemperature(h)
+		var cm float64
+		if prof != nil && node < len(prof.nodes) {
+			n := &prof.nodes[node]
+			p, tisa, cm = n.p, n.tisa, n.casMach
+		} else {
+			p = PressureAt(h)
+			tisa = ISATemperature(h)
+			cm = s.casMach(h, p)
+			if prof != nil {
+				prof.nodes = append(prof.nodes, profileNode{p: p, tisa: tisa, casMach: cm})
+			}
+		}
+		node++
 		t = tisa + isaDev
-		mach = s.mach(h, p)
+		mach = s.machFrom(cm)
 		return mach * SpeedOfSound(t), mach, p, t, tisa
 	}
 	va, _, _, _, _ := speed(h1)

@@ -183,20 +183,27 @@ func (a *Aircraft) buffetCL(mach float64) float64 {
 // ThrustLimited true), Drag and CD those of the optional thrust column
 // (else NaN), and the max thrusts NaN.
 func (a *Aircraft) Point(s State) Point {
+	return a.point(s, isaTemperatureAtPressure(s.Pressure), math.Cos(a.Sweep), true)
+}
+
+// point is Point with the ISA temperature at s.Pressure and the cosine of
+// the sweep given; without cas, CAS is left NaN.
+func (a *Aircraft) point(s State, tisa, cosL float64, cas bool) Point {
 	if a.tab != nil {
-		return a.tablePoint(s)
+		return a.tablePoint(s, tisa, cas)
 	}
 	n := s.LoadFactor
 	if n == 0 {
 		n = 1
 	}
 	var pt Point
-	tisa := isaTemperatureAtPressure(s.Pressure)
 	t := tisa + s.ISADev
 	pt.Temperature = t
 	pt.TAS = s.Mach * SpeedOfSound(t)
-	pt.CAS = MachToCAS(s.Mach, s.Pressure)
-	cosL := math.Cos(a.Sweep)
+	pt.CAS = math.NaN()
+	if cas {
+		pt.CAS = MachToCAS(s.Mach, s.Pressure)
+	}
 	d, cl1, cd := a.drag(s.Mass, s.Pressure, s.Mach, cosL)
 	pt.CL = cl1 * n
 	pt.CD = cd

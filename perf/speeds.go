@@ -238,9 +238,23 @@ func (a *Aircraft) MachBand(mass, p, isaDev, floor float64) (lo, hi float64, ok 
 // the buffet band lies above MMO or VMO: then LimitMMO or LimitVMO), else
 // LimitThrust. No allocation.
 func (a *Aircraft) SpeedBand(mass, p, isaDev, floor float64) (Band, bool) {
+	var bf buffetBand
+	bf.lo, bf.hi, bf.beyond, bf.ok = a.buffetMachs(mass, p, floor)
+	return a.speedBand(mass, p, isaDev, isaTemperatureAtPressure(p), CASToMach(a.VMO, p), bf)
+}
+
+// buffetBand is what buffetMachs returns.
+type buffetBand struct {
+	lo, hi     float64
+	beyond, ok bool
+}
+
+// speedBand is SpeedBand from the buffet Machs at the floor, the ISA
+// temperature at p and the Mach of VMO at p.
+func (a *Aircraft) speedBand(mass, p, isaDev, tisa, vmoMach float64, bf buffetBand) (Band, bool) {
 	nan := math.NaN()
-	b := Band{Lo: nan, Hi: nan, VMOMach: CASToMach(a.VMO, p)}
-	lo, hi, beyond, ok := a.buffetMachs(mass, p, floor)
+	b := Band{Lo: nan, Hi: nan, VMOMach: vmoMach}
+	lo, hi, beyond, ok := bf.lo, bf.hi, bf.beyond, bf.ok
 	if !ok || math.IsNaN(isaDev) {
 		b.HiLimit = LimitBuffet
 		return b, false
@@ -269,7 +283,6 @@ func (a *Aircraft) SpeedBand(mass, p, isaDev, floor float64) (Band, bool) {
 	if !(lo < hi) {
 		return b, false
 	}
-	tisa := isaTemperatureAtPressure(p)
 	t := tisa + isaDev
 	cosL := math.Cos(a.Sweep)
 	excess := func(m float64) float64 { return a.excessThrust(mass, p, t, tisa, m, cosL) }

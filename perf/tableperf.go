@@ -171,19 +171,22 @@ func (a *Aircraft) tableSRFn(mass, p, t, tisa float64) func(float64) float64 {
 	return func(m float64) float64 { return m * snd / a.tableFF(mass, fl, m, dev) }
 }
 
-// tablePoint is Point from the tables.
-func (a *Aircraft) tablePoint(s State) Point {
+// tablePoint is point from the tables (tisa the ISA temperature at
+// s.Pressure; CAS left NaN unless cas).
+func (a *Aircraft) tablePoint(s State, tisa float64, cas bool) Point {
 	n := s.LoadFactor
 	if n == 0 {
 		n = 1
 	}
 	nan := math.NaN()
 	var pt Point
-	tisa := isaTemperatureAtPressure(s.Pressure)
 	t := tisa + s.ISADev
 	pt.Temperature = t
 	pt.TAS = s.Mach * SpeedOfSound(t)
-	pt.CAS = MachToCAS(s.Mach, s.Pressure)
+	pt.CAS = nan
+	if cas {
+		pt.CAS = MachToCAS(s.Mach, s.Pressure)
+	}
 	cl1 := s.Mass * G0 / (0.5 * Gamma * s.Pressure * s.Mach * s.Mach * a.WingArea)
 	pt.CL = cl1 * n
 	pt.CD, pt.Drag, pt.MaxClimbThrust, pt.MaxCruiseThrust = nan, nan, nan, nan

@@ -27,11 +27,26 @@ const tol = 1e-9
 // (binary search over levels and times, once per distinct grid) and does
 // not allocate unless it returns an error.
 func (f *Field) Sample(lat, lon, p float64, t time.Time) (Sample, error) {
+	return f.sample(lat, lon, p, t, true)
+}
+
+// SampleWind is Sample without the humidity: RH, RHi and Q are NaN, and
+// neither interpolated nor converted (the conversion of relative humidity
+// takes two saturation pressures), for callers that read only the wind,
+// temperature and EDR. Those, and the errors, are Sample's bit for bit.
+func (f *Field) SampleWind(lat, lon, p float64, t time.Time) (Sample, error) {
+	return f.sample(lat, lon, p, t, false)
+}
+
+func (f *Field) sample(lat, lon, p float64, t time.Time, humidity bool) (Sample, error) {
 	nan := math.NaN()
 	res := [nslots]float64{nan, nan, nan, nan, nan, nan}
 	lnp := math.Log(p)
 	ts := float64(t.Unix()) + float64(t.Nanosecond())*1e-9
 	for _, a := range f.uniq[:f.nuniq] {
+		if !humidity && a != f.ax[slotU] && a != f.ax[slotV] && a != f.ax[slotT] && a != f.prim && a != f.ax[slotEDR] {
+			continue // humidity's own grid, which gives no error either
+		}
 		var l loc
 		if what := a.locate(lat, lon, lnp, ts, &l); what != "" {
 			if a != f.ax[slotU] && a != f.ax[slotV] && a != f.ax[slotT] && a != f.prim {
@@ -40,13 +55,14 @@ func (f *Field) Sample(lat, lon, p float64, t time.Time) (Sample, error) {
 			return Sample{nan, nan, nan, nan, nan, nan, nan}, a.rangeErr(lat, lon, p, t, what)
 		}
 		for s := range f.vars {
-			if f.ax[s] == a {
+			if f.ax[s] == a && (humidity || !isHumidity(s)) {
 				res[s] = l.interp(f.vars[s], a.plane)
 			}
 		}
 	}
 	out := Sample{U: res[slotU], V: res[slotV], T: res[slotT], EDR: res[slotEDR], RH: nan, RHi: nan, Q: res[slotQ]}
 	switch {
+	case !humidity:
 	case f.vars[slotRH] != nil:
 		out.RH, out.RHi = f.rhRef.convert(res[slotRH], out.T)
 	case f.vars[slotQ] != nil:
