@@ -144,3 +144,44 @@ func TestTransitionTableUnits(t *testing.T) {
 		t.Errorf("blank fuel flow: %v", err)
 	}
 }
+
+// The 4-axis fast path (locate4, eval4: successive linear interpolation)
+// is At's multilinear interpolation up to rounding, reproduces a function
+// linear in each axis exactly (definition of multilinear interpolation),
+// ignores a blank corner of zero weight and refuses what At refuses.
+func TestGridEval4(t *testing.T) {
+	f := func(x [4]float64) float64 { return 1 + 2*x[0] - x[1] + 0.5*x[0]*x[2] + 0.1*x[1]*x[2]*x[3] }
+	ax := [][]float64{{0, 1, 4}, {-1, 2}, {10}, {0, 0.5, 1, 3}}
+	g := &Grid{Name: "t.csv"}
+	for _, v := range ax {
+		g.Axes = append(g.Axes, Axis{Values: v})
+	}
+	for _, a := range ax[0] {
+		for _, b := range ax[1] {
+			for _, c := range ax[2] {
+				for _, d := range ax[3] {
+					g.Values = append(g.Values, f([4]float64{a, b, c, d}))
+				}
+			}
+		}
+	}
+	for _, q := range [][4]float64{{0, -1, 10, 0}, {4, 2, 10, 3}, {0.3, 0.7, 10, 0.2}, {3.9, -0.5, 10, 2.9}, {1, 2, 10, 0.5}} {
+		c, ok := g.locate4(q)
+		at, err := g.At(q[0], q[1], q[2], q[3])
+		if got := g.eval4(&c); !ok || err != nil || math.Abs(got-f(q)) > 1e-12 || math.Abs(got-at) > 1e-12 {
+			t.Errorf("eval4%v = %v (%v), At %v (%v), want %v", q, got, ok, at, err, f(q))
+		}
+	}
+	for _, q := range [][4]float64{{-0.1, 0, 10, 0}, {1, 0, 11, 0}, {1, 0, 10, math.NaN()}} {
+		if _, ok := g.locate4(q); ok {
+			t.Errorf("locate4%v accepted outside the grid", q)
+		}
+	}
+	g.Values[len(g.Values)-1] = math.NaN() // the corner (4, 2, 10, 3)
+	if c, _ := g.locate4([4]float64{4, 2, 10, 1}); math.IsNaN(g.eval4(&c)) {
+		t.Error("a blank corner of zero weight spoiled the value")
+	}
+	if c, _ := g.locate4([4]float64{4, 2, 10, 2}); !math.IsNaN(g.eval4(&c)) {
+		t.Error("a blank corner of non-zero weight gave a value")
+	}
+}

@@ -34,6 +34,14 @@ func (t *Tables) Aircraft() (*Aircraft, error) {
 	if t.Version < 2 {
 		return nil, &UnsupportedError{Source: t.Dir, Reason: t.missingForPlanning()}
 	}
+	// LoadTables guarantees these; a hand-built Tables must too.
+	if t.CruiseFuelFlow == nil || t.ROCClimb == nil || t.ROCCruise == nil || t.ClimbTime == nil || t.ClimbFuel == nil ||
+		t.ClimbDistance == nil || t.DescentTime == nil || t.DescentFuel == nil || t.DescentDistance == nil || len(t.Buffet) < 2 {
+		return nil, fmt.Errorf("perf: tables of %s are incomplete (use LoadTables)", t.Name)
+	}
+	if len(t.CruiseFuelFlow.Axes) != 4 || !sameAxes(t.CruiseFuelFlow, t.CruiseThrust) || !sameAxes(t.ROCClimb, t.ROCCruise) || len(t.ROCClimb.Axes) != 4 {
+		return nil, fmt.Errorf("perf: tables of %s: fuel flow and thrust, and the two rates of climb, must each share one 4-axis grid (use LoadTables)", t.Name)
+	}
 	return &Aircraft{
 		Name: t.Name, Description: t.Description,
 		OEW: t.OEW, MZFW: t.MZFW, MTOW: t.MTOW, MLW: t.MLW, FuelCapacity: t.FuelCapacity,
@@ -79,11 +87,27 @@ func (a *Aircraft) CheckTransitionLevel(fl float64) error {
 
 // at4 looks g up at (mass, fl, mach, isaDev); NaN outside the table.
 func at4(g *Grid, mass, fl, mach, isaDev float64) float64 {
-	v, err := g.At(mass, fl, mach, isaDev)
-	if err != nil {
+	c, ok := g.locate4([4]float64{mass, fl, mach, isaDev})
+	if !ok {
 		return math.NaN()
 	}
-	return v
+	return g.eval4(&c)
+}
+
+// sameAxes reports whether b is nil or has a's axes.
+func sameAxes(a, b *Grid) bool {
+	if b == nil {
+		return true
+	}
+	if len(a.Axes) != len(b.Axes) || len(a.Values) != len(b.Values) {
+		return false
+	}
+	for i := range a.Axes {
+		if !slices.Equal(a.Axes[i].Values, b.Axes[i].Values) {
+			return false
+		}
+	}
+	return true
 }
 
 // tableFF is the table's level-flight fuel flow (kg/s) at level fl with
@@ -191,17 +215,26 @@ func (a *Aircraft) tablePoint(s State, tisa float64, cas bool) Point {
 	pt.CL = cl1 * n
 	pt.CD, pt.Drag, pt.MaxClimbThrust, pt.MaxCruiseThrust = nan, nan, nan, nan
 	fl := PressureToFL(s.Pressure)
-	if g := a.tab.CruiseThrust; g != nil {
-		pt.Drag = at4(g, s.Mass, fl, s.Mach, s.ISADev)
-		pt.CD = pt.Drag / (0.5 * Gamma * s.Pressure * s.Mach * s.Mach * a.WingArea)
+	x := [4]float64{s.Mass, fl, s.Mach, s.ISADev}
+	// Fuel flow and thrust share the cruise table's grid, the two rates
+	// of climb the thrust table's: one cell each.
+	pt.FuelFlow = nan
+	if c, ok := a.tab.CruiseFuelFlow.locate4(x); ok {
+		pt.FuelFlow = a.tab.CruiseFuelFlow.eval4(&c) * a.fuelFactor()
+		if g := a.tab.CruiseThrust; g != nil {
+			pt.Drag = g.eval4(&c)
+			pt.CD = pt.Drag / (0.5 * Gamma * s.Pressure * s.Mach * s.Mach * a.WingArea)
+		}
 	}
-	pt.FuelFlow = a.tableFF(s.Mass, fl, s.Mach, s.ISADev)
 	pt.SpecificRange = pt.TAS / pt.FuelFlow
 	pt.BuffetCL = a.buffetCL(s.Mach)
 	pt.BuffetMargin = pt.BuffetCL / cl1
-	pt.ResidualClimb = at4(a.tab.ROCClimb, s.Mass, fl, s.Mach, s.ISADev)
-	// Outside the table (NaN) counts as limited: never feasible by default.
-	pt.ThrustLimited = !(at4(a.tab.ROCCruise, s.Mass, fl, s.Mach, s.ISADev) >= 0)
+	pt.ResidualClimb, pt.ThrustLimited = nan, true
+	if c, ok := a.tab.ROCClimb.locate4(x); ok {
+		pt.ResidualClimb = a.tab.ROCClimb.eval4(&c)
+		// NaN counts as limited: never feasible by default.
+		pt.ThrustLimited = !(a.tab.ROCCruise.eval4(&c) >= 0)
+	}
 	return pt
 }
 
