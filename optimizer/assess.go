@@ -106,6 +106,10 @@ func (s *sim) condAt(k, fl int) (cond, error) {
 		return cond{}, &InputError{Field: "Weather", Msg: fmt.Sprintf("segment %d at FL%d: %v", k, fl, err), Err: err}
 	}
 	c := cond{wind: w, isaDev: s.q.isaDevOr(d), edr: e}
+	if err := s.q.Aircraft.CheckTableDomain(float64(fl), c.isaDev); err != nil {
+		// Operator tables only: never extrapolated.
+		return cond{}, &InputError{Field: "Aircraft", Msg: fmt.Sprintf("segment %d at FL%d, ISA%+.1f: %v", k, fl, c.isaDev, err), Err: err}
+	}
 	c.floor, c.why, c.closed = floorFor(s.q.Floor, e, s.q.Turbulence)
 	c.closedLim, c.closedWhy = LimitTurbulence, c.why
 	return c, nil

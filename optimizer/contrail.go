@@ -71,6 +71,9 @@ func (p *Problem) checkContrail() error {
 	if r := p.ContrailRHiPct; r != 0 && !(r >= 50 && r <= 200) {
 		return inputErrorf("ContrailRHiPct", "persistence threshold %v %% over ice must lie in 50..200", r)
 	}
+	if c > 0 && p.Aircraft != nil && !p.Aircraft.KnowsThrust() {
+		return inputErrorf("ContrailCost", "a contrail cost needs the engines' propulsion efficiency (thrust x TAS / fuel energy), and the operator tables of %s hold no thrust (the cruise table's optional thrust column): add it or use a performance model", p.Aircraft.Name)
+	}
 	if c > 0 && !hasHumidity(p.Weather) {
 		return inputErrorf("ContrailCost", "a contrail cost needs weather with humidity (relative or specific, on isobaric levels); this weather has none")
 	}
@@ -171,7 +174,7 @@ func classifyContrails(q *Problem, plan *Plan) {
 	tot := &ContrailTotals{CostPerNM: q.ContrailCost, RHiPct: q.contrailRHi()}
 	segs := q.Track.Segments
 	elapsed := 0.0
-	unknown := 0
+	unknown, noEta := 0, 0.0 // legs without humidity; NM without an efficiency
 	for i := range plan.Legs {
 		l := &plan.Legs[i]
 		start := elapsed
@@ -191,6 +194,12 @@ func classifyContrails(q *Problem, plan *Plan) {
 		}
 		l.RHi = rhi
 		eta := efficiency(q.Aircraft, l.MassStart, pr, l.Mach, l.ISADev)
+		if math.IsNaN(eta) {
+			// Operator tables hold no thrust: no efficiency, no class.
+			noEta += nm
+			tot.UnknownNM += nm
+			continue
+		}
 		switch {
 		case !contrail.ExceedsCritical(eta, tk, pr, rhw/100): // eta > CriticalEfficiency, settled early
 			l.Contrail = ContrailNone
@@ -211,6 +220,9 @@ func classifyContrails(q *Problem, plan *Plan) {
 	}
 	tot.Cost = tot.CostPerNM * tot.PersistentNM
 	plan.Contrail = tot
+	if noEta > 0 {
+		plan.Warnings = append(plan.Warnings, fmt.Sprintf("contrails: %.0f NM of cruise not classified: the propulsion efficiency is unknown (the operator tables hold no thrust column)", noEta))
+	}
 	if unknown > 0 {
 		plan.Warnings = append(plan.Warnings, fmt.Sprintf("contrails: %d cruise legs (%.0f NM) not classified: no humidity in the weather there", unknown, tot.UnknownNM))
 	}

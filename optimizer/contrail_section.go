@@ -23,14 +23,17 @@ type ContrailCell struct {
 // propulsion efficiency, relative humidity over ice against the
 // threshold) at the time and mass the plan passes the segment's start,
 // with the plan's Mach there (an approximation: another level would fly
-// its own Mach). Nil when the weather holds no humidity. Time
+// its own Mach). Nil when the weather holds no humidity or the aircraft
+// is operator tables without thrust (so no efficiency). Time
 // O(segments x levels).
 func ContrailSection(p *Problem, plan *Plan) ([]ContrailCell, error) {
 	q := *p
 	if _, err := q.normalise(); err != nil {
 		return nil, err
 	}
-	if !hasHumidity(q.Weather) || plan == nil || len(plan.Legs) == 0 {
+	if !hasHumidity(q.Weather) || plan == nil || len(plan.Legs) == 0 || !q.Aircraft.KnowsThrust() {
+		// Operator tables without thrust give no efficiency: the plan's
+		// warning says its legs are not classified.
 		return nil, nil
 	}
 	lo := max(200, q.MinFL)

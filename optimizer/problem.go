@@ -251,6 +251,13 @@ func (p *Problem) normalise() ([]string, error) {
 		p.Aircraft, a = b, b
 		warn = append(warn, fmt.Sprintf("performance factor %+.1f %%: every fuel flow of %s multiplied by %.3f", p.PerfFactorPct, a.Name, 1+p.PerfFactorPct/100))
 	}
+	if t := a.Tables(); t != nil {
+		// Operator tables price every climb, descent and step from their
+		// climb and descent tables, on the tables' own schedule.
+		s := t.Schedule
+		warn = append(warn, fmt.Sprintf("performance from the operator tables %s (format version %d): climbs, descents and steps are priced from their climb and descent tables, on the tables' schedule (%.0f/%.0f kt, Mach %.2f) whatever schedule is asked",
+			t.Dir, t.Version, s.CASLow/perf.KtToMS, s.CAS/perf.KtToMS, s.Mach))
+	}
 	m := p.TakeoffMass
 	if !(m > 0) {
 		return nil, inputErrorf("TakeoffMass", "take-off mass %v kg is not a positive number", m)
@@ -313,8 +320,16 @@ func (p *Problem) normalise() ([]string, error) {
 	if !(p.EndAltitude > 0 && p.EndAltitude <= 10000*perf.FtToM) {
 		return nil, inputErrorf("EndAltitude", "%v m: the climb starts and the descent ends between 0 and 10,000 ft", p.EndAltitude)
 	}
+	if err := a.CheckTransitionLevel(perf.PressureToFL(perf.PressureAt(p.EndAltitude))); err != nil {
+		// Operator tables only: never extrapolated (perf/tableperf.go).
+		return nil, inputErrorf("EndAltitude", "the climb starts and the descent ends at %.0f ft: %w", p.EndAltitude/perf.FtToM, err)
+	}
 	if p.ClimbSchedule == (perf.Schedule{}) {
-		p.ClimbSchedule = bestClimbSchedule(a, p.TakeoffMass, p.CI, p.MaxFL, p.Speed, p.Floor, p.EndAltitude)
+		if a.Tables() != nil {
+			p.ClimbSchedule = perf.DefaultSchedule(a) // the tables' own: no choice to make
+		} else {
+			p.ClimbSchedule = bestClimbSchedule(a, p.TakeoffMass, p.CI, p.MaxFL, p.Speed, p.Floor, p.EndAltitude)
+		}
 	}
 	if p.DescentSchedule == (perf.Schedule{}) {
 		p.DescentSchedule = perf.DefaultSchedule(a)

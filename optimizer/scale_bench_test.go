@@ -7,6 +7,7 @@ import (
 	"testing"
 	"time"
 
+	"levelpath/perf"
 	"levelpath/route"
 )
 
@@ -17,6 +18,43 @@ func BenchmarkPlanLongHaulDefault(b *testing.B) {
 	p := &Problem{Track: track(b, longHaulRoute, "odd-even-magnetic", 50), Aircraft: aircraft(b, "demo-widebody"),
 		Weather: wx, Depart: ref.Add(2 * time.Hour), TakeoffMass: 245000, CI: 40}
 	benchPlan(b, p)
+}
+
+// BenchmarkPlanLongHaulTables is BenchmarkPlanLongHaulDefault planned from
+// the demo-widebody model's own exported tables (perf.DefaultExportGrid),
+// read back with perf.Load: the cost of answering from multilinear tables
+// instead of the model. Export and load are outside the timed loop.
+func BenchmarkPlanLongHaulTables(b *testing.B) {
+	wx, ref := demoWeather(b)
+	dir := b.TempDir()
+	m := aircraft(b, "demo-widebody")
+	if err := m.ExportTables(dir, perf.DefaultExportGrid(m)); err != nil {
+		b.Fatal(err)
+	}
+	a, err := perf.Load(dir)
+	if err != nil {
+		b.Fatal(err)
+	}
+	p := &Problem{Track: track(b, longHaulRoute, "odd-even-magnetic", 50), Aircraft: a,
+		Weather: wx, Depart: ref.Add(2 * time.Hour), TakeoffMass: 245000, CI: 40}
+	benchPlan(b, p)
+}
+
+// BenchmarkLoadTables is the time to read and validate the exported
+// demo-widebody tables (perf.Load of the directory, about 9 MB of CSV).
+func BenchmarkLoadTables(b *testing.B) {
+	dir := b.TempDir()
+	m := aircraft(b, "demo-widebody")
+	if err := m.ExportTables(dir, perf.DefaultExportGrid(m)); err != nil {
+		b.Fatal(err)
+	}
+	b.ReportAllocs()
+	b.ResetTimer()
+	for range b.N {
+		if _, err := perf.Load(dir); err != nil {
+			b.Fatal(err)
+		}
+	}
 }
 
 // scaleTrack is a great-circle route of nm nautical miles (waypoints every 2,000 NM) from 35N 140E

@@ -151,6 +151,11 @@ func buildConds(p *Problem, levels []int) ([][]cond, error) {
 				return nil, &InputError{Field: "Weather", Msg: fmt.Sprintf("segment %d (%.0f-%.0f NM) at FL%d, %s: %v",
 					k, seg.FromDist/nmToM, seg.ToDist/nmToM, fl, t.Format(time.RFC3339), err), Err: err}
 			}
+			if err := p.Aircraft.CheckTableDomain(float64(fl), c.isaDev); err != nil {
+				// Operator tables only: never extrapolated.
+				return nil, &InputError{Field: "Aircraft", Msg: fmt.Sprintf("segment %d (%.0f-%.0f NM) at FL%d, ISA%+.1f: %v",
+					k, seg.FromDist/nmToM, seg.ToDist/nmToM, fl, c.isaDev, err), Err: err}
+			}
 			c.floor, c.why, c.closed = floorFor(p.Floor, e, p.Turbulence)
 			if c.closed {
 				c.closedLim, c.closedWhy = LimitTurbulence, c.why

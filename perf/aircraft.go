@@ -51,6 +51,10 @@ type Aircraft struct {
 	// (cruise, climb, idle) is multiplied by 1 + PerfFactorPct/100. Files
 	// never set it; see WithPerfFactor.
 	PerfFactorPct float64
+
+	// tab, when set (Tables.Aircraft), is the operator tables the
+	// aircraft plans from in place of the model fields (tableperf.go).
+	tab *Tables
 }
 
 // BuffetPoint is one row of the buffet-onset boundary.
@@ -136,8 +140,8 @@ const maxFileSize = 1 << 20
 
 // Load returns the built-in aircraft called nameOrPath, or else reads the
 // YAML file at that path. A directory is read as operator tables
-// (LoadTables); valid tables give an *UnsupportedError, since planning from
-// tables is not supported yet.
+// (LoadTables) and planned from (Tables.Aircraft); a version 1 table set
+// gives an *UnsupportedError naming the tables planning needs.
 func Load(nameOrPath string) (*Aircraft, error) {
 	if slices.Contains(builtinNames, nameOrPath) {
 		return Builtin(nameOrPath)
@@ -150,13 +154,12 @@ func Load(nameOrPath string) (*Aircraft, error) {
 		return nil, fmt.Errorf("perf: aircraft %q: %w", nameOrPath, err)
 	}
 	if fi.IsDir() {
-		// Operator tables (format in aircraft/TABLES.md): validated, so
-		// errors in them are reported, but not yet usable for planning.
+		// Operator tables (format in aircraft/TABLES.md).
 		t, err := LoadTables(nameOrPath)
 		if err != nil {
 			return nil, err
 		}
-		return nil, &UnsupportedError{Source: nameOrPath, Reason: fmt.Sprintf("the operator tables of %s are valid (%d cruise fuel-flow points), but planning from tables is not supported yet; use a performance model (built-in or YAML)", t.Name, len(t.CruiseFuelFlow.Values))}
+		return t.Aircraft()
 	}
 	if m := fi.Mode(); !m.IsRegular() {
 		// A FIFO would block the read and a device never end.

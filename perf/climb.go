@@ -77,6 +77,11 @@ func (s *Schedule) machFrom(m float64) float64 {
 //
 // It returns a *LimitError naming the level when the rate of climb falls
 // below 100 ft/min or drag exceeds thrust, and a *RangeError for bad inputs.
+//
+// A table aircraft (Tables.Aircraft) reads the climb table instead, on the
+// tables' own schedule (s is checked but not used; see tableTransition),
+// and returns an *OutOfTableError outside it and a *LimitError where the
+// table marks the level as not reached.
 func (a *Aircraft) Climb(mass, fromP, toP, isaDev float64, s Schedule) (Transition, error) {
 	return a.climb(nil, mass, fromP, toP, isaDev, s)
 }
@@ -87,6 +92,9 @@ func (a *Aircraft) climb(c *Cruiser, mass, fromP, toP, isaDev float64, s Schedul
 	}
 	if toP > fromP {
 		return Transition{}, fmt.Errorf("perf: climb from FL%.0f to FL%.0f goes down", PressureToFL(fromP), PressureToFL(toP))
+	}
+	if a.tab != nil {
+		return a.tableTransition(mass, fromP, toP, isaDev, true)
 	}
 	return a.transition(c, mass, fromP, toP, isaDev, &s, true)
 }
@@ -105,6 +113,9 @@ func (a *Aircraft) descent(c *Cruiser, mass, fromP, toP, isaDev float64, s Sched
 	}
 	if toP < fromP {
 		return Transition{}, fmt.Errorf("perf: descent from FL%.0f to FL%.0f goes up", PressureToFL(fromP), PressureToFL(toP))
+	}
+	if a.tab != nil {
+		return a.tableTransition(mass, fromP, toP, isaDev, false)
 	}
 	return a.transition(c, mass, fromP, toP, isaDev, &s, false)
 }

@@ -5,6 +5,13 @@
 // between levels, and the flight envelope with its buffet-limited,
 // thrust-limited and certified ceilings.
 //
+// An aircraft is either a model (YAML: drag polar, engines, buffet onset)
+// or an operator's own tables (a directory in the format of
+// aircraft/TABLES.md: cruise fuel flow, thrust limits, climb, descent and
+// buffet onset on grids, interpolated multilinearly and never
+// extrapolated). Load returns both as an *Aircraft whose methods answer
+// from the one or the other; Aircraft.Tables tells them apart.
+//
 // Everything is SI: metres, seconds, kilograms, pascals, kelvin, newtons and
 // metres per second. Pressure altitude is geopotential metres in the
 // standard atmosphere; a flight level is hundreds of feet of pressure

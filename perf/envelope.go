@@ -36,9 +36,13 @@ type Envelope struct {
 	Rows                []EnvelopeRow
 	MaxFLBuffet         float64 // highest level with a buffet-free band at Floor below MMO
 	MaxFLThrust         float64 // highest level with residual climb >= 300 ft/min at LRC
-	MaxFLCertified      float64
-	MaxFL               float64 // least of the three
-	OptimumFL           float64 // level of best specific range at the max-range Mach, at most MaxFL
+	// MaxFLThrustAtTableTop is true for a table aircraft whose thrust
+	// ceiling search reached the top level of its thrust table: the
+	// ceiling is then at least MaxFLThrust, not at it.
+	MaxFLThrustAtTableTop bool
+	MaxFLCertified        float64
+	MaxFL                 float64 // least of the three
+	OptimumFL             float64 // level of best specific range at the max-range Mach, at most MaxFL
 }
 
 const (
@@ -111,6 +115,7 @@ func (a *Aircraft) Envelope(mass, isaDev, floor float64) (Envelope, error) {
 	}
 	env.MaxFLBuffet = a.MaxFLBuffet(mass, floor)
 	env.MaxFLThrust = a.MaxFLThrust(mass, isaDev)
+	env.MaxFLThrustAtTableTop = a.tab != nil && env.MaxFLThrust >= a.thrustSearchTop()
 	env.MaxFL = math.Min(env.MaxFLCertified, math.Min(env.MaxFLBuffet, env.MaxFLThrust))
 	env.OptimumFL = nan
 	if bestRow >= 0 && !math.IsNaN(env.MaxFL) {
@@ -128,7 +133,27 @@ func (a *Aircraft) MaxFLBuffet(mass, floor float64) float64 {
 	return highestLevel(func(fl float64) bool {
 		lo, _, ok := a.BuffetMachs(mass, FLToPressure(fl), floor)
 		return ok && lo < a.MMO
-	})
+	}, envelopeLowFL, levelSearchTopFL)
+}
+
+// thrustSearchTop is the level where the thrust ceiling search ends:
+// FL650, or the top of a table aircraft's thrust table (never
+// extrapolated; Envelope.MaxFLThrustAtTableTop says when it is reached).
+func (a *Aircraft) thrustSearchTop() float64 {
+	if a.tab != nil {
+		fls := a.tab.ROCClimb.Axes[1].Values
+		return fls[len(fls)-1]
+	}
+	return levelSearchTopFL
+}
+
+// thrustSearchBottom is where it starts: FL100, or a table aircraft's
+// lowest level when that is higher.
+func (a *Aircraft) thrustSearchBottom() float64 {
+	if a.tab != nil {
+		return math.Max(envelopeLowFL, a.tab.ROCClimb.Axes[1].Values[0])
+	}
+	return envelopeLowFL
 }
 
 // MaxFLThrust is the highest level (continuous FL) at which the residual
@@ -136,7 +161,8 @@ func (a *Aircraft) MaxFLBuffet(mass, floor float64) float64 {
 // 300 ft/min (common practice), at mass (kg) and ISA + isaDev (K): the
 // thrust-limited ceiling of Envelope. LRC is taken within the 1 g MachBand,
 // so the limit does not depend on the buffet floor. NaN when there is none
-// at FL100, FL650 when the limit lies higher. Cost: as MaxFLBuffet, with an
+// at FL100, FL650 (or a table aircraft's top level) when the limit lies
+// higher. Cost: as MaxFLBuffet, with an
 // LRC search (a few dozen specific-range evaluations) per level tried.
 func (a *Aircraft) MaxFLThrust(mass, isaDev float64) float64 {
 	return highestLevel(func(fl float64) bool {
@@ -148,7 +174,7 @@ func (a *Aircraft) MaxFLThrust(mass, isaDev float64) float64 {
 		tisa := isaTemperatureAtPressure(p)
 		lrc, _ := a.lrcIn(mass, p, tisa+isaDev, tisa, lo, hi)
 		return a.residualClimb(mass, p, isaDev, lrc) >= minResidualClimb
-	})
+	}, a.thrustSearchBottom(), a.thrustSearchTop())
 }
 
 // ReportFL is the one rounding rule for printing a continuous level (a
@@ -159,27 +185,35 @@ func ReportFL(fl float64) float64 { return math.Floor(fl + 1e-9) }
 
 // residualClimb is Point's ResidualClimb at Mach m.
 func (a *Aircraft) residualClimb(mass, p, isaDev, m float64) float64 {
+	if a.tab != nil {
+		return at4(a.tab.ROCClimb, mass, PressureToFL(p), m, isaDev)
+	}
 	tisa := isaTemperatureAtPressure(p)
 	t := tisa + isaDev
 	d, _, _ := a.drag(mass, p, m, math.Cos(a.Sweep))
 	return climbRate(a.climbThrust(p, t, tisa, m), d, m*SpeedOfSound(t), mass, tisa, t)
 }
 
-// highestLevel returns the highest flight level in [FL100, FL650] where ok
+// highestLevel returns the highest flight level in [bottom, top] where ok
 // holds, assuming ok holds below some level and fails above it: a scan in
-// 1,000 ft steps, then bisection to 0.1 ft. NaN if ok fails at FL100.
-func highestLevel(ok func(fl float64) bool) float64 {
-	if !ok(envelopeLowFL) {
+// 1,000 ft steps, then bisection to 0.1 ft. NaN if ok fails at bottom, top
+// if it holds there.
+func highestLevel(ok func(fl float64) bool, bottom, top float64) float64 {
+	if !ok(bottom) {
 		return math.NaN()
 	}
-	lo := float64(envelopeLowFL)
-	for lo < levelSearchTopFL && ok(lo+10) {
+	lo := bottom
+	for lo+10 <= top && ok(lo+10) {
 		lo += 10
 	}
-	if lo >= levelSearchTopFL {
-		return levelSearchTopFL
+	if lo >= top {
+		return top
 	}
-	return bisectEdge(lo, lo+10, levelTol, ok)
+	hi := math.Min(lo+10, top)
+	if hi < lo+10 && ok(hi) {
+		return hi
+	}
+	return bisectEdge(lo, hi, levelTol, ok)
 }
 
 // optimumLevel maximises the specific range at the max-range Mach over the

@@ -67,6 +67,11 @@ func (a *Aircraft) Holding(mass, p, isaDev, margin, cas float64) (Hold, error) {
 		if !(m > 0) || m > hi+1e-9 {
 			return Hold{}, fmt.Errorf("perf: %s: holding speed %.0f kt CAS is above VMO/MMO or not subsonic", a.Name, cas/KtToMS)
 		}
+		if a.tab != nil {
+			if _, err := a.tab.CruiseFuelFlow.At(mass, PressureToFL(p), m, isaDev); err != nil {
+				return Hold{}, fmt.Errorf("perf: %s: holding at %.0f kt CAS, FL%.0f: %w", a.Name, cas/KtToMS, PressureToFL(p), err)
+			}
+		}
 		return at(m), nil
 	}
 	lo, bhi, ok := a.BuffetMachs(mass, p, margin)
@@ -74,6 +79,14 @@ func (a *Aircraft) Holding(mass, p, isaDev, margin, cas float64) (Hold, error) {
 		return Hold{}, fmt.Errorf("perf: %s: no speed under VMO/MMO keeps %.2f g to buffet at %.0f kg, FL%.0f", a.Name, margin, mass, PressureToFL(p))
 	}
 	hi = math.Min(hi, bhi)
+	if a.tab != nil {
+		// Both ends must lie in the cruise table (never extrapolated).
+		for _, m := range [2]float64{lo, hi} {
+			if _, err := a.tab.CruiseFuelFlow.At(mass, PressureToFL(p), m, isaDev); err != nil {
+				return Hold{}, fmt.Errorf("perf: %s: holding at FL%.0f between Mach %.3f and %.3f: %w", a.Name, PressureToFL(p), lo, hi, err)
+			}
+		}
+	}
 	ff := func(m float64) float64 { return at(m).FuelFlow }
 	const r = 0.6180339887498949 // (√5 - 1)/2
 	x0, x3 := lo, hi

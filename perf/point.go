@@ -178,7 +178,10 @@ func (a *Aircraft) buffetCL(mach float64) float64 {
 
 // Point returns the performance at s. It does not allocate; the cost is a
 // few hundred floating-point operations. Out-of-range inputs (non-positive
-// pressure or Mach, Mach >= 1) give NaN fields.
+// pressure or Mach, Mach >= 1) give NaN fields. For a table aircraft the
+// fuel flow and residual climb are the tables' (NaN outside them, with
+// ThrustLimited true), Drag and CD those of the optional thrust column
+// (else NaN), and the max thrusts NaN.
 func (a *Aircraft) Point(s State) Point {
 	return a.point(s, isaTemperatureAtPressure(s.Pressure), math.Cos(a.Sweep), true)
 }
@@ -186,6 +189,9 @@ func (a *Aircraft) Point(s State) Point {
 // point is Point with the ISA temperature at s.Pressure and the cosine of
 // the sweep given; without cas, CAS is left NaN.
 func (a *Aircraft) point(s State, tisa, cosL float64, cas bool) Point {
+	if a.tab != nil {
+		return a.tablePoint(s, tisa, cas)
+	}
 	n := s.LoadFactor
 	if n == 0 {
 		n = 1

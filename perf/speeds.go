@@ -135,7 +135,12 @@ func bisectSeg(x0, y0, x1, y1, xa, xb, c float64) float64 {
 }
 
 // excessThrust returns max cruise thrust minus level-flight drag (N).
+// For a table aircraft it is the residual climb at max cruise thrust
+// (m/s), which has the same sign.
 func (a *Aircraft) excessThrust(mass, p, t, tisa, mach, cosL float64) float64 {
+	if a.tab != nil {
+		return at4(a.tab.ROCCruise, mass, PressureToFL(p), mach, t-tisa)
+	}
 	d, _, _ := a.drag(mass, p, mach, cosL)
 	return a.climbThrust(p, t, tisa, mach)*a.Engines.CruiseRatio - d
 }
@@ -199,6 +204,7 @@ const (
 	LimitMMO    = "mmo"         // maximum operating Mach
 	LimitVMO    = "vmo"         // maximum operating speed (CAS)
 	LimitData   = "buffet-data" // end of the buffet table: boundary unknown beyond it
+	LimitTable  = "table-data"  // end of an operator table's Mach axis (table aircraft)
 )
 
 // Band is the Mach band usable in level flight and the limit that sets
@@ -263,13 +269,32 @@ func (a *Aircraft) speedBand(mass, p, isaDev, tisa, vmoMach float64, bf buffetBa
 	if mv := b.VMOMach; mv < hi {
 		hi, b.HiLimit = mv, LimitVMO
 	}
+	if a.tab != nil {
+		// Tables are not extrapolated: the band ends where the Mach
+		// axis of the cruise or the thrust table does.
+		mf, mt := a.tab.CruiseFuelFlow.Axes[2].Values, a.tab.ROCCruise.Axes[2].Values
+		if m0 := math.Max(mf[0], mt[0]); lo < m0 {
+			lo, b.LoLimit = m0, LimitTable
+		}
+		if m1 := math.Min(mf[len(mf)-1], mt[len(mt)-1]); hi > m1 {
+			hi, b.HiLimit = m1, LimitTable
+		}
+	}
 	if !(lo < hi) {
 		return b, false
 	}
 	t := tisa + isaDev
 	cosL := math.Cos(a.Sweep)
 	excess := func(m float64) float64 { return a.excessThrust(mass, p, t, tisa, m, cosL) }
+	if a.tab != nil {
+		excess = a.tableExcessFn(mass, p, t, tisa)
+	}
 	elo, ehi := excess(lo), excess(hi)
+	if math.IsNaN(elo) || math.IsNaN(ehi) {
+		// Only a table aircraft queried outside its thrust table.
+		b.HiLimit = LimitTable
+		return b, false
+	}
 	if elo >= 0 && ehi >= 0 {
 		b.Lo, b.Hi = lo, hi
 		return b, true
@@ -301,6 +326,9 @@ func (a *Aircraft) econCost(mass, p, t, tisa, mach, cosL, ciPerS, wind float64) 
 	if !(gs > 0) {
 		return math.Inf(1)
 	}
+	if a.tab != nil {
+		return (a.tableFF(mass, PressureToFL(p), mach, t-tisa) + ciPerS) / gs
+	}
 	d, _, _ := a.drag(mass, p, mach, cosL)
 	return (a.fuelFlow(d, a.climbThrust(p, t, tisa, mach), t, mach) + ciPerS) / gs
 }
@@ -322,6 +350,9 @@ func (a *Aircraft) EconMach(mass, p, isaDev, floor, ci, windAlong float64) (floa
 
 func (a *Aircraft) econMachIn(mass, p, t, tisa, lo, hi, ciPerS, wind float64) float64 {
 	cosL := math.Cos(a.Sweep)
+	if a.tab != nil {
+		return a.tableEconMach(mass, p, t, tisa, lo, hi, ciPerS, wind)
+	}
 	f := func(m float64) float64 { return a.econCost(mass, p, t, tisa, m, cosL, ciPerS, wind) }
 	best, fb := brentMin(lo, hi, machTol, f)
 	if fl := f(lo); fl < fb {
@@ -341,6 +372,9 @@ func (a *Aircraft) MaxRangeMach(mass, p, isaDev, floor float64) (float64, bool) 
 
 // specificRange returns TAS/fuel flow (m/kg) at level flight.
 func (a *Aircraft) specificRange(mass, p, t, tisa, mach, cosL float64) float64 {
+	if a.tab != nil {
+		return mach * SpeedOfSound(t) / a.tableFF(mass, PressureToFL(p), mach, t-tisa)
+	}
 	d, _, _ := a.drag(mass, p, mach, cosL)
 	return mach * SpeedOfSound(t) / a.fuelFlow(d, a.climbThrust(p, t, tisa, mach), t, mach)
 }
@@ -364,10 +398,14 @@ func (a *Aircraft) LRCMach(mass, p, isaDev, floor float64) (float64, bool) {
 func (a *Aircraft) lrcIn(mass, p, t, tisa, lo, hi float64) (lrc, mr float64) {
 	cosL := math.Cos(a.Sweep)
 	mr = a.econMachIn(mass, p, t, tisa, lo, hi, 0, 0)
-	target := 0.99 * a.specificRange(mass, p, t, tisa, mr, cosL)
-	if a.specificRange(mass, p, t, tisa, hi, cosL) >= target {
+	sr := func(m float64) float64 { return a.specificRange(mass, p, t, tisa, m, cosL) }
+	if a.tab != nil {
+		sr = a.tableSRFn(mass, p, t, tisa)
+	}
+	target := 0.99 * sr(mr)
+	if sr(hi) >= target {
 		return hi, mr
 	}
-	excess := func(m float64) float64 { return a.specificRange(mass, p, t, tisa, m, cosL) - target }
+	excess := func(m float64) float64 { return sr(m) - target }
 	return rootEdge(mr, hi, excess(mr), excess(hi), machTol, excess), mr
 }

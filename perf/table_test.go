@@ -97,3 +97,91 @@ func TestReadGridCSVErrors(t *testing.T) {
 		}
 	}
 }
+
+// The climb table's other units read back to the same SI values: pounds
+// (0.45359237 kg exactly, International Yard and Pound Agreement, 1959),
+// feet of pressure altitude (FL = ft/100), seconds and kilometres against
+// minutes and nautical miles (1,852 m exactly, ICAO Annex 5, table 3-3);
+// a blank entry stays blank (NaN) and a blank in a column that may not be
+// blank is refused.
+func TestTransitionTableUnits(t *testing.T) {
+	a := mustBuiltin(t, "demo-regional")
+	gs, err := a.TransitionGrids(true, []float64{24000, 40000}, []float64{15, 200, 450}, []float64{0, 20})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var si, other bytes.Buffer
+	if err := WriteGridsCSV(&si, gs[:], []string{"mass_kg", "fl", "isa_dev_c", "time_min", "fuel_kg", "distance_nm"}, []float64{1, 1, 1, 60, 1, 1852}); err != nil {
+		t.Fatal(err)
+	}
+	if err := WriteGridsCSV(&other, gs[:], []string{"mass_lb", "altitude_ft", "isa_dev_k", "time_s", "fuel_lb", "distance_km"}, []float64{0.45359237, 0.01, 1, 1, 0.45359237, 1000}); err != nil {
+		t.Fatal(err)
+	}
+	r1, err1 := ReadGridsCSV(&si, "si.csv", transitionAxes, transitionValues)
+	r2, err2 := ReadGridsCSV(&other, "other.csv", transitionAxes, transitionValues)
+	if err1 != nil || err2 != nil {
+		t.Fatal(err1, err2)
+	}
+	blanks := 0
+	for j := range gs {
+		for off, want := range gs[j].Values {
+			for _, r := range [][]*Grid{r1, r2} {
+				got := r[j].Values[off]
+				if math.IsNaN(want) != math.IsNaN(got) || !math.IsNaN(want) && math.Abs(got-want) > 1e-9*(1+math.Abs(want)) {
+					t.Errorf("%s %s at %s: %v, want %v", r[j].Name, r[j].Value, gs[j].pointName(off), got, want)
+				}
+			}
+			if math.IsNaN(want) {
+				blanks++
+			}
+		}
+	}
+	if blanks == 0 {
+		t.Error("no blank entry (MTOW to FL450 at ISA+20 was expected unreachable for demo-regional)")
+	}
+	_, err = ReadGridCSV(strings.NewReader("mass_kg,fl,fuel_flow_kg_h\n60000,350,\n"), "t.csv", []ColumnSpec{ColMass, ColLevel}, ColFuelFF)
+	if err == nil || !strings.Contains(err.Error(), `t.csv:2: column fuel_flow_kg_h: "" is not a finite number`) {
+		t.Errorf("blank fuel flow: %v", err)
+	}
+}
+
+// The 4-axis fast path (locate4, eval4: successive linear interpolation)
+// is At's multilinear interpolation up to rounding, reproduces a function
+// linear in each axis exactly (definition of multilinear interpolation),
+// ignores a blank corner of zero weight and refuses what At refuses.
+func TestGridEval4(t *testing.T) {
+	f := func(x [4]float64) float64 { return 1 + 2*x[0] - x[1] + 0.5*x[0]*x[2] + 0.1*x[1]*x[2]*x[3] }
+	ax := [][]float64{{0, 1, 4}, {-1, 2}, {10}, {0, 0.5, 1, 3}}
+	g := &Grid{Name: "t.csv"}
+	for _, v := range ax {
+		g.Axes = append(g.Axes, Axis{Values: v})
+	}
+	for _, a := range ax[0] {
+		for _, b := range ax[1] {
+			for _, c := range ax[2] {
+				for _, d := range ax[3] {
+					g.Values = append(g.Values, f([4]float64{a, b, c, d}))
+				}
+			}
+		}
+	}
+	for _, q := range [][4]float64{{0, -1, 10, 0}, {4, 2, 10, 3}, {0.3, 0.7, 10, 0.2}, {3.9, -0.5, 10, 2.9}, {1, 2, 10, 0.5}} {
+		c, ok := g.locate4(q)
+		at, err := g.At(q[0], q[1], q[2], q[3])
+		if got := g.eval4(&c); !ok || err != nil || math.Abs(got-f(q)) > 1e-12 || math.Abs(got-at) > 1e-12 {
+			t.Errorf("eval4%v = %v (%v), At %v (%v), want %v", q, got, ok, at, err, f(q))
+		}
+	}
+	for _, q := range [][4]float64{{-0.1, 0, 10, 0}, {1, 0, 11, 0}, {1, 0, 10, math.NaN()}} {
+		if _, ok := g.locate4(q); ok {
+			t.Errorf("locate4%v accepted outside the grid", q)
+		}
+	}
+	g.Values[len(g.Values)-1] = math.NaN() // the corner (4, 2, 10, 3)
+	if c, _ := g.locate4([4]float64{4, 2, 10, 1}); math.IsNaN(g.eval4(&c)) {
+		t.Error("a blank corner of zero weight spoiled the value")
+	}
+	if c, _ := g.locate4([4]float64{4, 2, 10, 2}); !math.IsNaN(g.eval4(&c)) {
+		t.Error("a blank corner of non-zero weight gave a value")
+	}
+}

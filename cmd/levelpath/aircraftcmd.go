@@ -1,6 +1,7 @@
 package main
 
 import (
+	"errors"
 	"fmt"
 	"slices"
 	"text/tabwriter"
@@ -29,6 +30,7 @@ type aircraftJSON struct {
 	CeilingFL      float64  `json:"ceiling_fl"`
 	Engines        int      `json:"engines"`
 	StaticThrustKN float64  `json:"static_thrust_kn"`
+	TablesVersion  int      `json:"tables_version,omitempty"` // operator tables: format version; thrust then comes from them
 	RefMassKg      float64  `json:"ref_mass_kg"`
 	RefMaxFLBuffet *float64 `json:"ref_max_fl_buffet"`
 	RefMaxFLThrust *float64 `json:"ref_max_fl_thrust"`
@@ -42,6 +44,10 @@ func describeAircraft(a *perf.Aircraft, source string) (aircraftJSON, error) {
 		OEWKg: a.OEW, MZFWKg: a.MZFW, MTOWKg: a.MTOW, MLWKg: a.MLW, FuelCapacityKg: a.FuelCapacity,
 		VMOKt: a.VMO / perf.KtToMS, MMO: a.MMO, CeilingFL: a.CertifiedCeiling / (100 * perf.FtToM),
 		Engines: a.Engines.Count, StaticThrustKN: a.Engines.StaticThrust / 1000, RefMassKg: 0.9 * a.MTOW}
+	if t := a.Tables(); t != nil {
+		d.TablesVersion = t.Version
+		d.Source = fmt.Sprintf("operator tables %s (format version %d; data: %s)", t.Dir, t.Version, t.Source)
+	}
 	e, err := a.Envelope(d.RefMassKg, 0, 1.3)
 	if err != nil {
 		return d, err
@@ -109,7 +115,7 @@ func newAircraftListCmd() *cobra.Command {
 			fmt.Fprintf(tw, "%s\t%.0f\t%.2f\tFL%.0f\t%s\n", d.Name, d.MTOWKg, d.MMO, d.CeilingFL, d.Description)
 		}
 		tw.Flush()
-		fmt.Fprintf(out, "\nAny YAML file in the format of perf/aircraft/README.md is accepted too (--aircraft FILE).\n%s\n", "Caution: "+optimizer.Caution)
+		fmt.Fprintf(out, "\nAny YAML file in the format of perf/aircraft/README.md (--aircraft FILE) or directory of operator tables (perf/aircraft/TABLES.md, --aircraft DIR) is accepted too.\n%s\n", "Caution: "+optimizer.Caution)
 		return nil
 	}
 	return c
@@ -149,7 +155,12 @@ func newAircraftShowCmd() *cobra.Command {
 		fmt.Fprintf(out, "%s: %s\nsource: %s\n\n", d.Name, d.Description, d.Source)
 		tw := tabwriter.NewWriter(out, 0, 0, 2, ' ', 0)
 		fmt.Fprintf(tw, "OEW\t%.0f kg\nMZFW\t%.0f kg\nMTOW\t%.0f kg\nMLW\t%.0f kg\nfuel capacity\t%.0f kg\n", d.OEWKg, d.MZFWKg, d.MTOWKg, d.MLWKg, d.FuelCapacityKg)
-		fmt.Fprintf(tw, "VMO / MMO\t%.0f kt / %.3f\ncertified ceiling\tFL%.0f\nengines\t%d x %.1f kN static\n", d.VMOKt, d.MMO, d.CeilingFL, d.Engines, d.StaticThrustKN)
+		fmt.Fprintf(tw, "VMO / MMO\t%.0f kt / %.3f\ncertified ceiling\tFL%.0f\n", d.VMOKt, d.MMO, d.CeilingFL)
+		if d.TablesVersion > 0 {
+			fmt.Fprintf(tw, "engines\t%d (thrust limits from the tables)\n", d.Engines)
+		} else {
+			fmt.Fprintf(tw, "engines\t%d x %.1f kN static\n", d.Engines, d.StaticThrustKN)
+		}
 		fmt.Fprintf(tw, "at %.0f kg (90 %% MTOW), 1.3 g:\t\n", d.RefMassKg)
 		fmt.Fprintf(tw, "  buffet-limited level\t%s\n  thrust-limited level ISA / ISA+20\t%s / %s\n  optimum level ISA\t%s\n",
 			flOf(d.RefMaxFLBuffet), flOf(d.RefMaxFLThrust), flOf(d.RefMaxFLHot), flOf(d.RefOptimumFL))
@@ -160,39 +171,17 @@ func newAircraftShowCmd() *cobra.Command {
 	return c
 }
 
-// exportGrid returns the export grid for a: masses OEW..MTOW in 5 % of the
-// range, FL100 to the certified ceiling every 1,000 ft, Mach 0.50 to MMO
-// every 0.02 (and MMO), ISA deviation -20..+30 K every 10 K.
-func exportGrid(a *perf.Aircraft) (ms, fls, machs, devs []float64) {
-	for i := 0; i <= 20; i++ {
-		ms = append(ms, a.OEW+float64(i)/20*(a.MTOW-a.OEW))
-	}
-	top := perf.ReportFL(a.CertifiedCeiling / (100 * perf.FtToM))
-	for fl := 100.0; fl < top; fl += 10 {
-		fls = append(fls, fl)
-	}
-	fls = append(fls, top)
-	for i := 0; 0.50+0.02*float64(i) < a.MMO-1e-9; i++ {
-		machs = append(machs, float64(50+2*i)/100)
-	}
-	machs = append(machs, a.MMO)
-	for d := -20.0; d <= 30; d += 10 {
-		devs = append(devs, d)
-	}
-	return ms, fls, machs, devs
-}
-
 func newAircraftExportCmd() *cobra.Command {
 	var acName, out string
 	var factor float64
 	c := &cobra.Command{
 		Use:   "export",
-		Short: "Write an aircraft model as operator tables (format version 1, perf/aircraft/TABLES.md)",
+		Short: "Write an aircraft model as operator tables (format version 2, perf/aircraft/TABLES.md) that --aircraft DIR plans from",
 		Example: "  levelpath aircraft export --aircraft demo-widebody --out widebody-tables\n" +
 			"  levelpath aircraft export --aircraft my-type.yaml --out tables --perf-factor 2.5",
 		Args: cobra.NoArgs,
 	}
-	c.Flags().StringVar(&acName, "aircraft", "", "built-in aircraft name or YAML file")
+	c.Flags().StringVar(&acName, "aircraft", "", "built-in aircraft name, YAML file or operator tables directory")
 	c.Flags().StringVar(&out, "out", "", "directory to write (created if needed)")
 	c.Flags().Float64Var(&factor, "perf-factor", 0, "performance factor, percent, applied to the exported fuel flows")
 	c.RunE = func(cmd *cobra.Command, _ []string) error {
@@ -209,13 +198,23 @@ func newAircraftExportCmd() *cobra.Command {
 			}
 			warnf(cmd.ErrOrStderr(), "performance factor %+.1f %%: exported fuel flows multiplied by %.3f", factor, 1+factor/100)
 		}
-		ms, fls, machs, devs := exportGrid(a)
-		if err := a.ExportTables(out, ms, fls, machs, devs); err != nil {
+		g := perf.DefaultExportGrid(a)
+		if err := a.ExportTables(out, g); err != nil {
+			var ue *perf.UnsupportedError
+			if errors.As(err, &ue) {
+				return badInput(err)
+			}
 			return fmt.Errorf("export: %w", err)
 		}
-		fmt.Fprintf(cmd.OutOrStdout(), "wrote %s and %s to %s: %d cruise fuel-flow points (%d masses, %d levels, %d Mach, %d ISA deviations)\n"+
-			"Planning from tables is not supported yet; the tables are for inspection and exchange.\n%s\n",
-			perf.TablesManifest, perf.CruiseFuelFlowFile, out, len(ms)*len(fls)*len(machs)*len(devs), len(ms), len(fls), len(machs), len(devs), "Caution: "+optimizer.Caution)
+		nm, nl, nt, nd := len(g.Masses), len(g.Levels), len(g.TransitionLevels), len(g.ISADevs)
+		fmt.Fprintf(cmd.OutOrStdout(), "wrote format version %d tables of %s to %s:\n"+
+			"  %s (with thrust), %s: %d cruise fuel-flow and thrust-limit points (%d masses %.0f-%.0f kg, %d levels FL%.0f-FL%.0f, %d Mach %.2f-%.3f, %d ISA deviations %+.0f..%+.0f)\n"+
+			"  %s, %s: %d climb and descent points (%d levels from 1,500 ft)\n  %s: %d buffet-onset points\n"+
+			"Plan from them with --aircraft %s. %s\n",
+			perf.TablesVersion, a.Name, out,
+			perf.CruiseFuelFlowFile, perf.ThrustLimitsFile, nm*nl*len(g.Machs)*nd, nm, g.Masses[0], g.Masses[nm-1], nl, g.Levels[0], g.Levels[nl-1], len(g.Machs), g.Machs[0], g.Machs[len(g.Machs)-1], nd, g.ISADevs[0], g.ISADevs[nd-1],
+			perf.ClimbFile, perf.DescentFile, len(g.TransitionMasses)*nt*nd, nt, perf.BuffetFile, len(a.Buffet),
+			out, "Caution: "+optimizer.Caution)
 		return nil
 	}
 	return c

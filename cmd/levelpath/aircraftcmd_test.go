@@ -56,12 +56,11 @@ func TestAircraftCommands(t *testing.T) {
 }
 
 // aircraft export writes tables that perf.LoadTables accepts, with the
-// model's fuel flow at the grid points; planning from them is refused as
-// unsupported (exit 2), not silently done with something else.
+// model's fuel flow at the grid points, and aircraft show reads them.
 func TestAircraftExport(t *testing.T) {
 	dir := filepath.Join(t.TempDir(), "tables")
 	code, out, errs := runCLI(t, "aircraft", "export", "--aircraft", "demo-narrowbody", "--out", dir, "--perf-factor", "2")
-	if code != 0 || !strings.Contains(out, "cruise fuel-flow points") || !strings.Contains(errs, "performance factor +2.0 %") {
+	if code != 0 || !strings.Contains(out, "cruise fuel-flow and thrust-limit points") || !strings.Contains(errs, "performance factor +2.0 %") {
 		t.Fatalf("export: exit %d\n%s%s", code, out, errs)
 	}
 	tb, err := perf.LoadTables(dir)
@@ -76,8 +75,8 @@ func TestAircraftExport(t *testing.T) {
 	if err != nil || abs(got-want) > 1e-8*want {
 		t.Errorf("exported fuel flow %v (%v), model %v", got, err, want)
 	}
-	if code, _, errs := runCLI(t, "aircraft", "show", dir); code != 2 || !strings.Contains(errs, "not supported yet") {
-		t.Errorf("show tables: exit %d, %q", code, errs)
+	if code, out, errs := runCLI(t, "aircraft", "show", dir); code != 0 || !strings.Contains(out, "operator tables "+dir+" (format version 2") {
+		t.Errorf("show tables: exit %d\n%s%s", code, out, errs)
 	}
 	if code, _, errs := runCLI(t, "aircraft", "export", "--aircraft", "demo-narrowbody"); code != 2 || !strings.Contains(errs, "--out") {
 		t.Errorf("export without --out: exit %d, %q", code, errs)

@@ -27,10 +27,11 @@ func checkFormat(got string, allowed ...string) error {
 	return badInputf("--format %q: want one of %s", got, strings.Join(allowed, ", "))
 }
 
-// loadAircraft resolves --aircraft: a built-in name or a YAML file.
+// loadAircraft resolves --aircraft: a built-in name, a YAML file or a
+// directory of operator tables.
 func loadAircraft(name string) (*perf.Aircraft, error) {
 	if name == "" {
-		return nil, badInputf("--aircraft is required (built-in: %s, or a YAML file)", strings.Join(perf.BuiltinNames(), ", "))
+		return nil, badInputf("--aircraft is required (built-in: %s, or a YAML file or a tables directory)", strings.Join(perf.BuiltinNames(), ", "))
 	}
 	a, err := perf.Load(name)
 	if err != nil {

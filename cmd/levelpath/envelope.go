@@ -29,7 +29,7 @@ func newEnvelopeCmd() *cobra.Command {
 		Args: cobra.NoArgs,
 	}
 	format := formatFlag(c, "table", "json", "csv")
-	c.Flags().StringVar(&acName, "aircraft", "", "built-in aircraft name or YAML file")
+	c.Flags().StringVar(&acName, "aircraft", "", "built-in aircraft name, YAML file or operator tables directory")
 	c.Flags().Float64Var(&mass, "mass", 0, "gross mass, kg")
 	c.Flags().Float64Var(&isaDev, "isa-dev", 0, "temperature deviation from ISA, °C")
 	c.Flags().Float64Var(&floor, "floor", 1.3, "buffet protection floor, g (common practice 1.3)")
@@ -80,8 +80,12 @@ func newEnvelopeCmd() *cobra.Command {
 			return w.Error()
 		}
 		fmt.Fprintf(out, "Envelope: %s at %.0f kg, ISA%+.0f °C, buffet floor %.2f g\n", d.Aircraft, d.MassKg, d.ISADevC, d.FloorG)
+		thrust := flStr(d.MaxFLThrust)
+		if d.MaxFLThrustAtTableTop {
+			thrust += " or above (top of the tables)"
+		}
 		fmt.Fprintf(out, "Maximum level: buffet FL%s, thrust FL%s, certified FL%.0f -> FL%s; optimum FL%s\n\n",
-			flStr(d.MaxFLBuffet), flStr(d.MaxFLThrust), d.MaxFLCertified, flStr(d.MaxFL), flStr(d.OptimumFL))
+			flStr(d.MaxFLBuffet), thrust, d.MaxFLCertified, flStr(d.MaxFL), flStr(d.OptimumFL))
 		tw := tabwriter.NewWriter(out, 0, 0, 1, ' ', tabwriter.AlignRight)
 		fmt.Fprintf(tw, "FL\thPa\tOAT C\tbuffet 1g\t\tbuffet %.2fg\t\tMMO\tVMO M\tusable band\t\tLRC\tROC fpm\t\n", d.FloorG)
 		beyond := false

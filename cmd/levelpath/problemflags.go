@@ -52,7 +52,7 @@ type problemFlags struct {
 func (f *problemFlags) register(c *cobra.Command) {
 	fl := c.Flags()
 	fl.StringVar(&f.route, "route", "", "route: GeoJSON or CSV file, or inline \"lat,lon lat,lon ...\"")
-	fl.StringVar(&f.aircraft, "aircraft", "", "built-in aircraft name or YAML file")
+	fl.StringVar(&f.aircraft, "aircraft", "", "built-in aircraft name, YAML file or operator tables directory")
 	fl.Float64Var(&f.mass, "mass", 0, "take-off mass, kg (or give --zfw and --fuel)")
 	fl.Float64Var(&f.zfw, "zfw", 0, "zero-fuel mass, kg (with --fuel)")
 	fl.Float64Var(&f.fuel, "fuel", 0, "fuel on board at take-off, kg (with --zfw)")

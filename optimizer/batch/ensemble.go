@@ -1,7 +1,6 @@
 package batch
 
 import (
-	"bytes"
 
 	"github.com/parquet-go/parquet-go"
 )
@@ -46,30 +45,46 @@ type parquetArrivalEnsembleRow struct {
 	ensembleCols
 }
 
+type parquetEnsembleRowPF struct {
+	parquetRowPF
+	ensembleCols
+}
+
+type parquetArrivalEnsembleRowPF struct {
+	parquetArrivalRowPF
+	ensembleCols
+}
+
 // ensembleParquet writes rows, or arows when not nil (one per result),
-// with the ensemble columns.
-func ensembleParquet(rows []parquetRow, arows []parquetArrivalRow, results []record, opts []parquet.WriterOption) ([]byte, error) {
+// with the ensemble columns, and perf_factor_pct before them when withPF.
+func ensembleParquet(rows []parquetRow, arows []parquetArrivalRow, results []record, opts []parquet.WriterOption, withPF bool) ([]byte, error) {
 	cols := func(i int) ensembleCols {
 		e := results[i]
 		return ensembleCols{FuelP10Kg: e.FuelP10Kg, FuelP90Kg: e.FuelP90Kg, MinMarginAllG: e.MinMarginAllG}
 	}
-	var buf bytes.Buffer
-	var err error
-	if arows != nil {
+	switch {
+	case arows != nil && withPF:
+		out := make([]parquetArrivalEnsembleRowPF, len(arows))
+		for i := range arows {
+			out[i] = parquetArrivalEnsembleRowPF{parquetArrivalRowPF{arows[i], perfFactorOf(&results[i])}, cols(i)}
+		}
+		return writeParquet(out, opts)
+	case arows != nil:
 		out := make([]parquetArrivalEnsembleRow, len(arows))
 		for i := range arows {
 			out[i] = parquetArrivalEnsembleRow{arows[i], cols(i)}
 		}
-		err = parquet.Write(&buf, out, opts...)
-	} else {
-		out := make([]parquetEnsembleRow, len(rows))
+		return writeParquet(out, opts)
+	case withPF:
+		out := make([]parquetEnsembleRowPF, len(rows))
 		for i := range rows {
-			out[i] = parquetEnsembleRow{rows[i], cols(i)}
+			out[i] = parquetEnsembleRowPF{parquetRowPF{rows[i], perfFactorOf(&results[i])}, cols(i)}
 		}
-		err = parquet.Write(&buf, out, opts...)
+		return writeParquet(out, opts)
 	}
-	if err != nil {
-		return nil, err
+	out := make([]parquetEnsembleRow, len(rows))
+	for i := range rows {
+		out[i] = parquetEnsembleRow{rows[i], cols(i)}
 	}
-	return buf.Bytes(), nil
+	return writeParquet(out, opts)
 }

@@ -106,6 +106,41 @@ type parquetRow struct {
 	Error         string   `parquet:"error"`
 }
 
+// parquetRowPF and parquetArrivalRowPF add the perf_factor_pct column,
+// written when some flight of the run has a performance factor (as in
+// results.csv), so that other runs keep their schema.
+type parquetRowPF struct {
+	parquetRow
+	PerfFactorPct float64 `parquet:"perf_factor_pct"`
+}
+
+type parquetArrivalRowPF struct {
+	parquetArrivalRow
+	PerfFactorPct float64 `parquet:"perf_factor_pct"`
+}
+
+// hasPerfFactor reports whether some flight has a performance factor.
+func hasPerfFactor(results []record) bool {
+	return slices.ContainsFunc(results, func(r record) bool { return r.PerfFactorPct != nil })
+}
+
+// perfFactorOf is r's performance factor, 0 for none.
+func perfFactorOf(r *record) float64 {
+	if r.PerfFactorPct == nil {
+		return 0
+	}
+	return *r.PerfFactorPct
+}
+
+// writeParquet writes rows to a new buffer.
+func writeParquet[T any](rows []T, opts []parquet.WriterOption) ([]byte, error) {
+	var buf bytes.Buffer
+	if err := parquet.Write(&buf, rows, opts...); err != nil {
+		return nil, err
+	}
+	return buf.Bytes(), nil
+}
+
 // parquetArrivalRow is parquetRow with the arrival columns, written when
 // the run had arrival targets (see hasTargets).
 type parquetArrivalRow struct {
@@ -286,13 +321,17 @@ func writeCSV(records [][]string) ([]byte, error) {
 const warningSep = "; "
 
 func resultsCSV(results []record) ([]byte, error) {
-	targets, ens := hasTargets(results), hasEnsemble(results)
+	targets, ens, withPF := hasTargets(results), hasEnsemble(results), hasPerfFactor(results)
 	head := resultColumns
 	if targets {
 		head = append(slices.Clip(head), arrivalColumns...)
 	}
 	if ens {
 		head = append(slices.Clip(head), ensembleNames...)
+	}
+	pfAt := slices.Index(resultColumns, "aircraft") + 1 // perf_factor_pct after aircraft
+	if withPF {
+		head = slices.Insert(slices.Clone(head), pfAt, "perf_factor_pct")
 	}
 	recs := [][]string{head}
 	for _, r := range results {
@@ -308,6 +347,9 @@ func resultsCSV(results []record) ([]byte, error) {
 		}
 		if ens {
 			row = append(row, ensembleCells(r)...)
+		}
+		if withPF {
+			row = slices.Insert(row, pfAt, strconv.FormatFloat(perfFactorOf(&r), 'g', -1, 64))
 		}
 		recs = append(recs, row)
 	}
@@ -350,15 +392,19 @@ func resultsParquet(results []record, meta map[string]string) ([]byte, error) {
 	for _, k := range keys {
 		opts = append(opts, parquet.KeyValueMetadata(k, meta[k]))
 	}
-	var buf bytes.Buffer
+	withPF := hasPerfFactor(results)
 	if !hasTargets(results) {
 		if hasEnsemble(results) {
-			return ensembleParquet(rows, nil, results, opts)
+			return ensembleParquet(rows, nil, results, opts, withPF)
 		}
-		if err := parquet.Write(&buf, rows, opts...); err != nil {
-			return nil, err
+		if withPF {
+			pf := make([]parquetRowPF, len(rows))
+			for i := range results {
+				pf[i] = parquetRowPF{parquetRow: rows[i], PerfFactorPct: perfFactorOf(&results[i])}
+			}
+			return writeParquet(pf, opts)
 		}
-		return buf.Bytes(), nil
+		return writeParquet(rows, opts)
 	}
 	arows := make([]parquetArrivalRow, len(rows))
 	for i := range results {
@@ -374,12 +420,16 @@ func resultsParquet(results []record, meta map[string]string) ([]byte, error) {
 		arows[i] = a
 	}
 	if hasEnsemble(results) {
-		return ensembleParquet(nil, arows, results, opts)
+		return ensembleParquet(nil, arows, results, opts, withPF)
 	}
-	if err := parquet.Write(&buf, arows, opts...); err != nil {
-		return nil, err
+	if withPF {
+		pf := make([]parquetArrivalRowPF, len(arows))
+		for i := range results {
+			pf[i] = parquetArrivalRowPF{parquetArrivalRow: arows[i], PerfFactorPct: perfFactorOf(&results[i])}
+		}
+		return writeParquet(pf, opts)
 	}
-	return buf.Bytes(), nil
+	return writeParquet(arows, opts)
 }
 
 // errorsCSV lists bad schedule rows (empty ci), failed plans and

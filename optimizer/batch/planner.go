@@ -170,7 +170,7 @@ func (p *SchedulePlanner) Problem(row Row, ci float64) (*optimizer.Problem, []st
 		return nil, nil, err
 	}
 	pr := &optimizer.Problem{Track: te.track, Aircraft: a, Weather: p.Weather, Depart: row.Departure, CI: ci, Floor: row.Floor, Steps: p.Steps, Exact: p.Exact,
-		ContrailCost: p.ContrailCost, ContrailRHiPct: p.ContrailRHiPct}
+		ContrailCost: p.ContrailCost, ContrailRHiPct: p.ContrailRHiPct, PerfFactorPct: row.PerfFactorPct}
 	if row.FuelPlan {
 		// The fuel plan solves the take-off mass; the ZFW stands in.
 		if row.ZFW > a.MZFW {

@@ -45,6 +45,7 @@ type record struct {
 	Departure     string   `json:"departure,omitempty"` // RFC 3339, UTC
 	Arrival       string   `json:"arrival,omitempty"`   // departure + time_min, RFC 3339, UTC
 	Aircraft      string   `json:"aircraft,omitempty"`
+	PerfFactorPct *float64 `json:"perf_factor_pct,omitempty"` // the row's, when not zero
 	DistanceNM    *float64 `json:"distance_nm,omitempty"`
 	TakeoffMassKg *float64 `json:"takeoff_mass_kg,omitempty"`
 	ZFWKg         *float64 `json:"zfw_kg,omitempty"`
@@ -151,6 +152,10 @@ func fingerprint(r *Row, ci float64) string {
 	fmt.Fprintf(h, "v1|%d|%q|%s|%q|%q|%s|%s|%s|%s|%s|%q|%q",
 		r.Line, r.Flight, r.Departure.Format(time.RFC3339Nano), r.Route, r.Aircraft,
 		f(r.TOW), f(r.ZFW), f(r.Fuel), f(ci), f(r.Floor), r.Levels, r.Speed)
+	if r.PerfFactorPct != 0 {
+		// Only when set, so that rows without it keep their keys.
+		fmt.Fprintf(h, "|pf=%s", f(r.PerfFactorPct))
+	}
 	if !r.ArriveBy.IsZero() { // only then, so that other rows keep their fingerprint
 		fmt.Fprintf(h, "|arrive:%s|%t|%d|%d", r.ArriveBy.Format(time.RFC3339Nano), r.HasWindow, r.Early, r.Late)
 	}
@@ -189,6 +194,9 @@ func resultRecord(row *Row, ci float64, res Result, planErr error) record {
 		Kind: recordKind, Flight: row.Flight, CI: ci, Row: row.Line,
 		Departure: row.Departure.UTC().Format(time.RFC3339), Aircraft: row.Aircraft,
 		Input: row.inputKey(ci),
+	}
+	if row.PerfFactorPct != 0 {
+		rec.PerfFactorPct = new(row.PerfFactorPct)
 	}
 	if planErr == nil {
 		for _, c := range []struct {

@@ -13,6 +13,8 @@ import (
 	"path/filepath"
 	"slices"
 	"strings"
+
+	"levelpath/perf"
 )
 
 // runName is the output directory's record of its run: which shard it
@@ -124,7 +126,8 @@ func checkResume(out string, want runRecord, records int) error {
 const maxDigestFiles = 1 << 16
 
 // setDigests sets each row's digests from its route file's and (when the
-// aircraft names a regular file) aircraft file's SHA-256, hashing each
+// aircraft names a regular file) aircraft file's SHA-256 (of a table
+// directory, perf.TablesDigest), hashing each
 // distinct file once. Honours ctx between files and while reading.
 func setDigests(ctx context.Context, rows []*Row) error {
 	cache := map[string]string{}
@@ -155,6 +158,16 @@ func setDigests(ctx context.Context, rows []*Row) error {
 			if ad, err = digest(r.Aircraft); err != nil {
 				return fmt.Errorf("batch: aircraft of flight %s: %w", r.Flight, err)
 			}
+		} else if fi, err := os.Stat(r.Aircraft); err == nil && fi.IsDir() {
+			// Operator tables: the digest of the whole set.
+			d, ok := cache[r.Aircraft]
+			if !ok {
+				if d, err = perf.TablesDigest(r.Aircraft); err != nil {
+					return fmt.Errorf("batch: aircraft tables of flight %s: %w", r.Flight, err)
+				}
+				cache[r.Aircraft] = d
+			}
+			ad = "tables:" + d
 		}
 		r.digests = rd[:16] + "-" + ad
 		if r.Policy != "" {

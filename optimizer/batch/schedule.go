@@ -30,6 +30,7 @@ import (
 	"unicode"
 
 	"levelpath/optimizer"
+	"levelpath/perf"
 	"levelpath/route"
 )
 
@@ -63,6 +64,10 @@ type Row struct {
 	ArriveBy    time.Time
 	HasWindow   bool
 	Early, Late time.Duration
+	// PerfFactorPct is the row's per-tail fuel-flow factor, percent
+	// (column perf_factor_pct; see optimizer.Problem.PerfFactorPct); 0:
+	// none.
+	PerfFactorPct float64
 
 	digests string // of the route and aircraft files, set by Run
 }
@@ -125,7 +130,7 @@ func (e *FormatError) Error() string {
 // Schedule columns. The required ones must all be in the header (any order).
 var (
 	requiredColumns = []string{"flight", "departure", "route", "aircraft", "tow_kg", "ci"}
-	optionalColumns = []string{"zfw_kg", "fuel_kg", "floor_g", "levels", "speed", "policy", "arrive_by", "arrive_window"}
+	optionalColumns = []string{"zfw_kg", "fuel_kg", "floor_g", "levels", "speed", "policy", "arrive_by", "arrive_window", "perf_factor_pct"}
 )
 
 const (
@@ -447,6 +452,17 @@ func parseRow(rec []string, col map[string]int, line int, file, dir string, rout
 			fail("floor_g", "%v", optimizer.CheckFloor(v)) // the one floor range of every entry point
 		default:
 			row.Floor = v
+		}
+	}
+	if s := get("perf_factor_pct"); s != "" {
+		v, err := strconv.ParseFloat(s, 64)
+		switch {
+		case err != nil && !errors.Is(err, strconv.ErrRange) || math.IsNaN(v):
+			fail("perf_factor_pct", "%q is not a number", excerpt(s))
+		case !(v >= perf.MinPerfFactorPct && v <= perf.MaxPerfFactorPct):
+			fail("perf_factor_pct", "%s %%: want %g..%g percent (the range of --perf-factor)", excerpt(s), perf.MinPerfFactorPct, perf.MaxPerfFactorPct)
+		default:
+			row.PerfFactorPct = v + 0 // -0 and 0 are one factor
 		}
 	}
 	// ';' separates a list of levels without CSV quoting: list:330;370

@@ -46,12 +46,15 @@ type Envelope struct {
 	MaxFL          *float64      `json:"max_fl"`
 	OptimumFL      *float64      `json:"optimum_fl"`
 	Rows           []EnvelopeRow `json:"rows"`
+	// MaxFLThrustAtTableTop: operator tables end at max_fl_thrust, so the
+	// thrust ceiling is at least that (perf.Envelope); only when true.
+	MaxFLThrustAtTableTop bool `json:"max_fl_thrust_at_table_top,omitempty"`
 }
 
 // FromEnvelope converts an envelope to its JSON form.
 func FromEnvelope(e perf.Envelope) Envelope {
 	d := Envelope{Caution: optimizer.Caution, Aircraft: e.Aircraft, MassKg: e.Mass, ISADevC: e.ISADev, FloorG: e.Floor,
-		MaxFLBuffet: Number(e.MaxFLBuffet), MaxFLThrust: Number(e.MaxFLThrust), MaxFLCertified: e.MaxFLCertified,
+		MaxFLBuffet: Number(e.MaxFLBuffet), MaxFLThrust: Number(e.MaxFLThrust), MaxFLThrustAtTableTop: e.MaxFLThrustAtTableTop, MaxFLCertified: e.MaxFLCertified,
 		MaxFL: Number(e.MaxFL), OptimumFL: Number(e.OptimumFL), Rows: []EnvelopeRow{}}
 	for _, r := range e.Rows {
 		var rc *float64

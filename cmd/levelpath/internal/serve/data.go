@@ -90,6 +90,36 @@ func (d *dataDir) resolve(name string) (string, error) {
 	return p, nil
 }
 
+// resolveTables is resolve for a directory of operator tables
+// (perf/aircraft/TABLES.md): the directory and every file of the table
+// format in it must lie inside the data directory. isDir reports whether
+// name is a directory at all (so that its error is the one to report).
+func (d *dataDir) resolveTables(name string) (p string, isDir bool, err error) {
+	if err := checkName(name); err != nil {
+		return "", false, err
+	}
+	p, err = filepath.EvalSymlinks(filepath.Join(d.root, filepath.FromSlash(name)))
+	if err != nil {
+		return "", false, fmt.Errorf("%q: no such file or directory in the data directory", name)
+	}
+	inside := func(p string) bool {
+		rel, err := filepath.Rel(d.root, p)
+		return err == nil && rel != ".." && !strings.HasPrefix(rel, ".."+string(filepath.Separator))
+	}
+	if st, err := os.Stat(p); err != nil || !st.IsDir() {
+		return "", false, fmt.Errorf("%q: not a table directory", name)
+	}
+	if !inside(p) {
+		return "", true, fmt.Errorf("%q: leads outside the data directory", name)
+	}
+	for _, f := range []string{perf.TablesManifest, perf.CruiseFuelFlowFile, perf.ThrustLimitsFile, perf.ClimbFile, perf.DescentFile, perf.BuffetFile} {
+		if q, err := filepath.EvalSymlinks(filepath.Join(p, f)); err == nil && !inside(q) {
+			return "", true, fmt.Errorf("%q: %s leads outside the data directory", name, f)
+		}
+	}
+	return p, true, nil
+}
+
 // list returns the names of regular files directly in the directory
 // whose extension is one of exts (lower case, with the dot).
 func (d *dataDir) list(exts ...string) []string {

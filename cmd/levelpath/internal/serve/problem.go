@@ -7,7 +7,9 @@ import (
 	"encoding/json"
 	"fmt"
 	"math"
+	"os"
 	"strings"
+	"sync"
 	"time"
 
 	"levelpath/optimizer"
@@ -169,7 +171,7 @@ func (s *Server) problem(req *planRequest) (*inputs, error) {
 // "builtin:NAME" for one compiled into this program version).
 func (s *Server) aircraft(name string) (*perf.Aircraft, string, error) {
 	if name == "" {
-		return nil, "", fieldErr("aircraft", "--aircraft is required (built-in: %s, or a YAML file)", strings.Join(perf.BuiltinNames(), ", "))
+		return nil, "", fieldErr("aircraft", "--aircraft is required (built-in: %s, or a YAML file or a tables directory)", strings.Join(perf.BuiltinNames(), ", "))
 	}
 	for _, b := range perf.BuiltinNames() {
 		if b == name {
@@ -182,7 +184,29 @@ func (s *Server) aircraft(name string) (*perf.Aircraft, string, error) {
 	}
 	p, err := s.data.resolve(name)
 	if err != nil {
+		// Or a directory of operator tables.
+		if tp, isDir, terr := s.data.resolveTables(name); isDir {
+			p, err = tp, terr
+		}
+	}
+	if err != nil {
 		return nil, "", fieldErr("aircraft", "aircraft %v (built-in: %s)", err, strings.Join(perf.BuiltinNames(), ", "))
+	}
+	if st, err := os.Stat(p); err == nil && st.IsDir() {
+		// Operator tables: digested as a set, and read once per digest.
+		d, err := perf.TablesDigest(p)
+		if err != nil {
+			return nil, "", fieldErr("aircraft", "%s", strings.ReplaceAll(err.Error(), p, name))
+		}
+		if a := s.tables.get(p, d); a != nil {
+			return a, d, nil
+		}
+		a, err := perf.Load(p)
+		if err != nil {
+			return nil, "", fieldErr("aircraft", "%s", strings.ReplaceAll(err.Error(), p, name))
+		}
+		s.tables.put(p, d, a)
+		return a, d, nil
 	}
 	a, err := perf.Load(p)
 	if err != nil {
@@ -319,4 +343,30 @@ func parseTurbulence(s string) ([]optimizer.TurbulenceRule, error) {
 		return nil, fieldErr("turbulence", "--turbulence %s", optimizer.InputMsg(err))
 	}
 	return r, nil
+}
+
+// tablesCache keeps the table aircraft read from the data directory,
+// keyed by directory and digest (a changed file is read again), at most
+// maxCachedTables of them (the cache is emptied when full). An aircraft is
+// read-only once loaded, so requests share it.
+type tablesCache struct {
+	mu sync.Mutex
+	m  map[string]*perf.Aircraft
+}
+
+const maxCachedTables = 8
+
+func (c *tablesCache) get(dir, digest string) *perf.Aircraft {
+	c.mu.Lock()
+	defer c.mu.Unlock()
+	return c.m[dir+"\x00"+digest]
+}
+
+func (c *tablesCache) put(dir, digest string, a *perf.Aircraft) {
+	c.mu.Lock()
+	defer c.mu.Unlock()
+	if c.m == nil || len(c.m) >= maxCachedTables {
+		c.m = map[string]*perf.Aircraft{}
+	}
+	c.m[dir+"\x00"+digest] = a
 }

@@ -53,6 +53,7 @@ type Server struct {
 	cfg     Config
 	data    *dataDir
 	weather *weatherCache
+	tables  tablesCache // operator-table aircraft by directory and digest
 	store   *store
 	tokens  []token // nil: no authentication
 	slots   chan struct{}
