@@ -35,6 +35,9 @@ func (s *solver) addBaseline(plan *Plan, planCost float64) error {
 			if bplan.Totals.Cost > 0 {
 				plan.Baseline.SavingPct = (bplan.Totals.Cost - plan.Totals.Cost) / bplan.Totals.Cost * 100
 			}
+			if d := plan.Totals.Cost - bplan.Totals.Cost; d > 0 && len(plan.Profile.Changes) > 0 {
+				plan.Warnings = append(plan.Warnings, fmt.Sprintf("the constant level FL%03d prices %.1f lower than this profile when both are priced exactly (the search prices on a mass grid at nominal times; within its tolerance)", bp.Initial, d))
+			}
 		}
 	}
 	if plan.Baseline == nil {
