@@ -173,10 +173,50 @@ func (s *solver) run(h []float64) (searchResult, bool) {
 	if s.expand != nil {
 		succ = s.expand // an ensemble's edges (ensemble_graph.go)
 	}
+	// relax is the edge relaxation of the node being expanded (cur, popped
+	// as it, with bound from): one closure for the whole search, so that
+	// expanding a node allocates nothing.
+	var cur label
+	var it heapItem
+	var from float64
+	relax := func(e edge) {
+		c := cur.cost + e.cost
+		hv := 0.0
+		var cell *int32
+		if e.to == sinkID {
+			cell = &sinkSlot
+		} else {
+			st := stateOf(e.to)
+			hv = hk(st.k)
+			if s.mergeSince {
+				// One node for every since-last-step count: the
+				// label's ID keeps the count of its cheapest arrival.
+				st.since = 0
+			}
+			cell = idx.cell(st)
+		}
+		if cur.id != sourceID && e.cost+hv < from-1e-9*math.Abs(from) {
+			viol++
+		}
+		nl := label{id: e.to, cost: c, key: c + hv, mass: cur.mass - e.fuel, pred: it.slot}
+		if j := *cell; j >= 0 {
+			y := &slots[j]
+			if y.settled || c >= y.cost {
+				return
+			}
+			*y = nl
+			hp.push(heapItem{nl.key, e.to, j})
+			return
+		}
+		j := int32(len(slots))
+		*cell = j
+		slots = append(slots, nl)
+		hp.push(heapItem{nl.key, e.to, j})
+	}
 	for len(hp) > 0 {
-		it := hp.pop()
-		x := &slots[it.slot]
-		if x.settled || it.key != x.key {
+		popped := hp.pop()
+		x := &slots[popped.slot]
+		if x.settled || popped.key != x.key {
 			continue
 		}
 		x.settled = true
@@ -187,47 +227,14 @@ func (s *solver) run(h []float64) (searchResult, bool) {
 			}
 		}
 		if x.id == sinkID {
-			return searchResult{path: trace(slots, it.slot), cost: x.cost, nodes: nodes, violations: viol}, true
+			return searchResult{path: trace(slots, popped.slot), cost: x.cost, nodes: nodes, violations: viol}, true
 		}
-		cur := *x
-		from := 0.0
+		cur, it = *x, popped
+		from = 0.0
 		if cur.id != sourceID {
 			from = hk(stateOf(cur.id).k)
 		}
-		succ(cur.id, cur.mass, func(e edge) {
-			c := cur.cost + e.cost
-			hv := 0.0
-			var cell *int32
-			if e.to == sinkID {
-				cell = &sinkSlot
-			} else {
-				st := stateOf(e.to)
-				hv = hk(st.k)
-				if s.mergeSince {
-					// One node for every since-last-step count: the
-					// label's ID keeps the count of its cheapest arrival.
-					st.since = 0
-				}
-				cell = idx.cell(st)
-			}
-			if cur.id != sourceID && e.cost+hv < from-1e-9*math.Abs(from) {
-				viol++
-			}
-			nl := label{id: e.to, cost: c, key: c + hv, mass: cur.mass - e.fuel, pred: it.slot}
-			if j := *cell; j >= 0 {
-				y := &slots[j]
-				if y.settled || c >= y.cost {
-					return
-				}
-				*y = nl
-				hp.push(heapItem{nl.key, e.to, j})
-				return
-			}
-			j := int32(len(slots))
-			*cell = j
-			slots = append(slots, nl)
-			hp.push(heapItem{nl.key, e.to, j})
-		})
+		succ(cur.id, cur.mass, relax)
 		if s.overflowed {
 			return searchResult{nodes: nodes, err: s.bucketError()}, false
 		}

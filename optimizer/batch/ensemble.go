@@ -1,7 +1,6 @@
 package batch
 
 import (
-
 	"github.com/parquet-go/parquet-go"
 )
 
