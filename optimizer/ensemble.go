@@ -321,21 +321,9 @@ func SolveEnsemble(ctx context.Context, ep *EnsembleProblem) (*Plan, error) {
 			searchQ[i].Blocked = append(slices.Clip(searchQ[i].Blocked), blocks...)
 		}
 	}
-	// The control's own best profile, and each member's with Regret.
-	own := make([]*Plan, n)
-	for i := range qs {
-		if i > 0 && !e.Regret {
-			break
-		}
-		if own[i], err = ownPlan(ctx, &qs[i], warn); err != nil && isCancelled(err) {
-			return nil, err
-		}
-	}
-	var ctrl []*Plan
-	if own[0] != nil {
-		if ctrl, err = assessMembers(ctx, qs, own[0].Profile, warn); err != nil {
-			return nil, err
-		}
+	own, ctrl, err := ownProfiles(ctx, &e, qs, warn)
+	if err != nil {
+		return nil, err
 	}
 	chosen := "ensemble search"
 	var switched string
@@ -380,6 +368,28 @@ func SolveEnsemble(ctx context.Context, ep *EnsembleProblem) (*Plan, error) {
 	}
 	plan.Ensemble = buildReport(&e, need, plans, ctrl, own, chosen)
 	return plan, nil
+}
+
+// ownProfiles plans the control member's own best profile (and each
+// member's with Regret; a member whose own plan fails has nil) and prices
+// the control's profile on every member (ctrl, nil when the control has
+// none). The only error is ctx's.
+func ownProfiles(ctx context.Context, e *EnsembleProblem, qs []Problem, warn []string) (own, ctrl []*Plan, err error) {
+	own = make([]*Plan, len(qs))
+	for i := range qs {
+		if i > 0 && !e.Regret {
+			break
+		}
+		if own[i], err = ownPlan(ctx, &qs[i], warn); err != nil && isCancelled(err) {
+			return nil, nil, err
+		}
+	}
+	if own[0] != nil {
+		if ctrl, err = assessMembers(ctx, qs, own[0].Profile, warn); err != nil {
+			return nil, nil, err
+		}
+	}
+	return own, ctrl, nil
 }
 
 // memberErr names the member of an error in a member's problem (not the

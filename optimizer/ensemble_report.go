@@ -211,20 +211,9 @@ func AssessEnsemble(ctx context.Context, ep *EnsembleProblem, prof Profile) (*Pl
 	if err := assessBaseline(ctx, &qs[0], plans[0]); err != nil {
 		return nil, err
 	}
-	own := make([]*Plan, len(qs))
-	for i := range qs {
-		if i > 0 && !e.Regret {
-			break
-		}
-		if own[i], err = ownPlan(ctx, &qs[i], warn); err != nil && isCancelled(err) {
-			return nil, err
-		}
-	}
-	var ctrl []*Plan
-	if own[0] != nil {
-		if ctrl, err = assessMembers(ctx, qs, own[0].Profile, warn); err != nil {
-			return nil, err
-		}
+	own, ctrl, err := ownProfiles(ctx, &e, qs, warn)
+	if err != nil {
+		return nil, err
 	}
 	plans[0].Ensemble = buildReport(&e, e.need(), plans, ctrl, own, "assessed")
 	return plans[0], nil
