@@ -6,6 +6,7 @@ import (
 	"math"
 	"sort"
 
+	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/plotter"
 	"gonum.org/v1/plot/text"
 	"gonum.org/v1/plot/vg"
@@ -56,21 +57,34 @@ func Sweep(w io.Writer, format string, pts []SweepPoint, title string) error {
 	p.Add(newGrid(true))
 	xys := make(plotter.XYs, len(sorted))
 	names := make([]string, len(sorted))
-	xlo, xhi, ylo, yhi := math.Inf(1), math.Inf(-1), math.Inf(1), math.Inf(-1)
 	for i, s := range sorted {
 		xys[i] = plotter.XY{X: s.TimeMin, Y: s.FuelKg}
 		names[i] = fmt.Sprintf("CI %g", s.CI)
-		xlo, xhi = math.Min(xlo, s.TimeMin), math.Max(xhi, s.TimeMin)
-		ylo, yhi = math.Min(ylo, s.FuelKg), math.Max(yhi, s.FuelKg)
+	}
+	// Room for the labels: at least 1 min and 1 kg.
+	return renderLabelledCurve(w, format, p, xys, names, 1, 1, false)
+}
+
+// renderLabelledCurve draws xys joined by a line, each point labelled
+// with its name, on p and renders it: axes from the points' range (and
+// the origin when withOrigin) with room for the labels, 8 % of the range
+// each side (at least minDX and minDY) and twice that after the last.
+func renderLabelledCurve(w io.Writer, format string, p *plot.Plot, xys plotter.XYs, names []string, minDX, minDY float64, withOrigin bool) error {
+	xlo, xhi, ylo, yhi := math.Inf(1), math.Inf(-1), math.Inf(1), math.Inf(-1)
+	if withOrigin {
+		xlo, xhi, ylo, yhi = 0, 0, 0, 0
+	}
+	for _, q := range xys {
+		xlo, xhi = math.Min(xlo, q.X), math.Max(xhi, q.X)
+		ylo, yhi = math.Min(ylo, q.Y), math.Max(yhi, q.Y)
 	}
 	if len(xys) > 1 {
 		p.Add(line(xys, lineStyle(colGuide, 1.4, nil)))
 	}
 	p.Add(scatter(xys, draw.GlyphStyle{Color: colProfile, Radius: vg.Points(5), Shape: draw.CircleGlyph{}}))
 	p.Add(labels(xys, names, textStyle(10, colInk, text.XLeft, text.YBottom), vg.Point{X: vg.Points(7), Y: vg.Points(5)}))
-	// Room for the labels: 8 % each side, at least 1 min and 1 kg.
-	dx := math.Max(1, 0.08*(xhi-xlo))
-	dy := math.Max(1, 0.08*(yhi-ylo))
+	dx := math.Max(minDX, 0.08*(xhi-xlo))
+	dy := math.Max(minDY, 0.08*(yhi-ylo))
 	p.X.Tick.Marker = niceTicks{N: 8}
 	p.Y.Tick.Marker = niceTicks{N: 8}
 	p.X.Min, p.X.Max = xlo-dx, xhi+2*dx
