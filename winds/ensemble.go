@@ -158,11 +158,6 @@ func (o Options) OpenEnsembleBetween(pLow, pHigh float64, paths ...string) (*Ens
 	if err != nil {
 		return nil, err
 	}
-	if o.Member != nil {
-		if err := r.selectMember(*o.Member); err != nil {
-			return nil, err
-		}
-	}
 	ns := members(r.kept)
 	if len(ns) == 0 {
 		return nil, &MemberError{Source: strings.Join(paths, ", "), Member: -1,

@@ -157,11 +157,6 @@ func (o Options) OpenBetween(pLow, pHigh float64, paths ...string) (*Field, erro
 	if err != nil {
 		return nil, err
 	}
-	if o.Member != nil {
-		if err := r.selectMember(*o.Member); err != nil {
-			return nil, err
-		}
-	}
 	if err := checkFieldBudget(r.kept, o.budget(), paths); err != nil {
 		return nil, err
 	}
@@ -212,7 +207,8 @@ func (r *aread) want(m *Message) bool {
 	return r.member == nil || m.Ensemble < 0 || m.Ensemble == *r.member
 }
 
-// prepare scans the headers of paths and selects the messages kept.
+// prepare scans the headers of paths and selects the messages kept
+// (with o.Member, that member's and those of no member).
 func (o Options) prepare(pLow, pHigh float64, paths []string) (*aread, error) {
 	if len(paths) == 0 {
 		return nil, fmt.Errorf("winds: Open: no files")
@@ -252,6 +248,11 @@ func (o Options) prepare(pLow, pHigh float64, paths []string) (*aread, error) {
 	}
 	if err := unreadableGrid(r.kept); err != nil {
 		return nil, err
+	}
+	if o.Member != nil {
+		if err := r.selectMember(*o.Member); err != nil {
+			return nil, err
+		}
 	}
 	return r, nil
 }
