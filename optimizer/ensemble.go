@@ -343,20 +343,7 @@ func SolveEnsemble(ctx context.Context, ep *EnsembleProblem) (*Plan, error) {
 	if len(closed) > 0 {
 		plan.Warnings = append(plan.Warnings, "exact pricing found limits the search's nominal weather times did not: planned again without "+strings.Join(closed, ", "))
 	}
-	plan.SearchCost = res.cost
-	if res.violations > 0 {
-		plan.Warnings = append(plan.Warnings, fmt.Sprintf("the search's lower bound failed on %d edges; the profile was found again by plain Dijkstra", res.violations))
-	}
-	plan.Nodes, plan.Edges = res.nodes, ss[0].edges
-	var other []Violation
-	for _, v := range plan.Violations {
-		if !IsLoadingLimit(v.Limit) {
-			other = append(other, v)
-		}
-	}
-	if len(other) > 0 {
-		plan.Warnings = append(plan.Warnings, fmt.Sprintf("exact pricing found %d limit(s) broken that the search did not see; first: %s", len(other), other[0].Detail))
-	}
+	noteSearch(plan, res, ss[0].edges)
 	if switched != "" {
 		plan.Warnings = append(plan.Warnings, switched)
 	} else if breaking(plans) > n-need {

@@ -97,15 +97,27 @@ func SolveContext(ctx context.Context, p *Problem) (*Plan, error) {
 	if len(closed) > 0 {
 		plan.Warnings = append(plan.Warnings, "exact pricing found limits the search's nominal weather times did not: planned again without "+strings.Join(closed, ", "))
 	}
+	noteSearch(plan, res, s.edges)
+	// Baseline: the same problem with steps forbidden.
+	if err := s.addBaseline(plan, res.cost); err != nil {
+		return nil, err
+	}
+	return plan, nil
+}
+
+// noteSearch records the search's cost, nodes and edges in plan and says
+// in its warnings where the bound failed and where exact pricing found
+// limits the search did not see. Loading limits (fuel, landing mass) stay
+// in Violations and make the plan's status impossible; any other
+// violation means the exact pricing disagrees with the search at a limit
+// (a value interpolated at the edge of feasibility): it stays listed and
+// is named here.
+func noteSearch(plan *Plan, res searchResult, edges int) {
 	plan.SearchCost = res.cost
 	if res.violations > 0 {
 		plan.Warnings = append(plan.Warnings, fmt.Sprintf("the search's lower bound failed on %d edges; the profile was found again by plain Dijkstra", res.violations))
 	}
-	plan.Nodes, plan.Edges = res.nodes, s.edges
-	// Loading limits (fuel, landing mass) stay in Violations and make the
-	// plan's status impossible. Any other violation means the exact
-	// pricing disagrees with the search at a limit (a value interpolated
-	// at the edge of feasibility); it stays listed and is named here.
+	plan.Nodes, plan.Edges = res.nodes, edges
 	var other []Violation
 	for _, v := range plan.Violations {
 		if !IsLoadingLimit(v.Limit) {
@@ -115,11 +127,6 @@ func SolveContext(ctx context.Context, p *Problem) (*Plan, error) {
 	if len(other) > 0 {
 		plan.Warnings = append(plan.Warnings, fmt.Sprintf("exact pricing found %d limit(s) broken that the search did not see; first: %s", len(other), other[0].Detail))
 	}
-	// Baseline: the same problem with steps forbidden.
-	if err := s.addBaseline(plan, res.cost); err != nil {
-		return nil, err
-	}
-	return plan, nil
 }
 
 // maxRecheck bounds the searches SolveContext runs again after exact
