@@ -22,15 +22,9 @@ func CriticalEfficiency(t, p, rhWater float64) float64 {
 	if !(t >= 123 && t <= 332) || !(p > 0) {
 		return math.NaN()
 	}
-	rh := math.Max(0, math.Min(1, rhWater))
-	amb := rh * SatWater(t)
-	h := func(x float64) float64 { return SatWater(x) - amb - dSatWater(x)*(x-t) }
-	lo, hi := t, t+10
-	for h(hi) > 0 {
-		lo, hi = hi, hi+10
-		if hi > 400 {
-			return 1 // no tangent below 400 K: no contrail at any efficiency here
-		}
+	h, lo, hi, ok := tangentBracket(t, rhWater)
+	if !ok {
+		return 1 // no tangent below 400 K: no contrail at any efficiency here
 	}
 	for hi-lo > 1e-9 {
 		mid := (lo + hi) / 2
@@ -40,6 +34,30 @@ func CriticalEfficiency(t, p, rhWater float64) float64 {
 			hi = mid
 		}
 	}
-	g := dSatWater((lo + hi) / 2)
-	return 1 - EIWater*CpAir*p/(Epsilon*FuelHeat*g)
+	return criticalAt((lo+hi)/2, p)
+}
+
+// tangentBracket returns h, whose root is the temperature of the mixing
+// line's tangent to the saturation curve over water through the ambient
+// point (t K, rhWater over water, clamped to 0..1), and a first bracket
+// [lo, hi] of it, 10 K wide, with h(lo) > 0 >= h(hi); ok is false when
+// there is none below 400 K.
+func tangentBracket(t, rhWater float64) (h func(float64) float64, lo, hi float64, ok bool) {
+	rh := math.Max(0, math.Min(1, rhWater))
+	amb := rh * SatWater(t)
+	h = func(x float64) float64 { return SatWater(x) - amb - dSatWater(x)*(x-t) }
+	lo, hi = t, t+10
+	for h(hi) > 0 {
+		lo, hi = hi, hi+10
+		if hi > 400 {
+			return h, lo, hi, false
+		}
+	}
+	return h, lo, hi, true
+}
+
+// criticalAt is the critical propulsion efficiency η* = 1 - EI cp p /
+// (ε Q e_w'(x)) for the tangent at temperature x (K) and pressure p (Pa).
+func criticalAt(x, p float64) float64 {
+	return 1 - EIWater*CpAir*p/(Epsilon*FuelHeat*dSatWater(x))
 }

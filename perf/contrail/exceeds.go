@@ -1,6 +1,5 @@
 package contrail
 
-import "math"
 
 // ExceedsCritical reports whether eta > CriticalEfficiency(t, p, rhWater),
 // always with the same answer (false where CriticalEfficiency is NaN), but
@@ -18,17 +17,11 @@ func ExceedsCritical(eta, t, p, rhWater float64) bool {
 	if !(t >= 123 && t <= 332) || !(p > 0) {
 		return false // CriticalEfficiency is NaN
 	}
-	rh := math.Max(0, math.Min(1, rhWater))
-	amb := rh * SatWater(t)
-	h := func(x float64) float64 { return SatWater(x) - amb - dSatWater(x)*(x-t) }
-	lo, hi := t, t+10
-	for h(hi) > 0 {
-		lo, hi = hi, hi+10
-		if hi > 400 {
-			return eta > 1
-		}
+	h, lo, hi, ok := tangentBracket(t, rhWater)
+	if !ok {
+		return eta > 1
 	}
-	crit := func(x float64) float64 { return 1 - EIWater*CpAir*p/(Epsilon*FuelHeat*dSatWater(x)) }
+	crit := func(x float64) float64 { return criticalAt(x, p) }
 	const margin = 1e-12
 	for i := 0; hi-lo > 1e-9; i++ {
 		if i%4 == 0 {
@@ -46,6 +39,5 @@ func ExceedsCritical(eta, t, p, rhWater float64) bool {
 			hi = mid
 		}
 	}
-	g := dSatWater((lo + hi) / 2)
-	return eta > 1-EIWater*CpAir*p/(Epsilon*FuelHeat*g)
+	return eta > criticalAt((lo+hi)/2, p)
 }
