@@ -1,6 +1,7 @@
 package optimizer
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"strconv"
@@ -97,7 +98,8 @@ func NewStepRules(maxStepFt int, descents bool, minStepNM float64, maxSteps int,
 // err is an *InputError, else err's text: for callers that name the input
 // their own way (a flag, a request field).
 func InputMsg(err error) string {
-	if ie, ok := err.(*InputError); ok && ie.Msg != "" {
+	var ie *InputError
+	if errors.As(err, &ie) && ie.Msg != "" {
 		return ie.Msg
 	}
 	return fmt.Sprint(err)
