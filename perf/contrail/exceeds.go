@@ -1,6 +1,5 @@
 package contrail
 
-
 // ExceedsCritical reports whether eta > CriticalEfficiency(t, p, rhWater),
 // always with the same answer (false where CriticalEfficiency is NaN), but
 // stops the bisection as soon as the answer is settled. η* = 1 - EI cp p /
